@@ -1,0 +1,61 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import express, { type Express } from 'express';
+import { pinoHttp } from 'pino-http';
+import { apiNotFound, errorHandler, sameOriginGuard, sessionLoader } from './http/middleware';
+import { mailRequestLimiter, signInLimiters } from './http/rateLimits';
+import { mount } from './http/route';
+import { adminRoutes } from './routes/admin';
+import { authRoutes } from './routes/auth';
+import { groupRoutes } from './routes/groups';
+import { healthRoutes } from './routes/health';
+import type { Services } from './services';
+
+function apiRouter(services: Services) {
+  const router = express.Router();
+  router.use(express.json({ limit: services.config.bodyLimit }));
+  router.use(sameOriginGuard([services.config.publicUrl], services.sessions.cookieName));
+  router.post('/auth/sign-in', ...signInLimiters(services.config.signInLimits));
+  router.post('/auth/forgot', mailRequestLimiter());
+  router.use(sessionLoader(services.sessions));
+  mount(router, [
+    ...healthRoutes(services),
+    ...authRoutes(services),
+    ...groupRoutes(services),
+    ...adminRoutes(services),
+  ]);
+  router.use(apiNotFound);
+  return router;
+}
+
+/** Serve the exported web app: real files as they are, missing files as 404, app paths as index.html. */
+function webApp(webRoot: string) {
+  const router = express.Router();
+  const indexFile = path.join(webRoot, 'index.html');
+  router.use(express.static(webRoot, { index: false, fallthrough: true, maxAge: '1h' }));
+  router.get('/{*splat}', (req, res) => {
+    if (path.extname(req.path)) return res.status(404).type('text/plain').send('Not found');
+    if (!fs.existsSync(indexFile)) {
+      return res.status(503).type('text/plain').send('The web app is not built yet: run `npm run build:web`.');
+    }
+    res.sendFile(indexFile);
+  });
+  return router;
+}
+
+export function createApp(services: Services): Express {
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.use(
+    pinoHttp({
+      logger: services.logger,
+      customLogLevel: (_req, res, error) => (error || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
+      serializers: { req: (req) => ({ method: req.method, url: req.url }), res: (res) => ({ status: res.statusCode }) },
+    }),
+  );
+  app.use('/api', apiRouter(services));
+  app.use(webApp(services.config.webRoot));
+  app.use(errorHandler(services.logger));
+  return app;
+}

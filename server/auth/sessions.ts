@@ -1,0 +1,113 @@
+// The only module that knows about lucia: the rest of the server asks for sessions through these
+// functions, so the session library can be replaced without touching routes or services.
+import { Lucia, type Adapter, type DatabaseSession, type DatabaseUser } from 'lucia';
+import { LessThan, type DataSource } from 'typeorm';
+import { Session, User } from '../db/entities';
+import type { SiteRole } from '../../shared/api/schemas';
+
+interface UserAttributes {
+  name: string;
+  email: string;
+  siteRole: SiteRole;
+}
+
+declare module 'lucia' {
+  interface Register {
+    Lucia: SessionManager;
+    DatabaseUserAttributes: UserAttributes;
+  }
+}
+
+class TypeormSessionAdapter implements Adapter {
+  constructor(private readonly dataSource: DataSource) {}
+
+  private get sessions() {
+    return this.dataSource.getRepository(Session);
+  }
+
+  async getSessionAndUser(sessionId: string): Promise<[DatabaseSession | null, DatabaseUser | null]> {
+    const row = await this.sessions.findOne({ where: { id: sessionId }, relations: { user: true } });
+    if (!row || !row.user) return [null, null];
+    const { user } = row;
+    return [
+      { id: row.id, userId: row.userId, expiresAt: row.expiresAt, attributes: {} },
+      { id: user.id, attributes: { name: user.name, email: user.email, siteRole: user.siteRole } },
+    ];
+  }
+
+  async getUserSessions(userId: string): Promise<DatabaseSession[]> {
+    const rows = await this.sessions.findBy({ userId });
+    return rows.map((row) => ({ id: row.id, userId: row.userId, expiresAt: row.expiresAt, attributes: {} }));
+  }
+
+  async setSession(session: DatabaseSession): Promise<void> {
+    await this.sessions.insert({ id: session.id, userId: session.userId, expiresAt: session.expiresAt });
+  }
+
+  async updateSessionExpiration(sessionId: string, expiresAt: Date): Promise<void> {
+    await this.sessions.update({ id: sessionId }, { expiresAt });
+  }
+
+  async deleteSession(sessionId: string): Promise<void> {
+    await this.sessions.delete({ id: sessionId });
+  }
+
+  async deleteUserSessions(userId: string): Promise<void> {
+    await this.sessions.delete({ userId });
+  }
+
+  async deleteExpiredSessions(): Promise<void> {
+    await this.sessions.delete({ expiresAt: LessThan(new Date()) });
+  }
+}
+
+function createLucia(dataSource: DataSource, secureCookie: boolean) {
+  return new Lucia(new TypeormSessionAdapter(dataSource), {
+    sessionCookie: { name: 'rungbook_session', attributes: { secure: secureCookie, sameSite: 'lax' } },
+    getUserAttributes: (attributes) => attributes,
+  });
+}
+
+export type SessionManager = ReturnType<typeof createLucia>;
+
+export interface SignedInUser {
+  id: string;
+  name: string;
+  email: string;
+  siteRole: SiteRole;
+}
+
+export interface SessionService {
+  cookieName: string;
+  /** Start a session; returns the Set-Cookie header value. */
+  start(userId: string): Promise<string>;
+  /** Resolve a session id; `refreshCookie` is set when the session was extended or must be cleared. */
+  resolve(sessionId: string | undefined): Promise<{ user: SignedInUser | null; sessionId: string | null; refreshCookie?: string }>;
+  end(sessionId: string): Promise<string>;
+  endAllFor(userId: string): Promise<void>;
+  blankCookie(): string;
+}
+
+export function createSessionService(dataSource: DataSource, secureCookie: boolean): SessionService {
+  const lucia = createLucia(dataSource, secureCookie);
+  return {
+    cookieName: lucia.sessionCookieName,
+    async start(userId) {
+      const session = await lucia.createSession(userId, {});
+      return lucia.createSessionCookie(session.id).serialize();
+    },
+    async resolve(sessionId) {
+      if (!sessionId) return { user: null, sessionId: null };
+      const { session, user } = await lucia.validateSession(sessionId);
+      if (!session || !user) return { user: null, sessionId: null, refreshCookie: lucia.createBlankSessionCookie().serialize() };
+      const refreshCookie = session.fresh ? lucia.createSessionCookie(session.id).serialize() : undefined;
+      return { user: { id: user.id, name: user.name, email: user.email, siteRole: user.siteRole }, sessionId: session.id, refreshCookie };
+    },
+    async end(sessionId) {
+      await lucia.invalidateSession(sessionId);
+      return lucia.createBlankSessionCookie().serialize();
+    },
+    endAllFor: (userId) => lucia.invalidateUserSessions(userId),
+    blankCookie: () => lucia.createBlankSessionCookie().serialize(),
+  };
+}

@@ -1,0 +1,19 @@
+import { Column, Entity, Index, JoinColumn, ManyToOne, PrimaryColumn } from 'typeorm';
+import { User } from './User';
+
+@Entity({ name: 'sessions' })
+export class Session {
+  @PrimaryColumn({ type: 'varchar', length: 64 })
+  id: string;
+
+  @Index()
+  @Column({ type: 'varchar', length: 40 })
+  userId: string;
+
+  @ManyToOne(() => User, { onDelete: 'CASCADE' })
+  @JoinColumn({ name: 'userId' })
+  user?: User;
+
+  @Column({ type: 'datetime' })
+  expiresAt: Date;
+}

@@ -1,0 +1,23 @@
+/** Error codes the API returns in `{ error: { code, message, fields? } }`. */
+export const errorStatus = {
+  validation_failed: 400,
+  malformed_json: 400,
+  invalid_reset_token: 400,
+  unauthenticated: 401,
+  wrong_credentials: 401,
+  forbidden: 403,
+  cross_site_request: 403,
+  not_found: 404,
+  email_taken: 409,
+  conflict: 409,
+  payload_too_large: 413,
+  rate_limited: 429,
+  internal: 500,
+  mail_unavailable: 503,
+} as const;
+
+export type ErrorCode = keyof typeof errorStatus;
+
+export interface ApiErrorBody {
+  error: { code: ErrorCode; message: string; fields?: Record<string, string> };
+}
