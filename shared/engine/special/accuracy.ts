@@ -1,0 +1,34 @@
+import { type Fixed, bitLength } from '../precision/fixed';
+import { fail } from '../precision/errors';
+
+/** Absolute error (in units of 2^-bits) the special-function kernels stay below, with margin. */
+const ERROR_ULPS_BITS = 16;
+const MAX_RETRIES = 8;
+
+/**
+ * Run a fixed-point kernel until its result carries `targetBits` correct significant bits.
+ * The kernels have absolute error below 2^(ERROR_ULPS_BITS − bits); when the result is small
+ * (cancellation near a zero) the precision is raised by the deficit and the kernel re-run.
+ */
+export function withRelativeAccuracy(
+  targetBits: number,
+  startBits: number,
+  kernel: (bits: number) => Fixed,
+): { value: Fixed; bits: number } {
+  let bits = startBits;
+  for (let attempt = 0; attempt < MAX_RETRIES; attempt++) {
+    const value = kernel(bits);
+    const significant = bitLength(value) - ERROR_ULPS_BITS;
+    if (significant >= targetBits) return { value, bits };
+    const deficit = value === 0n ? bits : targetBits - significant;
+    bits += deficit + 16;
+  }
+  return fail('limit', 'value too close to a zero to resolve at this precision');
+}
+
+/** log2 of n! in double precision (for precision planning only). */
+export function log2Factorial(n: number): number {
+  let s = 0;
+  for (let i = 2; i <= n; i++) s += Math.log2(i);
+  return s;
+}

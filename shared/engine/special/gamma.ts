@@ -1,0 +1,229 @@
+import { type ExactRational, type Fixed, changeBits, div, fromInteger, fromRational, mul, one } from '../precision/fixed';
+import { fail } from '../precision/errors';
+import { bernoulliExact } from './bernoulli';
+import { eulerGammaFixed, expFixedSplit, ln2Fixed, lnFixedPositive, piFixed } from './constants';
+import { bitsNearInteger, sinCosPi } from './trigonometric';
+import { zetaTableFixed } from './zeta';
+
+/** value = mant·2^exp2 (mant in fixed point at the caller's bits); keeps huge Γ values small. */
+export interface ScaledFixed {
+  mant: Fixed;
+  exp2: bigint;
+}
+
+/** Above this precision the Taylor table of 1/Γ gets long; the Stirling path is used instead. */
+export const TAYLOR_PATH_MAX_BITS = 1300;
+/** Arguments up to this size are shifted down to [1/2, 3/2) by the recurrence. */
+export const TAYLOR_PATH_MAX_X = 80n;
+
+export function isNonPositiveInteger(x: ExactRational): boolean {
+  return x.den === 1n && x.num <= 0n;
+}
+
+export function nearestInteger(x: ExactRational): bigint {
+  const twice = 2n * x.num + x.den;
+  const d = 2n * x.den;
+  let q = twice / d;
+  if (twice % d !== 0n && twice < 0n) q -= 1n;
+  return q;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Taylor series of 1/Γ(1+t): entire, so |t| ≤ 1/2 converges quickly. Coefficients from
+// ln Γ(1+t) = −γt + Σ_{k≥2} (−1)^k ζ(k) t^k / k (DLMF 5.7.3), exponentiated as a power series.
+
+interface TaylorTable {
+  bits: number;
+  coeffs: Fixed[];
+}
+const reciprocalGammaTables = new Map<number, TaylorTable>();
+
+export function reciprocalGammaTaylor(bits: number): Fixed[] {
+  const cached = reciprocalGammaTables.get(bits);
+  if (cached) return cached.coeffs;
+  let count = Math.ceil(bits / 4) + 16;
+  for (;;) {
+    const work = bits + 24;
+    const zetas = zetaTableFixed(count, work);
+    const logCoeffs: Fixed[] = [0n, eulerGammaFixed(work)];
+    for (let k = 2; k <= count; k++) logCoeffs.push((k % 2 === 0 ? -zetas[k] : zetas[k]) / BigInt(k));
+    const e: Fixed[] = [one(work)];
+    for (let n = 1; n <= count; n++) {
+      let s = 0n;
+      for (let k = 1; k <= n; k++) s += BigInt(k) * mul(logCoeffs[k], e[n - k], work);
+      e.push(s / BigInt(n));
+    }
+    // keep terms while |E_n|·2^{-n} (the size at |t| = 1/2) exceeds 2^-(bits+4); require a quiet tail
+    const negligible = (n: number) => ((e[n] < 0n ? -e[n] : e[n]) >> BigInt(n + work - bits - 4)) === 0n;
+    let last = -1;
+    for (let n = count; n >= 0; n--) {
+      if (!negligible(n)) {
+        last = n;
+        break;
+      }
+    }
+    if (last <= count - 4) {
+      const coeffs = e.slice(0, last + 1).map((c) => changeBits(c, work, bits));
+      reciprocalGammaTables.set(bits, { bits, coeffs });
+      return coeffs;
+    }
+    count *= 2;
+  }
+}
+
+/** Evaluate Σ c_k t^k and its first `derivatives` derivatives by Horner's rule. */
+export function hornerWithDerivatives(coeffs: Fixed[], t: Fixed, bits: number, derivatives: number): Fixed[] {
+  const acc: Fixed[] = new Array(derivatives + 1).fill(0n);
+  const B = BigInt(bits);
+  for (let k = coeffs.length - 1; k >= 0; k--) {
+    for (let d = derivatives; d >= 1; d--) acc[d] = ((acc[d] * t) >> B) + acc[d - 1];
+    acc[0] = ((acc[0] * t) >> B) + coeffs[k];
+  }
+  // acc[d] holds f^{(d)}/d!
+  let factorial = 1n;
+  for (let d = 2; d <= derivatives; d++) {
+    factorial *= BigInt(d);
+    acc[d] *= factorial;
+  }
+  return acc;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Stirling series: ln Γ(z) = (z−½)ln z − z + ½ln(2π) + Σ_k B_{2k}/(2k(2k−1) z^{2k−1})  (DLMF 5.11.1)
+
+interface StirlingTable {
+  coeffs: Fixed[]; // index k ≥ 1
+  log2Abs: number[];
+  halfLogTwoPi: Fixed;
+}
+const stirlingTables = new Map<number, StirlingTable>();
+
+function stirlingTable(bits: number, terms: number): StirlingTable {
+  let table = stirlingTables.get(bits);
+  if (!table || table.coeffs.length <= terms) {
+    const coeffs: Fixed[] = [0n];
+    const log2Abs: number[] = [0];
+    const size = Math.max(terms + 1, table ? 2 * table.coeffs.length : 32);
+    for (let k = 1; k < size; k++) {
+      const b = bernoulliExact(2 * k);
+      const den = b.den * BigInt(2 * k * (2 * k - 1));
+      coeffs.push(fromRational(b.num, den, bits));
+      log2Abs.push(log2AbsRational(b.num, den));
+    }
+    const pi = piFixed(bits + 8);
+    const halfLogTwoPi = changeBits(lnFixedPositive(2n * pi, bits + 8) / 2n, bits + 8, bits);
+    table = { coeffs, log2Abs, halfLogTwoPi };
+    stirlingTables.set(bits, table);
+  }
+  return table;
+}
+
+export function log2AbsRational(num: bigint, den: bigint): number {
+  const a = num < 0n ? -num : num;
+  const na = a.toString(2).length;
+  const nd = den.toString(2).length;
+  const sa = Number(a >> BigInt(Math.max(0, na - 53))) * 2 ** 0;
+  const sd = Number(den >> BigInt(Math.max(0, nd - 53)));
+  return Math.log2(sa) + Math.max(0, na - 53) - Math.log2(sd) - Math.max(0, nd - 53);
+}
+
+/** Smallest shift target Z for which the Stirling/Bernoulli series reaches 2^-bits. */
+export function asymptoticThreshold(bits: number): number {
+  return Math.max(12, Math.ceil(0.17 * bits));
+}
+
+/** ln Γ(z) for z ≥ asymptoticThreshold(bits), z given exactly. */
+function lnGammaStirling(z: ExactRational, bits: number): Fixed {
+  const work = bits + 16;
+  const zf = fromRational(z.num, z.den, work);
+  const w = fromRational(z.den, z.num, work);
+  const w2 = mul(w, w, work);
+  const log2z = log2AbsRational(z.num, z.den);
+  let terms = 1;
+  let table = stirlingTable(work, 64);
+  for (;; terms++) {
+    if (terms >= table.coeffs.length - 1) table = stirlingTable(work, terms * 2);
+    const est = table.log2Abs[terms] - (2 * terms - 1) * log2z;
+    if (est < -work) break;
+    if (terms > 4 * work) fail('limit', 'Stirling series did not converge');
+  }
+  let sum = 0n;
+  for (let k = terms; k >= 1; k--) sum = mul(sum, w2, work) + table.coeffs[k];
+  sum = mul(sum, w, work);
+  const lnz = lnFixedPositive(zf, work);
+  const half = one(work) >> 1n;
+  const value = mul(zf - half, lnz, work) - zf + table.halfLogTwoPi + sum;
+  return changeBits(value, work, bits);
+}
+
+// ---------------------------------------------------------------------------------------------
+
+/** Γ(x) for exact rational x (not a pole), relative accuracy about 2^-(bits−8). */
+export function gammaScaled(x: ExactRational, bits: number): ScaledFixed {
+  if (isNonPositiveInteger(x)) fail('pole', `Gamma has a pole at ${x.num}`);
+  if (x.num < 0n) return gammaByReflection(x, bits);
+  if (2n * x.num < x.den) {
+    // Γ(x) = Γ(x+1)/x, dividing by the exact rational keeps relative accuracy for tiny x
+    const g = gammaScaled({ num: x.num + x.den, den: x.den }, bits);
+    return { mant: (g.mant * x.den) / x.num, exp2: g.exp2 };
+  }
+  if (x.den === 1n && x.num <= 170n) return { mant: fromInteger(factorial(x.num - 1n), bits), exp2: 0n };
+  if (bits <= TAYLOR_PATH_MAX_BITS && x.num <= TAYLOR_PATH_MAX_X * x.den) return gammaByTaylor(x, bits);
+  return gammaByStirling(x, bits);
+}
+
+function factorial(n: bigint): bigint {
+  let f = 1n;
+  for (let i = 2n; i <= n; i++) f *= i;
+  return f;
+}
+
+function gammaByTaylor(x: ExactRational, bits: number): ScaledFixed {
+  const work = bits + 8;
+  const n = nearestInteger(x);
+  const t = fromRational(x.num - n * x.den, x.den, work);
+  const [r] = hornerWithDerivatives(reciprocalGammaTaylor(work), t, work, 0);
+  const unit = one(work);
+  let product = unit;
+  for (let j = 1n; j < n; j++) product = mul(product, t + j * unit, work);
+  return { mant: changeBits(div(product, r, work), work, bits), exp2: 0n };
+}
+
+function gammaByStirling(x: ExactRational, bits: number): ScaledFixed {
+  const work = bits + 16;
+  const threshold = BigInt(asymptoticThreshold(work));
+  let shift = 0n;
+  if (x.num < threshold * x.den) shift = threshold - x.num / x.den;
+  const z = { num: x.num + shift * x.den, den: x.den };
+  const [m, e] = expFixedSplit(lnGammaStirling(z, work), work);
+  let mant = m;
+  if (shift > 0n) {
+    const unit = one(work);
+    const xf = fromRational(x.num, x.den, work);
+    let product = unit;
+    for (let j = 0n; j < shift; j++) product = mul(product, xf + j * unit, work);
+    mant = div(mant, product, work);
+  }
+  return { mant: changeBits(mant, work, bits), exp2: e };
+}
+
+/** Γ(x) = π / (sin(πx)·Γ(1−x))  (DLMF 5.5.3). */
+function gammaByReflection(x: ExactRational, bits: number): ScaledFixed {
+  const work = bits + bitsNearInteger(x) + 8;
+  const g = gammaScaled({ num: x.den - x.num, den: x.den }, work);
+  const { sin } = sinCosPi(x, work);
+  const mant = div(piFixed(work), mul(sin, g.mant, work), work);
+  return { mant: changeBits(mant, work, bits), exp2: -g.exp2 };
+}
+
+/** ln Γ(x) for x > 0. */
+export function lnGammaFixed(x: ExactRational, bits: number): Fixed {
+  if (x.num <= 0n) fail('domain', 'lngamma is provided for x > 0');
+  if (x.den === 1n && (x.num === 1n || x.num === 2n)) return 0n;
+  const work = bits + 8;
+  const large = x.num > TAYLOR_PATH_MAX_X * x.den || work > TAYLOR_PATH_MAX_BITS;
+  if (large && x.num >= BigInt(asymptoticThreshold(work)) * x.den) return changeBits(lnGammaStirling(x, work), work, bits);
+  const g = gammaScaled(x, work);
+  const value = lnFixedPositive(g.mant, work) + g.exp2 * ln2Fixed(work);
+  return changeBits(value, work, bits);
+}

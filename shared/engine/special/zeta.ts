@@ -1,0 +1,113 @@
+import { type ExactRational, type Fixed, changeBits, div, fromRational, mul, one } from '../precision/fixed';
+import { fail } from '../precision/errors';
+import { bernoulliExact } from './bernoulli';
+import { expFixed, lnFixedPositive, ln2Fixed, piFixed } from './constants';
+
+/** ζ(2m) = q·π^{2m} with q = |B_{2m}|·2^{2m−1}/(2m)!  (DLMF 25.6.2). */
+export function zetaEvenRationalFactor(n: number): ExactRational {
+  const b = bernoulliExact(n);
+  let factorial = 1n;
+  for (let i = 2n; i <= BigInt(n); i++) factorial *= i;
+  const num = (b.num < 0n ? -b.num : b.num) << BigInt(n - 1);
+  return reduceRational(num, b.den * factorial);
+}
+
+function reduceRational(num: bigint, den: bigint): ExactRational {
+  let a = num < 0n ? -num : num;
+  let b = den;
+  while (b !== 0n) [a, b] = [b, a % b];
+  return { num: num / a, den: den / a };
+}
+
+interface BorweinWeights {
+  bits: number;
+  weights: Fixed[]; // (−1)^k (d_n − d_k)/d_n
+}
+const borweinCache = new Map<number, BorweinWeights>();
+
+/**
+ * Weights of Borwein's alternating-series algorithm for ζ ("An efficient algorithm for the
+ * Riemann zeta function", 1991, Algorithm 2): error ≤ 3/(3+√8)^n, so n ≈ 0.3932·bits terms.
+ */
+function borweinWeights(bits: number): BorweinWeights {
+  const cached = borweinCache.get(bits);
+  if (cached) return cached;
+  const n = Math.ceil((bits + 4) * 0.39321) + 2;
+  const N = BigInt(n);
+  const d: bigint[] = [];
+  let term = 1n; // n·(n+i−1)!·4^i/((n−i)!(2i)!)
+  let sum = 1n;
+  d.push(sum);
+  for (let i = 1n; i <= N; i++) {
+    term = (term * (N + i - 1n) * 4n * (N - i + 1n)) / (2n * i * (2n * i - 1n));
+    sum += term;
+    d.push(sum);
+  }
+  const dn = d[n];
+  const weights: Fixed[] = [];
+  for (let k = 0; k < n; k++) weights.push(fromRational((k % 2 === 0 ? 1n : -1n) * (dn - d[k]), dn, bits));
+  const result = { bits, weights };
+  borweinCache.set(bits, result);
+  return result;
+}
+
+/** ζ(n) for an integer n ≥ 2 in fixed point. */
+export function zetaIntegerFixed(n: number, bits: number): Fixed {
+  if (!Number.isInteger(n) || n < 2) fail('domain', `zeta(n) needs an integer n ≥ 2, got ${n}`);
+  if (n % 2 === 0) {
+    const q = zetaEvenRationalFactor(n);
+    const work = bits + 8 + Math.ceil(n * 1.66);
+    let power = one(work);
+    const pi = piFixed(work);
+    for (let i = 0; i < n; i++) power = mul(power, pi, work);
+    return changeBits((power * q.num) / q.den, work, bits);
+  }
+  if (n * 6 >= bits) return zetaByDirectSum(n, bits);
+  const work = bits + 8;
+  const { weights } = borweinWeights(work);
+  let sum = 0n;
+  for (let k = 0; k < weights.length; k++) sum += weights[k] / BigInt(k + 1) ** BigInt(n);
+  // ζ(n) = η(n)/(1 − 2^{1−n})
+  const unit = one(work);
+  const value = div(sum, unit - (unit >> BigInt(n - 1)), work);
+  return changeBits(value, work, bits);
+}
+
+/** Σ j^{-n}, fast when n is large compared with the precision. */
+function zetaByDirectSum(n: number, bits: number): Fixed {
+  const work = bits + 8;
+  const unit = one(work);
+  let sum = unit;
+  for (let j = 2n; ; j++) {
+    const term = unit / j ** BigInt(n);
+    if (term === 0n) break;
+    sum += term;
+  }
+  return changeBits(sum, work, bits);
+}
+
+/** ζ(x) for a rational x > 1 (Borwein's algorithm with real exponents). */
+export function zetaRealFixed(x: ExactRational, bits: number): Fixed {
+  if (x.num <= x.den) fail('domain', 'zeta(x) is provided for real x > 1');
+  if (x.den === 1n && x.num < 100000n) return zetaIntegerFixed(Number(x.num), bits);
+  const distanceToOne = Number(x.num - x.den) / Number(x.den);
+  const extra = Math.max(0, Math.ceil(-Math.log2(distanceToOne))) + 8;
+  const work = bits + extra;
+  const { weights } = borweinWeights(work);
+  const xFixed = fromRational(x.num, x.den, work);
+  let sum = weights[0];
+  for (let k = 1; k < weights.length; k++) {
+    const lnK = lnFixedPositive(BigInt(k + 1) << BigInt(work), work);
+    sum += mul(weights[k], expFixed(-mul(xFixed, lnK, work), work), work);
+  }
+  const unit = one(work);
+  const twoPower = expFixed(mul(unit - xFixed, ln2Fixed(work), work), work);
+  return changeBits(div(sum, unit - twoPower, work), work, bits);
+}
+
+/** ζ(2), …, ζ(maxN) at once (index = argument), for Taylor tables. */
+export function zetaTableFixed(maxN: number, bits: number): Fixed[] {
+  const table: Fixed[] = [0n, 0n];
+  for (let n = 2; n <= maxN; n++) table.push(zetaIntegerFixed(n, bits));
+  return table;
+}
