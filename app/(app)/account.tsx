@@ -1,0 +1,5 @@
+import { AccountScreen } from '../../components/screens/AccountScreen';
+
+export default function AccountRoute() {
+  return <AccountScreen />;
+}

@@ -1,0 +1,5 @@
+import { GroupsScreen } from '../../../components/screens/GroupsScreen';
+
+export default function GroupsRoute() {
+  return <GroupsScreen />;
+}

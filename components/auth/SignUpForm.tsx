@@ -1,0 +1,51 @@
+import { useState } from 'react';
+import { View } from 'react-native';
+import { signUpInput } from '../../shared/api/schemas';
+import { useSignUpMutation } from '../../hooks/api/auth';
+import { Button } from '../ui/Button';
+import { Notice } from '../ui/Notice';
+import { TextField } from '../ui/TextField';
+import { AuthLink } from './AuthLink';
+import { checkLocally, errorsFromServer, type FormErrors } from './formErrors';
+import { formStyles } from './formStyles';
+
+export function SignUpForm({ onSignedUp }: { onSignedUp: (notices: string[]) => void }) {
+  const [name, setName] = useState('');
+  const [email, setEmail] = useState('');
+  const [password, setPassword] = useState('');
+  const [errors, setErrors] = useState<FormErrors>({ fields: {} });
+  const signUp = useSignUpMutation();
+
+  function submit() {
+    const { data, errors: localErrors } = checkLocally(signUpInput, { name, email, password });
+    setErrors(localErrors);
+    if (!data) return;
+    signUp.mutate(data, {
+      onSuccess: (result) => onSignedUp(result.notices ?? []),
+      onError: (error) => setErrors(errorsFromServer(error)),
+    });
+  }
+
+  return (
+    <View style={formStyles.form}>
+      {errors.message ? <Notice tone="error" message={errors.message} testID="sign-up-error" /> : null}
+      <TextField label="Name" value={name} onChangeText={setName} autoComplete="name" error={errors.fields.name} testID="sign-up-name" />
+      <TextField label="E-mail" value={email} onChangeText={setEmail} autoComplete="email" keyboardType="email-address" error={errors.fields.email} testID="sign-up-email" />
+      <TextField
+        label="Password"
+        value={password}
+        onChangeText={setPassword}
+        secureTextEntry
+        autoComplete="new-password"
+        hint="At least 10 characters."
+        error={errors.fields.password}
+        onSubmitEditing={submit}
+        testID="sign-up-password"
+      />
+      <Button label="Create account" onPress={submit} busy={signUp.isPending} testID="sign-up-submit" />
+      <View style={formStyles.links}>
+        <AuthLink href="/sign-in" label="Already have an account? Sign in" testID="to-sign-in" />
+      </View>
+    </View>
+  );
+}

@@ -1,0 +1,29 @@
+/** Rungbook's palette and type scale: ink on warm paper, amber for action, slate for structure. */
+export const colors = {
+  paper: '#F7F5EF',
+  surface: '#FFFFFF',
+  ink: '#1C2230',
+  inkSoft: '#4A5266',
+  inkFaint: '#8A90A0',
+  rule: '#E2DED3',
+  amber: '#C9822B',
+  amberDeep: '#9E6217',
+  amberWash: '#FBF1E2',
+  slate: '#26324A',
+  slateText: '#E9ECF2',
+  danger: '#B23A3A',
+  dangerWash: '#FBECEC',
+  success: '#2F7A4F',
+  successWash: '#E8F4EC',
+} as const;
+
+export const fonts = {
+  regular: 'Inter_400Regular',
+  medium: 'Inter_500Medium',
+  semibold: 'Inter_600SemiBold',
+} as const;
+
+export const spacing = { xs: 4, sm: 8, md: 12, lg: 16, xl: 24, xxl: 32 } as const;
+
+/** Width from which the signed-in area shows a side rail instead of a bottom bar. */
+export const WIDE_LAYOUT_MIN_WIDTH = 1024;
