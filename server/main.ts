@@ -1,35 +1,14 @@
 import 'reflect-metadata';
-import type { Server } from 'node:http';
 import { pino } from 'pino';
-import { createApp } from './app';
+import { startRungbook } from './boot';
 import { loadConfig } from './config';
-import { openDatabase } from './db/data-source';
-import { createMailer } from './mail/mailer';
-import { startSmtpFake, type SmtpFake } from './mail/smtp-fake';
-import { demoPeople, seedDemoDataIfEmpty } from './seed/demo';
-import { createServices } from './services';
+import { demoPeople } from './seed/demo';
 
 async function main() {
   const config = loadConfig();
   const logger = pino({ level: config.logLevel });
-  const dataSource = await openDatabase(config.databasePath);
-  logger.info({ databasePath: config.databasePath }, 'database ready (migrations applied)');
-
-  let smtpFake: SmtpFake | undefined;
-  if (config.mail.startFake) {
-    smtpFake = await startSmtpFake(dataSource, config.mail.smtpPort, logger);
-    config.mail.smtpPort = smtpFake.port;
-  }
-  const mailer = createMailer(config.mail, logger);
-  const services = createServices(config, logger, dataSource, mailer);
-
-  if (config.seedDemoData && (await seedDemoDataIfEmpty(dataSource))) logger.info('demo data created');
-
-  const server: Server = createApp(services).listen(config.port, config.host);
-  await new Promise<void>((resolve, reject) => {
-    server.once('listening', resolve);
-    server.once('error', reject);
-  });
+  const rungbook = await startRungbook(config, logger, { listen: true });
+  logger.info({ databasePath: config.databasePath, port: rungbook.port, demoDataCreated: rungbook.demoDataCreated }, 'started');
   printWelcome(config.publicUrl, config.seedDemoData, config.mail.startFake);
 
   let stopping = false;
@@ -38,13 +17,9 @@ async function main() {
     stopping = true;
     logger.info({ signal }, 'shutting down');
     const forceExit = setTimeout(() => process.exit(1), 10_000).unref();
-    await new Promise<void>((resolve) => server.close(() => resolve()));
-    server.closeAllConnections();
-    mailer.close();
-    await smtpFake?.stop();
-    await dataSource.destroy();
+    await rungbook.stop();
     clearTimeout(forceExit);
-    logger.info('stopped');
+    logger.info('stopped: connections closed, mail capture stopped, database closed');
     process.exit(0);
   }
   process.on('SIGINT', () => void shutdown('SIGINT'));

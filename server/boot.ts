@@ -1,0 +1,65 @@
+import 'reflect-metadata';
+import type { Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import type { Express } from 'express';
+import type { Logger } from 'pino';
+import { createApp } from './app';
+import type { ServerConfig } from './config';
+import { openDatabase } from './db/data-source';
+import { createMailer } from './mail/mailer';
+import { startSmtpFake, type SmtpFake } from './mail/smtp-fake';
+import { seedDemoDataIfEmpty } from './seed/demo';
+import { createServices, type Services } from './services';
+
+export interface RunningRungbook {
+  app: Express;
+  services: Services;
+  server?: Server;
+  /** The port actually bound (useful when PORT=0). */
+  port?: number;
+  smtpFake?: SmtpFake;
+  demoDataCreated: boolean;
+  stop(): Promise<void>;
+}
+
+/** Open the database (running migrations), start the mail capture, seed, and optionally listen. */
+export async function startRungbook(config: ServerConfig, logger: Logger, options: { listen: boolean }): Promise<RunningRungbook> {
+  const dataSource = await openDatabase(config.databasePath);
+  let smtpFake: SmtpFake | undefined;
+  if (config.mail.startFake) {
+    smtpFake = await startSmtpFake(dataSource, config.mail.smtpPort, logger);
+    config.mail.smtpPort = smtpFake.port;
+  }
+  const mailer = createMailer(config.mail, logger);
+  const services = createServices(config, logger, dataSource, mailer);
+  const demoDataCreated = config.seedDemoData ? await seedDemoDataIfEmpty(dataSource) : false;
+  const app = createApp(services);
+
+  let server: Server | undefined;
+  if (options.listen) {
+    server = app.listen(config.port, config.host);
+    await new Promise<void>((resolve, reject) => {
+      server!.once('listening', resolve);
+      server!.once('error', reject);
+    });
+  }
+
+  return {
+    app,
+    services,
+    server,
+    port: server ? (server.address() as AddressInfo).port : undefined,
+    smtpFake,
+    demoDataCreated,
+    async stop() {
+      if (server) {
+        const closed = new Promise<void>((resolve) => server!.close(() => resolve()));
+        server.closeAllConnections();
+        await closed;
+      }
+      mailer.close();
+      await smtpFake?.stop();
+      if (dataSource.isInitialized) await dataSource.destroy();
+    },
+  };
+}

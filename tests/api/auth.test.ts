@@ -1,0 +1,143 @@
+import assert from 'node:assert/strict';
+import { after, before, describe, test } from 'node:test';
+import { LessThan } from 'typeorm';
+import { Session, User } from '../../server/db/entities';
+import { ORIGIN, person, startHarness, type Harness } from './harness';
+
+describe('sign-up, sign-in, sign-out, current user', () => {
+  let h: Harness;
+  before(async () => {
+    h = await startHarness({ SIGNIN_LIMIT_PER_ACCOUNT: '3', SIGNIN_LIMIT_PER_IP: '1000' });
+  });
+  after(() => h.close());
+
+  const userCount = () => h.rungbook.services.dataSource.getRepository(User).count();
+
+  test('sign-up creates the account, starts a session in an HttpOnly SameSite=Lax cookie and /me answers', async () => {
+    const client = h.browser();
+    const reply = await client.post('/api/auth/sign-up').send(person(1)).expect(201);
+    assert.equal(reply.body.user.email, person(1).email);
+    assert.equal(reply.body.user.siteRole, 'member');
+    assert.deepEqual(reply.body.notices, []);
+    const cookie = String(reply.headers['set-cookie']);
+    // Cookie attributes per RFC 6265 / the SameSite draft: HttpOnly, SameSite=Lax; not Secure on http.
+    assert.match(cookie, /rungbook_session=[a-z0-9]+/);
+    assert.match(cookie, /HttpOnly/);
+    assert.match(cookie, /SameSite=Lax/);
+    assert.doesNotMatch(cookie, /Secure/);
+    const me = await client.get('/api/me').expect(200);
+    assert.equal(me.body.user.name, person(1).name);
+  });
+
+  test('the stored password is an argon2id hash with the OWASP parameters (m=19456 KiB, t=2, p=1)', async () => {
+    const stored = await h.rungbook.services.dataSource.getRepository(User).findOneByOrFail({ emailKey: person(1).email });
+    // PHC string format of argon2 (RFC 9106 §4 parameters, OWASP Password Storage Cheat Sheet values).
+    assert.match(stored.passwordHash, /^\$argon2id\$v=19\$m=19456,t=2,p=1\$/);
+    assert.ok(!stored.passwordHash.includes(person(1).password));
+  });
+
+  test('a duplicate e-mail differing only in case is refused with 409 and nothing is written', async () => {
+    const before = await userCount();
+    const reply = await h.browser()
+      .post('/api/auth/sign-up')
+      .send({ ...person(1), email: person(1).email.toUpperCase() })
+      .expect(409);
+    assert.equal(reply.body.error.code, 'email_taken');
+    assert.ok(reply.body.error.fields.email);
+    assert.equal(await userCount(), before);
+  });
+
+  test('bad sign-up input gives 400 with a message per field and writes nothing', async () => {
+    const before = await userCount();
+    const reply = await h.browser().post('/api/auth/sign-up').send({ name: ' ', email: 'not-an-address', password: 'short' }).expect(400);
+    assert.equal(reply.body.error.code, 'validation_failed');
+    assert.deepEqual(Object.keys(reply.body.error.fields).sort(), ['email', 'name', 'password']);
+    assert.match(reply.body.error.fields.password, /at least 10/);
+    const missing = await h.browser().post('/api/auth/sign-up').send({}).expect(400);
+    assert.deepEqual(Object.keys(missing.body.error.fields).sort(), ['email', 'name', 'password']);
+    const extra = await h.browser().post('/api/auth/sign-up').send({ ...person(9), siteRole: 'admin' }).expect(400);
+    assert.equal(extra.body.error.fields.siteRole, 'Unknown field');
+    assert.equal(await userCount(), before);
+  });
+
+  test('sign-in accepts the e-mail in any case; a wrong password is a 401 with a clear message', async () => {
+    const ok = await h.browser().post('/api/auth/sign-in').send({ email: '  PERSON1@Test.Rungbook.Example ', password: person(1).password }).expect(200);
+    assert.equal(ok.body.user.email, person(1).email);
+    const wrong = await h.browser().post('/api/auth/sign-in').send({ email: person(1).email, password: 'not-the-password' }).expect(401);
+    assert.equal(wrong.body.error.code, 'wrong_credentials');
+    const unknown = await h.browser().post('/api/auth/sign-in').send({ email: 'nobody@test.rungbook.example', password: 'whatever-pass' }).expect(401);
+    assert.equal(unknown.body.error.message, wrong.body.error.message, 'unknown account and wrong password look the same');
+  });
+
+  test('repeated failures for one account are rate-limited with 429, even from a fresh client', async () => {
+    await h.browser().post('/api/auth/sign-up').send(person(2)).expect(201);
+    for (let attempt = 0; attempt < 3; attempt += 1) {
+      await h.browser().post('/api/auth/sign-in').send({ email: person(2).email, password: 'wrong-password' }).expect(401);
+    }
+    const limited = await h.browser().post('/api/auth/sign-in').send({ email: person(2).email, password: person(2).password }).expect(429);
+    assert.equal(limited.body.error.code, 'rate_limited');
+  });
+
+  test('sign-out ends the session on the server: the old cookie no longer works', async () => {
+    const client = h.browser();
+    const signIn = await client.post('/api/auth/sign-in').send({ email: person(1).email, password: person(1).password }).expect(200);
+    const cookie = String(signIn.headers['set-cookie']).split(';')[0];
+    await client.post('/api/auth/sign-out').send({}).expect(204);
+    await h.raw.get('/api/me').set('Cookie', cookie).expect(401);
+  });
+
+  test('an expired session is refused with 401 and its cookie is cleared', async () => {
+    const client = h.browser();
+    const signIn = await client.post('/api/auth/sign-in').send({ email: person(1).email, password: person(1).password }).expect(200);
+    const cookie = String(signIn.headers['set-cookie']).split(';')[0];
+    const sessionId = cookie.split('=')[1];
+    await h.rungbook.services.dataSource.getRepository(Session).update({ id: sessionId }, { expiresAt: new Date(Date.now() - 1000) });
+    const reply = await h.raw.get('/api/me').set('Cookie', cookie).expect(401);
+    assert.equal(reply.body.error.code, 'unauthenticated');
+    assert.match(String(reply.headers['set-cookie']), /Max-Age=0/);
+    assert.equal(await h.rungbook.services.dataSource.getRepository(Session).countBy({ expiresAt: LessThan(new Date()) }), 0);
+  });
+
+  test('/me without a session is 401', async () => {
+    const reply = await h.raw.get('/api/me').expect(401);
+    assert.equal(reply.body.error.code, 'unauthenticated');
+  });
+
+  test('cookie-carrying requests from another site, or that hide their origin, are refused (CSRF)', async () => {
+    const client = h.browser();
+    const signIn = await client.post('/api/auth/sign-in').send({ email: person(1).email, password: person(1).password }).expect(200);
+    const cookie = String(signIn.headers['set-cookie']).split(';')[0];
+    const foreign = await h.raw.post('/api/groups').set('Cookie', cookie).set('Origin', 'https://elsewhere.example').send({ name: 'Hijacked' }).expect(403);
+    assert.equal(foreign.body.error.code, 'cross_site_request');
+    await h.raw.post('/api/groups').set('Cookie', cookie).send({ name: 'No origin' }).expect(403);
+    await h.raw.post('/api/groups').set('Cookie', cookie).set('Referer', `${ORIGIN}/groups`).send({ name: 'Referer ok' }).expect(201);
+    await h.raw.post('/api/auth/sign-out').set('Cookie', cookie).set('Origin', 'https://elsewhere.example').send({}).expect(403);
+    await h.raw.get('/api/me').set('Cookie', cookie).expect(200);
+  });
+});
+
+describe('session cookie over https', () => {
+  test('is marked Secure when PUBLIC_URL is https', async () => {
+    const h = await startHarness({ PUBLIC_URL: 'https://rungbook.example' });
+    try {
+      const reply = await h.raw.post('/api/auth/sign-up').set('Origin', 'https://rungbook.example').send(person(3)).expect(201);
+      assert.match(String(reply.headers['set-cookie']), /; Secure/);
+    } finally {
+      await h.close();
+    }
+  });
+});
+
+describe('sign-in rate limit per network address', () => {
+  test('too many attempts from one address get 429', async () => {
+    const h = await startHarness({ SIGNIN_LIMIT_PER_IP: '2' });
+    try {
+      await h.browser().post('/api/auth/sign-in').send({ email: 'a@test.rungbook.example', password: 'x' }).expect(401);
+      await h.browser().post('/api/auth/sign-in').send({ email: 'b@test.rungbook.example', password: 'x' }).expect(401);
+      const limited = await h.browser().post('/api/auth/sign-in').send({ email: 'c@test.rungbook.example', password: 'x' }).expect(429);
+      assert.equal(limited.body.error.code, 'rate_limited');
+    } finally {
+      await h.close();
+    }
+  });
+});

@@ -1,0 +1,66 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { pino } from 'pino';
+import supertest from 'supertest';
+import { startRungbook, type RunningRungbook } from '../../server/boot';
+import { loadConfig, type ServerConfig } from '../../server/config';
+import { CapturedMail } from '../../server/db/entities';
+
+export const ORIGIN = 'http://localhost:8080';
+
+export interface Harness {
+  rungbook: RunningRungbook;
+  config: ServerConfig;
+  /** A cookie-keeping client that sends our Origin, like the web app does. */
+  browser(): ReturnType<typeof supertest.agent>;
+  raw: ReturnType<typeof supertest>;
+  capturedMail(): Promise<CapturedMail[]>;
+  close(): Promise<void>;
+}
+
+/** A real server stack on a fresh temporary SQLite file, with the mail capture on a free port. */
+export async function startHarness(env: Record<string, string> = {}): Promise<Harness> {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'rungbook-api-'));
+  const webRoot = path.join(dir, 'web');
+  fs.mkdirSync(webRoot);
+  fs.writeFileSync(path.join(webRoot, 'index.html'), '<!doctype html><title>Rungbook test shell</title>');
+  const config = loadConfig({
+    DATABASE_PATH: path.join(dir, 'test.sqlite'),
+    SMTP_PORT: '0',
+    PUBLIC_URL: ORIGIN,
+    WEB_ROOT: webRoot,
+    SEED_DEMO_DATA: 'false',
+    ...env,
+  });
+  const rungbook = await startRungbook(config, pino({ level: 'silent' }), { listen: false });
+  return {
+    rungbook,
+    config,
+    browser: () => supertest.agent(rungbook.app).set('Origin', ORIGIN),
+    raw: supertest(rungbook.app),
+    capturedMail: () => rungbook.services.dataSource.getRepository(CapturedMail).find({ order: { id: 'ASC' } }),
+    async close() {
+      await rungbook.stop();
+      fs.rmSync(dir, { recursive: true, force: true });
+    },
+  };
+}
+
+/** Mail delivery is asynchronous on the capture side; wait until `count` messages are stored. */
+export async function waitForMail(harness: Harness, count: number, timeoutMs = 5000): Promise<CapturedMail[]> {
+  const deadline = Date.now() + timeoutMs;
+  for (;;) {
+    const mail = await harness.capturedMail();
+    if (mail.length >= count || Date.now() > deadline) return mail;
+    await new Promise((resolve) => setTimeout(resolve, 50));
+  }
+}
+
+export const person = (n: number) => ({ name: `Invented Person ${n}`, email: `person${n}@test.rungbook.example`, password: `long-enough-pass-${n}` });
+
+export function resetTokenFrom(text: string): string {
+  const match = /reset-password\?token=([A-Za-z0-9_-]+)/.exec(text);
+  if (!match) throw new Error(`No reset link in: ${text}`);
+  return match[1];
+}
