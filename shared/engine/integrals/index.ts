@@ -1,0 +1,3 @@
+export * from './values';
+export * from './gammaExpansion';
+export * from './loops';

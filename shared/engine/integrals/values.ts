@@ -1,0 +1,61 @@
+import { fail } from '../precision/errors';
+import { type Real } from '../precision/real';
+import { numericRing } from '../series/numeric';
+import { type CoefficientRing } from '../series/ring';
+import { gamma, polygamma } from '../special/index';
+import { type Affine, evaluateAffine, isConstantAffine } from '../symbolic/affine';
+import { gammaExpr, psiExpr } from '../symbolic/canonical';
+import { type Expression } from '../symbolic/expression';
+import { type Q, qToString } from '../symbolic/rational';
+import { symbolicRing } from '../symbolic/ring';
+
+/** Where Γ(x) and ψ^(k)(x) come from: numbers at a parameter point, or canonical symbols. */
+export interface ExpansionContext<C> {
+  ring: CoefficientRing<C>;
+  gamma(x: Affine): C;
+  psi(k: number, x: Affine): C;
+  /** Substitute parameter values (numeric mode); symbolic mode returns x unchanged. */
+  resolve(x: Affine): Affine;
+}
+
+export function symbolicContext(): ExpansionContext<Expression> {
+  return { ring: symbolicRing(), gamma: gammaExpr, psi: psiExpr, resolve: (x) => x };
+}
+
+/** Numeric mode at parameter values `at` (exact rationals); coefficients carry `workingDigits`. */
+export function numericContext(at: Readonly<Record<string, Q>>, workingDigits: number): ExpansionContext<Real> {
+  const cache = new Map<string, Real>();
+  const point = (x: Affine): Q => {
+    const value = evaluateAffine(x, at);
+    return value;
+  };
+  const memo = (key: string, compute: () => Real) => {
+    let v = cache.get(key);
+    if (!v) {
+      v = compute();
+      cache.set(key, v);
+    }
+    return v;
+  };
+  return {
+    ring: numericRing(workingDigits),
+    gamma: (x) => {
+      const p = point(x);
+      return memo(`g:${qToString(p)}`, () => gamma(p, workingDigits));
+    },
+    psi: (k, x) => {
+      const p = point(x);
+      return memo(`p${k}:${qToString(p)}`, () => polygamma(k, p, workingDigits));
+    },
+    resolve: (x) => {
+      if (isConstantAffine(x)) return x;
+      const v = point(x);
+      return { constant: v, terms: [] };
+    },
+  };
+}
+
+export function requireConstant(x: Affine, what: string): Q {
+  if (!isConstantAffine(x)) fail('invalid', `${what} must not depend on parameters here`);
+  return x.constant;
+}

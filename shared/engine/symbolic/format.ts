@@ -1,0 +1,131 @@
+import { affineToLatex, affineToString, latexRational } from './affine';
+import { type Atom, type Expression, type Power, type Term, atomKey, monomialKey } from './expression';
+import { polyConstantValue, polyTermCount, polyToLatex, polyToString } from './polynomial';
+import { qIsOne, qToString } from './rational';
+import { factorToLatex, ratConstantValue, ratParts } from './ratfunc';
+
+/*
+ * Plain-text syntax (parsable by mathjs): sums of terms `c*atoms/(atoms)` with atoms
+ * psi(k, x), gamma(x), zeta(n), pi, log(2), eulergamma; parameters by name; powers with ^.
+ */
+
+function orderedTerms(e: Expression): Term[] {
+  return [...e.terms.values()].sort((a, b) => a.monomial.length - b.monomial.length || (monomialKey(a.monomial) < monomialKey(b.monomial) ? -1 : monomialKey(a.monomial) > monomialKey(b.monomial) ? 1 : 0));
+}
+
+function atomText(a: Atom): string {
+  switch (a.kind) {
+    case 'psi':
+      return `psi(${a.order}, ${affineToString(a.arg)})`;
+    case 'gamma':
+      return `gamma(${affineToString(a.arg)})`;
+    default:
+      return atomKey(a);
+  }
+}
+
+function powerText(p: Power, negate: boolean): string {
+  const e = negate ? { num: -p.exponent.num, den: p.exponent.den } : p.exponent;
+  const base = atomText(p.atom);
+  if (qIsOne(e)) return base;
+  return e.den === 1n ? `${base}^${e.num}` : `${base}^(${qToString(e)})`;
+}
+
+function termText(t: Term): { negative: boolean; text: string } {
+  const numParts: string[] = [];
+  const denParts: string[] = [];
+  let negative = false;
+  const hasAtoms = t.monomial.length > 0;
+  const c = ratConstantValue(t.coeff);
+  if (c) {
+    negative = c.num < 0n;
+    const n = negative ? -c.num : c.num;
+    if (n !== 1n || !t.monomial.some((p) => p.exponent.num > 0n)) numParts.push(n.toString());
+    if (c.den !== 1n) denParts.push(c.den.toString());
+  } else {
+    const { num, factors } = ratParts(t.coeff);
+    const single = polyConstantValue(num);
+    if (single && single.num < 0n) {
+      negative = true;
+      numParts.push(qToString({ num: -single.num, den: single.den }));
+    } else numParts.push(polyTermCount(num) > 1 && (hasAtoms || factors.length > 0) ? `(${polyToString(num)})` : polyToString(num));
+    for (const f of factors) {
+      const base = polyTermCount(f.poly) > 1 ? `(${polyToString(f.poly)})` : polyToString(f.poly);
+      denParts.push(f.power === 1 ? base : `${base}^${f.power}`);
+    }
+  }
+  for (const p of t.monomial) (p.exponent.num > 0n ? numParts : denParts).push(powerText(p, p.exponent.num < 0n));
+  const numerator = numParts.length ? numParts.join('*') : '1';
+  const denominator = denParts.length === 0 ? '' : denParts.length === 1 ? `/${denParts[0]}` : `/(${denParts.join('*')})`;
+  return { negative, text: numerator + denominator };
+}
+
+export function expressionToString(e: Expression): string {
+  const terms = orderedTerms(e);
+  if (terms.length === 0) return '0';
+  return terms
+    .map(termText)
+    .map((t, i) => (i === 0 ? (t.negative ? `-${t.text}` : t.text) : t.negative ? ` - ${t.text}` : ` + ${t.text}`))
+    .join('');
+}
+
+// ---------------------------------------------------------------------------------------------
+
+function atomLatex(a: Atom): string {
+  switch (a.kind) {
+    case 'pi':
+      return '\\pi';
+    case 'log2':
+      return '\\ln 2';
+    case 'eulergamma':
+      return '\\gamma_E';
+    case 'zeta':
+      return `\\zeta(${a.n})`;
+    case 'psi':
+      return `${a.order === 0 ? '\\psi' : a.order === 1 ? "\\psi'" : `\\psi^{(${a.order})}`}\\left(${affineToLatex(a.arg)}\\right)`;
+    case 'gamma':
+      return `\\Gamma\\left(${affineToLatex(a.arg)}\\right)`;
+  }
+}
+
+function powerLatex(p: Power, negate: boolean): string {
+  const e = negate ? { num: -p.exponent.num, den: p.exponent.den } : p.exponent;
+  const base = atomLatex(p.atom);
+  if (qIsOne(e)) return base;
+  if (e.num === 1n && e.den === 2n && p.atom.kind === 'pi') return '\\sqrt{\\pi}';
+  const wrapped = p.atom.kind === 'log2' ? `(${base})` : base;
+  return `${wrapped}^{${e.den === 1n ? e.num.toString() : qToString(e)}}`;
+}
+
+function termLatex(t: Term): { negative: boolean; text: string } {
+  const numParts: string[] = [];
+  const denParts: string[] = [];
+  let negative = false;
+  const c = ratConstantValue(t.coeff);
+  if (c) {
+    negative = c.num < 0n;
+    const n = negative ? -c.num : c.num;
+    if (n !== 1n || !t.monomial.some((p) => p.exponent.num > 0n)) numParts.push(n.toString());
+    if (c.den !== 1n) denParts.push(c.den.toString());
+  } else {
+    const { num, factors } = ratParts(t.coeff);
+    const single = polyConstantValue(num);
+    if (single && single.num < 0n) {
+      negative = true;
+      numParts.push(latexRational({ num: -single.num, den: single.den }));
+    } else numParts.push(polyTermCount(num) > 1 && t.monomial.length > 0 ? `\\left(${polyToLatex(num)}\\right)` : polyToLatex(num));
+    for (const f of factors) denParts.push(factorToLatex(f));
+  }
+  for (const p of t.monomial) (p.exponent.num > 0n ? numParts : denParts).push(powerLatex(p, p.exponent.num < 0n));
+  const numerator = numParts.length ? numParts.join(' ') : '1';
+  return { negative, text: denParts.length ? `\\frac{${numerator}}{${denParts.join(' ')}}` : numerator };
+}
+
+export function expressionToLatex(e: Expression): string {
+  const terms = orderedTerms(e);
+  if (terms.length === 0) return '0';
+  return terms
+    .map(termLatex)
+    .map((t, i) => (i === 0 ? (t.negative ? `-${t.text}` : t.text) : t.negative ? ` - ${t.text}` : ` + ${t.text}`))
+    .join('');
+}
