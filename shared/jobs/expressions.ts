@@ -1,0 +1,165 @@
+import { type MathNode, create, parseDependencies } from 'mathjs';
+import {
+  type Affine,
+  EngineError,
+  type GammaFactor,
+  type Q,
+  affine,
+  affineAdd,
+  affineConstant,
+  affineNeg,
+  affineParameter,
+  affineScale,
+  affineToString,
+  fail,
+  isConstantAffine,
+  q,
+  splitEps,
+  substituteAffine,
+  toExactRational,
+} from '../engine/index';
+import { JOB_LIMITS } from './limits';
+
+const math = create({ parseDependencies }, { number: 'BigNumber', precision: 64 });
+
+const RESERVED = new Set(['pi', 'e', 'i', 'gamma', 'psi', 'zeta', 'log', 'eulergamma', 'Infinity', 'NaN']);
+
+function parseText(text: string): MathNode {
+  if (text.length > JOB_LIMITS.maxExpressionLength) fail('limit', 'expression too long');
+  try {
+    return math.parse(text);
+  } catch (e) {
+    return fail('parse', `cannot parse ${JSON.stringify(text.slice(0, 80))}: ${(e as Error).message}`);
+  }
+}
+
+interface NodeLike {
+  type: string;
+  op?: string;
+  fn?: string | { name?: string };
+  name?: string;
+  args?: MathNode[];
+  content?: MathNode;
+  value?: unknown;
+}
+
+function constantValue(node: NodeLike): Q {
+  return toExactRational(String(node.value));
+}
+
+/** Affine expression in eps and parameters; `definitions` substitutes names such as d. */
+export function parseAffine(text: string, definitions: Readonly<Record<string, Affine>> = {}): Affine {
+  return toAffine(parseText(text) as unknown as NodeLike, definitions, text);
+}
+
+function toAffine(node: NodeLike, defs: Readonly<Record<string, Affine>>, source: string): Affine {
+  const notAffine = (): never => fail('not-affine', `${JSON.stringify(source.slice(0, 80))} is not affine in eps and the parameters`);
+  switch (node.type) {
+    case 'ConstantNode':
+      return affineConstant(constantValue(node));
+    case 'SymbolNode': {
+      const name = node.name as string;
+      if (defs[name]) return defs[name];
+      if (RESERVED.has(name)) return notAffine();
+      return affineParameter(name);
+    }
+    case 'ParenthesisNode':
+      return toAffine(node.content as unknown as NodeLike, defs, source);
+    case 'OperatorNode': {
+      const args = (node.args ?? []) as unknown as NodeLike[];
+      const parts = args.map((a) => toAffine(a, defs, source));
+      if (node.fn === 'unaryMinus') return affineNeg(parts[0]);
+      if (node.fn === 'unaryPlus') return parts[0];
+      if (node.op === '+') return affineAdd(parts[0], parts[1]);
+      if (node.op === '-') return affineAdd(parts[0], affineNeg(parts[1]));
+      if (node.op === '*') {
+        if (isConstantAffine(parts[0])) return affineScale(parts[1], parts[0].constant);
+        if (isConstantAffine(parts[1])) return affineScale(parts[0], parts[1].constant);
+        return notAffine();
+      }
+      if (node.op === '/') {
+        if (!isConstantAffine(parts[1])) return notAffine();
+        if (parts[1].constant.num === 0n) fail('domain', 'division by zero in an argument');
+        return affineScale(parts[0], q(parts[1].constant.den, parts[1].constant.num));
+      }
+      return notAffine();
+    }
+    default:
+      return notAffine();
+  }
+}
+
+export interface GammaProduct {
+  prefactor: Q;
+  factors: GammaFactor[];
+}
+
+/** A product/quotient/integer power of gamma(…) factors and numbers. */
+export function parseGammaProduct(text: string, definitions: Readonly<Record<string, Affine>> = {}): GammaProduct {
+  const product = toProduct(parseText(text) as unknown as NodeLike, definitions, text);
+  if (product.factors.length > JOB_LIMITS.maxGammaFactors) fail('limit', `at most ${JOB_LIMITS.maxGammaFactors} gamma factors`);
+  return product;
+}
+
+function toProduct(node: NodeLike, defs: Readonly<Record<string, Affine>>, source: string): GammaProduct {
+  const shapeError = (): never => fail('invalid', 'expr must be a product, quotient or integer power of gamma(...) factors and numbers');
+  switch (node.type) {
+    case 'ConstantNode':
+      return { prefactor: constantValue(node), factors: [] };
+    case 'ParenthesisNode':
+      return toProduct(node.content as unknown as NodeLike, defs, source);
+    case 'FunctionNode': {
+      const name = typeof node.fn === 'object' ? node.fn?.name : node.fn;
+      if (name !== 'gamma' || node.args?.length !== 1) return shapeError();
+      const arg = toAffine(node.args[0] as unknown as NodeLike, defs, source);
+      return { prefactor: q(1), factors: [{ arg: splitEps(arg), power: 1 }] };
+    }
+    case 'OperatorNode': {
+      const args = (node.args ?? []) as unknown as NodeLike[];
+      if (node.fn === 'unaryMinus') {
+        const inner = toProduct(args[0], defs, source);
+        return { prefactor: q(-inner.prefactor.num, inner.prefactor.den), factors: inner.factors };
+      }
+      if (node.fn === 'unaryPlus') return toProduct(args[0], defs, source);
+      if (node.op === '*' || node.op === '/') {
+        const left = toProduct(args[0], defs, source);
+        const right = toProduct(args[1], defs, source);
+        if (node.op === '*') return { prefactor: mulQ(left.prefactor, right.prefactor), factors: [...left.factors, ...right.factors] };
+        if (right.prefactor.num === 0n) fail('domain', 'division by zero');
+        return { prefactor: mulQ(left.prefactor, q(right.prefactor.den, right.prefactor.num)), factors: [...left.factors, ...right.factors.map((f) => ({ arg: f.arg, power: -f.power }))] };
+      }
+      if (node.op === '^') {
+        const base = toProduct(args[0], defs, source);
+        const exponent = toAffine(args[1], {}, source);
+        if (!isConstantAffine(exponent) || exponent.constant.den !== 1n) fail('invalid', 'powers must be integers');
+        const n = Number(exponent.constant.num);
+        if (Math.abs(n) > 50) fail('limit', 'integer powers are limited to |n| ≤ 50');
+        if (base.prefactor.num === 0n && n < 0) fail('domain', 'division by zero');
+        const pre = n >= 0 ? q(base.prefactor.num ** BigInt(n), base.prefactor.den ** BigInt(n)) : q(base.prefactor.den ** BigInt(-n), base.prefactor.num ** BigInt(-n));
+        return { prefactor: pre, factors: base.factors.map((f) => ({ arg: f.arg, power: f.power * n })) };
+      }
+      return shapeError();
+    }
+    default:
+      return shapeError();
+  }
+}
+
+const mulQ = (a: Q, b: Q): Q => q(a.num * b.num, a.den * b.den);
+
+export function describe(a: Affine): string {
+  return affineToString(a);
+}
+
+/** Definitions such as d = 2*s − eps, parsed against the parameters. */
+export function parseDefinitions(d: string | undefined): Record<string, Affine> {
+  return d === undefined ? {} : { d: parseAffine(d) };
+}
+
+export function substituteAll(a: Affine, values: Readonly<Record<string, Affine>>): Affine {
+  let out = a;
+  for (const [name, v] of Object.entries(values)) out = substituteAffine(out, name, v);
+  return out;
+}
+
+export { EngineError, affine };

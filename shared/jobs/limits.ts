@@ -1,0 +1,21 @@
+/** Work limits enforced before any computation starts. */
+export const JOB_LIMITS = {
+  minDigits: 5,
+  maxDigits: 1000,
+  /** Highest polygamma order for a `special` job. */
+  maxPsiOrder: 200,
+  /** Laurent jobs: eps powers from minOrder to maxOrder may be requested. */
+  minOrder: -20,
+  maxOrder: 30,
+  /** Terms beyond the leading power (order − lowest): numeric and symbolic caps. */
+  maxNumericDepth: 30,
+  maxSymbolicDepth: 6,
+  /** digits × (depth + 1) for numeric series; digits × (order + 1) for polygamma. */
+  maxDigitsTimesTerms: 12000,
+  /** |x| bound for special-function arguments. */
+  maxAbsArgument: 1e12,
+  maxExpressionLength: 2000,
+  maxGammaFactors: 40,
+  maxBatch: 100,
+  maxPadeCoefficients: 41,
+} as const;

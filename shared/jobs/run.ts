@@ -1,0 +1,287 @@
+import { z } from 'zod';
+import {
+  type Affine,
+  EngineError,
+  type ExpansionContext,
+  type Expression,
+  type GammaFactor,
+  type LaurentSeries,
+  type Q,
+  type Real,
+  affineToString,
+  bubbleFactors,
+  evaluatePade,
+  expressionToLatex,
+  expressionToString,
+  fourierPowerFactors,
+  gammaProductSeries,
+  leadingPower,
+  numericContext,
+  padeApproximant,
+  padeTable,
+  polesInInterval,
+  q,
+  realContext,
+  special,
+  starTriangleFactors,
+  symbolicContext,
+  toExactRational,
+} from '../engine/index';
+import { parseAffine, parseDefinitions, parseGammaProduct } from './expressions';
+import { JOB_LIMITS } from './limits';
+import {
+  type BubbleJob,
+  CalcJob,
+  type CalcResult,
+  type FourierJob,
+  type JobError,
+  type LaurentJob,
+  type PadeEntry,
+  type PadeJob,
+  type PadeResult,
+  type SeriesResult,
+  type SpecialJob,
+  type SpecialResult,
+  type StarTriangleJob,
+} from './schemas';
+
+type ErrorCode = JobError['error']['code'];
+
+export function jobError(code: ErrorCode, message: string): JobError {
+  return { error: { code, message } };
+}
+
+export function isJobError(r: unknown): r is JobError {
+  return typeof r === 'object' && r !== null && 'error' in r;
+}
+
+/** Validate and run one calculation job. Never throws: failures come back as `{error:{code,message}}`. */
+export function runJob(input: unknown): CalcResult {
+  const parsed = CalcJob.safeParse(input);
+  if (!parsed.success) return jobError('invalid-job', z.prettifyError(parsed.error));
+  try {
+    return dispatch(parsed.data);
+  } catch (e) {
+    if (e instanceof EngineError) return jobError(e.code === 'invalid' ? 'invalid-job' : e.code, e.message);
+    if (e instanceof RangeError) return jobError('limit', `computation exceeded a limit: ${e.message}`);
+    return jobError('internal', `internal error: ${(e as Error)?.message ?? String(e)}`);
+  }
+}
+
+/** One job or an array of jobs (results in the same order). */
+export function runBatch(input: unknown): CalcResult | CalcResult[] {
+  if (Array.isArray(input)) {
+    if (input.length > JOB_LIMITS.maxBatch) return jobError('limit', `at most ${JOB_LIMITS.maxBatch} jobs per call`);
+    return input.map(runJob);
+  }
+  return runJob(input);
+}
+
+function dispatch(job: CalcJob): CalcResult {
+  switch (job.job) {
+    case 'special':
+      return runSpecial(job);
+    case 'laurent':
+      return runLaurent(job);
+    case 'bubble':
+      return runBubble(job);
+    case 'fourier':
+      return runFourier(job);
+    case 'startriangle':
+      return runStarTriangle(job);
+    case 'pade':
+      return runPade(job);
+  }
+}
+
+function limit(message: string): never {
+  throw new EngineError('limit', message);
+}
+
+// ---- special ----------------------------------------------------------------------------------
+
+function runSpecial(job: SpecialJob): SpecialResult {
+  const x = toExactRational(job.x);
+  if (Math.abs(Number(x.num) / Number(x.den)) > JOB_LIMITS.maxAbsArgument) limit(`|x| must be at most ${JOB_LIMITS.maxAbsArgument}`);
+  if (job.order !== undefined && job.fn !== 'psi') throw new EngineError('invalid', '"order" applies only to fn "psi"');
+  const order = job.order ?? 0;
+  if (job.digits * (order + 1) > JOB_LIMITS.maxDigitsTimesTerms * 4) limit('digits × (order+1) too large');
+  let value: Real;
+  switch (job.fn) {
+    case 'gamma':
+      value = special.gamma(x, job.digits);
+      break;
+    case 'lngamma':
+      value = special.lnGamma(x, job.digits);
+      break;
+    case 'psi':
+      value = special.polygamma(order, x, job.digits);
+      break;
+    case 'zeta':
+      value = special.zeta(x, job.digits);
+      break;
+  }
+  return { value: formatReal(value, job.digits) };
+}
+
+export function formatReal(v: Real, digits: number): string {
+  return v.isZero() ? '0' : v.toPrecision(digits);
+}
+
+// ---- series -----------------------------------------------------------------------------------
+
+interface SeriesSpec {
+  factors: GammaFactor[];
+  prefactor: Q;
+  order: number;
+  at?: Record<string, string>;
+  digits?: number;
+  powers?: { piExponent: Affine; twoExponent?: Affine };
+}
+
+function runLaurent(job: LaurentJob): SeriesResult {
+  const defs = parseDefinitions(job.d);
+  const { prefactor, factors } = parseGammaProduct(job.expr, defs);
+  return expandSeries({ factors, prefactor, order: job.order, at: job.at, digits: job.digits });
+}
+
+function runBubble(job: BubbleJob): SeriesResult {
+  const d = parseAffine(job.d);
+  const factors = bubbleFactors(parseAffine(job.a, { d }), parseAffine(job.b, { d }), d);
+  return expandSeries({ factors, prefactor: q(1), order: job.order, at: job.at, digits: job.digits });
+}
+
+function runFourier(job: FourierJob): SeriesResult {
+  const d = parseAffine(job.d);
+  const { factors, piExponent, twoExponent } = fourierPowerFactors(parseAffine(job.a, { d }), d);
+  return expandSeries({ factors, prefactor: q(1), order: job.order, at: job.at, digits: job.digits, powers: { piExponent, twoExponent } });
+}
+
+function runStarTriangle(job: StarTriangleJob): SeriesResult {
+  const d = parseAffine(job.d);
+  const deltas = job.deltas.map((t) => parseAffine(t, { d })) as [Affine, Affine, Affine];
+  const { factors, piExponent } = starTriangleFactors(deltas, d);
+  return expandSeries({ factors, prefactor: q(1), order: job.order, at: job.at, digits: job.digits, powers: { piExponent } });
+}
+
+function parameterValues(at: Record<string, string>): Record<string, Q> {
+  const values: Record<string, Q> = {};
+  for (const [name, text] of Object.entries(at)) {
+    if (name === 'eps' || name === 'd') throw new EngineError('invalid', `"at" may not assign ${name}`);
+    values[name] = toExactRational(text);
+  }
+  return values;
+}
+
+function expandSeries(spec: SeriesSpec): SeriesResult {
+  const prefactorOut = spec.powers
+    ? { piExponent: affineToString(spec.powers.piExponent), ...(spec.powers.twoExponent ? { twoExponent: affineToString(spec.powers.twoExponent) } : {}) }
+    : undefined;
+  const withPrefactor = (r: Omit<SeriesResult, 'prefactor'>): SeriesResult => (prefactorOut ? { ...r, prefactor: prefactorOut } : r);
+  if (spec.at === undefined) {
+    const ctx = symbolicContext();
+    const depth = spec.order - totalLeadingPower(ctx, spec.factors);
+    if (depth > JOB_LIMITS.maxSymbolicDepth) limit(`symbolic expansions are limited to ${JOB_LIMITS.maxSymbolicDepth} terms beyond the leading power (asked ${depth})`);
+    const series = gammaProductSeries(ctx, spec.factors, spec.order, spec.prefactor);
+    return withPrefactor(symbolicResult(series));
+  }
+  const values = parameterValues(spec.at);
+  const digits = spec.digits ?? 30;
+  const depth = spec.order - totalLeadingPower(numericContext(values, digits), spec.factors);
+  if (depth > JOB_LIMITS.maxNumericDepth) limit(`numeric expansions are limited to ${JOB_LIMITS.maxNumericDepth} terms beyond the leading power (asked ${depth})`);
+  if (digits * (depth + 1) > JOB_LIMITS.maxDigitsTimesTerms) limit(`digits × terms = ${digits * (depth + 1)} exceeds ${JOB_LIMITS.maxDigitsTimesTerms}`);
+  const series = verifiedNumericSeries(digits, (work) => gammaProductSeries(numericContext(values, work), spec.factors, spec.order, spec.prefactor));
+  return withPrefactor(series);
+}
+
+function totalLeadingPower<C>(ctx: ExpansionContext<C>, factors: GammaFactor[]): number {
+  return factors.reduce((s, f) => s + leadingPower(ctx as ExpansionContext<unknown>, f), 0);
+}
+
+function symbolicResult(series: LaurentSeries<Expression>): Omit<SeriesResult, 'prefactor'> {
+  return {
+    lowest: series.lowest,
+    order: series.order,
+    coeffs: series.coefficients().map((c) => ({ expr: expressionToString(c), latex: expressionToLatex(c) })),
+  };
+}
+
+/**
+ * Compute at two working precisions and keep only digits on which they agree: a coefficient is
+ * printed with `digits` significant digits when the estimated error of the finer run is below
+ * 1/20 of its last digit, "0" when it is indistinguishable from zero; otherwise precision is raised.
+ */
+function verifiedNumericSeries(digits: number, compute: (workDigits: number) => LaurentSeries<Real>): Omit<SeriesResult, 'prefactor'> {
+  let coarseGuard = 10;
+  let fineGuard = 30;
+  for (let attempt = 0; attempt < 4; attempt++) {
+    const coarse = compute(digits + coarseGuard);
+    const fine = compute(digits + fineGuard);
+    const R = realContext(digits + fineGuard + 5);
+    const ratio = new R(10).pow(coarseGuard - fineGuard);
+    const out: string[] = [];
+    let ok = true;
+    const fc = fine.coefficients();
+    const cc = coarse.coefficients();
+    const scale = fc.reduce((m, c) => (c.abs().gt(m) ? c.abs() : m), new R(0));
+    for (let i = 0; i < fc.length; i++) {
+      const f = new R(fc[i]);
+      const error = f.minus(cc[i]).abs().times(ratio);
+      const noiseFloor = new R(10).pow(-(digits + fineGuard - 3)).times(scale.isZero() ? 1 : scale);
+      if (f.abs().lte(error.times(10)) || f.abs().lte(noiseFloor)) {
+        out.push('0');
+        continue;
+      }
+      const ulp = new R(10).pow(f.abs().log(10).floor().minus(digits - 1));
+      if (error.gt(ulp.div(20))) {
+        ok = false;
+        break;
+      }
+      out.push(formatReal(new (realContext(digits))(f).toSignificantDigits(digits), digits));
+    }
+    if (ok) return { lowest: fine.lowest, order: fine.order, coeffs: out };
+    coarseGuard = fineGuard;
+    fineGuard *= 2;
+  }
+  return limit('could not reach the requested digits (severe cancellation)');
+}
+
+// ---- pade ---------------------------------------------------------------------------------------
+
+function runPade(job: PadeJob): PadeResult {
+  const n = job.coeffs.length - 1;
+  if ((job.L === undefined) !== (job.M === undefined)) throw new EngineError('invalid', 'give both L and M, or neither for the full table');
+  if (job.digits * (n + 1) > JOB_LIMITS.maxDigitsTimesTerms) limit('digits × coefficients too large');
+  const interval = job.interval;
+  if (job.L !== undefined && job.M !== undefined) {
+    const approximant = padeApproximant(job.coeffs, job.L, job.M, job.digits);
+    const poles = interval ? polesInInterval(approximant, interval[0], interval[1], job.digits) : [];
+    const entry: PadeEntry = {
+      L: job.L,
+      M: job.M,
+      numerator: approximant.numerator.map((c) => formatPadeCoefficient(c, job.digits)),
+      denominator: approximant.denominator.map((c) => formatPadeCoefficient(c, job.digits)),
+      poles: poles.map((p) => formatReal(p, job.digits)),
+      flagged: poles.length > 0,
+    };
+    if (job.at !== undefined) entry.value = formatReal(evaluatePade(approximant, job.at, job.digits), job.digits);
+    return entry;
+  }
+  const table = padeTable(job.coeffs, n, job.digits, { at: job.at, interval });
+  return {
+    table: table.map((t) => {
+      const entry: PadeEntry = { L: t.L, M: t.M, poles: t.poles.map((p) => formatReal(p, job.digits)), flagged: t.flagged };
+      if (t.approximant) {
+        entry.numerator = t.approximant.numerator.map((c) => formatPadeCoefficient(c, job.digits));
+        entry.denominator = t.approximant.denominator.map((c) => formatPadeCoefficient(c, job.digits));
+      }
+      if (t.value) entry.value = formatReal(t.value, job.digits);
+      if (t.error) entry.error = t.error;
+      return entry;
+    }),
+  };
+}
+
+function formatPadeCoefficient(c: Real, digits: number): string {
+  return formatReal(new (realContext(digits))(c).toSignificantDigits(digits), digits);
+}
