@@ -232,7 +232,7 @@ function verifiedNumericSeries(digits: number, compute: (workDigits: number) => 
         out.push('0');
         continue;
       }
-      const ulp = new R(10).pow(f.abs().log(10).floor().minus(digits - 1));
+      const ulp = new R(10).pow(f.e - (digits - 1));
       if (error.gt(ulp.div(20))) {
         ok = false;
         break;

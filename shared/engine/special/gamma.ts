@@ -197,14 +197,18 @@ function gammaByStirling(x: ExactRational, bits: number): ScaledFixed {
   const z = { num: x.num + shift * x.den, den: x.den };
   const [m, e] = expFixedSplit(lnGammaStirling(z, work), work);
   let mant = m;
+  let exp2 = e;
   if (shift > 0n) {
     const unit = one(work);
     const xf = fromRational(x.num, x.den, work);
     let product = unit;
     for (let j = 0n; j < shift; j++) product = mul(product, xf + j * unit, work);
-    mant = div(mant, product, work);
+    // divide by the normalised product, moving its binary magnitude into the exponent
+    const magnitude = BigInt(product.toString(2).length - 1 - work);
+    mant = div(mant, magnitude > 0n ? product >> magnitude : product, work);
+    if (magnitude > 0n) exp2 -= magnitude;
   }
-  return { mant: changeBits(mant, work, bits), exp2: e };
+  return { mant: changeBits(mant, work, bits), exp2 };
 }
 
 /** Γ(x) = π / (sin(πx)·Γ(1−x))  (DLMF 5.5.3). */
