@@ -39,12 +39,25 @@ export function toReal(x: RealInput, digits = MAX_DIGITS + GUARD_DIGITS): Real {
 }
 
 const DECIMAL_PATTERN = /^([+-]?)(\d*)(?:\.(\d*))?(?:[eE]([+-]?\d+))?$/;
+const PLAIN_DECIMAL = /^(-?)(\d+)\.(\d+)$/;
 
-/** The exact rational value of a finite decimal (string, number or Real). */
+const powersOfTen: bigint[] = [1n];
+/** 10^k as a BigInt, cached (conversions need the same few powers over and over). */
+export function powerOfTen(k: number): bigint {
+  while (powersOfTen.length <= Math.min(k, 4096)) powersOfTen.push(powersOfTen[powersOfTen.length - 1] * 10n);
+  return k < powersOfTen.length ? powersOfTen[k] : 10n ** BigInt(k);
+}
+
+/**
+ * The exact rational value of a finite decimal (string, number or Real). Fractions keep the
+ * denominator 10^k with a non-zero last digit, so integers (and only integers) have den = 1.
+ */
 export function toExactRational(x: RealInput | ExactRational): ExactRational {
   if (typeof x === 'object' && x !== null && 'num' in x && 'den' in x) return x;
   if (typeof x === 'bigint') return { num: x, den: 1n };
   const text = typeof x === 'number' ? numberToDecimalString(x) : typeof x === 'string' ? x.trim() : (x as Decimal).toFixed();
+  const plain = PLAIN_DECIMAL.exec(text);
+  if (plain) return plainDecimal(plain[1], plain[2], plain[3]);
   const m = DECIMAL_PATTERN.exec(text);
   if (!m || (m[2] === '' && (m[3] === undefined || m[3] === ''))) fail('invalid', `not a decimal number: ${JSON.stringify(text).slice(0, 60)}`);
   const [, sign, intPart, fracPart = '', expPart = '0'] = m;
@@ -52,7 +65,15 @@ export function toExactRational(x: RealInput | ExactRational): ExactRational {
   if (!Number.isSafeInteger(exponent) || Math.abs(exponent) > 100000) fail('invalid', 'decimal exponent out of range');
   let num = BigInt((intPart || '0') + fracPart);
   if (sign === '-') num = -num;
-  return exponent >= 0 ? { num: num * 10n ** BigInt(exponent), den: 1n } : reduce(num, 10n ** BigInt(-exponent));
+  return exponent >= 0 ? { num: num * powerOfTen(exponent), den: 1n } : reduce(num, powerOfTen(-exponent));
+}
+
+function plainDecimal(sign: string, intPart: string, fracPart: string): ExactRational {
+  let end = fracPart.length;
+  while (end > 0 && fracPart.charCodeAt(end - 1) === 48) end--;
+  const frac = fracPart.slice(0, end);
+  const magnitude = BigInt(intPart + frac);
+  return { num: sign === '-' ? -magnitude : magnitude, den: powerOfTen(frac.length) };
 }
 
 function numberToDecimalString(x: number): string {
@@ -79,8 +100,15 @@ export function reduce(num: bigint, den: bigint): ExactRational {
 
 const LOG10_2 = 0.30102999566398120;
 
+/** Bit length, estimated through a double when the value fits (off by at most one). */
+function approximateBitLength(v: bigint): number {
+  const n = Number(v);
+  if (n < 1e300) return n < 1 ? 0 : Math.floor(Math.log2(n)) + 1;
+  return bitLength(v);
+}
+
 /**
- * Round a fixed-point value to a Real with `digits` significant digits (plus nothing else).
+ * Round a fixed-point value to a Real with `digits` significant digits.
  * `scaleExponent2` multiplies the value by 2^scaleExponent2 first (used for huge Γ values).
  */
 export function fixedToReal(v: Fixed, bits: number, digits: number, scaleExponent2 = 0n): Real {
@@ -94,14 +122,25 @@ export function fixedToReal(v: Fixed, bits: number, digits: number, scaleExponen
     const scaled = new big(mant).times(new big(2).pow(new big(scaleExponent2.toString())));
     return new ctx(negative ? scaled.neg() : scaled).toSignificantDigits(digits);
   }
-  const binaryExponent = bitLength(magnitude) - bits;
+  const binaryExponent = approximateBitLength(magnitude) - bits;
   const decimalExponent = Math.floor(binaryExponent * LOG10_2);
   const shift = digits + 3 - decimalExponent;
-  let scaledInt: bigint;
-  if (shift >= 0) scaledInt = roundShift(magnitude * 10n ** BigInt(shift), bits);
-  else scaledInt = roundShift(magnitude / 10n ** BigInt(-shift), bits);
-  const text = `${negative ? '-' : ''}${scaledInt}e${-shift}`;
-  return new ctx(text).toSignificantDigits(digits);
+  let scaled = shift >= 0 ? roundShift(magnitude * powerOfTen(shift), bits) : roundShift(magnitude / powerOfTen(-shift), bits);
+  let exponent = -shift;
+  // keep exactly `digits` significant digits, rounding half up on the integer
+  let text = scaled.toString();
+  const extra = text.length - digits;
+  if (extra > 0) {
+    const unit = powerOfTen(extra);
+    scaled = (scaled + unit / 2n) / unit;
+    exponent += extra;
+    text = scaled.toString();
+    if (text.length > digits) {
+      text = text.slice(0, digits);
+      exponent += 1;
+    }
+  }
+  return new ctx(`${negative ? '-' : ''}${text}e${exponent}`);
 }
 
 function roundShift(v: bigint, bits: number): bigint {

@@ -1,4 +1,4 @@
-import { type Fixed, bitLength } from '../precision/fixed';
+import { type Fixed } from '../precision/fixed';
 import { fail } from '../precision/errors';
 
 /** Absolute error (in units of 2^-bits) the special-function kernels stay below, with margin. */
@@ -18,7 +18,7 @@ export function withRelativeAccuracy(
   let bits = startBits;
   for (let attempt = 0; attempt < MAX_RETRIES; attempt++) {
     const value = kernel(bits);
-    const significant = bitLength(value) - ERROR_ULPS_BITS;
+    const significant = approximateBitLength(value) - ERROR_ULPS_BITS;
     if (significant >= targetBits) return { value, bits };
     const deficit = value === 0n ? bits : targetBits - significant;
     bits += deficit + 16;
@@ -31,4 +31,10 @@ export function log2Factorial(n: number): number {
   let s = 0;
   for (let i = 2; i <= n; i++) s += Math.log2(i);
   return s;
+}
+
+function approximateBitLength(v: bigint): number {
+  const n = Math.abs(Number(v));
+  if (n < 1e300) return n < 1 ? 0 : Math.floor(Math.log2(n)) + 1;
+  return (v < 0n ? -v : v).toString(2).length;
 }

@@ -88,6 +88,91 @@ export function hornerWithDerivatives(coeffs: Fixed[], t: Fixed, bits: number, d
   return acc;
 }
 
+/*
+ * Evaluation speed: the table above is re-expanded about four centres u0 = −3/8, −1/8, 1/8, 3/8,
+ * so |t − u0| ≤ 1/8 and far fewer terms are needed; the smallest high-order terms are summed in
+ * double precision (their total is below 2^-(bits−60), so 53 bits of relative accuracy suffice).
+ */
+interface CenteredTable {
+  coeffs: Fixed[];
+  doubles: number[];
+  /** Terms from this index up are summed in double precision. */
+  splitIndex: number;
+}
+const CENTRE_COUNT = 4;
+const centredTables = new Map<number, CenteredTable[]>();
+
+function centredReciprocalGamma(bits: number): CenteredTable[] {
+  const cached = centredTables.get(bits);
+  if (cached) return cached;
+  const work = bits + 16;
+  const base = reciprocalGammaTaylor(work);
+  const tables: CenteredTable[] = [];
+  for (let j = 0; j < CENTRE_COUNT; j++) {
+    // u0 = (2j − 3)/8: b_m = Σ_{k≥m} c_k C(k,m) u0^{k−m}
+    const u0 = fromRational(BigInt(2 * j - 3), 8n, work);
+    const shifted: Fixed[] = [];
+    for (let m = 0; m < base.length; m++) {
+      let sum = 0n;
+      let binomial = 1n;
+      let power = one(work);
+      for (let k = m; k < base.length; k++) {
+        sum += mul(base[k], power, work) * binomial;
+        binomial = (binomial * BigInt(k + 1)) / BigInt(k + 1 - m);
+        power = mul(power, u0, work);
+      }
+      shifted.push(sum);
+    }
+    // drop terms below 2^-(bits+4) at |v| = 1/8 (with room for second derivatives)
+    let last = shifted.length - 1;
+    const negligible = (m: number) => ((shifted[m] < 0n ? -shifted[m] : shifted[m]) * BigInt((m + 1) * (m + 1))) >> BigInt(3 * m + work - bits - 4) === 0n;
+    while (last > 0 && negligible(last)) last--;
+    const coeffs = shifted.slice(0, last + 1).map((c) => changeBits(c, work, bits));
+    const doubles = coeffs.map((c) => Number(c) / 2 ** bits);
+    let splitIndex = coeffs.length;
+    const tailThreshold = 2 ** -(bits - 60);
+    while (splitIndex > 1 && Math.abs(doubles[splitIndex - 1]) * (splitIndex * splitIndex) * 8 ** -(splitIndex - 1) < tailThreshold) splitIndex--;
+    tables.push({ coeffs, doubles, splitIndex });
+  }
+  centredTables.set(bits, tables);
+  return tables;
+}
+
+/** A double converted exactly (all 53 bits kept) to fixed point. */
+function doubleToFixed(a: number, bits: number): Fixed {
+  if (a === 0) return 0n;
+  const k = 52 - Math.floor(Math.log2(Math.abs(a)));
+  // scale in two steps so neither power of two overflows a double
+  const mantissa = BigInt(Math.round(k > 1000 ? a * 2 ** 1000 * 2 ** (k - 1000) : a * 2 ** k));
+  return bits >= k ? mantissa << BigInt(bits - k) : mantissa >> BigInt(k - bits);
+}
+
+/**
+ * 1/Γ(1+t) and its derivatives (up to 2) at t = tNum/den ∈ [−1/2, 1/2]:
+ * returns [R, R', R''] (as many as asked), fixed point at `bits`.
+ */
+export function reciprocalGammaNearOne(tNum: bigint, den: bigint, bits: number, derivatives: number): Fixed[] {
+  const index = Math.min(CENTRE_COUNT - 1, Math.max(0, Number(((2n * tNum + den) * BigInt(CENTRE_COUNT)) / (2n * den))));
+  const table = centredReciprocalGamma(bits)[index];
+  // v = t − u0 = (8 tNum − (2j−3) den) / (8 den)
+  const v = fromRational(8n * tNum - BigInt(2 * index - 3) * den, 8n * den, bits);
+  const vd = Number(v) / 2 ** bits;
+  const { coeffs, doubles, splitIndex } = table;
+  const accD = [0, 0, 0];
+  for (let k = doubles.length - 1; k >= splitIndex; k--) {
+    for (let d = derivatives; d >= 1; d--) accD[d] = accD[d] * vd + accD[d - 1];
+    accD[0] = accD[0] * vd + doubles[k];
+  }
+  const B = BigInt(bits);
+  const acc: Fixed[] = accD.slice(0, derivatives + 1).map((a) => doubleToFixed(a, bits));
+  for (let k = splitIndex - 1; k >= 0; k--) {
+    for (let d = derivatives; d >= 1; d--) acc[d] = ((acc[d] * v) >> B) + acc[d - 1];
+    acc[0] = ((acc[0] * v) >> B) + coeffs[k];
+  }
+  if (derivatives >= 2) acc[2] *= 2n;
+  return acc;
+}
+
 // ---------------------------------------------------------------------------------------------
 // Stirling series: ln Γ(z) = (z−½)ln z − z + ½ln(2π) + Σ_k B_{2k}/(2k(2k−1) z^{2k−1})  (DLMF 5.11.1)
 
@@ -181,11 +266,18 @@ function factorial(n: bigint): bigint {
 function gammaByTaylor(x: ExactRational, bits: number): ScaledFixed {
   const work = bits + 8;
   const n = nearestInteger(x);
-  const t = fromRational(x.num - n * x.den, x.den, work);
-  const [r] = hornerWithDerivatives(reciprocalGammaTaylor(work), t, work, 0);
+  const tNum = x.num - n * x.den;
+  const [r] = reciprocalGammaNearOne(tNum, x.den, work, 0);
+  if (n <= 1n) return { mant: changeBits(div(one(work), r, work), work, bits), exp2: 0n };
+  // Γ(1+t+m) = Γ(1+t)·Π_{j=1}^{m}(t+j)
   const unit = one(work);
-  let product = unit;
-  for (let j = 1n; j < n; j++) product = mul(product, t + j * unit, work);
+  const B = BigInt(work);
+  let factor = fromRational(tNum, x.den, work) + unit;
+  let product = factor;
+  for (let j = 2n; j < n; j++) {
+    factor += unit;
+    product = (product * factor) >> B;
+  }
   return { mant: changeBits(div(product, r, work), work, bits), exp2: 0n };
 }
 

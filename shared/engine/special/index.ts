@@ -12,7 +12,7 @@ export { bernoulliExact } from './bernoulli';
 export { zetaEvenRationalFactor } from './zeta';
 
 /** Guard bits every public function adds on entry (results are rounded to `digits` on exit). */
-const GUARD_BITS = 40;
+const GUARD_BITS = 20;
 
 function checkDigits(digits: number): void {
   if (!Number.isInteger(digits) || digits < 1 || digits > MAX_DIGITS + 200) fail('limit', `digits must be an integer in ${MIN_DIGITS}..${MAX_DIGITS}`);

@@ -7,11 +7,10 @@ import {
   TAYLOR_PATH_MAX_BITS,
   TAYLOR_PATH_MAX_X,
   asymptoticThreshold,
-  hornerWithDerivatives,
   isNonPositiveInteger,
   log2AbsRational,
   nearestInteger,
-  reciprocalGammaTaylor,
+  reciprocalGammaNearOne,
 } from './gamma';
 import { bitsNearInteger, cotPi } from './trigonometric';
 
@@ -51,7 +50,7 @@ function polygammaByTaylor(n: number, x: ExactRational, bits: number): Fixed {
   }
   const m = nearestInteger(x);
   const t = fromRational(x.num - m * x.den, x.den, bits);
-  const [r0, r1, r2] = hornerWithDerivatives(reciprocalGammaTaylor(bits), t, bits, n + 1);
+  const [r0, r1, r2] = reciprocalGammaNearOne(x.num - m * x.den, x.den, bits, n + 1);
   // P(t) = Π_{j=1}^{m−1} (t+j) with derivatives, so Σ 1/(t+j) = P'/P and Σ 1/(t+j)² = (P'/P)² − P''/P
   let p0 = unit;
   let p1 = 0n;
