@@ -1,0 +1,44 @@
+import { fireEvent, screen, waitFor } from '@testing-library/react-native';
+import { SignInForm } from '../../components/auth/SignInForm';
+import { mockFetchOnce, renderWithQueryClient } from './testUtils';
+
+jest.mock('expo-router', () => ({ Link: ({ children }: { children: unknown }) => children }));
+
+beforeEach(() => {
+  global.fetch = jest.fn();
+});
+
+describe('SignInForm', () => {
+  it('points out a malformed e-mail without asking the server', () => {
+    renderWithQueryClient(<SignInForm onSignedIn={jest.fn()} />);
+    fireEvent.changeText(screen.getByTestId('sign-in-email'), 'not-an-email');
+    fireEvent.changeText(screen.getByTestId('sign-in-password'), 'something');
+    fireEvent.press(screen.getByTestId('sign-in-submit'));
+    expect(screen.getByTestId('sign-in-email-error')).toHaveTextContent('Enter a valid e-mail address');
+    expect(global.fetch).not.toHaveBeenCalled();
+  });
+
+  it("shows the server's message for a wrong password and stays on the form", async () => {
+    mockFetchOnce(401, { error: { code: 'wrong_credentials', message: 'E-mail or password is not correct.' } });
+    const onSignedIn = jest.fn();
+    renderWithQueryClient(<SignInForm onSignedIn={onSignedIn} />);
+    fireEvent.changeText(screen.getByTestId('sign-in-email'), 'lead@demo.rungbook.example');
+    fireEvent.changeText(screen.getByTestId('sign-in-password'), 'wrong-password');
+    fireEvent.press(screen.getByTestId('sign-in-submit'));
+    await waitFor(() => expect(screen.getByTestId('sign-in-error')).toHaveTextContent('E-mail or password is not correct.'));
+    expect(onSignedIn).not.toHaveBeenCalled();
+    const [url, init] = (global.fetch as jest.Mock).mock.calls[0];
+    expect(url).toBe('/api/auth/sign-in');
+    expect(JSON.parse(init.body)).toEqual({ email: 'lead@demo.rungbook.example', password: 'wrong-password' });
+  });
+
+  it('calls back once signed in', async () => {
+    mockFetchOnce(200, { user: { id: 'u1', name: 'Invented', email: 'a@b.example', siteRole: 'member' } });
+    const onSignedIn = jest.fn();
+    renderWithQueryClient(<SignInForm onSignedIn={onSignedIn} />);
+    fireEvent.changeText(screen.getByTestId('sign-in-email'), 'a@b.example');
+    fireEvent.changeText(screen.getByTestId('sign-in-password'), 'right-password');
+    fireEvent.press(screen.getByTestId('sign-in-submit'));
+    await waitFor(() => expect(onSignedIn).toHaveBeenCalledTimes(1));
+  });
+});
