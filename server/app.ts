@@ -50,7 +50,7 @@ export function createApp(services: Services): Express {
   app.use(
     pinoHttp({
       logger: services.logger,
-      customLogLevel: (_req, res, error) => (error || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
+      customLogLevel: (_req, res, error) => (error || res.statusCode >= 500 ? 'error' : 'info'),
       serializers: { req: (req) => ({ method: req.method, url: req.url }), res: (res) => ({ status: res.statusCode }) },
     }),
   );

@@ -1,0 +1,148 @@
+import assert from 'node:assert/strict';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { after, before, describe, test } from 'node:test';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+
+const BASE_URL = process.env.E2E_BASE_URL ?? 'http://127.0.0.1:8080';
+const ARTIFACTS = path.resolve(__dirname, '..', '..', 'test-artifacts', 'e2e');
+const ADMIN = { email: 'admin@demo.rungbook.example', password: 'demo-admin-pass' };
+
+const viewports = [
+  { name: 'phone', width: 390, height: 844 },
+  { name: 'wide', width: 1440, height: 900 },
+];
+
+async function openBrowser(viewport: { width: number; height: number }): Promise<BrowserContext> {
+  return chromium.launchPersistentContext(fs.mkdtempSync(path.join(os.tmpdir(), 'rungbook-chromium-')), {
+    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    headless: true,
+    viewport,
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+}
+
+async function signIn(page: Page, email: string, password: string) {
+  await page.goto(`${BASE_URL}/sign-in`);
+  await page.getByTestId('sign-in-email').fill(email);
+  await page.getByTestId('sign-in-password').fill(password);
+  await page.getByTestId('sign-in-submit').click();
+}
+
+async function expectNotebooksScreen(page: Page) {
+  await page.waitForURL(`${BASE_URL}/notebooks`);
+  await page.getByTestId('notebooks-empty').waitFor();
+  // The ε-expansion definition is typeset by KaTeX (its MathML keeps the TeX source).
+  const formula = page.getByTestId('epsilon-definition');
+  await formula.locator('.katex').first().waitFor();
+  assert.match((await formula.locator('annotation').textContent()) ?? '', /\\varepsilon = 2s - d/);
+}
+
+async function signOut(page: Page) {
+  await page.getByTestId('nav-account').click();
+  await page.getByTestId('sign-out').click();
+  await page.waitForURL(`${BASE_URL}/sign-in`);
+}
+
+for (const viewport of viewports) {
+  describe(`in Chromium at ${viewport.name} size (${viewport.width}×${viewport.height})`, () => {
+    let context: BrowserContext;
+    let page: Page;
+    const shot = (step: string) => page.screenshot({ path: path.join(ARTIFACTS, `${viewport.name}-${step}.png`), fullPage: true });
+    const person = {
+      name: `Invented Tester ${viewport.name}`,
+      email: `tester-${viewport.name}-${Date.now()}@test.rungbook.example`,
+      password: 'first-password-123',
+    };
+
+    before(async () => {
+      fs.mkdirSync(ARTIFACTS, { recursive: true });
+      context = await openBrowser(viewport);
+      page = context.pages()[0] ?? (await context.newPage());
+    });
+    after(() => context?.close());
+
+    test('create account → notebooks → sign out → sign in → notebooks', async () => {
+      await page.goto(BASE_URL);
+      await page.waitForURL(`${BASE_URL}/sign-in`);
+      await shot('01-sign-in');
+      await page.getByTestId('to-sign-up').click();
+      await page.getByTestId('sign-up-name').fill(person.name);
+      await page.getByTestId('sign-up-email').fill(person.email);
+      await page.getByTestId('sign-up-password').fill(person.password);
+      await shot('02-sign-up');
+      await page.getByTestId('sign-up-submit').click();
+      await expectNotebooksScreen(page);
+      await page.getByTestId(viewport.width >= 1024 ? 'side-rail' : 'bottom-bar').waitFor();
+      await shot('03-notebooks');
+      await signOut(page);
+      await signIn(page, person.email, person.password);
+      await expectNotebooksScreen(page);
+      await signOut(page);
+    });
+
+    test('a wrong password and a duplicate account each get a clear message', async () => {
+      await signIn(page, person.email, 'not-my-password');
+      const error = page.getByTestId('sign-in-error');
+      await error.waitFor();
+      assert.match(await error.innerText(), /E-mail or password is not correct/);
+      await shot('04-wrong-password');
+
+      await page.goto(`${BASE_URL}/sign-up`);
+      await page.getByTestId('sign-up-name').fill('Someone Else (invented)');
+      await page.getByTestId('sign-up-email').fill(person.email.toUpperCase());
+      await page.getByTestId('sign-up-password').fill('another-password-1');
+      await page.getByTestId('sign-up-submit').click();
+      await page.getByTestId('sign-up-email-error').waitFor();
+      assert.match(await page.getByTestId('sign-up-email-error').innerText(), /already registered/);
+      assert.match(await page.getByTestId('sign-up-error').innerText(), /already exists/);
+      await shot('05-duplicate-account');
+    });
+
+    test('forgot password → message in the mail capture → follow the link → new password works', async () => {
+      await page.goto(`${BASE_URL}/sign-in`);
+      await page.getByTestId('to-forgot').click();
+      await page.getByTestId('forgot-email').fill(person.email);
+      await page.getByTestId('forgot-submit').click();
+      await page.getByTestId('forgot-sent').waitFor();
+      await shot('06-forgot-sent');
+
+      // An administrator opens the captured mail in their own browser and reads the link.
+      const adminContext = await openBrowser(viewport);
+      const adminPage = adminContext.pages()[0] ?? (await adminContext.newPage());
+      let link: string;
+      try {
+        await signIn(adminPage, ADMIN.email, ADMIN.password);
+        await adminPage.waitForURL(`${BASE_URL}/notebooks`);
+        await adminPage.getByTestId('nav-mail').click();
+        const message = adminPage.getByTestId('captured-message').filter({ hasText: person.email }).filter({ hasText: 'Reset your Rungbook password' }).first();
+        await message.waitFor();
+        link = (await message.getByRole('link').first().innerText()).trim();
+        await adminPage.screenshot({ path: path.join(ARTIFACTS, `${viewport.name}-07-captured-mail.png`), fullPage: true });
+      } finally {
+        await adminContext.close();
+      }
+      assert.match(link, new RegExp(`^${BASE_URL.replace(/[.]/g, '\\.')}/reset-password\\?token=`));
+
+      await page.goto(link);
+      await page.getByTestId('reset-password').fill('second-password-456');
+      await page.getByTestId('reset-submit').click();
+      await page.getByTestId('reset-done').waitFor();
+      await shot('08-reset-done');
+
+      await signIn(page, person.email, person.password);
+      await page.getByTestId('sign-in-error').waitFor();
+      await signIn(page, person.email, 'second-password-456');
+      await expectNotebooksScreen(page);
+
+      // The link works only once.
+      await page.goto(link);
+      await page.getByTestId('reset-password').fill('third-password-789');
+      await page.getByTestId('reset-submit').click();
+      await page.getByTestId('reset-error').waitFor();
+      assert.match(await page.getByTestId('reset-error').innerText(), /invalid, already used or expired/);
+      await shot('09-reset-link-reused');
+    });
+  });
+}

@@ -1,0 +1,106 @@
+// End-to-end runner: makes sure Chromium and a current web export exist, starts the real server on a
+// fresh database with its mail capture, runs the browser flows against it, then stops it gracefully.
+import { execFileSync, spawn, spawnSync } from 'node:child_process';
+import fs from 'node:fs';
+import net from 'node:net';
+import os from 'node:os';
+import path from 'node:path';
+
+const ROOT = path.resolve(__dirname, '..', '..');
+const CHROMIUM = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
+const SOURCE_DIRS = ['app', 'components', 'hooks', 'constants', 'shared', 'assets', 'public'];
+
+function ensureChromium() {
+  if (fs.existsSync(CHROMIUM)) return;
+  if (process.getuid?.() !== 0) {
+    throw new Error(`Chromium is missing at ${CHROMIUM}. Install it with "sudo apt-get install -y chromium" or set CHROMIUM_PATH.`);
+  }
+  console.log('e2e: Chromium missing, installing it with apt-get …');
+  execFileSync('apt-get', ['update', '-qq'], { stdio: 'inherit' });
+  execFileSync('apt-get', ['install', '-y', '-qq', 'chromium'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+}
+
+function newestMtime(dir: string): number {
+  if (!fs.existsSync(dir)) return 0;
+  let newest = 0;
+  for (const entry of fs.readdirSync(dir, { withFileTypes: true })) {
+    const full = path.join(dir, entry.name);
+    newest = Math.max(newest, entry.isDirectory() ? newestMtime(full) : fs.statSync(full).mtimeMs);
+  }
+  return newest;
+}
+
+function ensureWebExport() {
+  const index = path.join(ROOT, 'dist', 'index.html');
+  const builtAt = fs.existsSync(index) ? fs.statSync(index).mtimeMs : 0;
+  const changedAt = Math.max(...SOURCE_DIRS.map((dir) => newestMtime(path.join(ROOT, dir))));
+  if (builtAt > changedAt) return console.log('e2e: web export is current');
+  console.log('e2e: exporting the web app …');
+  const started = Date.now();
+  execFileSync('npm', ['run', '--silent', 'build:web'], { cwd: ROOT, stdio: 'inherit' });
+  console.log(`e2e: web export took ${((Date.now() - started) / 1000).toFixed(1)} s`);
+}
+
+function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const probe = net.createServer();
+    probe.once('error', reject);
+    probe.listen(0, '127.0.0.1', () => {
+      const { port } = probe.address() as net.AddressInfo;
+      probe.close(() => resolve(port));
+    });
+  });
+}
+
+async function waitForHealth(url: string, server: ReturnType<typeof spawn>) {
+  const deadline = Date.now() + 60_000;
+  while (Date.now() < deadline) {
+    if (server.exitCode !== null) throw new Error(`server exited early with code ${server.exitCode}`);
+    try {
+      const reply = await fetch(`${url}/api/health`);
+      if (reply.ok) return;
+    } catch {
+      // not listening yet
+    }
+    await new Promise((resolve) => setTimeout(resolve, 250));
+  }
+  throw new Error('server did not become healthy within 60 s');
+}
+
+async function main() {
+  ensureChromium();
+  ensureWebExport();
+  const port = await freePort();
+  const baseUrl = `http://127.0.0.1:${port}`;
+  const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'rungbook-e2e-'));
+  const server = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts'], {
+    cwd: ROOT,
+    env: { ...process.env, PORT: String(port), PUBLIC_URL: baseUrl, DATABASE_PATH: path.join(dataDir, 'e2e.sqlite'), SMTP_PORT: '0', LOG_LEVEL: 'warn' },
+    stdio: ['ignore', 'inherit', 'inherit'],
+  });
+  let status = 1;
+  try {
+    await waitForHealth(baseUrl, server);
+    const run = spawnSync(
+      process.execPath,
+      ['--import', 'tsx', '--test', '--test-reporter=spec', '--test-concurrency=1', 'tests/e2e/flows.test.ts'],
+      { cwd: ROOT, stdio: 'inherit', env: { ...process.env, E2E_BASE_URL: baseUrl, CHROMIUM_PATH: CHROMIUM } },
+    );
+    status = run.status ?? 1;
+  } finally {
+    const exited = server.exitCode !== null ? Promise.resolve(server.exitCode) : new Promise<number | null>((resolve) => server.once('exit', (code) => resolve(code)));
+    server.kill('SIGTERM');
+    const exitCode = await exited;
+    if (exitCode !== 0) {
+      console.error(`e2e: server did not shut down cleanly (exit ${exitCode})`);
+      status = status || 1;
+    }
+    fs.rmSync(dataDir, { recursive: true, force: true });
+  }
+  process.exit(status);
+}
+
+main().catch((error) => {
+  console.error(`e2e: ${error instanceof Error ? error.message : String(error)}`);
+  process.exit(1);
+});
