@@ -24,6 +24,18 @@ function ensureTangentNumbers(count: number): void {
   tangentNumbers = t;
 }
 
+/**
+ * B_{2k} as an unreduced fraction 2k·T_k / (4^k(4^k − 1)) with sign — no gcd, for building
+ * fixed-point tables where the exact reduced form is not needed (gcd of 10⁴-bit integers is slow).
+ */
+export function bernoulliEvenUnreduced(n: number): ExactRational {
+  if (n < 2 || n % 2 === 1) return bernoulliExact(n);
+  const k = n / 2;
+  ensureTangentNumbers(k);
+  const fourK = 1n << BigInt(2 * k);
+  return { num: (k % 2 === 1 ? 1n : -1n) * BigInt(2 * k) * tangentNumbers[k], den: fourK * (fourK - 1n) };
+}
+
 /** B_n with the convention B_1 = −1/2. */
 export function bernoulliExact(n: number): ExactRational {
   if (!Number.isInteger(n) || n < 0) fail('domain', `Bernoulli index must be a non-negative integer, got ${n}`);

@@ -1,6 +1,6 @@
 import { type ExactRational, type Fixed, changeBits, div, fromInteger, fromRational, mul, one } from '../precision/fixed';
 import { fail } from '../precision/errors';
-import { bernoulliExact } from './bernoulli';
+import { bernoulliEvenUnreduced } from './bernoulli';
 import { eulerGammaFixed, expFixedSplit, ln2Fixed, lnFixedPositive, piFixed } from './constants';
 import { bitsNearInteger, sinCosPi } from './trigonometric';
 import { zetaTableFixed } from './zeta';
@@ -190,7 +190,7 @@ function stirlingTable(bits: number, terms: number): StirlingTable {
     const log2Abs: number[] = [0];
     const size = Math.max(terms + 1, table ? 2 * table.coeffs.length : 32);
     for (let k = 1; k < size; k++) {
-      const b = bernoulliExact(2 * k);
+      const b = bernoulliEvenUnreduced(2 * k);
       const den = b.den * BigInt(2 * k * (2 * k - 1));
       coeffs.push(fromRational(b.num, den, bits));
       log2Abs.push(log2AbsRational(b.num, den));
@@ -214,7 +214,7 @@ export function log2AbsRational(num: bigint, den: bigint): number {
 
 /** Smallest shift target Z for which the Stirling/Bernoulli series reaches 2^-bits. */
 export function asymptoticThreshold(bits: number): number {
-  return Math.max(12, Math.ceil(0.17 * bits));
+  return Math.max(12, Math.ceil(0.25 * bits));
 }
 
 /** ln Γ(z) for z ≥ asymptoticThreshold(bits), z given exactly. */

@@ -1,7 +1,7 @@
 import { type ExactRational, type Fixed, changeBits, div, fromRational, mul, one } from '../precision/fixed';
 import { fail } from '../precision/errors';
 import { log2Factorial } from './accuracy';
-import { bernoulliExact } from './bernoulli';
+import { bernoulliEvenUnreduced } from './bernoulli';
 import { lnFixedPositive, piFixed } from './constants';
 import {
   TAYLOR_PATH_MAX_BITS,
@@ -86,7 +86,7 @@ function asymptoticCoefficients(n: number, bits: number, terms: number): Asympto
     const log2Abs: number[] = [0];
     let rising = 1n; // (2k+n−1)!/(2k)!
     for (let k = 1; k < size; k++) {
-      const b = bernoulliExact(2 * k);
+      const b = bernoulliEvenUnreduced(2 * k);
       let num: bigint;
       let den: bigint;
       if (n === 0) {

@@ -95,10 +95,16 @@ export function zetaRealFixed(x: ExactRational, bits: number): Fixed {
   const work = bits + extra;
   const { weights } = borweinWeights(work);
   const xFixed = fromRational(x.num, x.den, work);
+  // m^{-x} is multiplicative: exp/ln only at primes, products elsewhere
+  const count = weights.length;
+  const smallestFactor = smallestPrimeFactors(count);
+  const powers: Fixed[] = new Array(count + 1);
+  powers[1] = one(work);
   let sum = weights[0];
-  for (let k = 1; k < weights.length; k++) {
-    const lnK = lnFixedPositive(BigInt(k + 1) << BigInt(work), work);
-    sum += mul(weights[k], expFixed(-mul(xFixed, lnK, work), work), work);
+  for (let m = 2; m <= count; m++) {
+    const p = smallestFactor[m];
+    powers[m] = p === m ? expFixed(-mul(xFixed, lnFixedPositive(BigInt(m) << BigInt(work), work), work), work) : mul(powers[p], powers[m / p], work);
+    sum += mul(weights[m - 1], powers[m], work);
   }
   const unit = one(work);
   const twoPower = expFixed(mul(unit - xFixed, ln2Fixed(work), work), work);
@@ -110,4 +116,13 @@ export function zetaTableFixed(maxN: number, bits: number): Fixed[] {
   const table: Fixed[] = [0n, 0n];
   for (let n = 2; n <= maxN; n++) table.push(zetaIntegerFixed(n, bits));
   return table;
+}
+
+function smallestPrimeFactors(limit: number): number[] {
+  const spf = new Array<number>(limit + 1).fill(0);
+  for (let i = 2; i <= limit; i++) {
+    if (spf[i] !== 0) continue;
+    for (let j = i; j <= limit; j += i) if (spf[j] === 0) spf[j] = i;
+  }
+  return spf;
 }
