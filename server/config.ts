@@ -37,7 +37,7 @@ function boolFrom(value: string | undefined, fallback: boolean): boolean {
   return ['1', 'true', 'yes', 'on'].includes(value.toLowerCase());
 }
 
-export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
+export function loadConfig(env: Record<string, string | undefined> = process.env): ServerConfig {
   const port = intFrom(env.PORT, 8080);
   const host = env.HOST ?? '127.0.0.1';
   const publicUrl = (env.PUBLIC_URL ?? `http://localhost:${port}`).replace(/\/+$/, '');
