@@ -1,5 +1,6 @@
 import fs from 'node:fs';
 import path from 'node:path';
+import cors from 'cors';
 import express, { type Express } from 'express';
 import { pinoHttp } from 'pino-http';
 import { apiNotFound, errorHandler, sameOriginGuard, sessionLoader } from './http/middleware';
@@ -13,8 +14,10 @@ import type { Services } from './services';
 
 function apiRouter(services: Services) {
   const router = express.Router();
+  const { publicUrl, extraAppOrigins } = services.config;
+  if (extraAppOrigins.length) router.use(cors({ origin: extraAppOrigins, credentials: true }));
   router.use(express.json({ limit: services.config.bodyLimit }));
-  router.use(sameOriginGuard([services.config.publicUrl], services.sessions.cookieName));
+  router.use(sameOriginGuard([publicUrl, ...extraAppOrigins], services.sessions.cookieName));
   router.post('/auth/sign-in', ...signInLimiters(services.config.signInLimits));
   router.post('/auth/forgot', mailRequestLimiter());
   router.use(sessionLoader(services.sessions));

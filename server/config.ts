@@ -6,6 +6,8 @@ export interface ServerConfig {
   host: string;
   databasePath: string;
   publicUrl: string;
+  /** Other origins allowed to call the API with cookies (e.g. the Expo dev server). */
+  extraAppOrigins: string[];
   webRoot: string;
   logLevel: string;
   mail: MailConfig;
@@ -46,6 +48,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     host,
     databasePath: env.DATABASE_PATH ?? path.resolve('data', 'rungbook.sqlite'),
     publicUrl,
+    extraAppOrigins: (env.APP_ORIGINS ?? '').split(',').map((o) => o.trim().replace(/\/+$/, '')).filter(Boolean),
     webRoot: env.WEB_ROOT ?? path.resolve('dist'),
     logLevel: env.LOG_LEVEL ?? 'info',
     mail: {

@@ -63,3 +63,21 @@ describe('platform: health, routing, body limits, database', () => {
     assert.equal(signIn.body.user.siteRole, 'member');
   });
 });
+
+describe('a separate app origin (development web server)', () => {
+  test('is allowed by CORS with credentials and by the origin check only when listed in APP_ORIGINS', async () => {
+    const devOrigin = 'http://localhost:8081';
+    const h = await startHarness({ APP_ORIGINS: devOrigin });
+    try {
+      // CORS preflight semantics per the Fetch standard: the allowed origin is echoed, credentials allowed.
+      const preflight = await h.raw.options('/api/auth/sign-up').set('Origin', devOrigin).set('Access-Control-Request-Method', 'POST').expect(204);
+      assert.equal(preflight.headers['access-control-allow-origin'], devOrigin);
+      assert.equal(preflight.headers['access-control-allow-credentials'], 'true');
+      await h.raw.post('/api/auth/sign-up').set('Origin', devOrigin).send({ name: 'Dev Person', email: 'dev@test.rungbook.example', password: 'long-enough-pass' }).expect(201);
+      const other = await h.raw.options('/api/auth/sign-up').set('Origin', 'http://localhost:9999').set('Access-Control-Request-Method', 'POST');
+      assert.equal(other.headers['access-control-allow-origin'], undefined);
+    } finally {
+      await h.close();
+    }
+  });
+});
