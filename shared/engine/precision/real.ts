@@ -116,6 +116,8 @@ export function fixedToReal(v: Fixed, bits: number, digits: number, scaleExponen
   if (v === 0n) return new ctx(0);
   const negative = v < 0n;
   const magnitude = negative ? -v : v;
+  if (scaleExponent2 < 0n && scaleExponent2 > -100000n) return fixedToReal(v, bits - Number(scaleExponent2), digits);
+  if (scaleExponent2 > 0n && scaleExponent2 < 100000n) return fixedToReal(v << scaleExponent2, bits, digits);
   if (scaleExponent2 !== 0n) {
     const big = realContext(digits + 10);
     const mant = fixedToReal(magnitude, bits, digits + 8);

@@ -306,10 +306,17 @@ function gammaByStirling(x: ExactRational, bits: number): ScaledFixed {
 /** Γ(x) = π / (sin(πx)·Γ(1−x))  (DLMF 5.5.3). */
 function gammaByReflection(x: ExactRational, bits: number): ScaledFixed {
   const work = bits + bitsNearInteger(x) + 8;
-  const g = gammaScaled({ num: x.den - x.num, den: x.den }, work);
+  const g = normalised(gammaScaled({ num: x.den - x.num, den: x.den }, work), work);
   const { sin } = sinCosPi(x, work);
   const mant = div(piFixed(work), mul(sin, g.mant, work), work);
   return { mant: changeBits(mant, work, bits), exp2: -g.exp2 };
+}
+
+/** Move the binary magnitude of the mantissa into the exponent (mant ∈ [1,2)·2^bits). */
+function normalised(v: ScaledFixed, bits: number): ScaledFixed {
+  const shift = v.mant.toString(2).length - 1 - bits;
+  if (shift <= 0) return v;
+  return { mant: v.mant >> BigInt(shift), exp2: v.exp2 + BigInt(shift) };
 }
 
 /** ln Γ(x) for x > 0. */

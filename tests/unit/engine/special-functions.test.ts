@@ -29,6 +29,10 @@ test('values at 100–500 digits against mpmath (reference library)', () => {
   assertDigits(special.digamma({ num: 1n, den: 3n }, 100), MPMATH['psi_1/3'], 100, 'psi(1/3)');
   assertDigits(special.trigamma('0.25', 100), MPMATH['psi1_1/4'], 100, "psi'(1/4)");
   assertDigits(special.gamma('-3.7', 100), MPMATH['gamma_-3.7'], 100, 'Gamma(-3.7)');
+  assertDigits(special.gamma('-18.1017323942078', 100), MPMATH['gamma_-18.1017323942078'], 100, 'Gamma(-18.10…)');
+  assertDigits(special.gamma('-60.25', 100), MPMATH['gamma_-60.25'], 100, 'Gamma(-60.25)');
+  assertDigits(special.digamma('-60.25', 100), MPMATH['psi_-60.25'], 100, 'psi(-60.25)');
+  assertDigits(special.polygamma(2, '-30.7', 100), MPMATH['psi2_-30.7'], 100, 'psi2(-30.7)');
   assertDigits(special.polygamma(3, '-1.25', 100), MPMATH['psi3_-1.25'], 100, 'psi3(-1.25)');
   assertDigits(special.polygamma(5, '0.1', 100), MPMATH['psi5_0.1'], 100, 'psi5(0.1)');
   assertDigits(special.zeta('2.5', 100), MPMATH['zeta_2.5'], 100, 'zeta(2.5)');
