@@ -89,9 +89,10 @@ export function hornerWithDerivatives(coeffs: Fixed[], t: Fixed, bits: number, d
 }
 
 /*
- * Evaluation speed: the table above is re-expanded about four centres u0 = −3/8, −1/8, 1/8, 3/8,
- * so |t − u0| ≤ 1/8 and far fewer terms are needed; the smallest high-order terms are summed in
- * double precision (their total is below 2^-(bits−60), so 53 bits of relative accuracy suffice).
+ * Evaluation speed: the table above is re-expanded about CENTRE_COUNT equally spaced centres
+ * u0 = (2j+1−C)/(2C) in [−1/2, 1/2], so |t − u0| ≤ 1/(2C) and far fewer terms are needed; the
+ * smallest high-order terms are summed in double precision (their total is below 2^-(bits−60),
+ * so 53 bits of relative accuracy suffice).
  */
 interface CenteredTable {
   coeffs: Fixed[];
@@ -99,7 +100,8 @@ interface CenteredTable {
   /** Terms from this index up are summed in double precision. */
   splitIndex: number;
 }
-const CENTRE_COUNT = 4;
+const CENTRE_COUNT = 8;
+const HALF_WIDTH_LOG2 = Math.log2(2 * CENTRE_COUNT); // |v| ≤ 2^-HALF_WIDTH_LOG2
 const centredTables = new Map<number, CenteredTable[]>();
 
 function centredReciprocalGamma(bits: number): CenteredTable[] {
@@ -109,8 +111,8 @@ function centredReciprocalGamma(bits: number): CenteredTable[] {
   const base = reciprocalGammaTaylor(work);
   const tables: CenteredTable[] = [];
   for (let j = 0; j < CENTRE_COUNT; j++) {
-    // u0 = (2j − 3)/8: b_m = Σ_{k≥m} c_k C(k,m) u0^{k−m}
-    const u0 = fromRational(BigInt(2 * j - 3), 8n, work);
+    // b_m = Σ_{k≥m} c_k C(k,m) u0^{k−m}
+    const u0 = fromRational(BigInt(2 * j + 1 - CENTRE_COUNT), BigInt(2 * CENTRE_COUNT), work);
     const shifted: Fixed[] = [];
     for (let m = 0; m < base.length; m++) {
       let sum = 0n;
@@ -123,15 +125,15 @@ function centredReciprocalGamma(bits: number): CenteredTable[] {
       }
       shifted.push(sum);
     }
-    // drop terms below 2^-(bits+4) at |v| = 1/8 (with room for second derivatives)
+    // drop terms below 2^-(bits+4) at the largest |v| (with room for second derivatives)
     let last = shifted.length - 1;
-    const negligible = (m: number) => ((shifted[m] < 0n ? -shifted[m] : shifted[m]) * BigInt((m + 1) * (m + 1))) >> BigInt(3 * m + work - bits - 4) === 0n;
+    const negligible = (m: number) => ((shifted[m] < 0n ? -shifted[m] : shifted[m]) * BigInt((m + 1) * (m + 1))) >> BigInt(Math.floor(HALF_WIDTH_LOG2 * m) + work - bits - 4) === 0n;
     while (last > 0 && negligible(last)) last--;
     const coeffs = shifted.slice(0, last + 1).map((c) => changeBits(c, work, bits));
     const doubles = coeffs.map((c) => Number(c) / 2 ** bits);
     let splitIndex = coeffs.length;
     const tailThreshold = 2 ** -(bits - 60);
-    while (splitIndex > 1 && Math.abs(doubles[splitIndex - 1]) * (splitIndex * splitIndex) * 8 ** -(splitIndex - 1) < tailThreshold) splitIndex--;
+    while (splitIndex > 1 && Math.abs(doubles[splitIndex - 1]) * (splitIndex * splitIndex) * 2 ** (-HALF_WIDTH_LOG2 * (splitIndex - 1)) < tailThreshold) splitIndex--;
     tables.push({ coeffs, doubles, splitIndex });
   }
   centredTables.set(bits, tables);
@@ -154,8 +156,9 @@ function doubleToFixed(a: number, bits: number): Fixed {
 export function reciprocalGammaNearOne(tNum: bigint, den: bigint, bits: number, derivatives: number): Fixed[] {
   const index = Math.min(CENTRE_COUNT - 1, Math.max(0, Number(((2n * tNum + den) * BigInt(CENTRE_COUNT)) / (2n * den))));
   const table = centredReciprocalGamma(bits)[index];
-  // v = t − u0 = (8 tNum − (2j−3) den) / (8 den)
-  const v = fromRational(8n * tNum - BigInt(2 * index - 3) * den, 8n * den, bits);
+  // v = t − u0 = (2C·tNum − (2j+1−C)·den) / (2C·den)
+  const twoC = BigInt(2 * CENTRE_COUNT);
+  const v = fromRational(twoC * tNum - BigInt(2 * index + 1 - CENTRE_COUNT) * den, twoC * den, bits);
   const vd = Number(v) / 2 ** bits;
   const { coeffs, doubles, splitIndex } = table;
   const accD = [0, 0, 0];
