@@ -1,21 +1,17 @@
 import { type MathNode, create, parseDependencies } from 'mathjs';
 import {
   type Affine,
-  EngineError,
   type GammaFactor,
   type Q,
-  affine,
   affineAdd,
   affineConstant,
   affineNeg,
   affineParameter,
   affineScale,
-  affineToString,
   fail,
   isConstantAffine,
   q,
   splitEps,
-  substituteAffine,
   toExactRational,
 } from '../engine/index';
 import { JOB_LIMITS } from './limits';
@@ -147,19 +143,7 @@ function toProduct(node: NodeLike, defs: Readonly<Record<string, Affine>>, sourc
 
 const mulQ = (a: Q, b: Q): Q => q(a.num * b.num, a.den * b.den);
 
-export function describe(a: Affine): string {
-  return affineToString(a);
-}
-
 /** Definitions such as d = 2*s − eps, parsed against the parameters. */
 export function parseDefinitions(d: string | undefined): Record<string, Affine> {
   return d === undefined ? {} : { d: parseAffine(d) };
 }
-
-export function substituteAll(a: Affine, values: Readonly<Record<string, Affine>>): Affine {
-  let out = a;
-  for (const [name, v] of Object.entries(values)) out = substituteAffine(out, name, v);
-  return out;
-}
-
-export { EngineError, affine };

@@ -1,7 +1,7 @@
 import { fail } from '../precision/errors';
 import { LaurentSeries } from '../series/laurent';
 import { type Affine, affine, affineToString, isConstantAffine } from '../symbolic/affine';
-import { type Q, Q0, q, qIsInteger, qIsZero, qPowInt } from '../symbolic/rational';
+import { type Q, q, qIsInteger, qIsZero, qPowInt } from '../symbolic/rational';
 import { type ExpansionContext } from './values';
 
 /** An argument x + c·ε of Γ: x affine in the parameters, c rational. */
@@ -94,5 +94,3 @@ export function gammaProductSeries<C>(ctx: ExpansionContext<C>, factors: GammaFa
   if (result.isExact) result = LaurentSeries.of(ring, 0, result.coefficients(), order);
   return result.truncate(order);
 }
-
-export const zeroArgument: GammaArgument = { x: affine(Q0), c: Q0 };

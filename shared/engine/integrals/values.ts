@@ -1,4 +1,3 @@
-import { fail } from '../precision/errors';
 import { type Real } from '../precision/real';
 import { numericRing } from '../series/numeric';
 import { type CoefficientRing } from '../series/ring';
@@ -53,9 +52,4 @@ export function numericContext(at: Readonly<Record<string, Q>>, workingDigits: n
       return { constant: v, terms: [] };
     },
   };
-}
-
-export function requireConstant(x: Affine, what: string): Q {
-  if (!isConstantAffine(x)) fail('invalid', `${what} must not depend on parameters here`);
-  return x.constant;
 }

@@ -97,32 +97,3 @@ export function atanInverse(q: bigint, bits: number): Fixed {
   return sum;
 }
 
-/** exp(a) for |a| ≤ 1 by argument halving and Taylor series; result has ~bits absolute accuracy. */
-export function expSmall(a: Fixed, bits: number): Fixed {
-  const halvings = Math.max(0, Math.ceil(Math.sqrt(bits) / 2));
-  const work = bits + halvings + 8;
-  let x = changeBits(a, bits, work) >> BigInt(halvings);
-  const unit = one(work);
-  let term = unit;
-  let sum = unit;
-  for (let k = 1n; ; k++) {
-    term = mul(term, x, work) / k;
-    if (term === 0n) break;
-    sum += term;
-  }
-  for (let i = 0; i < halvings; i++) sum = mul(sum, sum, work);
-  return changeBits(sum, work, bits);
-}
-
-/** ln(1+u) for |u| small via 2·atanh(u/(2+u)). */
-export function log1pSmall(u: Fixed, bits: number): Fixed {
-  const w = div(u, (2n << BigInt(bits)) + u, bits);
-  const w2 = mul(w, w, bits);
-  let power = w;
-  let sum = 0n;
-  for (let k = 1n; power !== 0n; k += 2n) {
-    sum += power / k;
-    power = mul(power, w2, bits);
-  }
-  return 2n * sum;
-}

@@ -71,23 +71,6 @@ export function reciprocalGammaTaylor(bits: number): Fixed[] {
   }
 }
 
-/** Evaluate Σ c_k t^k and its first `derivatives` derivatives by Horner's rule. */
-export function hornerWithDerivatives(coeffs: Fixed[], t: Fixed, bits: number, derivatives: number): Fixed[] {
-  const acc: Fixed[] = new Array(derivatives + 1).fill(0n);
-  const B = BigInt(bits);
-  for (let k = coeffs.length - 1; k >= 0; k--) {
-    for (let d = derivatives; d >= 1; d--) acc[d] = ((acc[d] * t) >> B) + acc[d - 1];
-    acc[0] = ((acc[0] * t) >> B) + coeffs[k];
-  }
-  // acc[d] holds f^{(d)}/d!
-  let factorial = 1n;
-  for (let d = 2; d <= derivatives; d++) {
-    factorial *= BigInt(d);
-    acc[d] *= factorial;
-  }
-  return acc;
-}
-
 /*
  * Evaluation speed: the table above is re-expanded about CENTRE_COUNT equally spaced centres
  * u0 = (2j+1−C)/(2C) in [−1/2, 1/2], so |t − u0| ≤ 1/(2C) and far fewer terms are needed; the

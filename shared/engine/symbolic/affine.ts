@@ -1,5 +1,5 @@
 import { fail } from '../precision/errors';
-import { type Q, Q0, q, qAdd, qFloor, qIsZero, qMul, qNeg, qSub, qToString } from './rational';
+import { type Q, Q0, q, qAdd, qFloor, qIsZero, qMul, qSub, qToString } from './rational';
 
 /** c + Σ a_i·p_i with rational coefficients in named parameters (the arguments of ψ and Γ atoms). */
 export interface Affine {
@@ -116,5 +116,3 @@ export function latexName(name: string): string {
   if (name.length === 1) return name;
   return `\\mathrm{${name}}`;
 }
-
-export { qNeg };

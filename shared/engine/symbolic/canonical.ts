@@ -1,6 +1,6 @@
 import { fail } from '../precision/errors';
 import { zetaEvenRationalFactor } from '../special/index';
-import { type Affine, affineShift, affineToString, integerShift, isConstantAffine } from './affine';
+import { type Affine, affineShift, integerShift, isConstantAffine } from './affine';
 import { Expression } from './expression';
 import { polyConstant, polyFromAffine, polyMul } from './polynomial';
 import { type Q, q, qAdd, qEquals, qIsZero, qPowInt } from './rational';
@@ -104,7 +104,3 @@ export function gammaExpr(x: Affine): Expression {
 
 const mulQ = (a: Q, b: Q): Q => q(a.num * b.num, a.den * b.den);
 const divQ = (a: Q, b: Q): Q => q(a.num * b.den, a.den * b.num);
-
-export function describeAffine(a: Affine): string {
-  return affineToString(a);
-}

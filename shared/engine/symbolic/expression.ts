@@ -1,6 +1,6 @@
 import { fail } from '../precision/errors';
 import { type Affine, affineKey } from './affine';
-import { type Q, Q0, q, qAdd, qIsInteger, qIsZero, qMul, qNeg, qToString } from './rational';
+import { type Q, Q0, q, qAdd, qIsInteger, qIsZero, qMul, qToString } from './rational';
 import { type RatFunc, ratAdd, ratConstant, ratConstantValue, ratInverse, ratIsZero, ratMul, ratScale } from './ratfunc';
 
 /** The transcendental building blocks of a symbolic coefficient. */
@@ -173,5 +173,3 @@ export class Expression {
     return this.sub(other).isZero();
   }
 }
-
-export { qNeg };

@@ -1,7 +1,7 @@
 import { fail } from '../precision/errors';
 import { lcm } from './util';
 import { type Affine, joinSigned, latexName, latexRational } from './affine';
-import { type Q, Q0, q, qAdd, qDiv, qIsZero, qMul, qNeg, qPowInt, qToString } from './rational';
+import { type Q, Q0, q, qAdd, qDiv, qIsZero, qMul, qPowInt, qToString } from './rational';
 
 /** Multivariate polynomial over Q; a monomial is a sorted list of [variable, exponent ≥ 1]. */
 export type PolyMonomial = ReadonlyArray<readonly [string, number]>;
@@ -194,5 +194,3 @@ export function polyToLatex(p: Poly): string {
     }),
   );
 }
-
-export { qNeg };

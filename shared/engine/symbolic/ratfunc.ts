@@ -17,7 +17,7 @@ import {
   polyToString,
   polyVariables,
 } from './polynomial';
-import { type Q, q, qDiv, qIsZero, qMul, qPowInt } from './rational';
+import { type Q, q, qDiv, qIsZero, qPowInt } from './rational';
 
 /**
  * Rational function numerator / Π factor^power. Factors are primitive integer polynomials with a
@@ -207,5 +207,3 @@ export function factorToLatex(f: Factor): string {
   const base = polyTermCount(f.poly) > 1 ? `(${polyToLatex(f.poly)})` : polyToLatex(f.poly);
   return f.power === 1 ? base : `${base}^{${f.power}}`;
 }
-
-export { qMul };

@@ -3,7 +3,6 @@ import assert from 'node:assert/strict';
 import fc from 'fast-check';
 import {
   LaurentSeries,
-  affine,
   affineParameter,
   evaluatePade,
   expressionToString,
