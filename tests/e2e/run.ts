@@ -81,9 +81,10 @@ async function main() {
   let status = 1;
   try {
     await waitForHealth(baseUrl, server);
+    const specs = fs.readdirSync(path.join(ROOT, 'tests', 'e2e')).filter((f) => f.endsWith('.test.ts')).sort().map((f) => `tests/e2e/${f}`);
     const run = spawnSync(
       process.execPath,
-      ['--import', 'tsx', '--test', '--test-reporter=spec', '--test-concurrency=1', 'tests/e2e/flows.test.ts'],
+      ['--import', 'tsx', '--test', '--test-reporter=spec', '--test-concurrency=1', ...specs],
       { cwd: ROOT, stdio: 'inherit', env: { ...process.env, E2E_BASE_URL: baseUrl, CHROMIUM_PATH: CHROMIUM } },
     );
     status = run.status ?? 1;

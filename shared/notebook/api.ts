@@ -1,0 +1,120 @@
+import { z } from 'zod';
+import { cellInput, cellLabel, type CellInput, type CellKind } from './cells';
+import type { CellState } from './dependencies';
+
+/** Request bodies of the notebook API. */
+export const createNotebookInput = z.strictObject({
+  title: z.string().trim().min(1, 'Give the notebook a title').max(200),
+  summary: z.string().trim().max(2000).default(''),
+  groupId: z.string().regex(/^[a-z0-9]{10,40}$/).nullable().default(null),
+});
+
+export const updateNotebookInput = z.strictObject({
+  title: z.string().trim().min(1, 'Give the notebook a title').max(200).optional(),
+  summary: z.string().trim().max(2000).optional(),
+  groupId: z.string().regex(/^[a-z0-9]{10,40}$/).nullable().optional(),
+});
+
+export const createCellInput = z.strictObject({
+  label: cellLabel,
+  input: cellInput,
+  /** 0-based; appended at the end when omitted. */
+  position: z.number().int().min(0).max(500).optional(),
+});
+
+export const updateCellInput = z.strictObject({
+  label: cellLabel.optional(),
+  input: cellInput.optional(),
+  /** The revision the edit was made on; a different current revision means someone else saved first (409). */
+  revision: z.number().int().min(1),
+});
+
+export const moveCellInput = z.strictObject({ position: z.number().int().min(0).max(500) });
+export const saveVersionInput = z.strictObject({ message: z.string().trim().min(1, 'Say what this version is').max(500) });
+export const listNotebooksQuery = z.strictObject({ q: z.string().trim().max(200).optional() });
+export const calcRequest = z.strictObject({ job: z.unknown() });
+
+/** Reply shapes. */
+export interface RunView {
+  id: string;
+  status: 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
+  progress: number;
+  cached: boolean;
+  engineVersion: string;
+  durationMs: number | null;
+  result: unknown | null;
+  error: { code: string; message: string } | null;
+  startedAt: string | null;
+  finishedAt: string | null;
+}
+
+export interface CellView {
+  id: string;
+  position: number;
+  label: string;
+  kind: CellKind;
+  input: CellInput;
+  revision: number;
+  state: CellState;
+  /** Labels of cells that take input from this one. */
+  dependents: string[];
+  lastRun: RunView | null;
+  updatedAt: string;
+}
+
+export interface NotebookSummary {
+  id: string;
+  title: string;
+  summary: string;
+  ownerName: string;
+  groupId: string | null;
+  groupName: string | null;
+  cellCount: number;
+  updatedAt: string;
+  canEdit: boolean;
+}
+
+export interface NotebookDetail extends NotebookSummary {
+  cells: CellView[];
+}
+
+export interface VersionSummary {
+  id: string;
+  number: number;
+  message: string;
+  authorName: string;
+  createdAt: string;
+  automatic: boolean;
+}
+
+export interface VersionCellSnapshot {
+  label: string;
+  kind: CellKind;
+  input: CellInput;
+  output: unknown | null;
+}
+
+export interface VersionDetail extends VersionSummary {
+  title: string;
+  summary: string;
+  cells: VersionCellSnapshot[];
+}
+
+export interface TextChange {
+  value: string;
+  added?: boolean;
+  removed?: boolean;
+}
+
+export interface CellComparison {
+  label: string;
+  change: 'added' | 'removed' | 'changed' | 'unchanged';
+  input: TextChange[];
+  output: TextChange[];
+}
+
+export interface VersionComparison {
+  from: VersionSummary;
+  to: VersionSummary;
+  cells: CellComparison[];
+}

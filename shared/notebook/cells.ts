@@ -1,0 +1,83 @@
+import { z } from 'zod';
+
+/**
+ * Cell kinds of a notebook and their inputs. Inputs are validated here, at the edge, before any job
+ * is built; the job itself is validated again by the engine's job schema.
+ */
+export const cellKinds = ['note', 'setup', 'integral', 'flow', 'fixedpoints', 'exponents', 'scan'] as const;
+export type CellKind = (typeof cellKinds)[number];
+
+/** What the UI calls each kind. */
+export const cellKindTitles: Record<CellKind, string> = {
+  note: 'Note',
+  setup: 'Model & parameters',
+  integral: 'Loop integral',
+  flow: 'RG flow',
+  fixedpoints: 'Fixed points',
+  exponents: 'Critical exponents',
+  scan: 'Scan over s',
+};
+
+export const cellLabel = z
+  .string()
+  .regex(/^[a-z][a-z0-9_]{0,31}$/, 'A label is a lower-case word (letters, digits, _), at most 32 characters');
+
+const decimal = z.string().trim().regex(/^[+-]?(\d+\.?\d*|\.\d+)$/, 'Enter a decimal number, e.g. 1.75');
+const symbolOrNumber = z.string().trim().regex(/^([A-Za-z]\w*|[+-]?\d+(\.\d+)?)$/, 'Enter a number, or a symbol name such as N');
+
+export const modelSpec = z.discriminatedUnion('preset', [
+  z.strictObject({ preset: z.literal('on'), N: z.union([z.number().int().min(1).max(64), z.literal('N')]) }),
+  z.strictObject({ preset: z.literal('cubic'), N: z.number().int().min(1).max(16) }),
+  z.strictObject({
+    preset: z.literal('custom'),
+    fields: z.number().int().min(1).max(8),
+    potential: z.string().trim().min(1, 'Type the quartic potential').max(2000),
+  }),
+]);
+export type ModelSpec = z.infer<typeof modelSpec>;
+
+export const noteInput = z.strictObject({ kind: z.literal('note'), text: z.string().max(20_000) });
+
+export const setupInput = z.strictObject({
+  kind: z.literal('setup'),
+  model: modelSpec,
+  d: decimal.optional(),
+  s: decimal.optional(),
+  loops: z.union([z.literal(1), z.literal(2)]),
+  digits: z.number().int().min(5, 'At least 5 digits').max(200, 'At most 200 digits in a notebook'),
+});
+
+const uses = cellLabel.describe('label of the setup cell this cell takes its model and parameters from');
+
+export const integralInput = z.strictObject({
+  kind: z.literal('integral'),
+  uses: uses.optional(),
+  form: z.enum(['laurent', 'bubble']),
+  expr: z.string().trim().max(2000).optional(),
+  a: z.string().trim().max(200).optional(),
+  b: z.string().trim().max(200).optional(),
+  d: z.string().trim().min(1).max(200),
+  order: z.number().int().min(0).max(12),
+});
+
+export const flowInput = z.strictObject({ kind: z.literal('flow'), uses });
+export const fixedPointsInput = z.strictObject({ kind: z.literal('fixedpoints'), uses });
+export const exponentsInput = z.strictObject({
+  kind: z.literal('exponents'),
+  uses,
+  fixedPoint: z.string().trim().max(80).optional(),
+});
+export const scanInput = z.strictObject({
+  kind: z.literal('scan'),
+  uses,
+  from: decimal,
+  to: decimal,
+  points: z.number().int().min(2).max(1000),
+  quantities: z.array(z.enum(['nuInv', 'nu', 'eta', 'gamma', 'omega', 'Delta_phi2', 'Delta_phi4'])).min(1).max(6),
+  deltaSigmaShortRange: decimal.optional(),
+});
+
+export const cellInput = z.discriminatedUnion('kind', [noteInput, setupInput, integralInput, flowInput, fixedPointsInput, exponentsInput, scanInput]);
+export type CellInput = z.infer<typeof cellInput>;
+
+export { symbolOrNumber };

@@ -1,0 +1,4 @@
+export * from './cells';
+export * from './dependencies';
+export * from './jobs';
+export * from './api';
