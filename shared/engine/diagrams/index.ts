@@ -1,0 +1,8 @@
+/** Diagrams: the graph catalogue, tensor weights, loop integrals, subtraction, Z-factors → RG functions. */
+export * from './graphs';
+export * from './weights';
+export * from './integrals';
+export * from './catalogue';
+export * from './calculus';
+export * from './subtraction';
+export * from './renormalization';

@@ -1,0 +1,141 @@
+import { fail } from '../precision/errors';
+
+/**
+ * A dense tensor with integer entries over n index values. Entries are JS numbers; every model
+ * tensor is scaled to integers first, so sums of products stay exact (far below 2^53).
+ */
+export interface Tensor {
+  readonly n: number;
+  readonly rank: number;
+  readonly data: Float64Array;
+}
+
+export function zeroTensor(n: number, rank: number): Tensor {
+  return { n, rank, data: new Float64Array(n ** rank) };
+}
+
+export function tensorIndex(n: number, indices: readonly number[]): number {
+  let k = 0;
+  for (const i of indices) k = k * n + i;
+  return k;
+}
+
+export function tensorFrom(n: number, rank: number, entry: (indices: number[]) => number): Tensor {
+  const t = zeroTensor(n, rank);
+  forEachIndex(n, rank, (indices, k) => {
+    t.data[k] = entry(indices);
+  });
+  return t;
+}
+
+/** Visit every multi-index of the given rank in storage order. */
+export function forEachIndex(n: number, rank: number, visit: (indices: number[], flat: number) => void): void {
+  const indices = new Array<number>(rank).fill(0);
+  const total = n ** rank;
+  for (let flat = 0; flat < total; flat++) {
+    visit(indices, flat);
+    for (let p = rank - 1; p >= 0; p--) {
+      if (++indices[p] < n) break;
+      indices[p] = 0;
+    }
+  }
+}
+
+export const kronecker = (n: number): Tensor => tensorFrom(n, 2, ([a, b]) => (a === b ? 1 : 0));
+
+export function addTensors(a: Tensor, b: Tensor, scaleB = 1): Tensor {
+  const out = zeroTensor(a.n, a.rank);
+  for (let k = 0; k < out.data.length; k++) out.data[k] = a.data[k] + scaleB * b.data[k];
+  return out;
+}
+
+export function innerProduct(a: Tensor, b: Tensor): number {
+  let s = 0;
+  for (let k = 0; k < a.data.length; k++) s += a.data[k] * b.data[k];
+  return s;
+}
+
+/** out[i_0..i_r] = t[i_{perm[0]}..]: the tensor with its slots relabelled by perm. */
+export function permuteSlots(t: Tensor, perm: readonly number[]): Tensor {
+  const out = zeroTensor(t.n, t.rank);
+  const source = new Array<number>(t.rank);
+  forEachIndex(t.n, t.rank, (indices, flat) => {
+    for (let p = 0; p < t.rank; p++) source[perm[p]] = indices[p];
+    out.data[flat] = t.data[tensorIndex(t.n, source)];
+  });
+  return out;
+}
+
+export function isFullySymmetric(t: Tensor): boolean {
+  for (const perm of permutations(t.rank)) {
+    const p = permuteSlots(t, perm);
+    for (let k = 0; k < t.data.length; k++) if (p.data[k] !== t.data[k]) return false;
+  }
+  return true;
+}
+
+export function permutations(m: number): number[][] {
+  if (m === 0) return [[]];
+  const out: number[][] = [];
+  for (const rest of permutations(m - 1)) for (let pos = 0; pos <= rest.length; pos++) out.push([...rest.slice(0, pos), m - 1, ...rest.slice(pos)]);
+  return out;
+}
+
+/** One factor of a contraction: a tensor whose slots carry index labels. */
+export interface LabelledTensor {
+  tensor: Tensor;
+  labels: readonly string[];
+}
+
+interface Partial {
+  labels: string[];
+  data: Float64Array;
+}
+
+/**
+ * Σ over every label that is not in `open` of the product of the factors (an einsum).
+ * Factors are multiplied in order; a label is summed as soon as no later factor uses it,
+ * which keeps intermediate tensors small for the graphs we contract.
+ */
+export function contract(factors: readonly LabelledTensor[], open: readonly string[]): Tensor {
+  if (factors.length === 0) fail('invalid', 'contraction of no tensors');
+  const n = factors[0].tensor.n;
+  let acc: Partial = { labels: [], data: new Float64Array([1]) };
+  factors.forEach((factor, i) => {
+    const later = new Set([...open, ...factors.slice(i + 1).flatMap((f) => f.labels)]);
+    acc = multiplyAndSum(acc, factor, later, n);
+  });
+  const order = open.map((label) => acc.labels.indexOf(label));
+  if (order.some((p) => p < 0)) fail('invalid', `open label missing from the contraction: ${open.join(',')}`);
+  const out = zeroTensor(n, open.length);
+  const source = new Array<number>(acc.labels.length);
+  forEachIndex(n, open.length, (indices, flat) => {
+    order.forEach((p, j) => (source[p] = indices[j]));
+    out.data[flat] = acc.data[tensorIndex(n, source)];
+  });
+  return out;
+}
+
+function multiplyAndSum(acc: Partial, factor: LabelledTensor, keep: ReadonlySet<string>, n: number): Partial {
+  const all = [...new Set([...acc.labels, ...factor.labels])];
+  const kept = all.filter((l) => keep.has(l));
+  const position = (l: string) => all.indexOf(l);
+  const accSlots = acc.labels.map(position);
+  const factorSlots = factor.labels.map(position);
+  const keptSlots = kept.map(position);
+  const out = new Float64Array(n ** kept.length);
+  const accIdx = new Array<number>(accSlots.length);
+  const facIdx = new Array<number>(factorSlots.length);
+  const keptIdx = new Array<number>(keptSlots.length);
+  forEachIndex(n, all.length, (indices) => {
+    for (let j = 0; j < factorSlots.length; j++) facIdx[j] = indices[factorSlots[j]];
+    const f = factor.tensor.data[tensorIndex(n, facIdx)];
+    if (f === 0) return;
+    for (let j = 0; j < accSlots.length; j++) accIdx[j] = indices[accSlots[j]];
+    const a = acc.data[tensorIndex(n, accIdx)];
+    if (a === 0) return;
+    for (let j = 0; j < keptSlots.length; j++) keptIdx[j] = indices[keptSlots[j]];
+    out[tensorIndex(n, keptIdx)] += a * f;
+  });
+  return { labels: kept, data: out };
+}
