@@ -10,6 +10,9 @@ import { adminRoutes } from './routes/admin';
 import { authRoutes } from './routes/auth';
 import { groupRoutes } from './routes/groups';
 import { healthRoutes } from './routes/health';
+import { notebookRoutes } from './routes/notebooks';
+import { openApiRoutes } from './routes/openapi';
+import { runRoutes } from './routes/runs';
 import type { Services } from './services';
 
 function apiRouter(services: Services) {
@@ -21,12 +24,15 @@ function apiRouter(services: Services) {
   router.post('/auth/sign-in', ...signInLimiters(services.config.signInLimits));
   router.post('/auth/forgot', mailRequestLimiter());
   router.use(sessionLoader(services.sessions));
-  mount(router, [
+  const specs = [
     ...healthRoutes(services),
     ...authRoutes(services),
     ...groupRoutes(services),
+    ...notebookRoutes(services),
+    ...runRoutes(services),
     ...adminRoutes(services),
-  ]);
+  ];
+  mount(router, [...specs, ...openApiRoutes(() => specs)]);
   router.use(apiNotFound);
   return router;
 }

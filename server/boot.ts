@@ -9,7 +9,9 @@ import { openDatabase } from './db/data-source';
 import { createMailer } from './mail/mailer';
 import { startSmtpFake, type SmtpFake } from './mail/smtp-fake';
 import { seedDemoDataIfEmpty } from './seed/demo';
+import { createWorkerPoolRunner } from './jobs/runner';
 import { createServices, type Services } from './services';
+import { failInterruptedRuns } from './services/runs';
 
 export interface RunningRungbook {
   app: Express;
@@ -31,7 +33,8 @@ export async function startRungbook(config: ServerConfig, logger: Logger, option
     config.mail.smtpPort = smtpFake.port;
   }
   const mailer = createMailer(config.mail, logger);
-  const services = createServices(config, logger, dataSource, mailer);
+  await failInterruptedRuns(dataSource);
+  const services = createServices(config, logger, dataSource, mailer, createWorkerPoolRunner({ threads: config.jobs.threads }));
   const demoDataCreated = config.seedDemoData ? await seedDemoDataIfEmpty(dataSource) : false;
   const app = createApp(services);
 
@@ -57,6 +60,7 @@ export async function startRungbook(config: ServerConfig, logger: Logger, option
         server.closeAllConnections();
         await closed;
       }
+      await services.runs.close();
       mailer.close();
       await smtpFake?.stop();
       if (dataSource.isInitialized) await dataSource.destroy();

@@ -13,6 +13,7 @@ export interface ServerConfig {
   mail: MailConfig;
   signInLimits: { perIpPer15Min: number; perAccountPer15Min: number };
   seedDemoData: boolean;
+  jobs: { threads: number; timeLimitMs: number };
   bodyLimit: string;
 }
 
@@ -65,6 +66,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
       perAccountPer15Min: intFrom(env.SIGNIN_LIMIT_PER_ACCOUNT, 8),
     },
     seedDemoData: boolFrom(env.SEED_DEMO_DATA, true),
+    jobs: { threads: Math.max(1, intFrom(env.JOB_THREADS, 2)), timeLimitMs: intFrom(env.JOB_TIME_LIMIT_MS, 120_000) },
     bodyLimit: env.BODY_LIMIT ?? '100kb',
   };
 }

@@ -6,9 +6,19 @@ import { parseInput } from './validation';
 
 export type Access = 'public' | 'signed-in' | 'admin';
 
-export interface RouteContext<Body, Params> {
+/** A non-JSON reply (a file download). */
+export class FileReply {
+  constructor(
+    readonly contentType: string,
+    readonly fileName: string,
+    readonly content: string,
+  ) {}
+}
+
+export interface RouteContext<Body, Params, Query = unknown> {
   body: Body;
   params: Params;
+  query: Query;
   user: SignedInUser | null;
   /** The current session's id, when signed in. */
   sessionId: string | null;
@@ -17,19 +27,24 @@ export interface RouteContext<Body, Params> {
   setCookie(serialized: string): void;
 }
 
-export interface RouteSpec<BodySchema extends z.ZodType, ParamsSchema extends z.ZodType> {
+export interface RouteSpec<BodySchema extends z.ZodType, ParamsSchema extends z.ZodType, QuerySchema extends z.ZodType = z.ZodUnknown> {
   method: 'get' | 'post' | 'patch' | 'delete';
   path: string;
   access: Access;
+  /** One line for the OpenAPI description. */
+  summary?: string;
   body?: BodySchema;
   params?: ParamsSchema;
+  query?: QuerySchema;
   status?: number;
-  handler(ctx: RouteContext<z.output<BodySchema>, z.output<ParamsSchema>>): Promise<unknown>;
+  handler(ctx: RouteContext<z.output<BodySchema>, z.output<ParamsSchema>, z.output<QuerySchema>>): Promise<unknown>;
 }
 
 /** Declare a route: method, path, who may call it, input schemas, and a handler returning the JSON reply. */
-export function route<B extends z.ZodType = z.ZodUnknown, P extends z.ZodType = z.ZodUnknown>(spec: RouteSpec<B, P>) {
-  return spec as unknown as RouteSpec<z.ZodType, z.ZodType>;
+export type AnyRouteSpec = RouteSpec<z.ZodType, z.ZodType, z.ZodType>;
+
+export function route<B extends z.ZodType = z.ZodUnknown, P extends z.ZodType = z.ZodUnknown, Q extends z.ZodType = z.ZodUnknown>(spec: RouteSpec<B, P, Q>) {
+  return spec as unknown as AnyRouteSpec;
 }
 
 function authorize(access: Access, user: SignedInUser | null): void {
@@ -38,17 +53,20 @@ function authorize(access: Access, user: SignedInUser | null): void {
   if (access === 'admin' && user.siteRole !== 'admin') throw new AppError('forbidden', 'Only site administrators may do this.');
 }
 
-export function mount(router: Router, specs: RouteSpec<z.ZodType, z.ZodType>[]): void {
+export function mount(router: Router, specs: AnyRouteSpec[]): void {
   for (const spec of specs) {
     router[spec.method](spec.path, async (req: Request, res: Response) => {
       const user = res.locals.user as SignedInUser | null;
       authorize(spec.access, user);
       const params = spec.params ? parseInput(spec.params, req.params) : req.params;
       const body = spec.body ? parseInput(spec.body, req.body) : undefined;
+      const query = spec.query ? parseInput(spec.query, req.query) : undefined;
       const cookies: string[] = [];
-      const result = await spec.handler({ body, params, user, sessionId: (res.locals.sessionId as string | null) ?? null, req, setCookie: (c) => cookies.push(c) });
+      const result = await spec.handler({ body, params, query, user, sessionId: (res.locals.sessionId as string | null) ?? null, req, setCookie: (c) => cookies.push(c) });
       if (cookies.length) res.append('Set-Cookie', cookies);
-      if (result === undefined) res.status(spec.status ?? 204).end();
+      if (result instanceof FileReply) {
+        res.status(200).type(result.contentType).attachment(result.fileName).send(result.content);
+      } else if (result === undefined) res.status(spec.status ?? 204).end();
       else res.status(spec.status ?? 200).json(result);
     });
   }

@@ -5,7 +5,11 @@ import type { ServerConfig } from '../config';
 import type { Mailer } from '../mail/mailer';
 import { createAccountService, type AccountService } from './accounts';
 import { createGroupService, type GroupService } from './groups';
+import { createNotebookService, type NotebookService } from './notebooks';
 import { createPasswordResetService, type PasswordResetService } from './passwordReset';
+import { createRunService, type RunService } from './runs';
+import { createVersionService, type VersionService } from './versions';
+import type { JobRunner } from '../jobs/runner';
 
 export interface Services {
   config: ServerConfig;
@@ -16,10 +20,15 @@ export interface Services {
   accounts: AccountService;
   passwordReset: PasswordResetService;
   groups: GroupService;
+  runs: RunService;
+  notebooks: NotebookService;
+  versions: VersionService;
 }
 
-export function createServices(config: ServerConfig, logger: Logger, dataSource: DataSource, mailer: Mailer): Services {
+export function createServices(config: ServerConfig, logger: Logger, dataSource: DataSource, mailer: Mailer, runner: JobRunner): Services {
   const sessions = createSessionService(dataSource, config.publicUrl.startsWith('https://'));
+  const runs = createRunService(dataSource, runner, logger, config.jobs.timeLimitMs);
+  const notebooks = createNotebookService(dataSource, runs);
   return {
     config,
     logger,
@@ -29,5 +38,8 @@ export function createServices(config: ServerConfig, logger: Logger, dataSource:
     accounts: createAccountService(dataSource, mailer, config.publicUrl),
     passwordReset: createPasswordResetService(dataSource, mailer, sessions, config.publicUrl),
     groups: createGroupService(dataSource),
+    runs,
+    notebooks,
+    versions: createVersionService(dataSource, notebooks),
   };
 }

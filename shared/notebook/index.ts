@@ -2,3 +2,4 @@ export * from './cells';
 export * from './dependencies';
 export * from './jobs';
 export * from './api';
+export * from './exports';

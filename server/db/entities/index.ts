@@ -1,9 +1,13 @@
 import { CapturedMail } from './CapturedMail';
+import { Cell } from './Cell';
 import { GroupMembership } from './GroupMembership';
+import { JobRun } from './JobRun';
+import { Notebook } from './Notebook';
+import { NotebookVersion } from './NotebookVersion';
 import { PasswordResetToken } from './PasswordResetToken';
 import { ResearchGroup } from './ResearchGroup';
 import { Session } from './Session';
 import { User } from './User';
 
-export { CapturedMail, GroupMembership, PasswordResetToken, ResearchGroup, Session, User };
-export const entities = [User, Session, ResearchGroup, GroupMembership, PasswordResetToken, CapturedMail];
+export { CapturedMail, Cell, GroupMembership, JobRun, Notebook, NotebookVersion, PasswordResetToken, ResearchGroup, Session, User };
+export const entities = [User, Session, ResearchGroup, GroupMembership, PasswordResetToken, CapturedMail, Notebook, Cell, JobRun, NotebookVersion];

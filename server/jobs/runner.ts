@@ -1,0 +1,34 @@
+import path from 'node:path';
+import { Piscina } from 'piscina';
+
+/** Where engine jobs execute. One small interface, so another runner (a queue, a cluster) can replace the pool. */
+export interface JobRunner {
+  /** Resolves with the engine's result; rejects with RunAborted when cancelled or over time, or on a worker crash. */
+  run(job: unknown, options: { signal: AbortSignal }): Promise<unknown>;
+  close(): Promise<void>;
+}
+
+export class RunAborted extends Error {}
+
+export function createWorkerPoolRunner(options: { threads: number }): JobRunner {
+  const pool = new Piscina({
+    filename: path.join(__dirname, 'worker.ts'),
+    minThreads: 1,
+    maxThreads: options.threads,
+    idleTimeout: 60_000,
+    // Each engine job is CPU-bound: one at a time per thread.
+    concurrentTasksPerWorker: 1,
+  });
+  return {
+    async run(job, { signal }) {
+      try {
+        return await pool.run(job, { signal });
+      } catch (error) {
+        // Piscina terminates the worker of an aborted task and starts a fresh one in its place.
+        if (signal.aborted) throw new RunAborted(signal.reason instanceof Error ? signal.reason.message : String(signal.reason ?? 'cancelled'));
+        throw error;
+      }
+    },
+    close: () => pool.destroy(),
+  };
+}

@@ -1,0 +1,78 @@
+import { z } from 'zod';
+import { idParam } from '../../shared/api/schemas';
+import {
+  createCellInput,
+  createNotebookInput,
+  listNotebooksQuery,
+  moveCellInput,
+  saveVersionInput,
+  updateCellInput,
+  updateNotebookInput,
+} from '../../shared/notebook/api';
+import { notebookDocument, toLatexDocument } from '../../shared/notebook/exports';
+import { FileReply, route } from '../http/route';
+import type { Services } from '../services';
+
+const notebookParams = z.object({ notebookId: idParam });
+const cellParams = z.object({ notebookId: idParam, cellId: idParam });
+const versionParams = z.object({ notebookId: idParam, versionId: idParam });
+const compareQuery = z.strictObject({ from: idParam, to: idParam });
+
+const fileName = (title: string, extension: string) => `${title.replace(/[^A-Za-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 60) || 'notebook'}.${extension}`;
+
+export function notebookRoutes({ notebooks, versions }: Services) {
+  return [
+    route({ method: 'get', path: '/notebooks', access: 'signed-in', summary: 'Notebooks you can open, newest first', query: listNotebooksQuery,
+      handler: async ({ user, query }) => ({ notebooks: await notebooks.list(user!, query.q) }) }),
+    route({ method: 'post', path: '/notebooks', access: 'signed-in', summary: 'Create a notebook', body: createNotebookInput, status: 201,
+      handler: async ({ user, body }) => ({ notebook: await notebooks.create(user!, body) }) }),
+    route({ method: 'post', path: '/notebooks/import', access: 'signed-in', summary: 'Create a notebook from an exported JSON file', body: notebookDocument, status: 201,
+      handler: async ({ user, body }) => ({ notebook: await versions.importDocument(user!, body) }) }),
+    route({ method: 'get', path: '/notebooks/:notebookId', access: 'signed-in', summary: 'A notebook with its cells and their states', params: notebookParams,
+      handler: async ({ user, params }) => ({ notebook: await notebooks.detail(user!, params.notebookId) }) }),
+    route({ method: 'patch', path: '/notebooks/:notebookId', access: 'signed-in', summary: 'Rename, describe or share a notebook', params: notebookParams, body: updateNotebookInput,
+      handler: async ({ user, params, body }) => ({ notebook: await notebooks.update(user!, params.notebookId, body) }) }),
+    route({ method: 'delete', path: '/notebooks/:notebookId', access: 'signed-in', summary: 'Delete a notebook (owner only)', params: notebookParams,
+      handler: async ({ user, params }) => notebooks.remove(user!, params.notebookId) }),
+
+    route({ method: 'post', path: '/notebooks/:notebookId/cells', access: 'signed-in', summary: 'Add a cell', params: notebookParams, body: createCellInput, status: 201,
+      handler: async ({ user, params, body }) => ({ notebook: await notebooks.addCell(user!, params.notebookId, body) }) }),
+    route({ method: 'patch', path: '/notebooks/:notebookId/cells/:cellId', access: 'signed-in', summary: 'Edit a cell (409 when the revision is stale)', params: cellParams, body: updateCellInput,
+      handler: async ({ user, params, body }) => ({ notebook: await notebooks.updateCell(user!, params.notebookId, params.cellId, body) }) }),
+    route({ method: 'post', path: '/notebooks/:notebookId/cells/:cellId/move', access: 'signed-in', summary: 'Move a cell', params: cellParams, body: moveCellInput,
+      handler: async ({ user, params, body }) => ({ notebook: await notebooks.moveCell(user!, params.notebookId, params.cellId, body.position) }) }),
+    route({ method: 'delete', path: '/notebooks/:notebookId/cells/:cellId', access: 'signed-in', summary: 'Delete a cell (a version is saved first)', params: cellParams,
+      handler: async ({ user, params }) => {
+        const detail = await notebooks.detail(user!, params.notebookId);
+        const label = detail.cells.find((c) => c.id === params.cellId)?.label;
+        if (label) await versions.save(user!, params.notebookId, `Before deleting cell "${label}"`, true);
+        return { notebook: await notebooks.deleteCell(user!, params.notebookId, params.cellId) };
+      } }),
+    route({ method: 'post', path: '/notebooks/:notebookId/cells/:cellId/run', access: 'signed-in', summary: 'Run a cell on the server', params: cellParams, status: 202,
+      handler: async ({ user, params }) => ({ run: await notebooks.runCell(user!, params.notebookId, params.cellId) }) }),
+    route({ method: 'post', path: '/notebooks/:notebookId/run-all', access: 'signed-in', summary: 'Run every cell that is not up to date', params: notebookParams, status: 202,
+      handler: async ({ user, params }) => ({ runs: await notebooks.runAll(user!, params.notebookId) }) }),
+
+    route({ method: 'get', path: '/notebooks/:notebookId/versions', access: 'signed-in', summary: 'Saved versions, newest first', params: notebookParams,
+      handler: async ({ user, params }) => ({ versions: await versions.list(user!, params.notebookId) }) }),
+    route({ method: 'post', path: '/notebooks/:notebookId/versions', access: 'signed-in', summary: 'Save a version', params: notebookParams, body: saveVersionInput, status: 201,
+      handler: async ({ user, params, body }) => ({ version: await versions.save(user!, params.notebookId, body.message) }) }),
+    route({ method: 'get', path: '/notebooks/:notebookId/versions/compare', access: 'signed-in', summary: 'Compare two versions cell by cell', params: notebookParams, query: compareQuery,
+      handler: async ({ user, params, query }) => ({ comparison: await versions.compare(user!, params.notebookId, query.from, query.to) }) }),
+    route({ method: 'get', path: '/notebooks/:notebookId/versions/:versionId', access: 'signed-in', summary: 'One version, read-only', params: versionParams,
+      handler: async ({ user, params }) => ({ version: await versions.get(user!, params.notebookId, params.versionId) }) }),
+    route({ method: 'post', path: '/notebooks/:notebookId/versions/:versionId/restore', access: 'signed-in', summary: 'Restore a version (recorded as a new version)', params: versionParams,
+      handler: async ({ user, params }) => ({ notebook: await versions.restore(user!, params.notebookId, params.versionId) }) }),
+
+    route({ method: 'get', path: '/notebooks/:notebookId/export.json', access: 'signed-in', summary: 'The notebook as a Rungbook JSON file', params: notebookParams,
+      handler: async ({ user, params }) => {
+        const document = await versions.exportDocument(user!, params.notebookId);
+        return new FileReply('application/json', fileName(document.title, 'json'), JSON.stringify(document, null, 2));
+      } }),
+    route({ method: 'get', path: '/notebooks/:notebookId/export.tex', access: 'signed-in', summary: 'The notebook as a LaTeX document', params: notebookParams,
+      handler: async ({ user, params }) => {
+        const document = await versions.exportDocument(user!, params.notebookId);
+        return new FileReply('application/x-tex', fileName(document.title, 'tex'), toLatexDocument(document));
+      } }),
+  ];
+}

@@ -1,0 +1,39 @@
+import { z } from 'zod';
+import { idParam } from '../../shared/api/schemas';
+import { calcRequest } from '../../shared/notebook/api';
+import { AppError } from '../http/errors';
+import { route } from '../http/route';
+import type { SignedInUser } from '../auth/sessions';
+import type { Services } from '../services';
+import { toRunView } from '../services/runs';
+
+const runParams = z.object({ runId: idParam });
+const CALC_WAIT_MS = 30_000;
+
+export function runRoutes({ runs, notebooks }: Services) {
+  async function visibleRun(user: SignedInUser, runId: string) {
+    const run = await runs.find(runId);
+    if (run.requestedBy !== user.id && user.siteRole !== 'admin') {
+      // Runs of a shared notebook's cells are visible to everyone who can open the notebook.
+      const cellNotebook = run.cellId ? (await notebooks.cellNotebookId(run.cellId)) : null;
+      if (!cellNotebook) throw new AppError('not_found', 'No such run.');
+      await notebooks.access(user, cellNotebook);
+    }
+    return run;
+  }
+
+  return [
+    route({ method: 'post', path: '/calc', access: 'signed-in', summary: 'Run one engine job (the same objects the calc CLI takes); waits up to 30 s', body: calcRequest, status: 200,
+      handler: async ({ user, body }) => {
+        const run = await runs.submit({ job: body.job, userId: user!.id });
+        return { run: toRunView(await runs.settle(run.id, CALC_WAIT_MS)) };
+      } }),
+    route({ method: 'get', path: '/runs/:runId', access: 'signed-in', summary: 'State, progress and result of a run', params: runParams,
+      handler: async ({ user, params }) => ({ run: toRunView(await visibleRun(user!, params.runId)) }) }),
+    route({ method: 'post', path: '/runs/:runId/cancel', access: 'signed-in', summary: 'Cancel a queued or running job', params: runParams,
+      handler: async ({ user, params }) => {
+        await visibleRun(user!, params.runId);
+        return { run: toRunView(await runs.cancel(params.runId)) };
+      } }),
+  ];
+}

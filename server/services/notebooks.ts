@@ -1,0 +1,284 @@
+import type { DataSource, EntityManager } from 'typeorm';
+import { cellInput, type CellInput } from '../../shared/notebook/cells';
+import { cellStates, dependentsOf, fingerprintOf, type CellForStaleness } from '../../shared/notebook/dependencies';
+import { CellJobError, jobForCell, type SetupInput } from '../../shared/notebook/jobs';
+import type { CellView, NotebookDetail, NotebookSummary, RunView } from '../../shared/notebook/api';
+import type { SignedInUser } from '../auth/sessions';
+import { Cell, GroupMembership, JobRun, Notebook, ResearchGroup, User } from '../db/entities';
+import { AppError } from '../http/errors';
+import { newId } from '../ids';
+import { toRunView, type RunService } from './runs';
+
+export const MAX_CELLS_PER_NOTEBOOK = 200;
+
+export interface NotebookAccess {
+  notebook: Notebook;
+  canEdit: boolean;
+}
+
+export function parseCellInput(json: string): CellInput {
+  return cellInput.parse(JSON.parse(json));
+}
+
+/** Notebooks and their cells: who may see and edit them, and what state every cell is in. */
+export function createNotebookService(dataSource: DataSource, runs: RunService) {
+  const notebooks = dataSource.getRepository(Notebook);
+  const cells = dataSource.getRepository(Cell);
+
+  async function groupIdsOf(userId: string): Promise<string[]> {
+    const rows = await dataSource.getRepository(GroupMembership).findBy({ userId });
+    return rows.map((row) => row.groupId);
+  }
+
+  /** Owners and members of the notebook's group may view and edit; site admins may view any notebook. */
+  async function access(viewer: SignedInUser, notebookId: string): Promise<NotebookAccess> {
+    const notebook = await notebooks.findOneBy({ id: notebookId });
+    if (!notebook) throw new AppError('not_found', 'No such notebook.');
+    const inGroup = notebook.groupId ? (await groupIdsOf(viewer.id)).includes(notebook.groupId) : false;
+    const canEdit = notebook.ownerId === viewer.id || inGroup;
+    if (!canEdit && viewer.siteRole !== 'admin') throw new AppError('not_found', 'No such notebook.');
+    return { notebook, canEdit };
+  }
+
+  async function editable(viewer: SignedInUser, notebookId: string): Promise<Notebook> {
+    const { notebook, canEdit } = await access(viewer, notebookId);
+    if (!canEdit) throw new AppError('forbidden', 'You can read this notebook but not change it.');
+    return notebook;
+  }
+
+  async function assertGroupMember(viewer: SignedInUser, groupId: string | null | undefined) {
+    if (!groupId) return;
+    if (!(await groupIdsOf(viewer.id)).includes(groupId)) {
+      throw new AppError('forbidden', 'You can share a notebook only with a group you belong to.', { groupId: 'Not one of your groups' });
+    }
+  }
+
+  async function orderedCells(notebookId: string, manager: EntityManager = dataSource.manager) {
+    return manager.getRepository(Cell).find({ where: { notebookId }, order: { position: 'ASC' } });
+  }
+
+  async function touch(notebookId: string, manager: EntityManager = dataSource.manager) {
+    await manager.getRepository(Notebook).update({ id: notebookId }, { updatedAt: new Date() });
+  }
+
+  async function cellViews(notebookId: string): Promise<CellView[]> {
+    const rows = await orderedCells(notebookId);
+    const runIds = rows.map((row) => row.lastRunId).filter((id): id is string => Boolean(id));
+    const runRows = runIds.length ? await dataSource.getRepository(JobRun).createQueryBuilder('r').where('r.id IN (:...runIds)', { runIds }).getMany() : [];
+    const runsById = new Map(runRows.map((run) => [run.id, run]));
+    const parsed = rows.map((row) => ({ row, input: parseCellInput(row.inputJson), run: row.lastRunId ? runsById.get(row.lastRunId) : undefined }));
+    const staleness: CellForStaleness[] = parsed.map(({ row, input, run }) => ({
+      id: row.id,
+      label: row.label,
+      input,
+      lastRunFingerprint: row.lastRunFingerprint,
+      lastRunStatus: run?.status ?? null,
+    }));
+    const states = cellStates(staleness);
+    const labelled = parsed.map(({ row, input }) => ({ label: row.label, input }));
+    return parsed.map(({ row, input, run }) => ({
+      id: row.id,
+      position: row.position,
+      label: row.label,
+      kind: input.kind,
+      input,
+      revision: row.revision,
+      state: states.get(row.id)!,
+      dependents: dependentsOf(row.label, labelled),
+      lastRun: run ? toRunView(run) : null,
+      updatedAt: row.updatedAt.toISOString(),
+    }));
+  }
+
+  async function summaries(rows: Notebook[], viewer: SignedInUser): Promise<NotebookSummary[]> {
+    if (!rows.length) return [];
+    const myGroups = new Set(await groupIdsOf(viewer.id));
+    const owners = await dataSource.getRepository(User).createQueryBuilder('u').where('u.id IN (:...ids)', { ids: [...new Set(rows.map((r) => r.ownerId))] }).getMany();
+    const groupIds = [...new Set(rows.map((r) => r.groupId).filter((id): id is string => Boolean(id)))];
+    const groups = groupIds.length ? await dataSource.getRepository(ResearchGroup).createQueryBuilder('g').where('g.id IN (:...groupIds)', { groupIds }).getMany() : [];
+    const counts: { notebookId: string; count: number }[] = await cells
+      .createQueryBuilder('c')
+      .select('c.notebookId', 'notebookId')
+      .addSelect('COUNT(*)', 'count')
+      .where('c.notebookId IN (:...ids)', { ids: rows.map((r) => r.id) })
+      .groupBy('c.notebookId')
+      .getRawMany();
+    return rows.map((row) => ({
+      id: row.id,
+      title: row.title,
+      summary: row.summary,
+      ownerName: owners.find((o) => o.id === row.ownerId)?.name ?? '',
+      groupId: row.groupId,
+      groupName: groups.find((g) => g.id === row.groupId)?.name ?? null,
+      cellCount: Number(counts.find((c) => c.notebookId === row.id)?.count ?? 0),
+      updatedAt: row.updatedAt.toISOString(),
+      canEdit: row.ownerId === viewer.id || (row.groupId !== null && myGroups.has(row.groupId)),
+    }));
+  }
+
+  async function detail(viewer: SignedInUser, notebookId: string): Promise<NotebookDetail> {
+    const { notebook } = await access(viewer, notebookId);
+    const [summary] = await summaries([notebook], viewer);
+    return { ...summary, cells: await cellViews(notebookId) };
+  }
+
+  async function setupsOf(notebookId: string): Promise<Map<string, SetupInput>> {
+    const setups = new Map<string, SetupInput>();
+    for (const row of await orderedCells(notebookId)) {
+      const input = parseCellInput(row.inputJson);
+      if (input.kind === 'setup') setups.set(row.label, input);
+    }
+    return setups;
+  }
+
+  async function runCellRow(viewer: SignedInUser, row: Cell, all: Cell[]): Promise<RunView | null> {
+    const input = parseCellInput(row.inputJson);
+    let job: Record<string, unknown> | null;
+    try {
+      job = jobForCell(input, await setupsOf(row.notebookId));
+    } catch (error) {
+      if (error instanceof CellJobError) throw new AppError('validation_failed', `Cell "${row.label}": ${error.message}`, { [error.field]: error.message });
+      throw error;
+    }
+    if (!job) return null;
+    const byLabel = new Map(all.map((c) => [c.label, { label: c.label, input: parseCellInput(c.inputJson) }]));
+    const run = await runs.submit({ job, userId: viewer.id, cellId: row.id });
+    await cells.update({ id: row.id }, { lastRunId: run.id, lastRunFingerprint: fingerprintOf({ label: row.label, input }, byLabel) });
+    return toRunView(run);
+  }
+
+  return {
+    access,
+    editable,
+    async cellNotebookId(cellId: string): Promise<string | null> {
+      return (await cells.findOneBy({ id: cellId }))?.notebookId ?? null;
+    },
+    detail,
+    orderedCells,
+    parseCellInput,
+
+    async list(viewer: SignedInUser, search?: string): Promise<NotebookSummary[]> {
+      const groupIds = await groupIdsOf(viewer.id);
+      const query = notebooks.createQueryBuilder('n').orderBy('n.updatedAt', 'DESC').addOrderBy('n.title', 'ASC').take(500);
+      query.where('(n.ownerId = :me' + (groupIds.length ? ' OR n.groupId IN (:...groupIds))' : ')'), { me: viewer.id, groupIds });
+      if (search) query.andWhere('(n.title LIKE :q ESCAPE \'\\\' OR n.summary LIKE :q ESCAPE \'\\\')', { q: `%${search.replace(/[\\%_]/g, (c) => `\\${c}`)}%` });
+      return summaries(await query.getMany(), viewer);
+    },
+
+    async create(viewer: SignedInUser, input: { title: string; summary: string; groupId: string | null }) {
+      await assertGroupMember(viewer, input.groupId);
+      const id = newId();
+      await notebooks.insert({ id, title: input.title, summary: input.summary, groupId: input.groupId, ownerId: viewer.id });
+      return detail(viewer, id);
+    },
+
+    async update(viewer: SignedInUser, notebookId: string, patch: { title?: string; summary?: string; groupId?: string | null }) {
+      const notebook = await editable(viewer, notebookId);
+      if (patch.groupId !== undefined) await assertGroupMember(viewer, patch.groupId);
+      await notebooks.update({ id: notebook.id }, { ...patch, updatedAt: new Date() });
+      return detail(viewer, notebookId);
+    },
+
+    async remove(viewer: SignedInUser, notebookId: string) {
+      const notebook = await editable(viewer, notebookId);
+      if (notebook.ownerId !== viewer.id) throw new AppError('forbidden', 'Only the owner can delete a notebook.');
+      await notebooks.delete({ id: notebookId });
+    },
+
+    async addCell(viewer: SignedInUser, notebookId: string, input: { label: string; input: CellInput; position?: number }) {
+      await editable(viewer, notebookId);
+      await dataSource.transaction(async (manager) => {
+        const existing = await orderedCells(notebookId, manager);
+        if (existing.length >= MAX_CELLS_PER_NOTEBOOK) throw new AppError('conflict', `A notebook holds at most ${MAX_CELLS_PER_NOTEBOOK} cells.`);
+        if (existing.some((c) => c.label === input.label)) {
+          throw new AppError('conflict', `A cell labelled "${input.label}" already exists in this notebook.`, { label: 'Label already used' });
+        }
+        const position = Math.min(input.position ?? existing.length, existing.length);
+        for (const cell of existing.filter((c) => c.position >= position)) await manager.update(Cell, { id: cell.id }, { position: cell.position + 1 });
+        await manager.insert(Cell, { id: newId(), notebookId, position, kind: input.input.kind, label: input.label, inputJson: JSON.stringify(input.input), revision: 1 });
+        await touch(notebookId, manager);
+      });
+      return detail(viewer, notebookId);
+    },
+
+    async updateCell(viewer: SignedInUser, notebookId: string, cellId: string, patch: { label?: string; input?: CellInput; revision: number }) {
+      await editable(viewer, notebookId);
+      await dataSource.transaction(async (manager) => {
+        const cell = await manager.findOneBy(Cell, { id: cellId, notebookId });
+        if (!cell) throw new AppError('not_found', 'No such cell.');
+        if (cell.revision !== patch.revision) {
+          throw new AppError('conflict', `This cell was changed elsewhere (now at revision ${cell.revision}, you edited revision ${patch.revision}). Reload it, or keep your version.`);
+        }
+        if (patch.label && patch.label !== cell.label) {
+          const all = await orderedCells(notebookId, manager);
+          if (all.some((c) => c.label === patch.label)) throw new AppError('conflict', `A cell labelled "${patch.label}" already exists.`, { label: 'Label already used' });
+        }
+        // Compare-and-set on the revision, so two simultaneous saves cannot both win.
+        const result = await manager.update(
+          Cell,
+          { id: cellId, revision: patch.revision },
+          {
+            revision: patch.revision + 1,
+            ...(patch.label ? { label: patch.label } : {}),
+            ...(patch.input ? { inputJson: JSON.stringify(patch.input), kind: patch.input.kind } : {}),
+          },
+        );
+        if (!result.affected) throw new AppError('conflict', 'This cell was changed elsewhere just now. Reload it, or keep your version.');
+        await touch(notebookId, manager);
+      });
+      return detail(viewer, notebookId);
+    },
+
+    async moveCell(viewer: SignedInUser, notebookId: string, cellId: string, position: number) {
+      await editable(viewer, notebookId);
+      await dataSource.transaction(async (manager) => {
+        const all = await orderedCells(notebookId, manager);
+        const index = all.findIndex((c) => c.id === cellId);
+        if (index < 0) throw new AppError('not_found', 'No such cell.');
+        const [moved] = all.splice(index, 1);
+        all.splice(Math.min(position, all.length), 0, moved);
+        for (const [i, cell] of all.entries()) if (cell.position !== i) await manager.update(Cell, { id: cell.id }, { position: i });
+        await touch(notebookId, manager);
+      });
+      return detail(viewer, notebookId);
+    },
+
+    async deleteCell(viewer: SignedInUser, notebookId: string, cellId: string) {
+      await editable(viewer, notebookId);
+      await dataSource.transaction(async (manager) => {
+        const all = await orderedCells(notebookId, manager);
+        if (!all.some((c) => c.id === cellId)) throw new AppError('not_found', 'No such cell.');
+        await manager.delete(Cell, { id: cellId });
+        for (const [i, cell] of all.filter((c) => c.id !== cellId).entries()) if (cell.position !== i) await manager.update(Cell, { id: cell.id }, { position: i });
+        await touch(notebookId, manager);
+      });
+      return detail(viewer, notebookId);
+    },
+
+    async runCell(viewer: SignedInUser, notebookId: string, cellId: string): Promise<RunView> {
+      await editable(viewer, notebookId);
+      const all = await orderedCells(notebookId);
+      const row = all.find((c) => c.id === cellId);
+      if (!row) throw new AppError('not_found', 'No such cell.');
+      const run = await runCellRow(viewer, row, all);
+      if (!run) throw new AppError('validation_failed', `A ${parseCellInput(row.inputJson).kind} cell has nothing to run.`);
+      return run;
+    },
+
+    /** Run every cell that is not up to date, in notebook order. */
+    async runAll(viewer: SignedInUser, notebookId: string): Promise<RunView[]> {
+      await editable(viewer, notebookId);
+      const views = await cellViews(notebookId);
+      const all = await orderedCells(notebookId);
+      const started: RunView[] = [];
+      for (const view of views) {
+        if (!['never-run', 'out-of-date', 'failed'].includes(view.state)) continue;
+        const run = await runCellRow(viewer, all.find((c) => c.id === view.id)!, all);
+        if (run) started.push(run);
+      }
+      return started;
+    },
+  };
+}
+
+export type NotebookService = ReturnType<typeof createNotebookService>;

@@ -1,0 +1,178 @@
+import assert from 'node:assert/strict';
+import { after, before, describe, test } from 'node:test';
+import type { NotebookDetail, RunView } from '../../shared/notebook/api';
+import { person, startHarness, type Harness } from './harness';
+
+type Client = ReturnType<Harness['browser']>;
+
+async function settle(client: Client, run: RunView): Promise<RunView> {
+  let current = run;
+  for (let i = 0; i < 200 && (current.status === 'queued' || current.status === 'running'); i += 1) {
+    await new Promise((resolve) => setTimeout(resolve, 50));
+    current = (await client.get(`/api/runs/${run.id}`).expect(200)).body.run;
+  }
+  return current;
+}
+
+const setupCell = { label: 'setup', input: { kind: 'setup', model: { preset: 'on', N: 1 }, d: '3', s: '1.5', loops: 2, digits: 30 } };
+const bubbleCell = { label: 'bubble', input: { kind: 'integral', uses: 'setup', form: 'bubble', a: 's/2', b: 's/2', d: '2*s-eps', order: 1 } };
+
+describe('notebooks, cells, runs, versions and exports', () => {
+  let h: Harness;
+  let owner: Client;
+  let outsider: Client;
+  let notebook: NotebookDetail;
+
+  before(async () => {
+    h = await startHarness();
+    owner = h.browser();
+    outsider = h.browser();
+    await owner.post('/api/auth/sign-up').send(person(1)).expect(201);
+    await outsider.post('/api/auth/sign-up').send(person(2)).expect(201);
+  });
+  after(() => h.close());
+
+  test('create a notebook; it is listed for its owner only', async () => {
+    notebook = (await owner.post('/api/notebooks').send({ title: 'Invented O(1) check', summary: 'invented scenario' }).expect(201)).body.notebook;
+    assert.equal(notebook.cells.length, 0);
+    assert.equal((await owner.get('/api/notebooks?q=O(1)').expect(200)).body.notebooks.length, 1);
+    assert.equal((await owner.get('/api/notebooks?q=nothing-like-this').expect(200)).body.notebooks.length, 0);
+    assert.deepEqual((await outsider.get('/api/notebooks').expect(200)).body.notebooks, []);
+    await outsider.get(`/api/notebooks/${notebook.id}`).expect(404);
+    await h.raw.get('/api/notebooks').expect(401);
+  });
+
+  test('invalid cell input is refused at the edge with field messages', async () => {
+    const reply = await owner.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'Bad Label', input: { kind: 'setup', model: { preset: 'on', N: 1 }, loops: 3, digits: 2 } }).expect(400);
+    assert.ok(reply.body.error.fields.label);
+    assert.ok(reply.body.error.fields['input.loops'] || reply.body.error.fields.input);
+    await owner.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'x', input: { kind: 'teleport' } }).expect(400);
+  });
+
+  test('a loop-integral cell runs on a worker and reproduces the G(s/2,s/2) pole 2/(ε Γ(s))', async () => {
+    await owner.post(`/api/notebooks/${notebook.id}/cells`).send(setupCell).expect(201);
+    notebook = (await owner.post(`/api/notebooks/${notebook.id}/cells`).send(bubbleCell).expect(201)).body.notebook;
+    const bubble = notebook.cells.find((c) => c.label === 'bubble')!;
+    assert.equal(bubble.state, 'never-run');
+    const run = await settle(owner, (await owner.post(`/api/notebooks/${notebook.id}/cells/${bubble.id}/run`).expect(202)).body.run);
+    assert.equal(run.status, 'done', JSON.stringify(run.error));
+    const result = run.result as { lowest: number; coeffs: string[] };
+    assert.equal(result.lowest, -1);
+    // 2/Γ(3/2) = 4/√π = 2.2567583341910251477923178062431… (DLMF 5.4.6: Γ(3/2) = √π/2).
+    assert.equal(result.coeffs[0].slice(0, 20), '2.256758334191025147');
+    notebook = (await owner.get(`/api/notebooks/${notebook.id}`).expect(200)).body.notebook;
+    assert.equal(notebook.cells.find((c) => c.label === 'bubble')!.state, 'up-to-date');
+    assert.deepEqual(notebook.cells.find((c) => c.label === 'setup')!.dependents, ['bubble']);
+  });
+
+  test('editing the setup marks its dependents out of date; run-all brings them up to date; identical jobs come from the cache', async () => {
+    const setup = notebook.cells.find((c) => c.label === 'setup')!;
+    notebook = (await owner.patch(`/api/notebooks/${notebook.id}/cells/${setup.id}`).send({ revision: setup.revision, input: { ...setupCell.input, s: '1.75' } }).expect(200)).body.notebook;
+    const bubble = notebook.cells.find((c) => c.label === 'bubble')!;
+    assert.equal(bubble.state, 'out-of-date');
+    const runs: RunView[] = (await owner.post(`/api/notebooks/${notebook.id}/run-all`).expect(202)).body.runs;
+    assert.equal(runs.length, 1);
+    assert.equal((await settle(owner, runs[0])).status, 'done');
+    notebook = (await owner.get(`/api/notebooks/${notebook.id}`).expect(200)).body.notebook;
+    assert.equal(notebook.cells.find((c) => c.label === 'bubble')!.state, 'up-to-date');
+    // Back to s = 3/2: the bubble is out of date again, and its job was computed before.
+    const changed = notebook.cells.find((c) => c.label === 'setup')!;
+    notebook = (await owner.patch(`/api/notebooks/${notebook.id}/cells/${setup.id}`).send({ revision: changed.revision, input: setupCell.input }).expect(200)).body.notebook;
+    assert.equal(notebook.cells.find((c) => c.label === 'bubble')!.state, 'out-of-date');
+    const rerun: RunView = (await owner.post(`/api/notebooks/${notebook.id}/cells/${bubble.id}/run`).expect(202)).body.run;
+    assert.deepEqual([rerun.cached, rerun.status], [true, 'done']);
+    notebook = (await owner.get(`/api/notebooks/${notebook.id}`).expect(200)).body.notebook;
+  });
+
+  test('a save made on an old revision gets 409 and changes nothing', async () => {
+    const setup = notebook.cells.find((c) => c.label === 'setup')!;
+    const stale = setup.revision - 1;
+    const reply = await owner.patch(`/api/notebooks/${notebook.id}/cells/${setup.id}`).send({ revision: stale, input: { ...setupCell.input, s: '1.9' } }).expect(409);
+    assert.equal(reply.body.error.code, 'conflict');
+    const after = (await owner.get(`/api/notebooks/${notebook.id}`).expect(200)).body.notebook as NotebookDetail;
+    assert.equal((after.cells.find((c) => c.label === 'setup')!.input as { s: string }).s, '1.5');
+  });
+
+  test('versions: save, list, compare cell by cell, restore (recorded as a new version)', async () => {
+    const first = (await owner.post(`/api/notebooks/${notebook.id}/versions`).send({ message: 'bubble at s = 3/2' }).expect(201)).body.version;
+    const setup = notebook.cells.find((c) => c.label === 'setup')!;
+    const current = ((await owner.get(`/api/notebooks/${notebook.id}`)).body.notebook as NotebookDetail).cells.find((c) => c.label === 'setup')!;
+    await owner.patch(`/api/notebooks/${notebook.id}/cells/${setup.id}`).send({ revision: current.revision, input: { ...setupCell.input, s: '1.25' } }).expect(200);
+    const second = (await owner.post(`/api/notebooks/${notebook.id}/versions`).send({ message: 's = 5/4' }).expect(201)).body.version;
+    assert.equal(second.number, first.number + 1);
+    const comparison = (await owner.get(`/api/notebooks/${notebook.id}/versions/compare?from=${first.id}&to=${second.id}`).expect(200)).body.comparison;
+    const setupChange = comparison.cells.find((c: { label: string }) => c.label === 'setup');
+    assert.equal(setupChange.change, 'changed');
+    assert.ok(setupChange.input.some((p: { removed?: boolean; value: string }) => p.removed && p.value.includes('"1.5"')));
+    assert.ok(setupChange.input.some((p: { added?: boolean; value: string }) => p.added && p.value.includes('"1.25"')));
+    const old = (await owner.get(`/api/notebooks/${notebook.id}/versions/${first.id}`).expect(200)).body.version;
+    assert.equal(old.cells.find((c: { label: string }) => c.label === 'setup').input.s, '1.5');
+    const restored = (await owner.post(`/api/notebooks/${notebook.id}/versions/${first.id}/restore`).expect(200)).body.notebook as NotebookDetail;
+    assert.equal((restored.cells.find((c) => c.label === 'setup')!.input as { s: string }).s, '1.5');
+    const list = (await owner.get(`/api/notebooks/${notebook.id}/versions`).expect(200)).body.versions;
+    assert.equal(list.length, 4, 'the two saved, one before the restore, one recording it');
+    assert.match(list[0].message, /^Restored version 1/);
+    notebook = restored;
+  });
+
+  test('JSON export re-imports to an identical notebook; LaTeX export is a document', async () => {
+    const exported = await owner.get(`/api/notebooks/${notebook.id}/export.json`).expect(200).expect('Content-Type', /json/);
+    const document = JSON.parse(exported.text);
+    assert.equal(document.format, 'rungbook-notebook');
+    const imported = (await owner.post('/api/notebooks/import').send(document).expect(201)).body.notebook as NotebookDetail;
+    assert.deepEqual(imported.cells.map((c) => [c.label, c.input]), notebook.cells.map((c) => [c.label, c.input]));
+    const reexported = JSON.parse((await owner.get(`/api/notebooks/${imported.id}/export.json`).expect(200)).text);
+    assert.deepEqual(reexported.cells.map((c: { label: string; input: unknown }) => [c.label, c.input]), document.cells.map((c: { label: string; input: unknown }) => [c.label, c.input]));
+    const bad = await owner.post('/api/notebooks/import').send({ ...document, formatVersion: 99 }).expect(400);
+    assert.match(bad.body.error.message, /Unsupported notebook file version/);
+    const tex = await owner.get(`/api/notebooks/${notebook.id}/export.tex`).expect(200);
+    assert.match(tex.text, /^\\documentclass\{article\}/);
+    assert.match(tex.text, /\\end\{document\}\s*$/);
+    assert.match(String(tex.headers['content-disposition']), /attachment; filename="?Invented-O-1-check\.tex"?/);
+  });
+
+  test('outsiders can neither read, edit nor run the notebook', async () => {
+    const cell = notebook.cells[0];
+    await outsider.patch(`/api/notebooks/${notebook.id}/cells/${cell.id}`).send({ revision: cell.revision, label: 'mine' }).expect(404);
+    await outsider.post(`/api/notebooks/${notebook.id}/run-all`).expect(404);
+    await outsider.get(`/api/notebooks/${notebook.id}/export.json`).expect(404);
+  });
+});
+
+describe('POST /api/calc and runs', () => {
+  let h: Harness;
+  let client: Client;
+  before(async () => {
+    h = await startHarness({ JOB_TIME_LIMIT_MS: '20000' });
+    client = h.browser();
+    await client.post('/api/auth/sign-up').send(person(3)).expect(201);
+  });
+  after(() => h.close());
+
+  test('takes the same job objects as the calc CLI and caches identical ones', async () => {
+    const job = { job: 'special', fn: 'gamma', x: '0.25', digits: 40 };
+    const first = (await client.post('/api/calc').send({ job }).expect(200)).body.run;
+    assert.equal(first.status, 'done');
+    assert.equal(first.cached, false);
+    // Γ(1/4) = 3.6256099082219083119306851558676720029951… (OEIS A068466).
+    assert.equal(first.result.value, '3.625609908221908311930685155867672002995');
+    const second = (await client.post('/api/calc').send({ job: { digits: 40, x: '0.25', fn: 'gamma', job: 'special' } }).expect(200)).body.run;
+    assert.equal(second.cached, true);
+    assert.deepEqual(second.result, first.result);
+  });
+
+  test('an invalid job fails with the engine error and nothing crashes', async () => {
+    const run = (await client.post('/api/calc').send({ job: { job: 'special', fn: 'gamma', x: '-2', digits: 30 } }).expect(200)).body.run;
+    assert.equal(run.status, 'failed');
+    assert.equal(run.error.code, 'pole');
+    const missing = await client.post('/api/calc').send({}).expect(400);
+    assert.ok(missing.body.error.fields.job);
+  });
+
+  test('the OpenAPI document lists the routes with their request schemas', async () => {
+    const doc = (await h.raw.get('/api/openapi.json').expect(200)).body;
+    assert.equal(doc.openapi, '3.1.0');
+    assert.ok(doc.paths['/api/notebooks/{notebookId}/cells'].post.requestBody);
+    assert.ok(doc.paths['/api/auth/sign-up'].post.requestBody.content['application/json'].schema.properties.password);
+  });
+});
