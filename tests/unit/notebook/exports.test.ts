@@ -1,0 +1,67 @@
+import assert from 'node:assert/strict';
+import { describe, test } from 'node:test';
+import { escapeLatexText, notebookDocument, toLatexDocument, toNotebookDocument } from '../../../shared/notebook/exports';
+import { jobForCell, type SetupInput } from '../../../shared/notebook/jobs';
+
+const cells = [
+  { label: 'intro', input: { kind: 'note' as const, text: '# Invented check\nThe bubble at $s = 3/2$, 100% by hand & machine:\n$$G(a,b) = \\frac{\\Gamma(d/2-a)}{\\Gamma(a)}$$' }, output: null },
+  { label: 'params', input: { kind: 'setup' as const, model: { preset: 'on' as const, N: 3 }, d: '3', s: '1.5', loops: 2 as const, digits: 30 }, output: null },
+  {
+    label: 'bubble',
+    input: { kind: 'integral' as const, uses: 'params', form: 'bubble' as const, a: 's/2', b: 's/2', d: '2*s-eps', order: 1 },
+    output: { lowest: -1, order: 1, coeffs: ['2.2567', '1.8815', '1.6276'] },
+  },
+];
+
+describe('notebook JSON file', () => {
+  test('an exported document validates and round-trips unchanged through JSON text', () => {
+    const document = toNotebookDocument('Invented O(3) check', 'invented scenario', cells, new Date('2026-01-01T00:00:00Z'));
+    const reread = notebookDocument.parse(JSON.parse(JSON.stringify(document)));
+    assert.deepEqual(reread, document);
+  });
+
+  test('files of another format or version, or with repeated labels, are refused with a clear message', () => {
+    const document = toNotebookDocument('x', '', cells, new Date());
+    assert.match(notebookDocument.safeParse({ ...document, format: 'other' }).error!.issues[0].message, /Not a Rungbook notebook file/);
+    assert.match(notebookDocument.safeParse({ ...document, formatVersion: 2 }).error!.issues[0].message, /Unsupported notebook file version/);
+    assert.match(notebookDocument.safeParse({ ...document, cells: [document.cells[1], document.cells[1]] }).error!.issues[0].message, /share a label/);
+  });
+});
+
+describe('LaTeX export', () => {
+  const tex = toLatexDocument(toNotebookDocument('Invented O(3) check', '', cells, new Date()));
+
+  test('is a complete document with the title', () => {
+    assert.match(tex, /^\\documentclass\{article\}/);
+    assert.match(tex, /\\title\{Invented O\(3\) check\}/);
+    assert.match(tex, /\\end\{document\}\n$/);
+  });
+
+  test('keeps note mathematics as mathematics and escapes LaTeX specials in prose (LaTeX2e special characters: # $ % & _ { } ~ ^ \\)', () => {
+    assert.match(tex, /\$s = 3\/2\$/);
+    assert.match(tex, /\\\[G\(a,b\) = \\frac\{\\Gamma\(d\/2-a\)\}\{\\Gamma\(a\)\}\\\]/);
+    assert.match(tex, /100\\% by hand \\& machine/);
+    assert.equal(escapeLatexText('a_b^c~{d}#$'), 'a\\_b\\^{}c\\~{}\\{d\\}\\#\\$');
+  });
+
+  test('writes a series result as an equation with its truncation order', () => {
+    assert.match(tex, /\\left\(2\.2567\\right\)\\,\\varepsilon\^\{-1\}/);
+    assert.match(tex, /O\(\\varepsilon\^\{2\}\)/);
+  });
+});
+
+describe('cell → engine job', () => {
+  const setups = new Map<string, SetupInput>([['params', cells[1].input]]);
+
+  test('an integral cell takes s and digits from its setup cell', () => {
+    assert.deepEqual(jobForCell(cells[2].input, setups), { job: 'bubble', a: 's/2', b: 's/2', d: '2*s-eps', order: 1, at: { s: '1.5' }, digits: 30 });
+  });
+
+  test('an exponents cell builds the exponents job of the engine contract', () => {
+    assert.deepEqual(jobForCell({ kind: 'exponents', uses: 'params' }, setups), { job: 'exponents', model: { preset: 'on', N: 3 }, loops: 2, digits: 30, d: '3', s: '1.5' });
+  });
+
+  test('a reference to a missing setup is a field error, never an engine call', () => {
+    assert.throws(() => jobForCell({ kind: 'flow', uses: 'nope' }, setups), /no model & parameters cell labelled "nope"/);
+  });
+});
