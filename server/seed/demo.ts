@@ -1,6 +1,7 @@
 import type { DataSource } from 'typeorm';
 import { hashPassword } from '../auth/passwords';
-import { GroupMembership, ResearchGroup, User } from '../db/entities';
+import { Cell, GroupMembership, Notebook, ResearchGroup, User } from '../db/entities';
+import type { CellInput } from '../../shared/notebook/cells';
 import { newId } from '../ids';
 import type { GroupRole, SiteRole } from '../../shared/api/schemas';
 
@@ -29,6 +30,34 @@ export const demoPeople: DemoPerson[] = [
   { name: 'Sunniva Okonkwo-Reyes (demo member)', email: 'sunniva@demo.rungbook.example', password: 'demo-member-pass', siteRole: 'member', groupRole: 'member' },
 ];
 
+/** DEMO DATA — an invented scenario: the group checks a two-loop long-range O(3) calculation in d = 3. */
+export const demoNotebook: { title: string; summary: string; cells: { label: string; input: CellInput }[] } = {
+  title: 'Long-range O(3) in d = 3 at two loops (demo, invented scenario)',
+  summary: 'Invented scenario for the demo group: from the one-loop bubble to exponents, and a scan over s.',
+  cells: [
+    {
+      label: 'intro',
+      input: {
+        kind: 'note',
+        text:
+          '# Invented scenario\n' +
+          'The (invented) Tidewater group wants to check a two-loop result for the long-range O(3) model in $d = 3$ ' +
+          'before comparing with their (invented) lattice data. The kinetic term is $(-\\partial^2)^{s/2}$ and we expand in ' +
+          '$\\varepsilon = 2s - d$ at fixed $s$.\n\n$$G(a,b) = \\frac{\\Gamma(d/2-a)\\,\\Gamma(d/2-b)\\,\\Gamma(a+b-d/2)}{\\Gamma(a)\\,\\Gamma(b)\\,\\Gamma(d-a-b)}$$',
+      },
+    },
+    { label: 'params', input: { kind: 'setup', model: { preset: 'on', N: 3 }, d: '3', s: '1.75', loops: 2, digits: 20 } },
+    { label: 'bubble', input: { kind: 'integral', uses: 'params', form: 'bubble', a: 's/2', b: 's/2', d: '2*s-eps', order: 1 } },
+    { label: 'flow', input: { kind: 'flow', uses: 'params' } },
+    { label: 'fixed', input: { kind: 'fixedpoints', uses: 'params' } },
+    { label: 'exps', input: { kind: 'exponents', uses: 'params' } },
+    {
+      label: 'scan',
+      input: { kind: 'scan', uses: 'params', from: '1.55', to: '1.95', points: 41, quantities: ['nuInv', 'omega'], deltaSigmaShortRange: '0.5181489' },
+    },
+  ],
+};
+
 /** Create the demo group and people when the database has no users yet. Returns whether it did. */
 export async function seedDemoDataIfEmpty(dataSource: DataSource): Promise<boolean> {
   if ((await dataSource.getRepository(User).count()) > 0) return false;
@@ -36,6 +65,7 @@ export async function seedDemoDataIfEmpty(dataSource: DataSource): Promise<boole
   await dataSource.transaction(async (manager) => {
     const groupId = newId();
     await manager.insert(ResearchGroup, { id: groupId, ...demoGroup });
+    const userIds: string[] = [];
     for (const [index, person] of demoPeople.entries()) {
       const userId = newId();
       await manager.insert(User, {
@@ -46,7 +76,14 @@ export async function seedDemoDataIfEmpty(dataSource: DataSource): Promise<boole
         passwordHash: hashes[index],
         siteRole: person.siteRole,
       });
+      userIds.push(userId);
       if (person.groupRole) await manager.insert(GroupMembership, { groupId, userId, role: person.groupRole });
+    }
+    const leadId = userIds[demoPeople.findIndex((p) => p.groupRole === 'lead')];
+    const notebookId = newId();
+    await manager.insert(Notebook, { id: notebookId, title: demoNotebook.title, summary: demoNotebook.summary, ownerId: leadId, groupId });
+    for (const [position, cell] of demoNotebook.cells.entries()) {
+      await manager.insert(Cell, { id: newId(), notebookId, position, kind: cell.input.kind, label: cell.label, inputJson: JSON.stringify(cell.input), revision: 1 });
     }
   });
   return true;

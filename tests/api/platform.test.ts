@@ -59,8 +59,16 @@ describe('platform: health, routing, body limits, database', () => {
     const roles = (await ds.getRepository(GroupMembership).find()).map((m) => m.role).sort();
     assert.deepEqual(roles, ['lead', 'member', 'member']);
     assert.ok(users.every((u) => /demo/.test(u.name)), 'demo people are labelled as demo data');
-    const signIn = await h.browser().post('/api/auth/sign-in').send({ email: 'lead@demo.rungbook.example', password: 'demo-lead-pass' }).expect(200);
+    const lead = h.browser();
+    const signIn = await lead.post('/api/auth/sign-in').send({ email: 'lead@demo.rungbook.example', password: 'demo-lead-pass' }).expect(200);
     assert.equal(signIn.body.user.siteRole, 'member');
+    const member = h.browser();
+    await member.post('/api/auth/sign-in').send({ email: 'imre@demo.rungbook.example', password: 'demo-member-pass' }).expect(200);
+    const shared = (await member.get('/api/notebooks').expect(200)).body.notebooks;
+    assert.equal(shared.length, 1, 'the demo notebook is shared with the demo group');
+    assert.match(shared[0].title, /invented scenario/);
+    const detail = (await member.get(`/api/notebooks/${shared[0].id}`).expect(200)).body.notebook;
+    assert.deepEqual(detail.cells.map((c: { kind: string }) => c.kind), ['note', 'setup', 'integral', 'flow', 'fixedpoints', 'exponents', 'scan']);
   });
 });
 

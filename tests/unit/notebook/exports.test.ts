@@ -3,9 +3,10 @@ import { describe, test } from 'node:test';
 import { escapeLatexText, notebookDocument, toLatexDocument, toNotebookDocument } from '../../../shared/notebook/exports';
 import { jobForCell, type SetupInput } from '../../../shared/notebook/jobs';
 
+const params: SetupInput = { kind: 'setup', model: { preset: 'on', N: 3 }, d: '3', s: '1.5', loops: 2, digits: 30 };
 const cells = [
   { label: 'intro', input: { kind: 'note' as const, text: '# Invented check\nThe bubble at $s = 3/2$, 100% by hand & machine:\n$$G(a,b) = \\frac{\\Gamma(d/2-a)}{\\Gamma(a)}$$' }, output: null },
-  { label: 'params', input: { kind: 'setup' as const, model: { preset: 'on' as const, N: 3 }, d: '3', s: '1.5', loops: 2 as const, digits: 30 }, output: null },
+  { label: 'params', input: params, output: null },
   {
     label: 'bubble',
     input: { kind: 'integral' as const, uses: 'params', form: 'bubble' as const, a: 's/2', b: 's/2', d: '2*s-eps', order: 1 },
@@ -51,7 +52,7 @@ describe('LaTeX export', () => {
 });
 
 describe('cell → engine job', () => {
-  const setups = new Map<string, SetupInput>([['params', cells[1].input]]);
+  const setups = new Map<string, SetupInput>([['params', params]]);
 
   test('an integral cell takes s and digits from its setup cell', () => {
     assert.deepEqual(jobForCell(cells[2].input, setups), { job: 'bubble', a: 's/2', b: 's/2', d: '2*s-eps', order: 1, at: { s: '1.5' }, digits: 30 });
