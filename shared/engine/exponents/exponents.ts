@@ -1,0 +1,126 @@
+import { type DerivedFlow } from '../diagrams/renormalization';
+import { type FixedPoint } from '../fixedpoints/fixedPoints';
+import { type CouplingPolynomial } from '../models/couplingPolynomial';
+import { fail } from '../precision/errors';
+import { LaurentSeries } from '../series/laurent';
+import { Expression } from '../symbolic/expression';
+import { polyFromAffine } from '../symbolic/polynomial';
+import { ratFromPoly } from '../symbolic/ratfunc';
+
+export const SERIES_QUANTITIES = ['nuInv', 'omega', 'eta', 'Delta_phi', 'Delta_phi2', 'Delta_phi3', 'Delta_phi4', 'nu', 'gamma', 'alpha', 'beta', 'delta'] as const;
+export type Quantity = (typeof SERIES_QUANTITIES)[number];
+
+/** How each exponent follows from the RG functions (stated in results). */
+export const RELATIONS: Record<Quantity, string> = {
+  nuInv: '1/ν = s − γ_{φ²}(g*)',
+  omega: 'ω = smallest eigenvalue of ∂β_i/∂g_j at g*',
+  eta: 'η = 2 − s + 2γ_φ(g*)',
+  Delta_phi: 'Δ_φ = (d − 2 + η)/2 = (d − s)/2 + γ_φ',
+  Delta_phi2: 'Δ_{φ²} = d − 1/ν',
+  Delta_phi3: 'Δ_{φ³} = d − Δ_φ (shadow relation of the non-local equation of motion)',
+  Delta_phi4: 'Δ_{φ⁴} = d + ω',
+  nu: 'ν = 1/(1/ν)',
+  gamma: 'γ = ν(2 − η) (Fisher)',
+  alpha: 'α = 2 − dν (hyperscaling)',
+  beta: 'β = ν(d − 2 + η)/2 = ν Δ_φ',
+  delta: 'δ = (d + 2 − η)/(d − 2 + η) = Δ_{φ³}/Δ_φ',
+};
+
+/** p(g(ε)) for a coupling polynomial evaluated on coupling series. */
+export function onSeries<C>(p: CouplingPolynomial<C>, g: readonly LaurentSeries<C>[], order: number): LaurentSeries<C> {
+  const ring = p.ring;
+  let sum = LaurentSeries.of(ring, 0, [], order);
+  for (const t of p.terms.values()) {
+    let term = LaurentSeries.constant(ring, t.coeff, order);
+    t.powers.forEach((e, k) => {
+      for (let i = 0; i < e; i++) term = term.mul(g[k]);
+    });
+    sum = sum.add(term.truncate(order));
+  }
+  return sum;
+}
+
+export type ExponentSeries<C> = Record<Quantity, LaurentSeries<C>>;
+
+/** s as a coefficient: a number, or the parameter s as a symbolic expression. */
+function sCoefficient<C>(flow: DerivedFlow<C>): C {
+  const calc = flow.calculus;
+  if (calc.sValue) return calc.ctx.ring.fromRational(calc.sValue.num, calc.sValue.den);
+  return Expression.ratfunc(ratFromPoly(polyFromAffine(calc.s))) as unknown as C;
+}
+
+/**
+ * Every exponent at a fixed point as an ε-series at fixed s through ε^loops, derived from the
+ * RG functions and the scaling relations in RELATIONS (d = 2s − ε).
+ */
+export function exponentSeries<C>(flow: DerivedFlow<C>, point: FixedPoint<C>): ExponentSeries<C> {
+  const { ring } = flow.calculus.ctx;
+  const order = flow.loops;
+  if (!point.couplingSeries) fail('not-representable', `fixed point ${point.name} has no real ε-series`);
+  const g = point.couplingSeries;
+  if (!flow.gammaPhi2) fail('not-representable', `Δ_φ² is not defined for this model: ${flow.gammaPhi2Note ?? 'the φ² insertion mixes'}`);
+  const constant = (c: C) => LaurentSeries.constant(ring, c, order);
+  const number = (n: bigint, m = 1n) => constant(ring.fromRational(n, m));
+  const s = constant(sCoefficient(flow));
+  const eps = LaurentSeries.variable(ring, order);
+  const d = s.scale(2n).sub(eps);
+  const gammaPhi = onSeries(flow.gammaPhi, g, order);
+  const gammaPhi2 = onSeries(flow.gammaPhi2, g, order);
+  const omega = smallestEigenvalueSeries(point, order);
+  const eta = number(2n).sub(s).add(gammaPhi.scale(2n));
+  const nuInv = s.sub(gammaPhi2);
+  const deltaPhi = d.sub(s).scale(1n, 2n).add(gammaPhi);
+  const nu = nuInv.inverse().truncate(order);
+  const deltaPhi3 = d.sub(deltaPhi);
+  return {
+    nuInv,
+    omega,
+    eta,
+    Delta_phi: deltaPhi,
+    Delta_phi2: d.sub(nuInv),
+    Delta_phi3: deltaPhi3,
+    Delta_phi4: d.add(omega),
+    nu,
+    gamma: nu.mul(number(2n).sub(eta)).truncate(order),
+    alpha: number(2n).sub(d.mul(nu)).truncate(order),
+    beta: nu.mul(deltaPhi).truncate(order),
+    delta: deltaPhi3.mul(deltaPhi.inverse()).truncate(order),
+  };
+}
+
+function smallestEigenvalueSeries<C>(point: FixedPoint<C>, order: number): LaurentSeries<C> {
+  const series = point.eigenvalueSeries;
+  if (!series || series.length === 0 || series.some((e) => e === null)) return fail('not-representable', `the stability eigenvalues of ${point.name} have no ε-series (degenerate or complex)`);
+  if (series.length === 1) return (series[0] as LaurentSeries<C>).truncate(order);
+  let best: LaurentSeries<C> | null = null;
+  let bestValue = Infinity;
+  for (const e of series as LaurentSeries<C>[]) {
+    const leading = Number(String(e.coefficient(1)));
+    if (leading < bestValue) {
+      bestValue = leading;
+      best = e;
+    }
+  }
+  return (best as LaurentSeries<C>).truncate(order);
+}
+
+/** Landau (Gaussian) values, exact for d ≥ 2s where the quartic coupling is irrelevant. */
+export function meanFieldValues(d: number | string, s: number | string): Record<Quantity, string> & { statement: string } {
+  const D = Number(d);
+  const S = Number(s);
+  return {
+    statement: `d = ${d} ≥ 2s = ${2 * S}: the Gaussian fixed point is IR-stable and mean-field exponents are exact (α, β, δ take their Landau values; hyperscaling does not hold above the upper critical dimension)`,
+    nuInv: String(S),
+    nu: String(1 / S),
+    eta: String(2 - S),
+    gamma: '1',
+    alpha: '0',
+    beta: '0.5',
+    delta: '3',
+    omega: String(D - 2 * S),
+    Delta_phi: String((D - S) / 2),
+    Delta_phi2: String(D - S),
+    Delta_phi3: String((D + S) / 2),
+    Delta_phi4: String(2 * (D - S)),
+  };
+}

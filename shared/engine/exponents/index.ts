@@ -1,0 +1,2 @@
+/** Critical exponents at a fixed point: ε-series, scaling relations, mean-field statement. */
+export * from './exponents';

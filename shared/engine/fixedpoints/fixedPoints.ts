@@ -1,0 +1,340 @@
+import { type DerivedFlow } from '../diagrams/renormalization';
+import { stabilityMatrixAt, betaAt, jacobianPolynomials } from '../flows/flow';
+import { type ModelSpec } from '../models/model';
+import { fail } from '../precision/errors';
+import { type Real, realContext } from '../precision/real';
+import { LaurentSeries } from '../series/laurent';
+import { type Complex, cabs, polynomialRoots, solveComplex, solveLinear } from './linear';
+
+/**
+ * A fixed point of the truncated flow: couplings and stability eigenvalues as ε-series at fixed s
+ * (coefficient of ε^m at index m), and, at a physical ε, as numbers.
+ */
+export interface FixedPoint<C> {
+  name: string;
+  status: 'real' | 'complex' | 'degenerate';
+  couplingSeries: LaurentSeries<C>[] | null;
+  eigenvalueSeries: (LaurentSeries<C> | null)[] | null;
+  /** Root of the truncated β at the physical ε, found by Newton from the series value. */
+  couplingValues: Real[] | null;
+  /** Eigenvalues of ∂β_i/∂g_j at that root (complex ones in double precision). */
+  eigenvalueValues: Complex[] | null;
+  complexCouplings?: Complex[];
+  stable: boolean | null;
+  notes: string[];
+}
+
+const toNumber = (c: unknown): number => Number(String(c));
+
+/** Pivot size below which the one-loop stability matrix counts as singular (merging fixed points). */
+const SINGULAR_PIVOT = 1e-20;
+
+/** Solutions of the one-loop condition beta⁽²⁾(g₁) = g₁ (the ε¹ coefficients of the couplings). */
+function oneLoopRootsSingle<C>(flow: DerivedFlow<C>): C[][] {
+  const { ring } = flow.calculus.ctx;
+  const c2 = flow.beta[0].homogeneous(2).terms.get('2')?.coeff;
+  if (!c2 || flow.calculus.isNegligible(c2)) return [[ring.zero()]];
+  return [[ring.zero()], [ring.inverse(c2)]];
+}
+
+function seededStarts(k: number, scale: number): Complex[][] {
+  let seed = 12345;
+  const next = () => {
+    seed = (seed * 1103515245 + 12345) % 2147483648;
+    return seed / 2147483648 - 0.5;
+  };
+  return Array.from({ length: 96 }, () => Array.from({ length: k }, () => ({ re: 4 * scale * next(), im: 2 * scale * next() })));
+}
+
+/** All one-loop roots of a multi-coupling flow: complex Newton from many starts (double precision). */
+function oneLoopRootsNumeric(flow: DerivedFlow<Real>): Complex[][] {
+  const k = flow.couplings.length;
+  const quadratic = flow.beta.map((b) => b.homogeneous(2));
+  const coeff = (c: Real) => toNumber(c);
+  const value = (g: Complex[]) =>
+    quadratic.map((p, i) => {
+      let s: Complex = { re: -g[i].re, im: -g[i].im };
+      for (const t of p.terms.values()) {
+        let term: Complex = { re: coeff(t.coeff), im: 0 };
+        t.powers.forEach((e, j) => {
+          for (let r = 0; r < e; r++) term = { re: term.re * g[j].re - term.im * g[j].im, im: term.re * g[j].im + term.im * g[j].re };
+        });
+        s = { re: s.re + term.re, im: s.im + term.im };
+      }
+      return s;
+    });
+  const jac = (g: Complex[]) =>
+    quadratic.map((p, i) =>
+      flow.couplings.map((_, j) => {
+        let s: Complex = { re: i === j ? -1 : 0, im: 0 };
+        for (const t of p.derivative(j).terms.values()) {
+          let term: Complex = { re: coeff(t.coeff), im: 0 };
+          t.powers.forEach((e, l) => {
+            for (let r = 0; r < e; r++) term = { re: term.re * g[l].re - term.im * g[l].im, im: term.re * g[l].im + term.im * g[l].re };
+          });
+          s = { re: s.re + term.re, im: s.im + term.im };
+        }
+        return s;
+      }),
+    );
+  const largest = Math.max(...quadratic.flatMap((p) => [...p.terms.values()].map((t) => Math.abs(coeff(t.coeff)))), 1e-30);
+  const roots: Complex[][] = [[...Array(k)].map(() => ({ re: 0, im: 0 }))];
+  for (const start of seededStarts(k, 1 / largest)) {
+    let g = start;
+    for (let iter = 0; iter < 100; iter++) {
+      const step = solveComplex(jac(g), value(g));
+      if (!step) break;
+      g = g.map((x, i) => ({ re: x.re - step[i].re, im: x.im - step[i].im }));
+      if (Math.max(...step.map(cabs)) < 1e-14 * (1 + Math.max(...g.map(cabs)))) break;
+    }
+    if (Math.max(...value(g).map(cabs)) > 1e-10 / largest) continue;
+    const cleaned = g.map((x) => ({ re: x.re, im: Math.abs(x.im) < 1e-9 / largest ? 0 : x.im }));
+    if (!roots.some((r) => r.every((x, i) => cabs({ re: x.re - cleaned[i].re, im: x.im - cleaned[i].im }) < 1e-7 / largest))) roots.push(cleaned);
+    if (roots.length === 2 ** k) break;
+  }
+  return roots;
+}
+
+/** Newton polish of a real one-loop root in full precision. */
+function polishOneLoop(flow: DerivedFlow<Real>, start: number[]): Real[] {
+  const { ring } = flow.calculus.ctx;
+  let g = start.map((x) => ring.fromRational(BigInt(Math.round(x * 1e15)), 10n ** 15n));
+  const quadratic = flow.beta.map((b) => b.homogeneous(2));
+  for (let iter = 0; iter < 200; iter++) {
+    const f = quadratic.map((p, i) => ring.sub(p.evaluate(g), g[i]));
+    const j = quadratic.map((p, i) => flow.couplings.map((_, l) => (i === l ? ring.sub(p.derivative(l).evaluate(g), ring.one()) : p.derivative(l).evaluate(g))));
+    const step = solveLinear(ring, j, f, (c) => c.isZero(), (c) => Math.abs(toNumber(c)));
+    if (!step) break;
+    g = g.map((x, i) => ring.sub(x, step[i]));
+    if (step.every((s) => flow.calculus.isNegligible(s))) break;
+  }
+  // a merging (double) root converges only linearly: components at rounding level are zero
+  const size = Math.max(...g.map((x) => Math.abs(toNumber(x))));
+  return g.map((x) => (Math.abs(toNumber(x)) < 1e-30 * size ? ring.zero() : x));
+}
+
+interface SeriesOutcome<C> {
+  series: LaurentSeries<C>[];
+  degenerate: boolean;
+}
+
+/**
+ * g(ε) through ε^loops. One coupling: ε = beta(g)/g is reverted, g(ε) = reversion of the series
+ * ε(g). Several couplings: order by order, (J₁ − 1) g₂ = −beta⁽³⁾(g₁).
+ */
+function couplingSeries<C>(flow: DerivedFlow<C>, g1: C[], magnitude?: (c: C) => number): SeriesOutcome<C> {
+  const { ring } = flow.calculus.ctx;
+  const order = flow.loops;
+  const isZero = flow.calculus.isNegligible;
+  if (g1.every(isZero)) return { series: g1.map(() => LaurentSeries.of(ring, 0, [], order)), degenerate: false };
+  if (flow.couplings.length === 1) {
+    const c = (d: number) => flow.beta[0].homogeneous(d).terms.get(String(d))?.coeff ?? ring.zero();
+    // lowest power 0 (a zero constant term): LaurentSeries.compose drops ε^lowest for lowest > 0
+    const epsOfG = LaurentSeries.of(ring, 0, [ring.zero(), c(2), c(3)].slice(0, order + 1), order);
+    return { series: [epsOfG.reversion()], degenerate: false };
+  }
+  const series = (g2: C[] | null) => g1.map((x, i) => LaurentSeries.of(ring, 0, order === 1 ? [ring.zero(), x] : [ring.zero(), x, g2 ? g2[i] : ring.zero()], g2 || order === 1 ? order : 1));
+  if (order === 1) return { series: series(null), degenerate: false };
+  const jacobian = jacobianPolynomials(flow);
+  const m1 = jacobian.map((row, i) => row.map((p, j) => (i === j ? ring.sub(p.homogeneous(1).evaluate(g1), ring.one()) : p.homogeneous(1).evaluate(g1))));
+  const rhs = flow.beta.map((b) => ring.neg(b.homogeneous(3).evaluate(g1)));
+  const nearlySingular = magnitude ? (c: C) => magnitude(c) < SINGULAR_PIVOT : isZero;
+  const g2 = solveLinear(ring, m1, rhs, nearlySingular, magnitude);
+  return { series: series(g2), degenerate: g2 === null };
+}
+
+function coefficientVector<C>(series: LaurentSeries<C>[], m: number): C[] {
+  return series.map((s) => (s.order >= m ? s.coefficient(m) : s.ring.zero()));
+}
+
+/** Stability matrix as a series, M(ε) = ε M₁ + ε² M₂, from ∂beta/∂g at g(ε). */
+function stabilitySeriesMatrices<C>(flow: DerivedFlow<C>, series: LaurentSeries<C>[], order: number): C[][][] {
+  const { ring } = flow.calculus.ctx;
+  const g1 = coefficientVector(series, 1);
+  const jacobian = jacobianPolynomials(flow);
+  const m1 = jacobian.map((row, i) => row.map((p, j) => (i === j ? ring.sub(p.homogeneous(1).evaluate(g1), ring.one()) : p.homogeneous(1).evaluate(g1))));
+  if (order === 1) return [m1];
+  const g2 = coefficientVector(series, 2);
+  const m2 = jacobian.map((row) => row.map((p) => ring.add(p.homogeneous(1).evaluate(g2), p.homogeneous(2).evaluate(g1))));
+  return [m1, m2];
+}
+
+/** Eigenvalue series of a single coupling, or of several couplings by first-order perturbation theory (numeric). */
+function eigenvalueSeries<C>(flow: DerivedFlow<C>, matrices: C[][][]): (LaurentSeries<C> | null)[] | null {
+  const { ring } = flow.calculus.ctx;
+  const order = matrices.length;
+  if (flow.couplings.length === 1) return [LaurentSeries.of(ring, 0, [ring.zero(), ...matrices.map((m) => m[0][0])], order)];
+  if (!flow.calculus.symbolic) return numericEigenvalueSeries(flow as unknown as DerivedFlow<Real>, matrices as unknown as Real[][][]) as unknown as (LaurentSeries<C> | null)[];
+  return null;
+}
+
+function numericEigenvalueSeries(flow: DerivedFlow<Real>, [m1, m2]: Real[][][]): (LaurentSeries<Real> | null)[] {
+  const { ring } = flow.calculus.ctx;
+  const k = m1.length;
+  const lambdas = realEigenvalues(ring, m1, flow.calculus.isNegligible);
+  return lambdas.map((lambda, idx) => {
+    if (lambda === null) return null;
+    if (!m2) return LaurentSeries.of(ring, 0, [ring.zero(), lambda], 1);
+    const shifted = m1.map((row, i) => row.map((x, j) => (i === j ? ring.sub(x, lambda) : x)));
+    const repeated = lambdas.some((other, j) => j !== idx && other !== null && flow.calculus.isNegligible(ring.sub(other, lambda)));
+    const m2Zero = m2.every((row) => row.every((x) => flow.calculus.isNegligible(x)));
+    if (m2Zero) return LaurentSeries.of(ring, 0, [ring.zero(), lambda, ring.zero()], 2);
+    if (repeated) return null;
+    const right = nullVector(ring, shifted, flow.calculus.isNegligible);
+    const left = nullVector(ring, shifted[0].map((_, j) => shifted.map((row) => row[j])), flow.calculus.isNegligible);
+    if (!right || !left) return null;
+    let num = ring.zero();
+    let den = ring.zero();
+    for (let i = 0; i < k; i++) {
+      den = ring.add(den, ring.mul(left[i], right[i]));
+      for (let j = 0; j < k; j++) num = ring.add(num, ring.mul(ring.mul(left[i], m2[i][j]), right[j]));
+    }
+    return LaurentSeries.of(ring, 0, [ring.zero(), lambda, ring.mul(num, ring.inverse(den))], 2);
+  });
+}
+
+/** A vector v with A v = 0 for a singular A (one component fixed to 1). */
+function nullVector(ring: DerivedFlow<Real>['calculus']['ctx']['ring'], a: Real[][], isZero: (c: Real) => boolean): Real[] | null {
+  const k = a.length;
+  for (let fixed = 0; fixed < k; fixed++) {
+    const rows = a.slice(0, k).map((row) => row.filter((_, j) => j !== fixed));
+    const rhs = a.map((row) => ring.neg(row[fixed]));
+    for (let drop = 0; drop < k; drop++) {
+      const sub = rows.filter((_, i) => i !== drop);
+      const subRhs = rhs.filter((_, i) => i !== drop);
+      const solution = solveLinear(ring, sub, subRhs, isZero, (c) => Math.abs(toNumber(c)));
+      if (!solution) continue;
+      const v = [...solution.slice(0, fixed), ring.one(), ...solution.slice(fixed)];
+      const residual = a.map((row) => row.reduce((s, x, j) => ring.add(s, ring.mul(x, v[j])), ring.zero()));
+      if (residual.every((r) => Math.abs(toNumber(r)) < 1e-20)) return v;
+    }
+  }
+  return null;
+}
+
+/** Characteristic polynomial by Faddeev–LeVerrier: coefficients c_0..c_k of det(x − A). */
+function characteristicPolynomial(ring: DerivedFlow<Real>['calculus']['ctx']['ring'], a: Real[][]): Real[] {
+  const k = a.length;
+  const coeffs: Real[] = new Array(k + 1);
+  coeffs[k] = ring.one();
+  const times = (x: Real[][], y: Real[][]) => x.map((row) => y[0].map((_, j) => row.reduce((s, v, l) => ring.add(s, ring.mul(v, y[l][j])), ring.zero())));
+  let m: Real[][] = a.map((row) => row.map(() => ring.zero()));
+  for (let step = 1; step <= k; step++) {
+    // M_m = A M_{m−1} + c_{k−m+1} I;  c_{k−m} = −tr(A M_m)/m
+    m = times(a, m).map((row, i) => row.map((x, j) => (i === j ? ring.add(x, coeffs[k - step + 1]) : x)));
+    const am = times(a, m);
+    let trace = ring.zero();
+    for (let i = 0; i < k; i++) trace = ring.add(trace, am[i][i]);
+    coeffs[k - step] = ring.scale(trace, -1n, BigInt(step));
+  }
+  return coeffs;
+}
+
+/** Eigenvalues: real ones polished to full precision, complex ones (null here) reported separately. */
+export function realEigenvalues(ring: DerivedFlow<Real>['calculus']['ctx']['ring'], a: Real[][], isZero: (c: Real) => boolean): (Real | null)[] {
+  if (a.length === 1) return [a[0][0]];
+  const triangular = (t: Real[][]) => t.every((row, i) => row.every((x, j) => j >= i || isZero(x)));
+  if (triangular(a) || triangular(a[0].map((_, j) => a.map((row) => row[j])))) return a.map((row, i) => row[i]);
+  const p = characteristicPolynomial(ring, a);
+  const approx = polynomialRoots(p.map(toNumber));
+  return approx.map((z) => {
+    if (Math.abs(z.im) > 1e-9 * (1 + Math.abs(z.re))) return null;
+    let x = ring.fromRational(BigInt(Math.round(z.re * 1e15)), 10n ** 15n);
+    for (let iter = 0; iter < 100; iter++) {
+      let value = ring.zero();
+      let slope = ring.zero();
+      for (let c = p.length - 1; c >= 0; c--) {
+        slope = ring.add(ring.mul(slope, x), value);
+        value = ring.add(ring.mul(value, x), p[c]);
+      }
+      if (isZero(slope)) break;
+      const step = ring.mul(value, ring.inverse(slope));
+      x = ring.sub(x, step);
+      if (isZero(step)) break;
+    }
+    return x;
+  });
+}
+
+export function complexEigenvalues(a: number[][]): Complex[] {
+  const k = a.length;
+  const scale = Math.max(...a.flatMap((row) => row.map(Math.abs)), 1e-300);
+  const triangular = (t: number[][]) => t.every((row, i) => row.every((x, j) => j >= i || Math.abs(x) < 1e-25 * scale));
+  if (k === 1 || triangular(a) || triangular(a[0].map((_, j) => a.map((row) => row[j])))) return a.map((row, i) => ({ re: row[i], im: 0 }));
+  if (k === 2) {
+    const half = (a[0][0] + a[1][1]) / 2;
+    const disc = half * half - (a[0][0] * a[1][1] - a[0][1] * a[1][0]);
+    const root = Math.sqrt(Math.abs(disc));
+    return disc >= 0 ? [{ re: half + root, im: 0 }, { re: half - root, im: 0 }] : [{ re: half, im: root }, { re: half, im: -root }];
+  }
+  const R = realContext(40);
+  const ring = { zero: () => new R(0), one: () => new R(1), add: (x: Real, y: Real) => x.plus(y), sub: (x: Real, y: Real) => x.minus(y), mul: (x: Real, y: Real) => x.times(y), scale: (x: Real, n: bigint, d = 1n) => x.times(n.toString()).div(d.toString()) };
+  const p = characteristicPolynomial(ring as never, a.map((row) => row.map((x) => new R(x))));
+  return polynomialRoots(p.map(toNumber));
+}
+
+/** Accept a root only on the branch it was started from (not, e.g., the Gaussian point). */
+function isNear(g: Real[], start: Real[]): boolean {
+  const size = Math.max(...start.map((x) => Math.abs(toNumber(x))));
+  return g.every((x, i) => Math.abs(toNumber(x) - toNumber(start[i])) <= 0.5 * size + 1e-30);
+}
+
+function newtonRoot(flow: DerivedFlow<Real>, start: Real[], eps: Real): Real[] | null {
+  const { ring } = flow.calculus.ctx;
+  let g = start;
+  for (let iter = 0; iter < 80; iter++) {
+    const f = betaAt(flow, g, eps);
+    const step = solveLinear(ring, stabilityMatrixAt(flow, g, eps), f, (c) => c.isZero(), (c) => Math.abs(toNumber(c)));
+    if (!step) return null;
+    g = g.map((x, i) => ring.sub(x, step[i]));
+    if (g.some((x) => !x.isFinite() || x.abs().gt(1e6))) return null;
+    if (step.every((s) => flow.calculus.isNegligible(s))) return isNear(g, start) ? g : null;
+  }
+  return null;
+}
+
+export interface FixedPointOptions<C> {
+  /** Physical ε = 2s − d (numeric mode); null for series only. */
+  eps: C | null;
+}
+
+export function findFixedPoints<C>(spec: ModelSpec, flow: DerivedFlow<C>, options: FixedPointOptions<C>): FixedPoint<C>[] {
+  const numeric = !flow.calculus.symbolic;
+  const k = flow.couplings.length;
+  if (k > 1 && !numeric) fail('not-representable', 'fixed points of several couplings need numeric s and N');
+  const magnitude = numeric ? (c: C) => Math.abs(toNumber(c)) : undefined;
+  const points: FixedPoint<C>[] = [];
+  const roots: { g1: C[] | null; complex?: Complex[] }[] =
+    k === 1 ? oneLoopRootsSingle(flow).map((g1) => ({ g1 })) : oneLoopRootsNumeric(flow as unknown as DerivedFlow<Real>).map((r) => (r.every((x) => x.im === 0) ? { g1: polishOneLoop(flow as unknown as DerivedFlow<Real>, r.map((x) => x.re)) as unknown as C[] } : { g1: null, complex: r }));
+  for (const root of roots) {
+    if (!root.g1) {
+      points.push({ name: `complex (${spec.classify((root.complex as Complex[]).map((x) => x.re))})`, status: 'complex', couplingSeries: null, eigenvalueSeries: null, couplingValues: null, eigenvalueValues: null, complexCouplings: root.complex, stable: null, notes: ['complex at one loop: not a physical fixed point'] });
+      continue;
+    }
+    points.push(describeFixedPoint(spec, flow, root.g1, options, magnitude));
+  }
+  return points;
+}
+
+function describeFixedPoint<C>(spec: ModelSpec, flow: DerivedFlow<C>, g1: C[], options: FixedPointOptions<C>, magnitude?: (c: C) => number): FixedPoint<C> {
+  const notes: string[] = [];
+  const name = spec.classify(flow.calculus.symbolic ? g1.map((c) => (flow.calculus.isNegligible(c) ? 0 : 1)) : g1.map(toNumber));
+  const { series, degenerate } = couplingSeries(flow, g1, magnitude);
+  if (degenerate) notes.push('the one-loop stability matrix has a zero eigenvalue here: the ε² correction is not determined (fixed points merge)');
+  const eigen = eigenvalueSeries(flow, stabilitySeriesMatrices(flow, series, degenerate ? 1 : flow.loops));
+  let couplingValues: Real[] | null = null;
+  let eigenvalueValues: Complex[] | null = null;
+  if (options.eps !== null && !flow.calculus.symbolic) {
+    const realFlow = flow as unknown as DerivedFlow<Real>;
+    const eps = options.eps as unknown as Real;
+    const start = (series as unknown as LaurentSeries<Real>[]).map((s) => s.evaluate(eps));
+    couplingValues = newtonRoot(realFlow, start, eps);
+    if (!couplingValues) notes.push('no root of the truncated β near the ε-series value at this ε');
+    else eigenvalueValues = complexEigenvalues(stabilityMatrixAt(realFlow, couplingValues, eps).map((row) => row.map(toNumber)));
+  }
+  let stable: boolean | null = null;
+  if (eigen && eigen.every((e) => e !== null) && options.eps !== null && !flow.calculus.symbolic) {
+    stable = (eigen as LaurentSeries<C>[]).every((e) => toNumber(e.evaluate(options.eps as C)) > 0);
+  } else if (eigenvalueValues) stable = eigenvalueValues.every((z) => z.re > 0);
+  return { name, status: degenerate ? 'degenerate' : 'real', couplingSeries: series, eigenvalueSeries: eigen, couplingValues, eigenvalueValues, stable, notes };
+}

@@ -1,0 +1,2 @@
+/** Flows: the derived β-functions and anomalous dimensions of a model, evaluated and differentiated. */
+export * from './flow';
