@@ -1,5 +1,0 @@
-import { NotebooksScreen } from '../../components/screens/NotebooksScreen';
-
-export default function NotebooksRoute() {
-  return <NotebooksScreen />;
-}
