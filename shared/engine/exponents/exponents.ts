@@ -2,6 +2,7 @@ import { type DerivedFlow } from '../diagrams/renormalization';
 import { type FixedPoint } from '../fixedpoints/fixedPoints';
 import { type CouplingPolynomial } from '../models/couplingPolynomial';
 import { fail } from '../precision/errors';
+import { type Real, realContext } from '../precision/real';
 import { LaurentSeries } from '../series/laurent';
 import { Expression } from '../symbolic/expression';
 import { polyFromAffine } from '../symbolic/polynomial';
@@ -105,22 +106,24 @@ function smallestEigenvalueSeries<C>(point: FixedPoint<C>, order: number): Laure
 }
 
 /** Landau (Gaussian) values, exact for d ≥ 2s where the quartic coupling is irrelevant. */
-export function meanFieldValues(d: number | string, s: number | string): Record<Quantity, string> & { statement: string } {
-  const D = Number(d);
-  const S = Number(s);
+export function meanFieldValues(d: string, s: string): Record<Quantity, string> & { statement: string } {
+  const R = realContext(40);
+  const D = new R(d);
+  const S = new R(s);
+  const text = (x: Real) => x.toSignificantDigits(30).toString();
   return {
-    statement: `d = ${d} ≥ 2s = ${2 * S}: the Gaussian fixed point is IR-stable and mean-field exponents are exact (α, β, δ take their Landau values; hyperscaling does not hold above the upper critical dimension)`,
-    nuInv: String(S),
-    nu: String(1 / S),
-    eta: String(2 - S),
+    statement: `d = ${d} ≥ 2s = ${text(S.times(2))}: the Gaussian fixed point is IR-stable and mean-field exponents are exact (α, β, δ take their Landau values; hyperscaling does not hold above the upper critical dimension)`,
+    nuInv: text(S),
+    nu: text(new R(1).div(S)),
+    eta: text(new R(2).minus(S)),
     gamma: '1',
     alpha: '0',
     beta: '0.5',
     delta: '3',
-    omega: String(D - 2 * S),
-    Delta_phi: String((D - S) / 2),
-    Delta_phi2: String(D - S),
-    Delta_phi3: String((D + S) / 2),
-    Delta_phi4: String(2 * (D - S)),
+    omega: text(D.minus(S.times(2))),
+    Delta_phi: text(D.minus(S).div(2)),
+    Delta_phi2: text(D.minus(S)),
+    Delta_phi3: text(D.plus(S).div(2)),
+    Delta_phi4: text(D.minus(S).times(2)),
   };
 }

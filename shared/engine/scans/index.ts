@@ -1,0 +1,2 @@
+/** Scans of exponent series over s: derive once, evaluate many times; crossover marks. */
+export * from './scan';

@@ -1,0 +1,111 @@
+import { type Real, GUARD_DIGITS, rationalToReal, realContext } from '../precision/real';
+import { gamma, polygamma, pi, ln2, eulerGamma, zetaInteger } from '../special/index';
+import { evaluateAffine } from '../symbolic/affine';
+import { type Atom, type Expression, atomKey } from '../symbolic/expression';
+import { type Q, qCompare, qSub, qMul, q } from '../symbolic/rational';
+import { ratEvaluate } from '../symbolic/ratfunc';
+import { evaluatePade, padeApproximant } from '../pade/pade';
+
+/**
+ * Evaluate exponent series whose coefficients are symbolic in s at many values of s: derived
+ * once, then per point every distinct ψ/Γ atom is computed once and shared by all coefficients.
+ */
+export interface CompiledSeries {
+  coefficients: Expression[];
+}
+
+export interface ScanPoint {
+  s: Q;
+  eps: Q;
+  /** 'mean-field' for s ≤ d/2, 'short-range' for s ≥ s*, otherwise 'long-range'. */
+  regime: 'mean-field' | 'long-range' | 'short-range';
+  values: Real[];
+  pade: (Real | null)[];
+}
+
+function atomValue(a: Atom, at: Record<string, Q>, digits: number): Real {
+  switch (a.kind) {
+    case 'pi':
+      return pi(digits);
+    case 'log2':
+      return ln2(digits);
+    case 'eulergamma':
+      return eulerGamma(digits);
+    case 'zeta':
+      return zetaInteger(a.n, digits);
+    case 'psi':
+      return polygamma(a.order, evaluateAffine(a.arg, at), digits);
+    case 'gamma':
+      return gamma(evaluateAffine(a.arg, at), digits);
+  }
+}
+
+export function evaluateAtPoint(e: Expression, at: Record<string, Q>, digits: number, atoms: Map<string, Real>): Real {
+  const R = realContext(digits);
+  let sum = new R(0);
+  for (const t of e.terms.values()) {
+    let term = rationalToReal(ratEvaluate(t.coeff, at), digits);
+    for (const p of t.monomial) {
+      const key = atomKey(p.atom);
+      let base = atoms.get(key);
+      if (!base) {
+        base = atomValue(p.atom, at, digits);
+        atoms.set(key, base);
+      }
+      term = term.times(p.exponent.den === 1n ? base.pow(p.exponent.num.toString()) : base.pow(new R(p.exponent.num.toString()).div(p.exponent.den.toString())));
+    }
+    sum = sum.plus(term);
+  }
+  return sum;
+}
+
+export interface ScanRequest {
+  d: Q;
+  sValues: Q[];
+  series: CompiledSeries[];
+  digits: number;
+  shortRangeS: Q | null;
+}
+
+export function meanFieldEnd(d: Q): Q {
+  return qMul(d, q(1, 2));
+}
+
+/** s* = d − 2Δσ of the short-range theory (crossover to short-range behaviour). */
+export function crossoverS(d: Q, deltaSigma: Q): Q {
+  return qSub(d, qMul(q(2), deltaSigma));
+}
+
+export function scanSeries(request: ScanRequest): ScanPoint[] {
+  const work = request.digits + GUARD_DIGITS;
+  const R = realContext(work);
+  const out = realContext(request.digits);
+  const half = meanFieldEnd(request.d);
+  return request.sValues.map((s) => {
+    const eps = qSub(qMul(q(2), s), request.d);
+    const regime = qCompare(s, half) <= 0 ? 'mean-field' : request.shortRangeS && qCompare(s, request.shortRangeS) >= 0 ? 'short-range' : 'long-range';
+    const atoms = new Map<string, Real>();
+    const at = { s };
+    const epsReal = rationalToReal(eps, work);
+    const values: Real[] = [];
+    const pade: (Real | null)[] = [];
+    for (const series of request.series) {
+      const coeffs = series.coefficients.map((c) => evaluateAtPoint(c, at, work, atoms));
+      let v = new R(0);
+      for (let k = coeffs.length - 1; k >= 0; k--) v = v.times(epsReal).plus(coeffs[k]);
+      values.push(new out(v).toSignificantDigits(request.digits));
+      pade.push(padeValue(coeffs, epsReal, request.digits));
+    }
+    return { s, eps, regime, values, pade };
+  });
+}
+
+/** [1/1] (or [L/1] with L = order − 1) at ε, or null when degenerate. */
+export function padeValue(coeffs: Real[], eps: Real, digits: number): Real | null {
+  if (coeffs.length < 3) return null;
+  try {
+    return evaluatePade(padeApproximant(coeffs, coeffs.length - 2, 1, digits), eps, digits);
+  } catch {
+    return null;
+  }
+}

@@ -1,0 +1,325 @@
+import { z } from 'zod';
+import { ConsistencyError } from '../engine/diagrams/subtraction';
+import { type DerivedFlow, type TrailEntry } from '../engine/diagrams/renormalization';
+import { exponentSeries, meanFieldValues, RELATIONS, SERIES_QUANTITIES, type Quantity } from '../engine/exponents/exponents';
+import { type FixedPoint, findFixedPoints } from '../engine/fixedpoints/fixedPoints';
+import { type AnyFlow, checkPropagatorPower, flowFor } from '../engine/flows/flow';
+import { type CouplingPolynomial } from '../engine/models/couplingPolynomial';
+import { customModel } from '../engine/models/custom';
+import { type ModelSpec } from '../engine/models/model';
+import { MAX_FIELDS, cubicFamily, cubicModel, onFamily, onModel } from '../engine/models/presets';
+import { EngineError, fail } from '../engine/precision/errors';
+import { type Real, realContext, toExactRational } from '../engine/precision/real';
+import { crossoverS, meanFieldEnd, padeValue, scanSeries } from '../engine/scans/scan';
+import { type LaurentSeries } from '../engine/series/laurent';
+import { type Expression } from '../engine/symbolic/expression';
+import { expressionToLatex, expressionToString } from '../engine/symbolic/format';
+import { polyToString } from '../engine/symbolic/polynomial';
+import { type Q, q, qAdd, qCompare, qMul, qSub, qToString } from '../engine/symbolic/rational';
+import { DecimalString, Digits, type JobError } from './schemas';
+
+// ---- schemas ------------------------------------------------------------------------------------
+
+const FieldCount = z.number().int().min(1).max(MAX_FIELDS);
+const SymbolicN = z.literal('N');
+
+export const ModelInput = z.discriminatedUnion('preset', [
+  z.strictObject({ preset: z.literal('on'), N: z.union([FieldCount, SymbolicN]) }),
+  z.strictObject({ preset: z.literal('cubic'), N: z.union([FieldCount, SymbolicN]) }),
+  z.strictObject({ preset: z.literal('custom'), fields: FieldCount, potential: z.string().min(1).max(2000) }),
+]);
+
+const Loops = z.union([z.literal(1), z.literal(2)]).default(2);
+const FlowDigits = Digits.max(200).default(30);
+
+export const FlowJob = z.strictObject({ job: z.literal('flow'), model: ModelInput, loops: Loops, s: DecimalString.optional(), digits: FlowDigits });
+export const FixedPointsJob = z.strictObject({ job: z.literal('fixedpoints'), model: ModelInput, d: DecimalString, s: DecimalString, loops: Loops, digits: FlowDigits });
+export const ExponentsJob = z.strictObject({
+  job: z.literal('exponents'),
+  model: ModelInput,
+  d: DecimalString.optional(),
+  s: DecimalString.optional(),
+  loops: Loops,
+  digits: FlowDigits,
+  fixedPoint: z.string().max(100).optional(),
+});
+export const MAX_SCAN_POINTS = 1000;
+export const ScanJob = z.strictObject({
+  job: z.literal('scan'),
+  model: ModelInput,
+  d: DecimalString,
+  s: z.strictObject({ from: DecimalString, to: DecimalString, points: z.number().int().min(2).max(MAX_SCAN_POINTS) }),
+  quantities: z.array(z.enum(SERIES_QUANTITIES)).min(1).max(SERIES_QUANTITIES.length).default(['nuInv', 'omega']),
+  loops: Loops,
+  digits: FlowDigits,
+  shortRange: z.strictObject({ Delta_sigma: DecimalString }).optional(),
+});
+export const FlowCalcJob = z.discriminatedUnion('job', [FlowJob, FixedPointsJob, ExponentsJob, ScanJob]);
+export type FlowCalcJob = z.infer<typeof FlowCalcJob>;
+export const FLOW_JOB_NAMES: readonly string[] = ['flow', 'fixedpoints', 'exponents', 'scan'];
+
+/** True for a job this module runs (dispatch hook for the calc runner). */
+export function isFlowJob(input: unknown): boolean {
+  return typeof input === 'object' && input !== null && FLOW_JOB_NAMES.includes((input as { job?: unknown }).job as string);
+}
+
+// ---- runner ---------------------------------------------------------------------------------------
+
+type ErrorCode = JobError['error']['code'];
+const jobError = (code: ErrorCode, message: string): JobError => ({ error: { code, message } });
+
+/** Validate and run one flow job; never throws (errors come back as {error:{code,message}}). */
+export function runFlowJob(input: unknown): unknown {
+  const parsed = FlowCalcJob.safeParse(input);
+  if (!parsed.success) return jobError('invalid-job', z.prettifyError(parsed.error));
+  try {
+    const job = parsed.data;
+    switch (job.job) {
+      case 'flow':
+        return runFlow(job);
+      case 'fixedpoints':
+        return runFixedPoints(job);
+      case 'exponents':
+        return runExponents(job);
+      case 'scan':
+        return runScan(job);
+    }
+  } catch (e) {
+    if (e instanceof EngineError) return jobError(e.code === 'invalid' ? 'invalid-job' : e.code, e.message);
+    if (e instanceof ConsistencyError) return jobError('internal', `consistency check failed: ${e.message}`);
+    return jobError('internal', `internal error: ${(e as Error)?.message ?? String(e)}`);
+  }
+}
+
+export function modelFrom(input: z.infer<typeof ModelInput>): ModelSpec {
+  if (input.preset === 'custom') return customModel(input.fields, input.potential);
+  if (input.preset === 'on') return input.N === 'N' ? onFamily : onModel(input.N);
+  return input.N === 'N' ? cubicFamily : cubicModel(input.N);
+}
+
+function exactPositive(text: string, what: string): Q {
+  const v = toExactRational(text);
+  if (qCompare(v, q(0)) <= 0) fail('domain', `${what} must be positive`);
+  return v;
+}
+
+// ---- formatting -------------------------------------------------------------------------------------
+
+type Coefficient = string | { expr: string; latex: string };
+
+function formatCoefficient(c: unknown, digits: number): Coefficient {
+  if (typeof c === 'object' && c !== null && 'terms' in c && 'isZero' in c) {
+    const e = c as Expression;
+    return { expr: expressionToString(e), latex: expressionToLatex(e) };
+  }
+  const r = c as Real;
+  if (r.abs().lt(new (realContext(digits + 20))(10).pow(-(digits + 10)))) return '0';
+  return new (realContext(digits))(r).toSignificantDigits(digits).toString();
+}
+
+function formatSeries<C>(s: LaurentSeries<C>, digits: number): { lowest: number; coeffs: Coefficient[] } {
+  return { lowest: s.lowest, coeffs: s.coefficients().map((c) => formatCoefficient(c, digits)) };
+}
+
+function monomialText(powers: readonly number[], couplings: readonly string[]): string {
+  return powers.flatMap((p, k) => (p === 0 ? [] : [p === 1 ? couplings[k] : `${couplings[k]}^${p}`])).join('*') || '1';
+}
+
+function formatPolynomial<C>(p: CouplingPolynomial<C>, couplings: readonly string[], digits: number): { monomial: string; coeff: Coefficient }[] {
+  return p.sortedTerms().map((t) => ({ monomial: monomialText(t.powers, couplings), coeff: formatCoefficient(t.coeff, digits) }));
+}
+
+function formatTrail<C>(entry: TrailEntry<C>, couplings: readonly string[], digits: number) {
+  const sg = entry.subtracted;
+  const width = entry.graph.function === 'vertex' ? couplings : ['δ_ab'];
+  return {
+    graph: entry.graph.id,
+    title: entry.graph.title,
+    function: entry.graph.function,
+    loops: entry.graph.loops,
+    sign: entry.sign,
+    symmetryFactor: `${entry.symmetryFactor[0]}/${entry.symmetryFactor[1]}`,
+    labellings: entry.labellings,
+    weight: entry.weight
+      ? entry.weight.terms.map((t) => ({ monomial: monomialText(t.powers, couplings), projections: Object.fromEntries(t.values.map((v, i) => [width[i], polyToString(v)])) }))
+      : { note: entry.weightNote },
+    integral: sg.integralLatex,
+    rearrangement: sg.entry.rearrangement,
+    laurent: formatSeries(sg.laurent, digits),
+    counterterms: sg.counterterms.map((c) => ({ subgraph: c.title, pole: formatSeries(c.pole, digits), reduced: c.reducedLatex })),
+    subtracted: formatSeries(sg.subtracted, digits),
+    pole: formatSeries(sg.pole, digits),
+    ...(sg.entry.note ? { note: sg.entry.note } : {}),
+  };
+}
+
+function flowSummary<C>(flow: DerivedFlow<C>, digits: number) {
+  const c = flow.couplings;
+  return {
+    couplings: c,
+    loops: flow.loops,
+    convention: 'β_k = −ε g_k + Σ terms; u = λ μ^{−ε}/((4π)^{d/2} Γ(s)); minimal subtraction at fixed s, d = 2s − ε',
+    beta: Object.fromEntries(c.map((name, k) => [name, [{ monomial: `eps*${name}`, coeff: formatCoefficient(flow.calculus.ctx.ring.fromRational(-1n), digits) }, ...formatPolynomial(flow.beta[k], c, digits)]])),
+    gamma_phi: formatPolynomial(flow.gammaPhi, c, digits),
+    gamma_phi2: flow.gammaPhi2 ? formatPolynomial(flow.gammaPhi2, c, digits) : { note: flow.gammaPhi2Note },
+    fieldRenormalization: flow.fieldRenormalized,
+    checks: flow.checks,
+  };
+}
+
+// ---- jobs ------------------------------------------------------------------------------------------
+
+function deriveFor(model: ModelSpec, s: Q | null, loops: 1 | 2, digits: number): AnyFlow {
+  return flowFor({ model, s, loops, digits });
+}
+
+function runFlow(job: z.infer<typeof FlowJob>) {
+  const model = modelFrom(job.model);
+  const s = job.s === undefined ? null : exactPositive(job.s, 's');
+  const { flow } = deriveFor(model, s, job.loops, job.digits);
+  const f = flow as DerivedFlow<unknown>;
+  return { model: model.label, s: job.s ?? 's', ...flowSummary(f, job.digits), trail: f.trail.map((t) => formatTrail(t, f.couplings, job.digits)) };
+}
+
+function physicalEps(d: Q, s: Q): Q {
+  return qSub(qMul(q(2), s), d);
+}
+
+function checkDimension(d: Q): void {
+  if (qCompare(d, q(0)) <= 0) fail('domain', 'd must be positive');
+}
+
+function formatFixedPoint<C>(p: FixedPoint<C>, couplings: readonly string[], digits: number) {
+  return {
+    name: p.name,
+    status: p.status,
+    couplings: Object.fromEntries(
+      couplings.map((name, k) => [
+        name,
+        {
+          series: p.couplingSeries ? p.couplingSeries[k].coefficients().map((c) => formatCoefficient(c, digits)) : null,
+          value: p.couplingValues ? formatCoefficient(p.couplingValues[k], digits) : p.complexCouplings ? `${p.complexCouplings[k].re} ${p.complexCouplings[k].im >= 0 ? '+' : '-'} ${Math.abs(p.complexCouplings[k].im)}i` : null,
+        },
+      ]),
+    ),
+    stability: {
+      series: p.eigenvalueSeries ? p.eigenvalueSeries.map((e) => (e ? e.coefficients().map((c) => formatCoefficient(c, digits)) : null)) : null,
+      values: p.eigenvalueValues ? p.eigenvalueValues.map((z) => (Math.abs(z.im) < 1e-12 * (1 + Math.abs(z.re)) ? String(z.re) : `${z.re} ${z.im >= 0 ? '+' : '-'} ${Math.abs(z.im)}i`)) : null,
+    },
+    stable: p.stable,
+    notes: p.notes,
+  };
+}
+
+function gaussianOnly(model: ModelSpec, d: string, s: string) {
+  return {
+    meanField: true,
+    statement: meanFieldValues(d, s).statement,
+    fixedPoints: [{ name: 'Gaussian', status: 'real', couplings: Object.fromEntries(model.couplings.map((c) => [c, { series: ['0'], value: '0' }])), stability: { series: null, values: model.couplings.map(() => String(Number(d) - 2 * Number(s))) }, stable: true, notes: [] }],
+  };
+}
+
+function runFixedPoints(job: z.infer<typeof FixedPointsJob>) {
+  const model = modelFrom(job.model);
+  const d = toExactRational(job.d);
+  checkDimension(d);
+  const s = exactPositive(job.s, 's');
+  checkPropagatorPower(s);
+  const eps = physicalEps(d, s);
+  if (qCompare(eps, q(0)) <= 0) return { eps: qToString(eps), ...gaussianOnly(model, job.d, job.s) };
+  const any = deriveFor(model, s, job.loops, job.digits);
+  const flow = any.flow as DerivedFlow<unknown>;
+  const epsCoefficient = any.mode === 'numeric' ? any.flow.calculus.ctx.ring.fromRational(eps.num, eps.den) : null;
+  const points = findFixedPoints(model, flow, { eps: epsCoefficient });
+  return { eps: decimalText(eps, job.digits), meanField: false, fixedPoints: points.map((p) => formatFixedPoint(p, flow.couplings, job.digits)) };
+}
+
+function decimalText(x: Q, digits: number): string {
+  const R = realContext(digits);
+  return new R(x.num.toString()).div(x.den.toString()).toSignificantDigits(digits).toString();
+}
+
+/** The IR-stable non-Gaussian fixed point (or a named one). */
+function chooseFixedPoint<C>(points: FixedPoint<C>[], name: string | undefined, symbolic: boolean): FixedPoint<C> {
+  if (name !== undefined) {
+    const found = points.find((p) => p.name === name);
+    if (!found) fail('invalid', `no fixed point named ${JSON.stringify(name)}; available: ${points.map((p) => p.name).join(', ')}`);
+    return found;
+  }
+  const candidates = points.filter((p) => p.name !== 'Gaussian' && p.status === 'real');
+  const stableByLeadingOrder = (p: FixedPoint<C>) => !!p.eigenvalueSeries && p.eigenvalueSeries.every((e) => e !== null && Number(String(symbolic ? (e.coefficient(1) as unknown as Expression).rationalValue()?.num ?? NaN : e.coefficient(1))) > 0);
+  const stable = candidates.find((p) => p.stable === true) ?? candidates.find(stableByLeadingOrder);
+  if (!stable) fail('not-representable', 'no IR-stable non-Gaussian fixed point; name one with "fixedPoint"');
+  return stable;
+}
+
+function runExponents(job: z.infer<typeof ExponentsJob>) {
+  const model = modelFrom(job.model);
+  const s = job.s === undefined ? null : exactPositive(job.s, 's');
+  if (s) checkPropagatorPower(s);
+  const d = job.d === undefined ? null : toExactRational(job.d);
+  if (d) checkDimension(d);
+  if (d && !s) fail('invalid', 'give s together with d (the expansion is at fixed s)');
+  const eps = d && s ? physicalEps(d, s) : null;
+  if (eps && qCompare(eps, q(0)) <= 0) {
+    const { statement, ...values } = meanFieldValues(job.d as string, job.s as string);
+    return { eps: qToString(eps), meanField: true, statement, fixedPoint: 'Gaussian', values };
+  }
+  const any = deriveFor(model, s, job.loops, job.digits);
+  const flow = any.flow as DerivedFlow<unknown>;
+  const numeric = any.mode === 'numeric';
+  const epsCoefficient = numeric && eps ? any.flow.calculus.ctx.ring.fromRational(eps.num, eps.den) : null;
+  const points = findFixedPoints(model, flow, { eps: epsCoefficient });
+  const point = chooseFixedPoint(points, job.fixedPoint, !numeric);
+  const series = exponentSeries(flow, point);
+  const out: Record<string, unknown> = {
+    eps: eps ? decimalText(eps, job.digits) : 'eps',
+    meanField: false,
+    fixedPoint: point.name,
+    series: Object.fromEntries(SERIES_QUANTITIES.map((k) => [k, series[k].coefficients().map((c) => formatCoefficient(c, job.digits))])),
+    relations: RELATIONS,
+  };
+  if (numeric && eps && epsCoefficient) {
+    const e = epsCoefficient as Real;
+    out.values = Object.fromEntries(SERIES_QUANTITIES.map((k) => [k, formatCoefficient((series[k] as LaurentSeries<Real>).evaluate(e), job.digits)]));
+    out.pade = Object.fromEntries(SERIES_QUANTITIES.map((k) => {
+      const v = padeValue((series[k] as LaurentSeries<Real>).coefficients(), e, job.digits);
+      return [k, v ? formatCoefficient(v, job.digits) : null];
+    }));
+  }
+  return out;
+}
+
+function runScan(job: z.infer<typeof ScanJob>) {
+  const model = modelFrom(job.model);
+  if (model.couplings.length !== 1 || 'member' in model) fail('not-representable', 'scans are available for single-coupling models with numeric N (derive once in s)');
+  const d = toExactRational(job.d);
+  checkDimension(d);
+  const from = exactPositive(job.s.from, 's.from');
+  const to = exactPositive(job.s.to, 's.to');
+  checkPropagatorPower(from);
+  checkPropagatorPower(to);
+  const sValues = Array.from({ length: job.s.points }, (_, i) => qAdd(from, qMul(qSub(to, from), q(i, job.s.points - 1))));
+  const any = deriveFor(model, null, job.loops, job.digits);
+  const flow = any.flow as DerivedFlow<Expression>;
+  const point = chooseFixedPoint(findFixedPoints(model, flow, { eps: null }), undefined, true);
+  const series = exponentSeries(flow, point);
+  const shortRangeS = job.shortRange ? crossoverS(d, toExactRational(job.shortRange.Delta_sigma)) : null;
+  const points = scanSeries({ d, sValues, series: job.quantities.map((k: Quantity) => ({ coefficients: (series[k] as LaurentSeries<Expression>).coefficients() })), digits: job.digits, shortRangeS });
+  return {
+    d: job.d,
+    fixedPoint: point.name,
+    quantities: job.quantities,
+    marks: { meanFieldEnd: decimalText(meanFieldEnd(d), job.digits), ...(shortRangeS ? { sStar: decimalText(shortRangeS, job.digits) } : {}) },
+    points: points.map((p) => ({
+      s: decimalText(p.s, job.digits),
+      eps: decimalText(p.eps, job.digits),
+      regime: p.regime,
+      flagged: p.regime !== 'long-range',
+      values: Object.fromEntries(job.quantities.map((k: Quantity, i: number) => [k, formatCoefficient(p.values[i], job.digits)])),
+      pade: Object.fromEntries(job.quantities.map((k: Quantity, i: number) => [k, p.pade[i] ? formatCoefficient(p.pade[i], job.digits) : null])),
+    })),
+  };
+}
+
+
