@@ -88,8 +88,15 @@ export interface SessionService {
   blankCookie(): string;
 }
 
+/** How long a validated session is trusted without asking the database again (single server process). */
+const VALIDATION_CACHE_MS = 5_000;
+
 export function createSessionService(dataSource: DataSource, secureCookie: boolean): SessionService {
   const lucia = createLucia(dataSource, secureCookie);
+  const recentlyValidated = new Map<string, { user: SignedInUser; until: number }>();
+  const forgetUser = (userId: string) => {
+    for (const [id, entry] of recentlyValidated) if (entry.user.id === userId) recentlyValidated.delete(id);
+  };
   return {
     cookieName: lucia.sessionCookieName,
     async start(userId) {
@@ -98,16 +105,26 @@ export function createSessionService(dataSource: DataSource, secureCookie: boole
     },
     async resolve(sessionId) {
       if (!sessionId) return { user: null, sessionId: null };
+      const cached = recentlyValidated.get(sessionId);
+      if (cached && cached.until > Date.now()) return { user: cached.user, sessionId };
+      recentlyValidated.delete(sessionId);
       const { session, user } = await lucia.validateSession(sessionId);
       if (!session || !user) return { user: null, sessionId: null, refreshCookie: lucia.createBlankSessionCookie().serialize() };
+      const signedIn: SignedInUser = { id: user.id, name: user.name, email: user.email, siteRole: user.siteRole };
+      if (recentlyValidated.size > 10_000) recentlyValidated.clear();
+      recentlyValidated.set(session.id, { user: signedIn, until: Math.min(Date.now() + VALIDATION_CACHE_MS, session.expiresAt.getTime()) });
       const refreshCookie = session.fresh ? lucia.createSessionCookie(session.id).serialize() : undefined;
-      return { user: { id: user.id, name: user.name, email: user.email, siteRole: user.siteRole }, sessionId: session.id, refreshCookie };
+      return { user: signedIn, sessionId: session.id, refreshCookie };
     },
     async end(sessionId) {
+      recentlyValidated.delete(sessionId);
       await lucia.invalidateSession(sessionId);
       return lucia.createBlankSessionCookie().serialize();
     },
-    endAllFor: (userId) => lucia.invalidateUserSessions(userId),
+    async endAllFor(userId) {
+      forgetUser(userId);
+      await lucia.invalidateUserSessions(userId);
+    },
     blankCookie: () => lucia.createBlankSessionCookie().serialize(),
   };
 }

@@ -24,6 +24,9 @@ export function parseCellInput(json: string): CellInput {
 export function createNotebookService(dataSource: DataSource, runs: RunService) {
   const notebooks = dataSource.getRepository(Notebook);
   const cells = dataSource.getRepository(Cell);
+  // Cell views of notebooks with no run in flight; every write path below calls forget().
+  const settledViews = new Map<string, CellView[]>();
+  const forget = (notebookId: string) => settledViews.delete(notebookId);
 
   async function groupIdsOf(userId: string): Promise<string[]> {
     const rows = await dataSource.getRepository(GroupMembership).findBy({ userId });
@@ -58,10 +61,22 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
   }
 
   async function touch(notebookId: string, manager: EntityManager = dataSource.manager) {
+    forget(notebookId);
     await manager.getRepository(Notebook).update({ id: notebookId }, { updatedAt: new Date() });
   }
 
   async function cellViews(notebookId: string): Promise<CellView[]> {
+    const cached = settledViews.get(notebookId);
+    if (cached) return cached;
+    const views = await freshCellViews(notebookId);
+    if (views.every((view) => view.state !== 'running')) {
+      if (settledViews.size > 2000) settledViews.clear();
+      settledViews.set(notebookId, views);
+    }
+    return views;
+  }
+
+  async function freshCellViews(notebookId: string): Promise<CellView[]> {
     const rows = await orderedCells(notebookId);
     const runIds = rows.map((row) => row.lastRunId).filter((id): id is string => Boolean(id));
     const runRows = runIds.length ? await dataSource.getRepository(JobRun).createQueryBuilder('r').where('r.id IN (:...runIds)', { runIds }).getMany() : [];
@@ -116,10 +131,17 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
     }));
   }
 
+  const settledSummaries = new Map<string, Omit<NotebookSummary, 'canEdit'>>();
+
   async function detail(viewer: SignedInUser, notebookId: string): Promise<NotebookDetail> {
-    const { notebook } = await access(viewer, notebookId);
-    const [summary] = await summaries([notebook], viewer);
-    return { ...summary, cells: await cellViews(notebookId) };
+    const { notebook, canEdit } = await access(viewer, notebookId);
+    let summary = settledSummaries.get(notebookId);
+    if (!summary || summary.updatedAt !== notebook.updatedAt.toISOString()) {
+      [summary] = await summaries([notebook], viewer);
+      if (settledSummaries.size > 2000) settledSummaries.clear();
+      settledSummaries.set(notebookId, summary);
+    }
+    return { ...summary, canEdit, cells: await cellViews(notebookId) };
   }
 
   async function setupsOf(notebookId: string): Promise<Map<string, SetupInput>> {
@@ -144,12 +166,14 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
     const byLabel = new Map(all.map((c) => [c.label, { label: c.label, input: parseCellInput(c.inputJson) }]));
     const run = await runs.submit({ job, userId: viewer.id, cellId: row.id });
     await cells.update({ id: row.id }, { lastRunId: run.id, lastRunFingerprint: fingerprintOf({ label: row.label, input }, byLabel) });
+    forget(row.notebookId);
     return toRunView(run);
   }
 
   return {
     access,
     editable,
+    forget,
     async cellNotebookId(cellId: string): Promise<string | null> {
       return (await cells.findOneBy({ id: cellId }))?.notebookId ?? null;
     },
@@ -182,6 +206,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
     async remove(viewer: SignedInUser, notebookId: string) {
       const notebook = await editable(viewer, notebookId);
       if (notebook.ownerId !== viewer.id) throw new AppError('forbidden', 'Only the owner can delete a notebook.');
+      forget(notebookId);
       await notebooks.delete({ id: notebookId });
     },
 
@@ -198,6 +223,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
         await manager.insert(Cell, { id: newId(), notebookId, position, kind: input.input.kind, label: input.label, inputJson: JSON.stringify(input.input), revision: 1 });
         await touch(notebookId, manager);
       });
+      forget(notebookId);
       return detail(viewer, notebookId);
     },
 
@@ -226,6 +252,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
         if (!result.affected) throw new AppError('conflict', 'This cell was changed elsewhere just now. Reload it, or keep your version.');
         await touch(notebookId, manager);
       });
+      forget(notebookId);
       return detail(viewer, notebookId);
     },
 
@@ -240,6 +267,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
         for (const [i, cell] of all.entries()) if (cell.position !== i) await manager.update(Cell, { id: cell.id }, { position: i });
         await touch(notebookId, manager);
       });
+      forget(notebookId);
       return detail(viewer, notebookId);
     },
 
@@ -252,6 +280,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
         for (const [i, cell] of all.filter((c) => c.id !== cellId).entries()) if (cell.position !== i) await manager.update(Cell, { id: cell.id }, { position: i });
         await touch(notebookId, manager);
       });
+      forget(notebookId);
       return detail(viewer, notebookId);
     },
 

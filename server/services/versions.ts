@@ -112,6 +112,7 @@ export function createVersionService(dataSource: DataSource, notebooks: Notebook
         }
         await manager.update(Notebook, { id: notebookId }, { title: snapshot.title, summary: snapshot.summary, updatedAt: new Date() });
       });
+      notebooks.forget(notebookId);
       await record(viewer, notebookId, `Restored version ${row.number}: ${row.message}`.slice(0, 500), true);
       return notebooks.detail(viewer, notebookId);
     },
@@ -129,6 +130,7 @@ export function createVersionService(dataSource: DataSource, notebooks: Notebook
           await manager.insert(Cell, { id: newId(), notebookId: created.id, position, kind: cell.input.kind, label: cell.label, inputJson: JSON.stringify(cell.input), revision: 1 });
         }
       });
+      notebooks.forget(created.id);
       return notebooks.detail(viewer, created.id);
     },
   };
