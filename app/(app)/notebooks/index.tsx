@@ -1,0 +1,5 @@
+import { NotebooksScreen } from '../../../components/screens/NotebooksScreen';
+
+export default function NotebooksRoute() {
+  return <NotebooksScreen />;
+}

@@ -1,0 +1,160 @@
+import { useState } from 'react';
+import { StyleSheet, Text, View } from 'react-native';
+import { colors, fonts, spacing } from '../../constants/theme';
+import { isConflict, useDeleteCellMutation, useMoveCellMutation, useNotebookQuery, useRunCellMutation, useUpdateCellMutation } from '../../hooks/api/notebooks';
+import { cellKindTitles, type CellView, type NotebookDetail } from '../../shared/notebook';
+import { TextField } from '../ui/TextField';
+import { Notice } from '../ui/Notice';
+import { errorsFromServer } from '../auth/formErrors';
+import { CellActions } from './CellActions';
+import { CellOutput } from './CellOutput';
+import { CellStateBadge } from './CellStateBadge';
+import { cellSummary } from './cellSummary';
+import { ChipButton } from './ChipButton';
+import { CellEditor } from './editors/CellEditor';
+import { monoFont } from './monoFont';
+import { NoteView } from './NoteView';
+import { useCellDraft } from './useCellDraft';
+
+export interface CellCardProps {
+  notebook: NotebookDetail;
+  cell: CellView;
+  index: number;
+  wide: boolean;
+  selected: boolean;
+  onSelect: () => void;
+  /** Open the editor straight away (a cell just added). */
+  startEditing?: boolean;
+  /** Hands the screen this cell's run (save first if edited), for the keyboard shortcut. */
+  registerRunner?: (run: () => void) => void;
+}
+
+export const runsJob = (cell: Pick<CellView, 'kind'>) => cell.kind !== 'note' && cell.kind !== 'setup';
+
+export function CellCard({ notebook, cell, index, wide, selected, onSelect, startEditing = false, registerRunner }: CellCardProps) {
+  const [editing, setEditing] = useState(startEditing);
+  const { draft, dirty, errors, valid, setInput, setLabel, reset } = useCellDraft(cell);
+  const notebookQuery = useNotebookQuery(notebook.id);
+  const update = useUpdateCellMutation(notebook.id);
+  const run = useRunCellMutation(notebook.id);
+  const move = useMoveCellMutation(notebook.id);
+  const remove = useDeleteCellMutation(notebook.id);
+  const setupLabels = notebook.cells.filter((other) => other.kind === 'setup' && other.id !== cell.id).map((other) => other.label);
+  const testPrefix = `cell-${cell.label}`;
+  const conflict = isConflict(update.error);
+  const serverErrors = update.error && !conflict ? errorsFromServer(update.error) : null;
+  const fieldErrors = { ...(serverErrors?.fields ?? {}), ...errors };
+
+  const save = async (revision = draft.baseRevision) => {
+    const saved = await update.mutateAsync({ cellId: cell.id, revision, label: draft.label !== cell.label ? draft.label : undefined, input: draft.input });
+    const fresh = saved.notebook.cells.find((other) => other.id === cell.id);
+    if (fresh) reset(fresh);
+  };
+  const saveQuietly = () => save().catch(() => undefined);
+  const runNow = async () => {
+    onSelect();
+    if (dirty) {
+      if (!valid) return setEditing(true);
+      try {
+        await save();
+      } catch {
+        return;
+      }
+    }
+    run.mutate(cell.id);
+  };
+  const reloadTheirs = async () => {
+    const { data } = await notebookQuery.refetch();
+    const fresh = data?.cells.find((other) => other.id === cell.id);
+    update.reset();
+    if (fresh) reset(fresh);
+  };
+  const keepMine = async () => {
+    const { data } = await notebookQuery.refetch();
+    const fresh = data?.cells.find((other) => other.id === cell.id);
+    if (fresh) await save(fresh.revision).catch(() => undefined);
+  };
+
+  if (runsJob(cell)) registerRunner?.(() => void runNow());
+  const stale = cell.state === 'out-of-date';
+  return (
+    <View style={[styles.card, stale && styles.stale, selected && wide && styles.selected]} testID={testPrefix} onStartShouldSetResponderCapture={() => { onSelect(); return false; }}>
+      <View style={styles.head}>
+        <View style={styles.headText}>
+          <Text style={styles.kind}>{cellKindTitles[cell.kind]}</Text>
+          <Text style={styles.label} testID={`${testPrefix}-label`}>{cell.label}</Text>
+          <CellStateBadge state={cell.state} testID={`${testPrefix}-state`} />
+        </View>
+        {notebook.canEdit ? (
+          <CellActions
+            wide={wide}
+            testPrefix={testPrefix}
+            canRun={runsJob(cell)}
+            running={cell.state === 'running' || run.isPending}
+            editing={editing}
+            isFirst={index === 0}
+            isLast={index === notebook.cells.length - 1}
+            onRun={() => void runNow()}
+            onToggleEdit={() => setEditing(!editing)}
+            onMove={(offset) => move.mutate({ cellId: cell.id, position: index + offset })}
+            onDelete={() => remove.mutate(cell.id)}
+          />
+        ) : null}
+      </View>
+
+      {cell.dependents.length ? <Text style={styles.meta}>Feeds {cell.dependents.join(', ')}</Text> : null}
+      {stale ? (
+        <Text style={styles.staleText} testID={`${testPrefix}-stale`}>
+          Inputs changed since this was computed. Run it again to bring it up to date.
+        </Text>
+      ) : null}
+
+      {editing ? (
+        <View style={styles.editor}>
+          <TextField label="Label (other cells refer to it by this)" value={draft.label} onChangeText={setLabel} error={fieldErrors.label} testID={`${testPrefix}-field-label`} />
+          <CellEditor input={draft.input} errors={fieldErrors} onChange={setInput} setupLabels={setupLabels} testPrefix={`${testPrefix}-field`} />
+          {cell.kind === 'note' && draft.input.kind === 'note' && draft.input.text ? <NoteView text={draft.input.text} /> : null}
+          {serverErrors?.message ? <Notice tone="error" message={serverErrors.message} testID={`${testPrefix}-save-error`} /> : null}
+          <View style={styles.editorActions}>
+            <ChipButton label={update.isPending ? 'Saving…' : dirty ? 'Save' : 'Saved'} tone="accent" disabled={!dirty || !valid || update.isPending} onPress={() => void saveQuietly()} testID={`${testPrefix}-save`} />
+            {dirty ? <ChipButton label="Discard edits" onPress={() => reset(cell)} testID={`${testPrefix}-discard`} /> : null}
+          </View>
+        </View>
+      ) : cell.kind === 'note' ? (
+        cell.input.kind === 'note' && cell.input.text ? <NoteView text={cell.input.text} testID={`${testPrefix}-note`} /> : <Text style={styles.meta}>An empty note. Edit it to write.</Text>
+      ) : (
+        <Text style={styles.summary}>{cellSummary(cell.input)}</Text>
+      )}
+
+      {conflict ? (
+        <View style={styles.conflict} testID={`${testPrefix}-conflict`}>
+          <Notice tone="error" message="Someone saved this cell after you started editing it." />
+          <View style={styles.editorActions}>
+            <ChipButton label="Reload theirs" onPress={() => void reloadTheirs()} testID={`${testPrefix}-reload-theirs`} />
+            <ChipButton label="Keep mine" tone="accent" onPress={() => void keepMine()} testID={`${testPrefix}-keep-mine`} />
+          </View>
+        </View>
+      ) : null}
+      {run.error ? <Notice tone="error" message={run.error.message} testID={`${testPrefix}-run-error`} /> : null}
+      {move.error || remove.error ? <Notice tone="error" message={(move.error ?? remove.error)!.message} /> : null}
+
+      <CellOutput notebook={notebook} cell={cell} />
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  card: { backgroundColor: colors.surface, borderRadius: 8, borderWidth: 1, borderColor: colors.rule, borderLeftWidth: 4, borderLeftColor: colors.rule, padding: spacing.lg, gap: spacing.md },
+  stale: { borderLeftColor: colors.amber, backgroundColor: '#FFFCF6' },
+  selected: { borderColor: colors.slate, borderLeftColor: colors.slate },
+  head: { flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between', flexWrap: 'wrap', gap: spacing.sm },
+  headText: { flexDirection: 'row', alignItems: 'center', flexWrap: 'wrap', gap: spacing.sm, flexShrink: 1 },
+  kind: { fontFamily: fonts.semibold, fontSize: 15, color: colors.ink },
+  label: { fontFamily: monoFont, fontSize: 13, color: colors.inkSoft, backgroundColor: colors.paper, paddingHorizontal: 6, borderRadius: 4 },
+  meta: { fontFamily: fonts.regular, fontSize: 13, color: colors.inkFaint },
+  staleText: { fontFamily: fonts.medium, fontSize: 13, color: colors.amberDeep },
+  summary: { fontFamily: fonts.regular, fontSize: 14, color: colors.inkSoft },
+  editor: { gap: spacing.md, borderTopWidth: 1, borderTopColor: colors.rule, paddingTop: spacing.md },
+  editorActions: { flexDirection: 'row', gap: spacing.sm, flexWrap: 'wrap' },
+  conflict: { gap: spacing.sm },
+});

@@ -1,0 +1,32 @@
+import type { CellInput, CellKind, CellView } from '../../shared/notebook';
+
+/** The label a new cell of this kind gets: the kind's own word, numbered when taken. */
+export function freshLabel(kind: CellKind, cells: Pick<CellView, 'label'>[]): string {
+  const taken = new Set(cells.map((cell) => cell.label));
+  if (!taken.has(kind)) return kind;
+  for (let n = 2; ; n += 1) if (!taken.has(`${kind}${n}`)) return `${kind}${n}`;
+}
+
+/** The model & parameters cell a new cell refers to: the last one above the end of the notebook. */
+export function defaultSetupLabel(cells: Pick<CellView, 'label' | 'kind'>[]): string {
+  return [...cells].reverse().find((cell) => cell.kind === 'setup')?.label ?? 'setup';
+}
+
+export function defaultInput(kind: CellKind, cells: Pick<CellView, 'label' | 'kind'>[]): CellInput {
+  const uses = defaultSetupLabel(cells);
+  switch (kind) {
+    case 'note':
+      return { kind, text: '' };
+    case 'setup':
+      return { kind, model: { preset: 'on', N: 1 }, d: '3', s: '1.75', loops: 2, digits: 30 };
+    case 'integral':
+      return { kind, form: 'bubble', a: 's/2', b: 's/2', d: '2*s - eps', order: 2 };
+    case 'flow':
+    case 'fixedpoints':
+      return { kind, uses };
+    case 'exponents':
+      return { kind, uses };
+    case 'scan':
+      return { kind, uses, from: '1.55', to: '1.95', points: 41, quantities: ['nuInv', 'eta'] };
+  }
+}

@@ -1,0 +1,25 @@
+import type { CellInput } from '../../../shared/notebook';
+import { IntegralEditor } from './IntegralEditor';
+import { NoteEditor } from './NoteEditor';
+import { ReferenceEditor } from './ReferenceEditor';
+import { ScanEditor } from './ScanEditor';
+import { SetupEditor } from './SetupEditor';
+import type { EditorProps } from './fields';
+
+/** The input form for a cell, by its kind. */
+export function CellEditor({ input, ...props }: EditorProps<CellInput>) {
+  switch (input.kind) {
+    case 'note':
+      return <NoteEditor input={input} {...props} />;
+    case 'setup':
+      return <SetupEditor input={input} {...props} />;
+    case 'integral':
+      return <IntegralEditor input={input} {...props} />;
+    case 'flow':
+    case 'fixedpoints':
+    case 'exponents':
+      return <ReferenceEditor input={input} {...props} />;
+    case 'scan':
+      return <ScanEditor input={input} {...props} />;
+  }
+}

@@ -1,0 +1,1 @@
+export const monoFont = 'ui-monospace, SFMono-Regular, Menlo, Consolas, monospace';

@@ -1,0 +1,38 @@
+import { StyleSheet, Text, View } from 'react-native';
+import { colors, fonts, spacing } from '../../../constants/theme';
+import { CopyableFormula } from '../CopyableFormula';
+import { asPolynomial, isObject } from '../resultShapes';
+import { polynomialTex } from '../texFormat';
+import { StructuredResult } from './StructuredResult';
+
+const anomalousNames: Record<string, string> = { gamma_phi: '\\gamma_{\\phi}', gamma_phi2: '\\gamma_{\\phi^2}' };
+const couplingTex = (name: string) => (name.length > 1 ? `${name[0]}_{${name.slice(1)}}` : name);
+
+/** β-functions and anomalous dimensions typeset, the checks the derivation passed, the diagram trail folded. */
+export function FlowOutput({ result, fileName, testID }: { result: Record<string, unknown>; fileName: string; testID?: string }) {
+  const { beta, gamma_phi, gamma_phi2, convention, checks, trail, ...rest } = result;
+  const betas = isObject(beta) ? Object.entries(beta).flatMap(([name, terms]) => { const p = asPolynomial(terms); return p ? [{ name, p }] : []; }) : [];
+  const anomalous = Object.entries({ gamma_phi, gamma_phi2 }).flatMap(([name, terms]) => { const p = asPolynomial(terms); return p ? [{ name, p }] : []; });
+  return (
+    <View style={styles.wrap} testID={testID}>
+      {typeof convention === 'string' ? <Text style={styles.caption}>{convention}</Text> : null}
+      {betas.map(({ name, p }) => <CopyableFormula key={name} tex={`\\beta_{${couplingTex(name)}} = ${polynomialTex(p)}`} testID={`beta-${name}`} />)}
+      {anomalous.map(({ name, p }) => <CopyableFormula key={name} tex={`${anomalousNames[name]} = ${polynomialTex(p)}`} testID={`anomalous-${name}`} />)}
+      {Array.isArray(checks) && checks.length ? (
+        <View style={styles.checks}>
+          <Text style={styles.heading}>Checks passed</Text>
+          {checks.map((check, index) => <Text key={index} style={styles.check}>✓ {String(check)}</Text>)}
+        </View>
+      ) : null}
+      <StructuredResult value={{ ...rest, ...(trail !== undefined ? { trail } : {}) }} fileName={fileName} />
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  wrap: { gap: spacing.md },
+  caption: { fontFamily: fonts.regular, fontSize: 13, color: colors.inkFaint, lineHeight: 19 },
+  checks: { gap: 2 },
+  heading: { fontFamily: fonts.semibold, fontSize: 13, color: colors.inkSoft },
+  check: { fontFamily: fonts.regular, fontSize: 13, color: colors.success },
+});

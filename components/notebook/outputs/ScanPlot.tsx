@@ -1,0 +1,99 @@
+import { useState } from 'react';
+import { StyleSheet, Text, View, type GestureResponderEvent, type LayoutChangeEvent } from 'react-native';
+import Svg, { G, Line, Path, Rect, Text as SvgText } from 'react-native-svg';
+import { colors, fonts, spacing } from '../../../constants/theme';
+import { ChipButton } from '../ChipButton';
+import type { ScanPoint, ScanShape } from '../resultShapes';
+import { saveTextFile } from '../saveFile';
+import { nameOfQuantity } from '../texFormat';
+import { monoFont } from '../monoFont';
+import { nearestPoint, plotGeometry, plotSvg, tickText } from './plotGeometry';
+
+const PLOT_HEIGHT = 280;
+
+/** Exponents against s: axes, ticks, legend, s = d/2 and s* marked, a read-out where you tap or point. */
+export function ScanPlot({ scan, fileName, testID }: { scan: ScanShape; fileName: string; testID?: string }) {
+  const [width, setWidth] = useState(0);
+  const [picked, setPicked] = useState<ScanPoint | null>(null);
+  const onLayout = (event: LayoutChangeEvent) => setWidth(Math.round(event.nativeEvent.layout.width));
+  const geometry = width > 0 ? plotGeometry(scan, width, PLOT_HEIGHT) : null;
+  const pick = (event: GestureResponderEvent) => {
+    if (geometry) setPicked(nearestPoint(scan, geometry.invertX(event.nativeEvent.locationX)));
+  };
+  return (
+    <View style={styles.wrap} testID={testID}>
+      <View
+        style={styles.canvas}
+        onLayout={onLayout}
+        onStartShouldSetResponder={() => true}
+        onResponderGrant={pick}
+        onResponderMove={pick}
+        {...hoverProps(pick)}
+        testID={testID ? `${testID}-canvas` : undefined}
+      >
+        {geometry ? (
+          <Svg width={geometry.width} height={geometry.height} pointerEvents="none">
+            <Rect x={0} y={0} width={geometry.width} height={geometry.height} fill={colors.surface} />
+            {geometry.yTicks.map((tick) => (
+              <G key={`y${tick.value}`}>
+                <Line x1={geometry.plotLeft} x2={geometry.plotRight} y1={tick.y} y2={tick.y} stroke={colors.rule} />
+                <SvgText x={geometry.plotLeft - 6} y={tick.y + 4} fontSize={11} textAnchor="end" fill={colors.inkSoft}>{tickText(tick.value)}</SvgText>
+              </G>
+            ))}
+            {geometry.xTicks.map((tick) => (
+              <G key={`x${tick.value}`}>
+                <Line x1={tick.x} x2={tick.x} y1={geometry.plotBottom} y2={geometry.plotBottom + 5} stroke={colors.inkSoft} />
+                <SvgText x={tick.x} y={geometry.plotBottom + 18} fontSize={11} textAnchor="middle" fill={colors.inkSoft}>{tickText(tick.value)}</SvgText>
+              </G>
+            ))}
+            <Line x1={geometry.plotLeft} x2={geometry.plotRight} y1={geometry.plotBottom} y2={geometry.plotBottom} stroke={colors.inkSoft} />
+            <Line x1={geometry.plotLeft} x2={geometry.plotLeft} y1={geometry.plotTop} y2={geometry.plotBottom} stroke={colors.inkSoft} />
+            <SvgText x={(geometry.plotLeft + geometry.plotRight) / 2} y={geometry.height - 6} fontSize={12} textAnchor="middle" fill={colors.ink}>{scan.variable}</SvgText>
+            {geometry.markers.map((marker) => (
+              <G key={marker.label}>
+                <Line x1={marker.x} x2={marker.x} y1={geometry.plotTop} y2={geometry.plotBottom} stroke={colors.amberDeep} strokeDasharray="4 3" />
+                <SvgText x={marker.x + 4} y={geometry.plotTop + 12} fontSize={11} fill={colors.amberDeep}>{marker.label}</SvgText>
+              </G>
+            ))}
+            {geometry.lines.map((plotLine) => (
+              <Path key={plotLine.key} d={plotLine.path} fill="none" stroke={plotLine.color} strokeWidth={2} />
+            ))}
+            {picked ? <Line x1={geometry.xOf(picked.x)} x2={geometry.xOf(picked.x)} y1={geometry.plotTop} y2={geometry.plotBottom} stroke={colors.ink} strokeWidth={1} /> : null}
+          </Svg>
+        ) : null}
+      </View>
+      <View style={styles.legend}>
+        {(geometry?.lines ?? []).map((plotLine) => (
+          <View key={plotLine.key} style={styles.legendItem}>
+            <View style={[styles.swatch, { backgroundColor: plotLine.color }]} />
+            <Text style={styles.legendText}>{plotLine.name}</Text>
+          </View>
+        ))}
+      </View>
+      <Text style={styles.readout} testID={testID ? `${testID}-readout` : undefined}>
+        {picked
+          ? `${scan.variable} = ${tickText(picked.x)}: ${scan.quantities.map((key) => `${nameOfQuantity(key)} = ${picked.values[key] !== undefined ? tickText(picked.values[key]) : '—'}`).join(', ')}${picked.flagged ? ' (outside d/2 < s < s*)' : ''}`
+          : 'Tap or point at the plot to read values.'}
+      </Text>
+      {geometry ? <ChipButton label="Save SVG" onPress={() => void saveTextFile(`${fileName}.svg`, plotSvg(scan, geometry), 'image/svg+xml')} testID={testID ? `${testID}-svg` : undefined} /> : null}
+    </View>
+  );
+}
+
+/** Pointer hover where there is a pointer (web); RN's types do not list these props on View. */
+function hoverProps(pick: (event: GestureResponderEvent) => void): object {
+  return {
+    onPointerMove: (event: { nativeEvent: { offsetX?: number; locationX?: number } }) =>
+      pick({ nativeEvent: { locationX: event.nativeEvent.offsetX ?? event.nativeEvent.locationX ?? 0 } } as GestureResponderEvent),
+  };
+}
+
+const styles = StyleSheet.create({
+  wrap: { gap: spacing.sm, alignItems: 'flex-start' },
+  canvas: { width: '100%', height: PLOT_HEIGHT, borderWidth: 1, borderColor: colors.rule, borderRadius: 6, overflow: 'hidden' },
+  legend: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.md },
+  legendItem: { flexDirection: 'row', alignItems: 'center', gap: spacing.xs },
+  swatch: { width: 14, height: 3, borderRadius: 2 },
+  legendText: { fontFamily: fonts.medium, fontSize: 13, color: colors.ink },
+  readout: { fontFamily: monoFont, fontSize: 12, color: colors.inkSoft },
+});
