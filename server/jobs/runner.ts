@@ -1,10 +1,17 @@
 import path from 'node:path';
+import { MessageChannel } from 'node:worker_threads';
 import { Piscina } from 'piscina';
+
+export interface RunHooks {
+  signal: AbortSignal;
+  /** Called when a worker actually starts the job (after any wait in the queue or for a worker to boot). */
+  onStarted?: () => void;
+}
 
 /** Where engine jobs execute. One small interface, so another runner (a queue, a cluster) can replace the pool. */
 export interface JobRunner {
   /** Resolves with the engine's result; rejects with RunAborted when cancelled or over time, or on a worker crash. */
-  run(job: unknown, options: { signal: AbortSignal }): Promise<unknown>;
+  run(job: unknown, hooks: RunHooks): Promise<unknown>;
   close(): Promise<void>;
 }
 
@@ -20,13 +27,19 @@ export function createWorkerPoolRunner(options: { threads: number }): JobRunner 
     concurrentTasksPerWorker: 1,
   });
   return {
-    async run(job, { signal }) {
+    async run(job, { signal, onStarted }) {
+      const { port1, port2 } = new MessageChannel();
+      port1.on('message', (message: { type?: string }) => {
+        if (message.type === 'started') onStarted?.();
+      });
       try {
-        return await pool.run(job, { signal });
+        return await pool.run({ job, port: port2 }, { signal, transferList: [port2] });
       } catch (error) {
         // Piscina terminates the worker of an aborted task and starts a fresh one in its place.
         if (signal.aborted) throw new RunAborted(signal.reason instanceof Error ? signal.reason.message : String(signal.reason ?? 'cancelled'));
         throw error;
+      } finally {
+        port1.close();
       }
     },
     close: () => pool.destroy(),

@@ -1,6 +1,18 @@
 // Runs in a worker thread: one engine job per task, so a long or stuck job never blocks the server.
+import type { MessagePort } from 'node:worker_threads';
 import { runJob } from '../../shared/jobs';
 
-export default function runEngineJob(job: unknown): unknown {
-  return runJob(job);
+export interface WorkerTask {
+  job: unknown;
+  /** Receives { type: 'started' } when the engine begins, so time limits count engine time only. */
+  port: MessagePort;
+}
+
+export default function runEngineJob({ job, port }: WorkerTask): unknown {
+  port.postMessage({ type: 'started' });
+  try {
+    return runJob(job);
+  } finally {
+    port.close();
+  }
 }

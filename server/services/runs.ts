@@ -50,25 +50,42 @@ export function toRunView(run: JobRun): RunView {
   };
 }
 
+class TimeLimitExceeded extends Error {
+  constructor(readonly limitMs: number) {
+    super(`Stopped after the time limit of ${(limitMs / 1000).toFixed(limitMs < 1000 ? 2 : 0)} s; the worker was replaced.`);
+  }
+}
+
+/** A time-limited job failed; a cancelled one was cancelled; anything else means the worker crashed (and was replaced). */
+function failureOf(error: unknown, abortReason: unknown): Partial<JobRun> {
+  if (error instanceof RunAborted && abortReason instanceof TimeLimitExceeded) {
+    return { status: 'failed', errorJson: JSON.stringify({ code: 'time-limit', message: abortReason.message }) };
+  }
+  if (error instanceof RunAborted) return { status: 'cancelled', errorJson: JSON.stringify({ code: 'cancelled', message: `Cancelled: ${error.message}` }) };
+  return { status: 'failed', errorJson: JSON.stringify({ code: 'worker-crashed', message: 'The calculation worker crashed; it has been replaced. Run the cell again.' }) };
+}
+
 export function createRunService(dataSource: DataSource, runner: JobRunner, logger: Logger, timeLimitMs: number): RunService {
   const runs = dataSource.getRepository(JobRun);
   const inFlight = new Map<string, { done: Promise<void>; abort: AbortController }>();
 
   async function execute(run: JobRun, job: unknown, abort: AbortController) {
-    const timer = setTimeout(() => abort.abort(new Error(`stopped after the ${Math.round(timeLimitMs / 1000)} s time limit`)), timeLimitMs);
-    const started = Date.now();
-    await runs.update({ id: run.id }, { status: 'running', startedAt: new Date(started) });
+    let timer: NodeJS.Timeout | undefined;
+    let started = Date.now();
+    const onStarted = () => {
+      started = Date.now();
+      timer = setTimeout(() => abort.abort(new TimeLimitExceeded(timeLimitMs)), timeLimitMs);
+      void runs.update({ id: run.id, status: 'queued' }, { status: 'running', startedAt: new Date(started) });
+    };
     let patch: Partial<JobRun>;
     try {
-      const result = await runner.run(job, { signal: abort.signal });
+      const result = await runner.run(job, { signal: abort.signal, onStarted });
       patch = isEngineError(result)
         ? { status: 'failed', errorJson: JSON.stringify(result.error) }
         : { status: 'done', progress: 1, resultJson: JSON.stringify(result) };
     } catch (error) {
-      const cancelled = error instanceof RunAborted;
-      const message = cancelled ? `Cancelled: ${error.message}` : 'The calculation worker crashed; it has been replaced. Try again.';
-      if (!cancelled) logger.error({ err: error, runId: run.id }, 'engine worker failed');
-      patch = { status: cancelled ? 'cancelled' : 'failed', errorJson: JSON.stringify({ code: cancelled ? 'cancelled' : 'worker-crashed', message }) };
+      patch = failureOf(error, abort.signal.reason);
+      if (!(error instanceof RunAborted)) logger.error({ err: error, runId: run.id }, 'engine worker failed');
     } finally {
       clearTimeout(timer);
     }

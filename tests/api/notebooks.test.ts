@@ -176,3 +176,46 @@ describe('POST /api/calc and runs', () => {
     assert.ok(doc.paths['/api/auth/sign-up'].post.requestBody.content['application/json'].schema.properties.password);
   });
 });
+
+describe('run limits', () => {
+  let h: Harness;
+  let client: Client;
+  before(async () => {
+    h = await startHarness({ JOB_TIME_LIMIT_MS: '300' });
+    client = h.browser();
+    await client.post('/api/auth/sign-up').send(person(4)).expect(201);
+  });
+  after(() => h.close());
+
+  test('a job over the time limit is stopped and marked failed with the reason; the replaced worker runs the next job', async () => {
+    // Γ at 1000 digits from cold tables takes far longer than 300 ms of engine time on this machine class.
+    const slow = (await client.post('/api/calc').send({ job: { job: 'special', fn: 'gamma', x: '0.3', digits: 1000 } }).expect(200)).body.run;
+    assert.equal(slow.status, 'failed');
+    assert.equal(slow.error.code, 'time-limit');
+    assert.match(slow.error.message, /time limit/);
+    // The limit counts engine time only, so a small job on the freshly booted replacement worker finishes.
+    const next = (await client.post('/api/calc').send({ job: { job: 'special', fn: 'zeta', x: '3', digits: 10 } }).expect(200)).body.run;
+    assert.equal(next.status, 'done', JSON.stringify(next.error));
+    // ζ(3) = 1.202056903159594285… (OEIS A002117).
+    assert.equal(next.result.value, '1.202056903');
+  });
+});
+
+describe('cancelling a run', () => {
+  test('a running job can be cancelled by the person who started it, and only by them', async () => {
+    const h = await startHarness();
+    try {
+      const owner = h.browser();
+      const other = h.browser();
+      const me = (await owner.post('/api/auth/sign-up').send(person(5)).expect(201)).body.user;
+      await other.post('/api/auth/sign-up').send(person(6)).expect(201);
+      const run = await h.rungbook.services.runs.submit({ job: { job: 'special', fn: 'gamma', x: '0.7', digits: 1000 }, userId: me.id });
+      await other.post(`/api/runs/${run.id}/cancel`).expect(404);
+      const cancelled = (await owner.post(`/api/runs/${run.id}/cancel`).expect(200)).body.run;
+      assert.equal(cancelled.status, 'cancelled');
+      assert.equal(cancelled.error.code, 'cancelled');
+    } finally {
+      await h.close();
+    }
+  });
+});
