@@ -65,6 +65,8 @@ export interface ScanRequest {
   series: CompiledSeries[];
   digits: number;
   shortRangeS: Q | null;
+  /** Also evaluate the [L/1] Padé approximant at each point (default true). */
+  withPade?: boolean;
 }
 
 export function meanFieldEnd(d: Q): Q {
@@ -94,7 +96,7 @@ export function scanSeries(request: ScanRequest): ScanPoint[] {
       let v = new R(0);
       for (let k = coeffs.length - 1; k >= 0; k--) v = v.times(epsReal).plus(coeffs[k]);
       values.push(new out(v).toSignificantDigits(request.digits));
-      pade.push(padeValue(coeffs, epsReal, request.digits));
+      pade.push(request.withPade === false ? null : padeValue(coeffs, epsReal, request.digits));
     }
     return { s, eps, regime, values, pade };
   });

@@ -1,0 +1,72 @@
+/**
+ * Flow benchmark: `npm run bench:flow`.
+ * (a) full two-loop O(N) derivation symbolic in N and s (diagrams → β → fixed point → 1/ν, ω) vs sympy;
+ * (b) 1000-point scan of 1/ν and ω at 30 digits vs mpmath evaluating the closed-form series.
+ */
+import { execFileSync, spawnSync } from 'node:child_process';
+import { join } from 'node:path';
+import { onFamily, onModel } from '../../shared/engine/models/index';
+import { flowFor } from '../../shared/engine/flows/index';
+import { findFixedPoints } from '../../shared/engine/fixedpoints/index';
+import { exponentSeries } from '../../shared/engine/exponents/index';
+import { type DerivedFlow } from '../../shared/engine/diagrams/index';
+import { type Expression } from '../../shared/engine/symbolic/expression';
+import { scanSeries } from '../../shared/engine/scans/index';
+import { q, qAdd, qMul } from '../../shared/engine/symbolic/rational';
+import { toExactRational } from '../../shared/engine/precision/real';
+
+function ensurePythonPackages(): void {
+  const probe = spawnSync('python3', ['-c', 'import sympy, mpmath']);
+  if (probe.status === 0) return;
+  console.log('installing python3-sympy (Debian package) …');
+  spawnSync('sh', ['-c', 'sudo -n apt-get install -y python3-sympy python3-mpmath || apt-get install -y python3-sympy python3-mpmath'], { stdio: 'inherit' });
+}
+
+function derive() {
+  const { flow } = flowFor({ model: onFamily, s: null, loops: 2, digits: 30 });
+  const f = flow as DerivedFlow<Expression>;
+  const wf = findFixedPoints(onFamily, f, { eps: null }).find((p) => p.name !== 'Gaussian');
+  if (!wf) throw new Error('no fixed point');
+  return exponentSeries(f, wf);
+}
+
+function timeIt<T>(run: () => T, repeats: number): { seconds: number; value: T } {
+  let value = run();
+  const start = process.hrtime.bigint();
+  for (let i = 0; i < repeats; i++) value = run();
+  return { seconds: Number(process.hrtime.bigint() - start) / 1e9 / repeats, value };
+}
+
+function scanSeriesOnce() {
+  const { flow } = flowFor({ model: onModel(1), s: null, loops: 2, digits: 30 });
+  const f = flow as DerivedFlow<Expression>;
+  const wf = findFixedPoints(onModel(1), f, { eps: null }).find((p) => p.name !== 'Gaussian');
+  if (!wf) throw new Error('no fixed point');
+  return exponentSeries(f, wf);
+}
+
+function ourScan(series: ReturnType<typeof scanSeriesOnce>, points: number) {
+  const from = toExactRational('1.55');
+  const step = qMul(toExactRational('0.4'), q(1, points - 1));
+  const sValues = Array.from({ length: points }, (_, i) => qAdd(from, qMul(step, q(i))));
+  return scanSeries({ d: q(3), sValues, series: [{ coefficients: series.nuInv.coefficients() }, { coefficients: series.omega.coefficients() }], digits: 30, shortRangeS: null, withPade: false });
+}
+
+ensurePythonPackages();
+const points = 1000;
+const derivation = timeIt(derive, 3);
+const heapBefore = process.memoryUsage().heapUsed;
+const once = timeIt(scanSeriesOnce, 1);
+const scan = timeIt(() => ourScan(once.value, points), 1);
+const heapAfter = process.memoryUsage().heapUsed;
+const reference = JSON.parse(execFileSync('python3', [join(__dirname, 'flow_sympy.py'), String(points)], { encoding: 'utf8' }));
+const rows = [
+  ['(a) two-loop O(N) derivation, symbolic N and s', derivation.seconds, reference.derivation_s, 1 / 20],
+  [`(b) ${points}-point scan of 1/ν and ω at 30 digits (evaluation)`, scan.seconds, reference.scan_s, 1.0],
+  [`(b') the same including its one-time symbolic derivation in s`, scan.seconds + once.seconds, reference.scan_s, Infinity],
+] as const;
+console.log('| task | ours (s) | reference (s) | ratio | target |');
+console.log('|---|---|---|---|---|');
+for (const [task, ours, ref, target] of rows) console.log(`| ${task} | ${ours.toFixed(3)} | ${ref.toFixed(3)} | ${(ours / ref).toFixed(3)} | ${Number.isFinite(target) ? `≤ ${target}` : '—'} |`);
+console.log(`memory: rss ${(process.memoryUsage().rss / 2 ** 20).toFixed(0)} MiB, scan heap growth ${((heapAfter - heapBefore) / 2 ** 20).toFixed(1)} MiB`);
+console.log(`check: first scan point ours 1/ν = ${scan.value[0].values[0].toFixed(25)}, mpmath ${reference.sample[0]}`);
