@@ -28,6 +28,7 @@ import {
   toExactRational,
 } from '../engine/index';
 import { parseAffine, parseDefinitions, parseGammaProduct } from './expressions';
+import { isFlowJob, runFlowJob } from './flowJobs';
 import { JOB_LIMITS } from './limits';
 import {
   type BubbleJob,
@@ -57,6 +58,8 @@ export function isJobError(r: unknown): r is JobError {
 
 /** Validate and run one calculation job. Never throws: failures come back as `{error:{code,message}}`. */
 export function runJob(input: unknown): CalcResult {
+  // RG-flow jobs (flow, fixedpoints, exponents, scan) have their own schemas and runner.
+  if (isFlowJob(input)) return runFlowJob(input) as CalcResult;
   const parsed = CalcJob.safeParse(input);
   if (!parsed.success) return jobError('invalid-job', z.prettifyError(parsed.error));
   try {
