@@ -1,7 +1,7 @@
 import { useState } from 'react';
 import { StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, spacing } from '../../constants/theme';
-import { isConflict, useDeleteCellMutation, useMoveCellMutation, useNotebookQuery, useRunCellMutation, useUpdateCellMutation } from '../../hooks/api/notebooks';
+import { isConflict, useDeleteCellMutation, useMoveCellMutation, useReloadNotebook, useRunCellMutation, useUpdateCellMutation } from '../../hooks/api/notebooks';
 import { cellKindTitles, type CellView, type NotebookDetail } from '../../shared/notebook';
 import { TextField } from '../ui/TextField';
 import { Notice } from '../ui/Notice';
@@ -34,7 +34,7 @@ export const runsJob = (cell: Pick<CellView, 'kind'>) => cell.kind !== 'note' &&
 export function CellCard({ notebook, cell, index, wide, selected, onSelect, startEditing = false, registerRunner }: CellCardProps) {
   const [editing, setEditing] = useState(startEditing);
   const { draft, dirty, errors, valid, setInput, setLabel, reset } = useCellDraft(cell);
-  const notebookQuery = useNotebookQuery(notebook.id);
+  const reloadNotebook = useReloadNotebook(notebook.id);
   const update = useUpdateCellMutation(notebook.id);
   const run = useRunCellMutation(notebook.id);
   const move = useMoveCellMutation(notebook.id);
@@ -64,14 +64,12 @@ export function CellCard({ notebook, cell, index, wide, selected, onSelect, star
     run.mutate(cell.id);
   };
   const reloadTheirs = async () => {
-    const { data } = await notebookQuery.refetch();
-    const fresh = data?.cells.find((other) => other.id === cell.id);
+    const fresh = (await reloadNotebook()).cells.find((other) => other.id === cell.id);
     update.reset();
     if (fresh) reset(fresh);
   };
   const keepMine = async () => {
-    const { data } = await notebookQuery.refetch();
-    const fresh = data?.cells.find((other) => other.id === cell.id);
+    const fresh = (await reloadNotebook()).cells.find((other) => other.id === cell.id);
     if (fresh) await save(fresh.revision).catch(() => undefined);
   };
 
@@ -83,7 +81,7 @@ export function CellCard({ notebook, cell, index, wide, selected, onSelect, star
         <View style={styles.headText}>
           <Text style={styles.kind}>{cellKindTitles[cell.kind]}</Text>
           <Text style={styles.label} testID={`${testPrefix}-label`}>{cell.label}</Text>
-          <CellStateBadge state={cell.state} testID={`${testPrefix}-state`} />
+          {runsJob(cell) ? <CellStateBadge state={cell.state} testID={`${testPrefix}-state`} /> : null}
         </View>
         {notebook.canEdit ? (
           <CellActions

@@ -28,6 +28,16 @@ export function useNotebookQuery(notebookId: string) {
   });
 }
 
+/** Fetch the notebook afresh (after a conflicting save) and put it in the cache. */
+export function useReloadNotebook(notebookId: string) {
+  const queryClient = useQueryClient();
+  return async () => {
+    const { notebook } = await apiRequest<{ notebook: NotebookDetail }>('GET', `/notebooks/${notebookId}`);
+    queryClient.setQueryData(queryKeys.notebook(notebookId), notebook);
+    return notebook;
+  };
+}
+
 /** One job run, polled while it is queued or running (progress bar); the notebook is refetched when it ends. */
 export function useRunQuery(notebookId: string, runId: string | null) {
   const queryClient = useQueryClient();
