@@ -248,8 +248,9 @@ export class LaurentSeries<C> {
     if (vg < 1) fail('domain', 'composition needs an inner series without constant term or poles');
     if (vg > inner.order) fail('domain', 'composition with a series with no known non-zero coefficient');
     let result = LaurentSeries.constant(this.ring, this.ring.zero(), Infinity);
-    for (let k = Math.min(this.order, this.last()); k >= Math.max(0, this.lowest); k--) {
-      result = result.mul(inner).add(LaurentSeries.constant(this.ring, this.coefficient(k), Infinity));
+    // Horner down to the constant term, so a series starting at ε^k (k > 0) keeps its factor g^k.
+    for (let k = Math.min(this.order, this.last()); k >= 0; k--) {
+      result = result.mul(inner).add(LaurentSeries.constant(this.ring, this.coefficientOrZero(k), Infinity));
     }
     if (this.lowest < 0) {
       const innerInverse = inner.inverse();

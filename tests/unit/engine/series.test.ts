@@ -128,3 +128,14 @@ test('Padé of exp: [1/1] = (1+x/2)/(1−x/2), [2/2] = (1+x/2+x²/12)/(1−x/2+x
     if (entry.L + entry.M === 4) assert.ok(wide(entry.value!).minus(wide('0.5').exp()).abs().lt('1e-3'), `[${entry.L}/${entry.M}]`);
   }
 });
+
+test('composition and reversion of a series stored from ε^1 (no explicit constant term)', () => {
+  // f = ε + ε², stored with lowest = 1. Its inverse is Σ (−1)^(n−1) C_(n−1) ε^n with the Catalan
+  // numbers C = 1, 1, 2, 5, 14 (OEIS A000108): ε − ε² + 2ε³ − 5ε⁴ + 14ε⁵.
+  const f = randomSeries([1, 1, 0, 0, 0], 1);
+  const h = f.reversion();
+  [0, 1, -1, 2, -5, 14].forEach((expected, k) => assert.ok(wide(h.coefficient(k)).minus(expected).abs().lt('1e-40'), `ε^${k}`));
+  // f(2ε) = 2ε + 4ε² (exact by hand).
+  const composed = f.compose(randomSeries([2], 1, 5));
+  [0, 2, 4, 0, 0, 0].forEach((expected, k) => assert.ok(wide(composed.coefficient(k)).minus(expected).abs().lt('1e-40'), `f(2ε) at ε^${k}`));
+});
