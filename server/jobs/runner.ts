@@ -6,6 +6,7 @@ export interface RunHooks {
   signal: AbortSignal;
   /** Called when a worker actually starts the job (after any wait in the queue or for a worker to boot). */
   onStarted?: () => void;
+  onProgress?: (fraction: number) => void;
 }
 
 /** Where engine jobs execute. One small interface, so another runner (a queue, a cluster) can replace the pool. */
@@ -27,10 +28,11 @@ export function createWorkerPoolRunner(options: { threads: number }): JobRunner 
     concurrentTasksPerWorker: 1,
   });
   return {
-    async run(job, { signal, onStarted }) {
+    async run(job, { signal, onStarted, onProgress }) {
       const { port1, port2 } = new MessageChannel();
-      port1.on('message', (message: { type?: string }) => {
+      port1.on('message', (message: { type?: string; fraction?: number }) => {
         if (message.type === 'started') onStarted?.();
+        if (message.type === 'progress' && typeof message.fraction === 'number') onProgress?.(message.fraction);
       });
       try {
         return await pool.run({ job, port: port2 }, { signal, transferList: [port2] });

@@ -4,14 +4,14 @@ import { runJob } from '../../shared/jobs';
 
 export interface WorkerTask {
   job: unknown;
-  /** Receives { type: 'started' } when the engine begins, so time limits count engine time only. */
+  /** Receives { type: 'started' } when the engine begins (time limits count engine time only), then { type: 'progress', fraction }. */
   port: MessagePort;
 }
 
 export default function runEngineJob({ job, port }: WorkerTask): unknown {
   port.postMessage({ type: 'started' });
   try {
-    return runJob(job);
+    return runJob(job, { onProgress: (fraction) => port.postMessage({ type: 'progress', fraction }) });
   } finally {
     port.close();
   }

@@ -77,9 +77,16 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
       timer = setTimeout(() => abort.abort(new TimeLimitExceeded(timeLimitMs)), timeLimitMs);
       void runs.update({ id: run.id, status: 'queued' }, { status: 'running', startedAt: new Date(started) });
     };
+    let lastProgressWrite = 0;
+    const onProgress = (fraction: number) => {
+      // At most a few database writes per second, whatever the engine reports.
+      if (Date.now() - lastProgressWrite < 250) return;
+      lastProgressWrite = Date.now();
+      void runs.update({ id: run.id, status: 'running' }, { progress: Math.min(0.99, Math.max(0, fraction)) });
+    };
     let patch: Partial<JobRun>;
     try {
-      const result = await runner.run(job, { signal: abort.signal, onStarted });
+      const result = await runner.run(job, { signal: abort.signal, onStarted, onProgress });
       patch = isEngineError(result)
         ? { status: 'failed', errorJson: JSON.stringify(result.error) }
         : { status: 'done', progress: 1, resultJson: JSON.stringify(result) };

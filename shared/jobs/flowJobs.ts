@@ -69,7 +69,12 @@ type ErrorCode = JobError['error']['code'];
 const jobError = (code: ErrorCode, message: string): JobError => ({ error: { code, message } });
 
 /** Validate and run one flow job; never throws (errors come back as {error:{code,message}}). */
-export function runFlowJob(input: unknown): unknown {
+/** Optional hooks a runner may pass; the engine stays pure (it only calls what it is given). */
+export interface JobHooks {
+  onProgress?: (fraction: number) => void;
+}
+
+export function runFlowJob(input: unknown, hooks: JobHooks = {}): unknown {
   const parsed = FlowCalcJob.safeParse(input);
   if (!parsed.success) return jobError('invalid-job', z.prettifyError(parsed.error));
   try {
@@ -82,7 +87,7 @@ export function runFlowJob(input: unknown): unknown {
       case 'exponents':
         return runExponents(job);
       case 'scan':
-        return runScan(job);
+        return runScan(job, hooks);
     }
   } catch (e) {
     if (e instanceof EngineError) return jobError(e.code === 'invalid' ? 'invalid-job' : e.code, e.message);
@@ -290,7 +295,7 @@ function runExponents(job: z.infer<typeof ExponentsJob>) {
   return out;
 }
 
-function runScan(job: z.infer<typeof ScanJob>) {
+function runScan(job: z.infer<typeof ScanJob>, hooks: JobHooks) {
   const model = modelFrom(job.model);
   if (model.couplings.length !== 1 || 'member' in model) fail('not-representable', 'scans are available for single-coupling models with numeric N (derive once in s)');
   const d = toExactRational(job.d);
@@ -305,7 +310,10 @@ function runScan(job: z.infer<typeof ScanJob>) {
   const point = chooseFixedPoint(findFixedPoints(model, flow, { eps: null }), undefined, true);
   const series = exponentSeries(flow, point);
   const shortRangeS = job.shortRange ? crossoverS(d, toExactRational(job.shortRange.Delta_sigma)) : null;
-  const points = scanSeries({ d, sValues, series: job.quantities.map((k: Quantity) => ({ coefficients: (series[k] as LaurentSeries<Expression>).coefficients() })), digits: job.digits, shortRangeS });
+  // The derivation is a small share of a long scan; the points carry the rest of the progress.
+  const onProgress = hooks.onProgress ? (f: number) => hooks.onProgress!(0.05 + 0.95 * f) : undefined;
+  hooks.onProgress?.(0.05);
+  const points = scanSeries({ d, sValues, series: job.quantities.map((k: Quantity) => ({ coefficients: (series[k] as LaurentSeries<Expression>).coefficients() })), digits: job.digits, shortRangeS, onProgress });
   return {
     d: job.d,
     fixedPoint: point.name,

@@ -28,7 +28,7 @@ import {
   toExactRational,
 } from '../engine/index';
 import { parseAffine, parseDefinitions, parseGammaProduct } from './expressions';
-import { isFlowJob, runFlowJob } from './flowJobs';
+import { isFlowJob, runFlowJob, type JobHooks } from './flowJobs';
 import { JOB_LIMITS } from './limits';
 import {
   type BubbleJob,
@@ -57,9 +57,9 @@ export function isJobError(r: unknown): r is JobError {
 }
 
 /** Validate and run one calculation job. Never throws: failures come back as `{error:{code,message}}`. */
-export function runJob(input: unknown): CalcResult {
+export function runJob(input: unknown, hooks: JobHooks = {}): CalcResult {
   // RG-flow jobs (flow, fixedpoints, exponents, scan) have their own schemas and runner.
-  if (isFlowJob(input)) return runFlowJob(input) as CalcResult;
+  if (isFlowJob(input)) return runFlowJob(input, hooks) as CalcResult;
   const parsed = CalcJob.safeParse(input);
   if (!parsed.success) return jobError('invalid-job', z.prettifyError(parsed.error));
   try {
@@ -75,7 +75,7 @@ export function runJob(input: unknown): CalcResult {
 export function runBatch(input: unknown): CalcResult | CalcResult[] {
   if (Array.isArray(input)) {
     if (input.length > JOB_LIMITS.maxBatch) return jobError('limit', `at most ${JOB_LIMITS.maxBatch} jobs per call`);
-    return input.map(runJob);
+    return input.map((job) => runJob(job));
   }
   return runJob(input);
 }

@@ -67,6 +67,8 @@ export interface ScanRequest {
   shortRangeS: Q | null;
   /** Also evaluate the [L/1] Padé approximant at each point (default true). */
   withPade?: boolean;
+  /** Told the fraction of points done, about a hundred times per scan. */
+  onProgress?: (fraction: number) => void;
 }
 
 export function meanFieldEnd(d: Q): Q {
@@ -83,7 +85,10 @@ export function scanSeries(request: ScanRequest): ScanPoint[] {
   const R = realContext(work);
   const out = realContext(request.digits);
   const half = meanFieldEnd(request.d);
-  return request.sValues.map((s) => {
+  const total = request.sValues.length;
+  const reportEvery = Math.max(1, Math.floor(total / 100));
+  return request.sValues.map((s, index) => {
+    if (request.onProgress && index % reportEvery === 0) request.onProgress(index / total);
     const eps = qSub(qMul(q(2), s), request.d);
     const regime = qCompare(s, half) <= 0 ? 'mean-field' : request.shortRangeS && qCompare(s, request.shortRangeS) >= 0 ? 'short-range' : 'long-range';
     const atoms = new Map<string, Real>();
