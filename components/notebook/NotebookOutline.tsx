@@ -16,7 +16,7 @@ export function NotebookOutline({ cells, selectedId, onPick }: { cells: CellView
               <Text style={styles.label} numberOfLines={1}>{cell.label}</Text>
               <Text style={styles.kind} numberOfLines={1}>{cellKindTitles[cell.kind]}</Text>
             </View>
-            {cell.state !== 'text' ? <View style={[styles.dot, { backgroundColor: stateColor[cell.state] }]} accessibilityLabel={stateWords[cell.state]} /> : null}
+            {cell.state !== 'text' && cell.kind !== 'setup' ? <View style={[styles.dot, { backgroundColor: stateColor[cell.state] }]} accessibilityLabel={stateWords[cell.state]} /> : null}
           </Pressable>
         ))}
       </ScrollView>
