@@ -1,14 +1,6 @@
 import { useMemo } from 'react';
-import { KATEX_STYLESHEET_PATH, renderTex, type FormulaProps } from './renderTex';
-
-function ensureKatexStylesheet() {
-  if (typeof document === 'undefined' || document.querySelector('link[data-katex]')) return;
-  const link = document.createElement('link');
-  link.rel = 'stylesheet';
-  link.href = KATEX_STYLESHEET_PATH;
-  link.dataset.katex = 'true';
-  document.head.appendChild(link);
-}
+import { ensureKatexStylesheet } from './katexStylesheet.web';
+import { renderTex, type FormulaProps } from './renderTex';
 
 /** Web: KaTeX renders straight into the DOM. */
 export function Formula({ tex, display = false, label, testID }: FormulaProps) {

@@ -1,15 +1,6 @@
 import { useMemo } from 'react';
-import { KATEX_STYLESHEET_PATH } from '../formula/renderTex';
+import { ensureKatexStylesheet } from '../formula/katexStylesheet.web';
 import { noteHtml } from './noteMarkdown';
-
-function ensureKatexStylesheet() {
-  if (typeof document === 'undefined' || document.querySelector('link[data-katex]')) return;
-  const link = document.createElement('link');
-  link.rel = 'stylesheet';
-  link.href = KATEX_STYLESHEET_PATH;
-  link.dataset.katex = 'true';
-  document.head.appendChild(link);
-}
 
 const NOTE_STYLE = { fontFamily: 'Inter_400Regular, system-ui, sans-serif', color: '#1C2230', lineHeight: 1.6, overflowX: 'auto' as const };
 

@@ -1,28 +1,11 @@
 import assert from 'node:assert/strict';
 import fs from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
 import { after, before, describe, test } from 'node:test';
-import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import type { BrowserContext, Page } from 'playwright-core';
+import { ARTIFACTS, BASE_URL, openBrowser, viewports } from './browser';
 
-const BASE_URL = process.env.E2E_BASE_URL ?? 'http://127.0.0.1:8080';
-const ARTIFACTS = path.resolve(__dirname, '..', '..', 'test-artifacts', 'e2e');
 const LEAD = { email: 'lead@demo.rungbook.example', password: 'demo-lead-pass' };
-
-const viewports = [
-  { name: 'phone', width: 390, height: 844 },
-  { name: 'wide', width: 1440, height: 900 },
-];
-
-async function openBrowser(viewport: { width: number; height: number }): Promise<BrowserContext> {
-  return chromium.launchPersistentContext(fs.mkdtempSync(path.join(os.tmpdir(), 'rungbook-chromium-')), {
-    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
-    headless: true,
-    viewport,
-    acceptDownloads: true,
-    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-  });
-}
 
 async function texOf(page: Page, testId: string): Promise<string> {
   const formula = page.getByTestId(testId);

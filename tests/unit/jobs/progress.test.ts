@@ -5,7 +5,7 @@ import { runJob } from '../../../shared/jobs';
 test('a scan reports its progress through the optional hook, rising to the end, and gives the same result with or without it', () => {
   const job = { job: 'scan', model: { preset: 'on', N: 1 }, d: '3', s: { from: '1.55', to: '1.95', points: 200 }, quantities: ['nuInv'], loops: 2, digits: 20 };
   const fractions: number[] = [];
-  const withHook = runJob(job, { onProgress: (f) => fractions.push(f) }) as { points: { s: string; values: { nuInv: string } }[] };
+  const withHook = runJob(job, { onProgress: (f) => fractions.push(f) }) as unknown as { points: { s: string; values: { nuInv: string } }[] };
   assert.ok(fractions.length >= 50, `reported ${fractions.length} times`);
   assert.ok(fractions.every((f, i) => f > 0 && f < 1 && (i === 0 || f >= fractions[i - 1])), 'fractions rise inside (0, 1)');
   assert.deepEqual(runJob(job), withHook);

@@ -1,0 +1,24 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { chromium, type BrowserContext } from 'playwright-core';
+
+export const BASE_URL = process.env.E2E_BASE_URL ?? 'http://127.0.0.1:8080';
+export const ARTIFACTS = path.resolve(__dirname, '..', '..', 'test-artifacts', 'e2e');
+
+export const viewports = [
+  { name: 'phone', width: 390, height: 844 },
+  { name: 'wide', width: 1440, height: 900 },
+];
+
+/** Debian's Chromium with a fresh profile; the flags keep it off the (closed) network. */
+export async function openBrowser(viewport: { width: number; height: number }): Promise<BrowserContext> {
+  fs.mkdirSync(ARTIFACTS, { recursive: true });
+  return chromium.launchPersistentContext(fs.mkdtempSync(path.join(os.tmpdir(), 'rungbook-chromium-')), {
+    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    headless: true,
+    viewport,
+    acceptDownloads: true,
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+}
