@@ -15,6 +15,9 @@ export function AppShell({ user, children }: { user: PublicUser; children: React
   const items = destinationsFor(user.siteRole);
   const isActive = (item: Destination) => pathname === item.href || pathname.startsWith(`${item.href}/`);
 
+  // The presentation view takes the whole screen (projector or phone held up to a group).
+  if (pathname.endsWith('/present')) return <View style={styles.main}>{children}</View>;
+
   if (wide) {
     return (
       <View style={styles.wideRoot}>

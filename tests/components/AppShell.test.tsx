@@ -3,7 +3,8 @@ import { Text, useWindowDimensions } from 'react-native';
 import { AppShell } from '../../components/navigation/AppShell';
 import { renderWithQueryClient } from './testUtils';
 
-jest.mock('expo-router', () => ({ usePathname: () => '/groups', router: { navigate: jest.fn() } }));
+let mockPathname = '/groups';
+jest.mock('expo-router', () => ({ usePathname: () => mockPathname, router: { navigate: jest.fn() } }));
 jest.mock('react-native/Libraries/Utilities/useWindowDimensions', () => ({ __esModule: true, default: jest.fn() }));
 
 const member = { id: 'u1', name: 'Invented Member', email: 'm@x.example', siteRole: 'member' as const };
@@ -27,6 +28,16 @@ describe('AppShell navigation', () => {
     renderWithQueryClient(<AppShell user={member}><Text>body</Text></AppShell>);
     expect(screen.getByTestId('side-rail')).toBeTruthy();
     expect(screen.queryByTestId('bottom-bar')).toBeNull();
+  });
+
+  it('leaves the whole screen to the presentation view', () => {
+    atWidth(1440);
+    mockPathname = '/notebooks/abc/present';
+    renderWithQueryClient(<AppShell user={member}><Text>slide</Text></AppShell>);
+    expect(screen.queryByTestId('side-rail')).toBeNull();
+    expect(screen.queryByTestId('bottom-bar')).toBeNull();
+    expect(screen.getByText('slide')).toBeTruthy();
+    mockPathname = '/groups';
   });
 
   it('shows the mail capture only to site admins', () => {
