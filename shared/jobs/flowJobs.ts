@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { ConsistencyError } from '../engine/diagrams/subtraction';
 import { type DerivedFlow, type TrailEntry } from '../engine/diagrams/renormalization';
+import { quadraticAtRoot, quadraticSpectrum } from '../engine/exponents/quadratic';
 import { exponentSeries, meanFieldValues, RELATIONS, SERIES_QUANTITIES, type Quantity } from '../engine/exponents/exponents';
 import { type FixedPoint, findFixedPoints } from '../engine/fixedpoints/fixedPoints';
 import { type AnyFlow, checkPropagatorPower, flowFor } from '../engine/flows/flow';
@@ -167,6 +168,15 @@ function flowSummary<C>(flow: DerivedFlow<C>, digits: number) {
     beta: Object.fromEntries(c.map((name, k) => [name, [{ monomial: `eps*${name}`, coeff: formatCoefficient(flow.calculus.ctx.ring.fromRational(-1n), digits) }, ...formatPolynomial(flow.beta[k], c, digits)]])),
     gamma_phi: formatPolynomial(flow.gammaPhi, c, digits),
     gamma_phi2: flow.gammaPhi2 ? formatPolynomial(flow.gammaPhi2, c, digits) : { note: flow.gammaPhi2Note },
+    ...(flow.quadratic
+      ? {
+          gamma_quadratic: {
+            convention: 'γ_{(kl),(ij)}: insertion t_ij φ_iφ_j (i ≤ j) → counterterm Σ γ_{(kl),(ij)} t_ij φ_kφ_l; Δ = d − s + eigenvalue',
+            operators: flow.quadratic.pairs.map(([i, j]) => (i === j ? `phi${i + 1}^2` : `phi${i + 1}*phi${j + 1}`)),
+            matrix: flow.quadratic.gamma.map((row) => row.map((p) => formatPolynomial(p, c, digits))),
+          },
+        }
+      : {}),
     fieldRenormalization: flow.fieldRenormalized,
     checks: flow.checks,
   };
@@ -236,7 +246,26 @@ function runFixedPoints(job: z.infer<typeof FixedPointsJob>) {
   const flow = any.flow as DerivedFlow<unknown>;
   const epsCoefficient = any.mode === 'numeric' ? any.flow.calculus.ctx.ring.fromRational(eps.num, eps.den) : null;
   const points = findFixedPoints(model, flow, { eps: epsCoefficient });
-  return { eps: decimalText(eps, job.digits), meanField: false, fixedPoints: points.map((p) => formatFixedPoint(p, flow.couplings, job.digits)) };
+  const quadratic = (p: FixedPoint<unknown>) => (any.mode === 'numeric' && !('member' in model) ? formatQuadratic(any.flow, p as FixedPoint<Real>, s, eps, model.fields, job.digits) : null);
+  return { eps: decimalText(eps, job.digits), meanField: false, fixedPoints: points.map((p) => ({ ...formatFixedPoint(p, flow.couplings, job.digits), quadraticOperators: quadratic(p) })) };
+}
+
+/** Eigen-operators of the quadratic-operator matrix at a fixed point: series, truncated values, values at the numeric root. */
+function formatQuadratic(flow: DerivedFlow<Real>, point: FixedPoint<Real>, s: Q, eps: Q | null, fields: number, digits: number) {
+  const { ring } = flow.calculus.ctx;
+  const spectrum = quadraticSpectrum(flow, point, ring.fromRational(s.num, s.den), fields);
+  if (!spectrum) return null;
+  const e = eps ? ring.fromRational(eps.num, eps.den) : null;
+  const atRoot = e && point.couplingValues ? quadraticAtRoot(flow, spectrum, point.couplingValues) : null;
+  const sReal = ring.fromRational(s.num, s.den);
+  return spectrum.operators.map((op, i) => ({
+    name: op.name,
+    multiplicity: op.multiplicity,
+    operator: op.operator,
+    series: { gamma: op.gammaSeries.coefficients().map((c) => formatCoefficient(c, digits)), Delta: op.deltaSeries.coefficients().map((c) => formatCoefficient(c, digits)) },
+    values: e ? { gamma: formatCoefficient(op.gammaSeries.evaluate(e), digits), Delta: formatCoefficient(op.deltaSeries.evaluate(e), digits) } : null,
+    atRoot: atRoot && e ? { gamma: atRoot[i].map((g) => formatCoefficient(g, digits)), Delta: atRoot[i].map((g) => formatCoefficient(sReal.minus(e).plus(g), digits)) } : null,
+  }));
 }
 
 function decimalText(x: Q, digits: number): string {
@@ -284,6 +313,10 @@ function runExponents(job: z.infer<typeof ExponentsJob>) {
     series: Object.fromEntries(SERIES_QUANTITIES.map((k) => [k, series[k].coefficients().map((c) => formatCoefficient(c, job.digits))])),
     relations: RELATIONS,
   };
+  if (numeric && s && !('member' in model)) {
+    const quadratic = formatQuadratic(any.flow as DerivedFlow<Real>, point as FixedPoint<Real>, s, eps, model.fields, job.digits);
+    if (quadratic) out.quadraticOperators = quadratic;
+  }
   if (numeric && eps && epsCoefficient) {
     const e = epsCoefficient as Real;
     out.values = Object.fromEntries(SERIES_QUANTITIES.map((k) => [k, formatCoefficient((series[k] as LaurentSeries<Real>).evaluate(e), job.digits)]));

@@ -7,7 +7,7 @@ import { type CatalogueEntry, catalogueUpTo } from './catalogue';
 import { type Graph, graphSign, symmetryData } from './graphs';
 import { integralKit } from './integrals';
 import { ConsistencyError, type SubtractedGraph, subtractGraph } from './subtraction';
-import { type GraphWeight, graphWeight, legCorrectionWeight } from './weights';
+import { type GraphWeight, graphWeight, insertionMatrixWeight, legCorrectionWeight, quadraticPairs } from './weights';
 
 /** One line of the derivation trail: a graph, its weight, its integral and its poles. */
 export interface TrailEntry<C> {
@@ -32,6 +32,12 @@ export interface DerivedFlow<C> {
   gammaPhi: CouplingPolynomial<C>;
   gammaPhi2: CouplingPolynomial<C> | null;
   gammaPhi2Note?: string;
+  /**
+   * Anomalous-dimension matrix of the quadratic operators φ_iφ_j (pairs i ≤ j):
+   * γ[(kl)][(ij)] = (g·∂) z₁ − 2 z_φ1 δ, from the insertion graphs with the insertion tensor kept.
+   * Null for symbolic N (the matrix size depends on N).
+   */
+  quadratic: QuadraticMatrix<C> | null;
   /** True when the self-energy has a pole (field renormalization; s = 2). */
   fieldRenormalized: boolean;
   /** 1/ε and 1/ε² residues of the coupling counterterms, per coupling. */
@@ -39,6 +45,15 @@ export interface DerivedFlow<C> {
   trail: TrailEntry<C>[];
   checks: string[];
 }
+
+export interface QuadraticMatrix<C> {
+  pairs: [number, number][];
+  /** γ as a matrix of coupling polynomials, acting on the coordinates t_ij of the insertion. */
+  gamma: CouplingPolynomial<C>[][];
+}
+
+/** Largest number of fields for which the quadratic-operator matrix is built (21 operators). */
+export const MAX_QUADRATIC_FIELDS = 6;
 
 function weightPolynomials<C>(calc: Calculus<C>, w: GraphWeight, width: number): CouplingPolynomial<C>[] {
   const { ring } = calc.ctx;
@@ -80,6 +95,13 @@ export function deriveFlow<C>(spec: ModelSpec, calc: Calculus<C>, loops: number)
   let massNote: string | undefined;
   let sunsetPole: C = ring.zero();
   const trail: TrailEntry<C>[] = [];
+  const pairs = !isFamily(spec) && spec.fields <= MAX_QUADRATIC_FIELDS ? quadraticPairs(spec.fields) : null;
+  const P = pairs?.length ?? 0;
+  const zeroMatrix = () => Array.from({ length: P }, () => Array.from({ length: P }, zero));
+  const quadFirst = zeroMatrix();
+  const quadOneLoop = zeroMatrix();
+  const quadSecond = zeroMatrix();
+  const quadGamma = zeroMatrix();
   for (const entry of catalogueUpTo(loops)) {
     const subtracted = subtractGraph(calc, kit, entry);
     const { weight, note } = tryWeight(spec, entry);
@@ -88,6 +110,19 @@ export function deriveFlow<C>(spec: ModelSpec, calc: Calculus<C>, loops: number)
     const k1 = residue(subtracted.pole, 1);
     const k2 = residue(subtracted.pole, 2);
     const f = entry.graph.function;
+    if (f === 'massInsertion' && pairs && !isFamily(spec)) {
+      const mw = insertionMatrixWeight(spec, entry.graph);
+      const polys = weightPolynomials(calc, mw, P * P);
+      const degree = mw.degree;
+      for (let r = 0; r < P; r++) for (let c = 0; c < P; c++) {
+        const p = polys[r * P + c];
+        const z1 = p.scale(ring.neg(k1));
+        quadFirst[r][c] = quadFirst[r][c].add(z1);
+        if (entry.graph.loops === 1) quadOneLoop[r][c] = quadOneLoop[r][c].add(z1);
+        quadSecond[r][c] = quadSecond[r][c].add(p.scale(ring.neg(k2)));
+        quadGamma[r][c] = quadGamma[r][c].add(z1.scale(ring.fromRational(BigInt(degree))));
+      }
+    }
     if (f === 'selfEnergy') sunsetPole = k1;
     if (!weight) {
       if (f === 'massInsertion') massNote = note;
@@ -132,8 +167,12 @@ export function deriveFlow<C>(spec: ModelSpec, calc: Calculus<C>, loops: number)
   const checks: string[] = [];
   if (loops >= 2) {
     checkPoleConsistency(calc, first, second, oneLoopFirst, { fieldSecond, massFirst: massOneLoop.sub(zero()), massSecond, massNote }, checks);
+    if (pairs) checkMatrixConsistency(calc, quadOneLoop, quadSecond, oneLoopFirst, checks);
   }
-  return { calculus: calc, couplings: spec.couplings, loops, beta, gammaPhi, gammaPhi2, gammaPhi2Note: massNote, fieldRenormalized, residues: { first, second }, trail, checks };
+  const quadratic = pairs
+    ? { pairs, gamma: quadGamma.map((row, r) => row.map((p, c) => (r === c ? p.sub(fieldFirst.scale(ring.fromRational(2n))) : p))) }
+    : null;
+  return { calculus: calc, couplings: spec.couplings, loops, beta, gammaPhi, gammaPhi2, gammaPhi2Note: massNote, quadratic, fieldRenormalized, residues: { first, second }, trail, checks };
 }
 
 /**
@@ -167,6 +206,22 @@ function checkPoleConsistency<C>(
     checks.push('φ² insertion: 1/ε² poles equal the one-loop prediction (g·∂)ζ₂ = (b·∂)ζ₁');
   }
   checks.push('no ln(p²)/ε terms after subtraction of subdivergences (every graph)');
+}
+
+/**
+ * The matrix form of the φ² condition: Z = 1 + z₁/ε + z₂/ε² with Z⁻¹(β·∂)Z finite gives at
+ * 1/ε (two loops) 2 z₂ = (b·∂) z₁ + z₁ z₁ (z₁ the one-loop residue matrix).
+ */
+function checkMatrixConsistency<C>(calc: Calculus<C>, z1: CouplingPolynomial<C>[][], z2: CouplingPolynomial<C>[][], oneLoop: CouplingPolynomial<C>[], checks: string[]): void {
+  const { ring } = calc.ctx;
+  const P = z1.length;
+  for (let r = 0; r < P; r++) for (let c = 0; c < P; c++) {
+    let square = z1[r][0].sub(z1[r][0]);
+    for (let m = 0; m < P; m++) if (!z1[r][m].isZero() && !z1[m][c].isZero()) square = square.add(z1[r][m].mul(z1[m][c]));
+    const residual = z2[r][c].homogeneous(2).scale(ring.fromRational(2n)).sub(z1[r][c].along(oneLoop)).sub(square);
+    assertVanishes(calc, residual, `1/ε² pole of the quadratic-operator matrix entry (${r + 1}, ${c + 1}) is not fixed by one-loop data`);
+  }
+  checks.push('quadratic-operator matrix: 1/ε² poles equal the one-loop prediction 2z₂ = (b·∂)z₁ + z₁²');
 }
 
 export const describeModelKind = (spec: ModelSpec): string => (isFamily(spec) ? `${spec.label}, symbolic N` : spec.label);

@@ -154,3 +154,44 @@ export function constantWeight(p: Poly): Q | null {
 }
 
 
+
+// ---- quadratic operators φ_aφ_b ------------------------------------------------------------------
+
+/** The symmetric pairs (i ≤ j) labelling the quadratic operators φ_iφ_j, in lexicographic order. */
+export function quadraticPairs(n: number): [number, number][] {
+  const pairs: [number, number][] = [];
+  for (let i = 0; i < n; i++) for (let j = i; j < n; j++) pairs.push([i, j]);
+  return pairs;
+}
+
+/**
+ * Insertion graphs with the tensor structure of the insertion kept: the insertion legs are left
+ * open, W_{ab,ef} = Σ (quartic vertices), symmetrized in the external legs. With the insertion
+ * t = E^{(ij)} (E_{ef} = 1 iff {e,f} = {i,j}) the graph gives X_{kl} = M[(kl)][(ij)] t_{ij}, so
+ * X(t) = M t in the coordinates t_{ij}, i ≤ j. Values are M flattened row by row.
+ */
+function rationalInsertionMatrix(model: QuarticModel, graph: Graph): RationalTerms {
+  const k = model.couplings.length;
+  const n = model.fields;
+  const pairs = quadraticPairs(n);
+  const insertionLegs = graph.vertices.find((v) => v.kind === 'insertion')?.legs ?? [];
+  if (insertionLegs.length !== 2) fail('invalid', `graph ${graph.id} has no quadratic insertion`);
+  const terms: RationalTerms = new Map();
+  for (const tuple of couplingTuples(k, degreeOf(graph))) {
+    let next = 0;
+    const factors: LabelledTensor[] = graph.vertices.filter((v) => v.kind === 'quartic').map((v) => ({ tensor: model.basis[tuple[next++]], labels: v.legs }));
+    const w = contract(factors, [...graph.externals, ...insertionLegs]);
+    const sym = addTensors(w, permuteSlots(w, [1, 0, 2, 3]));
+    const f = prefactor(model, graph, tuple);
+    const at = (a: number, b: number, e: number, g: number) => sym.data[((a * n + b) * n + e) * n + g];
+    const values: Q[] = [];
+    for (const [kk, l] of pairs) for (const [i, j] of pairs) values.push(qMul(q(at(kk, l, i, j) + (i === j ? 0 : at(kk, l, j, i))), f));
+    accumulate(terms, powersOf(tuple, k), values);
+  }
+  return terms;
+}
+
+/** Weight matrix of an insertion graph on the quadratic operators (numeric N only: its size is N(N+1)/2). */
+export function insertionMatrixWeight(model: QuarticModel, graph: Graph): GraphWeight {
+  return asPolynomials(`${graph.id}:matrix`, degreeOf(graph), rationalInsertionMatrix(model, graph));
+}

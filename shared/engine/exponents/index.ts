@@ -1,2 +1,3 @@
 /** Critical exponents at a fixed point: ε-series, scaling relations, mean-field statement. */
 export * from './exponents';
+export * from './quadratic';
