@@ -12,6 +12,7 @@ import { MAX_FIELDS, cubicFamily, cubicModel, onFamily, onModel } from '../engin
 import { EngineError, fail } from '../engine/precision/errors';
 import { type Real, realContext, toExactRational } from '../engine/precision/real';
 import { crossoverS, meanFieldEnd, padeValue, scanSeries } from '../engine/scans/scan';
+import { scanFlow } from '../engine/scans/flowScan';
 import { type LaurentSeries } from '../engine/series/laurent';
 import { type Expression } from '../engine/symbolic/expression';
 import { expressionToLatex, expressionToString } from '../engine/symbolic/format';
@@ -54,6 +55,7 @@ export const ScanJob = z.strictObject({
   loops: Loops,
   digits: FlowDigits,
   shortRange: z.strictObject({ Delta_sigma: DecimalString }).optional(),
+  fixedPoint: z.string().max(100).optional(),
 });
 export const FlowCalcJob = z.discriminatedUnion('job', [FlowJob, FixedPointsJob, ExponentsJob, ScanJob]);
 export type FlowCalcJob = z.infer<typeof FlowCalcJob>;
@@ -330,7 +332,7 @@ function runExponents(job: z.infer<typeof ExponentsJob>) {
 
 function runScan(job: z.infer<typeof ScanJob>, hooks: JobHooks) {
   const model = modelFrom(job.model);
-  if (model.couplings.length !== 1 || 'member' in model) fail('not-representable', 'scans are available for single-coupling models with numeric N (derive once in s)');
+  if ('member' in model) fail('not-representable', 'scans need a numeric N (give "N" as a number, e.g. "N":3); the flow is derived once symbolically in s');
   const d = toExactRational(job.d);
   checkDimension(d);
   const from = exactPositive(job.s.from, 's.from');
@@ -340,27 +342,42 @@ function runScan(job: z.infer<typeof ScanJob>, hooks: JobHooks) {
   const sValues = Array.from({ length: job.s.points }, (_, i) => qAdd(from, qMul(qSub(to, from), q(i, job.s.points - 1))));
   const any = deriveFor(model, null, job.loops, job.digits);
   const flow = any.flow as DerivedFlow<Expression>;
-  const point = chooseFixedPoint(findFixedPoints(model, flow, { eps: null }), undefined, true);
-  const series = exponentSeries(flow, point);
   const shortRangeS = job.shortRange ? crossoverS(d, toExactRational(job.shortRange.Delta_sigma)) : null;
   // The derivation is a small share of a long scan; the points carry the rest of the progress.
   const onProgress = hooks.onProgress ? (f: number) => hooks.onProgress!(0.05 + 0.95 * f) : undefined;
   hooks.onProgress?.(0.05);
+  const marks = { meanFieldEnd: decimalText(meanFieldEnd(d), job.digits), ...(shortRangeS ? { sStar: decimalText(shortRangeS, job.digits) } : {}) };
+  const pointText = (p: { s: Q; eps: Q; regime: string }) => ({ s: decimalText(p.s, job.digits), eps: decimalText(p.eps, job.digits), regime: p.regime, flagged: p.regime !== 'long-range' });
+  if (model.couplings.length > 1) {
+    // several couplings: fixed points solved numerically at each ε (flow derived once in s)
+    const points = scanFlow({ model, flow, d, sValues, quantities: job.quantities, digits: job.digits, shortRangeS, onProgress, choose: (candidates) => chooseFixedPoint(candidates, job.fixedPoint, false) });
+    const used = points.find((p) => p.fixedPoint !== null && p.regime === 'long-range')?.fixedPoint ?? points.find((p) => p.fixedPoint !== null)?.fixedPoint ?? null;
+    return {
+      d: job.d,
+      fixedPoint: job.fixedPoint ?? used,
+      quantities: job.quantities,
+      marks,
+      points: points.map((p) => ({
+        ...pointText(p),
+        fixedPoint: p.fixedPoint,
+        values: Object.fromEntries(job.quantities.map((k: Quantity, i: number) => [k, p.fixedPoint === null ? null : formatCoefficient(p.values[i], job.digits)])),
+        pade: Object.fromEntries(job.quantities.map((k: Quantity, i: number) => [k, p.pade[i] ? formatCoefficient(p.pade[i], job.digits) : null])),
+        ...(p.note ? { note: p.note } : {}),
+      })),
+    };
+  }
+  const point = chooseFixedPoint(findFixedPoints(model, flow, { eps: null }), job.fixedPoint, true);
+  const series = exponentSeries(flow, point);
   const points = scanSeries({ d, sValues, series: job.quantities.map((k: Quantity) => ({ coefficients: (series[k] as LaurentSeries<Expression>).coefficients() })), digits: job.digits, shortRangeS, onProgress });
   return {
     d: job.d,
     fixedPoint: point.name,
     quantities: job.quantities,
-    marks: { meanFieldEnd: decimalText(meanFieldEnd(d), job.digits), ...(shortRangeS ? { sStar: decimalText(shortRangeS, job.digits) } : {}) },
+    marks,
     points: points.map((p) => ({
-      s: decimalText(p.s, job.digits),
-      eps: decimalText(p.eps, job.digits),
-      regime: p.regime,
-      flagged: p.regime !== 'long-range',
+      ...pointText(p),
       values: Object.fromEntries(job.quantities.map((k: Quantity, i: number) => [k, formatCoefficient(p.values[i], job.digits)])),
       pade: Object.fromEntries(job.quantities.map((k: Quantity, i: number) => [k, p.pade[i] ? formatCoefficient(p.pade[i], job.digits) : null])),
     })),
   };
 }
-
-

@@ -1,0 +1,95 @@
+import { numericCalculus } from '../diagrams/calculus';
+import { type DerivedFlow } from '../diagrams/renormalization';
+import { exponentSeries, type Quantity } from '../exponents/exponents';
+import { type FixedPoint, findFixedPoints } from '../fixedpoints/fixedPoints';
+import { type CouplingPolynomial } from '../models/couplingPolynomial';
+import { type ModelSpec } from '../models/model';
+import { EngineError } from '../precision/errors';
+import { type Real, realContext } from '../precision/real';
+import { type Expression } from '../symbolic/expression';
+import { type Q, q, qCompare, qMul, qSub } from '../symbolic/rational';
+import { type ScanPoint, evaluateAtPoint, meanFieldEnd, padeValue } from './scan';
+
+/**
+ * Scans of models with several couplings: the flow is derived once symbolically in s; at each
+ * grid point its coefficients are evaluated (each ψ/Γ atom once), the fixed points are solved at
+ * that ε (one-loop roots, ε-series, Newton on the truncated β from the series value), one is
+ * chosen, and the exponent series are evaluated at ε.
+ */
+export interface FlowScanRequest {
+  model: ModelSpec;
+  /** The flow symbolic in s (numeric N). */
+  flow: DerivedFlow<Expression>;
+  d: Q;
+  sValues: Q[];
+  quantities: readonly Quantity[];
+  digits: number;
+  shortRangeS: Q | null;
+  /** Picks the fixed point at a grid point (throws EngineError when none fits). */
+  choose: (points: FixedPoint<Real>[]) => FixedPoint<Real>;
+  onProgress?: (fraction: number) => void;
+}
+
+export interface FlowScanPoint extends ScanPoint {
+  /** The fixed point used at this s (null when none could be chosen; values are then null). */
+  fixedPoint: string | null;
+  note?: string;
+}
+
+/** The symbolic-in-s flow as numbers at one s (coefficients evaluated with shared atoms). */
+export function flowAtS(flow: DerivedFlow<Expression>, s: Q, digits: number): DerivedFlow<Real> {
+  const calculus = numericCalculus(s, digits);
+  const { ring } = calculus.ctx;
+  const atoms = new Map<string, Real>();
+  const at = { s };
+  const value = (e: Expression) => evaluateAtPoint(e, at, calculus.digits, atoms);
+  const numeric = (p: CouplingPolynomial<Expression>) => p.map(ring, value);
+  return {
+    calculus,
+    couplings: flow.couplings,
+    loops: flow.loops,
+    beta: flow.beta.map(numeric),
+    gammaPhi: numeric(flow.gammaPhi),
+    gammaPhi2: flow.gammaPhi2 ? numeric(flow.gammaPhi2) : null,
+    gammaPhi2Note: flow.gammaPhi2Note,
+    quadratic: flow.quadratic ? { pairs: flow.quadratic.pairs, gamma: flow.quadratic.gamma.map((row) => row.map(numeric)) } : null,
+    fieldRenormalized: flow.fieldRenormalized,
+    residues: { first: flow.residues.first.map(numeric), second: flow.residues.second.map(numeric) },
+    trail: [],
+    checks: flow.checks,
+  };
+}
+
+export function scanFlow(request: FlowScanRequest): FlowScanPoint[] {
+  const out = realContext(request.digits);
+  const half = meanFieldEnd(request.d);
+  const total = request.sValues.length;
+  const reportEvery = Math.max(1, Math.floor(total / 100));
+  return request.sValues.map((s, index) => {
+    if (request.onProgress && index % reportEvery === 0) request.onProgress(index / total);
+    const eps = qSub(qMul(q(2), s), request.d);
+    const regime = qCompare(s, half) <= 0 ? 'mean-field' : request.shortRangeS && qCompare(s, request.shortRangeS) >= 0 ? 'short-range' : 'long-range';
+    const flow = flowAtS(request.flow, s, request.digits);
+    const { ring } = flow.calculus.ctx;
+    const epsReal = ring.fromRational(eps.num, eps.den);
+    const empty = { s, eps, regime, values: [] as Real[], pade: [] as (Real | null)[] } as const;
+    try {
+      // at ε ≤ 0 there is no non-trivial root to polish: choose by the ε-series (leading-order stability)
+      const positive = qCompare(eps, q(0)) > 0;
+      const points = findFixedPoints(request.model, flow, { eps: positive ? epsReal : null });
+      const point = request.choose(points);
+      const series = exponentSeries(flow, point);
+      const values: Real[] = [];
+      const pade: (Real | null)[] = [];
+      for (const k of request.quantities) {
+        const coeffs = series[k].coefficients();
+        values.push(new out(series[k].evaluate(epsReal)).toSignificantDigits(request.digits));
+        pade.push(padeValue(coeffs, epsReal, request.digits));
+      }
+      return { ...empty, values, pade, fixedPoint: point.name };
+    } catch (e) {
+      if (!(e instanceof EngineError)) throw e;
+      return { ...empty, fixedPoint: null, note: e.message };
+    }
+  });
+}
