@@ -285,7 +285,10 @@ function chooseFixedPoint<C>(points: FixedPoint<C>[], name: string | undefined, 
   const candidates = points.filter((p) => p.name !== 'Gaussian' && p.status === 'real');
   const stableByLeadingOrder = (p: FixedPoint<C>) => !!p.eigenvalueSeries && p.eigenvalueSeries.every((e) => e !== null && Number(String(symbolic ? (e.coefficient(1) as unknown as Expression).rationalValue()?.num ?? NaN : e.coefficient(1))) > 0);
   const stable = candidates.find((p) => p.stable === true) ?? candidates.find(stableByLeadingOrder);
-  if (!stable) fail('not-representable', 'no IR-stable non-Gaussian fixed point; name one with "fixedPoint"');
+  if (!stable) {
+    const names = candidates.map((p) => p.name).join(', ');
+    fail('not-representable', symbolic ? `which fixed point is IR-stable depends on the symbolic parameters; name one with "fixedPoint" (${names}) or give N and s as numbers` : `no IR-stable non-Gaussian fixed point; name one with "fixedPoint" (${names})`);
+  }
   return stable;
 }
 

@@ -14,7 +14,7 @@ export type Quantity = (typeof SERIES_QUANTITIES)[number];
 /** How each exponent follows from the RG functions (stated in results). */
 export const RELATIONS: Record<Quantity, string> = {
   nuInv: '1/ν = s − γ_{φ²}(g*)',
-  omega: 'ω = smallest eigenvalue of ∂β_i/∂g_j at g*',
+  omega: 'ω = smallest eigenvalue of ∂β_i/∂g_j at g* (symbolic N with two couplings: the eigenvalue other than the radial one, ε + O(ε²))',
   eta: 'η = 2 − s + 2γ_φ(g*)',
   Delta_phi: 'Δ_φ = (d − 2 + η)/2 = (d − s)/2 + γ_φ',
   Delta_phi2: 'Δ_{φ²} = d − 1/ν',
@@ -93,16 +93,14 @@ function smallestEigenvalueSeries<C>(point: FixedPoint<C>, order: number): Laure
   const series = point.eigenvalueSeries;
   if (!series || series.length === 0 || series.some((e) => e === null)) return fail('not-representable', `the stability eigenvalues of ${point.name} have no ε-series (degenerate or complex)`);
   if (series.length === 1) return (series[0] as LaurentSeries<C>).truncate(order);
-  let best: LaurentSeries<C> | null = null;
-  let bestValue = Infinity;
-  for (const e of series as LaurentSeries<C>[]) {
-    const leading = Number(String(e.coefficient(1)));
-    if (leading < bestValue) {
-      bestValue = leading;
-      best = e;
-    }
-  }
-  return (best as LaurentSeries<C>).truncate(order);
+  const all = series as LaurentSeries<C>[];
+  const leading = all.map((e) => Number(String(e.coefficient(1))));
+  if (leading.every(Number.isFinite)) return all[leading.indexOf(Math.min(...leading))].truncate(order);
+  // symbolic N: the radial eigenvalue is ε + O(ε²); ω is the other one when exactly one other exists
+  const ring = all[0].ring;
+  const others = all.filter((e) => !ring.isZero(ring.sub(e.coefficient(1), ring.one())));
+  if (others.length === 1 && all.length === 2) return others[0].truncate(order);
+  return fail('not-representable', `ω at ${point.name}: which stability eigenvalue is smallest depends on N; give N as a number (e.g. "N":3)`);
 }
 
 /** Landau (Gaussian) values, exact for d ≥ 2s where the quartic coupling is irrelevant. */

@@ -37,6 +37,37 @@ function oneLoopRootsSingle<C>(flow: DerivedFlow<C>): C[][] {
   return [[ring.zero()], [ring.inverse(c2)]];
 }
 
+/**
+ * Exact one-loop roots of several couplings when every beta_i⁽²⁾ is divisible by g_i (as for the
+ * O(N), cubic and decoupled structures): beta_i⁽²⁾ = g_i Σ_j L_ij g_j, so on each subset S of
+ * non-zero couplings the roots solve the linear system L_SS g_S = 1 — rational in N and s-free.
+ * Returns null when the structure does not hold (the roots are then not rational in general).
+ */
+export function oneLoopRootsFactored<C>(flow: DerivedFlow<C>): C[][] | null {
+  const { ring } = flow.calculus.ctx;
+  const k = flow.couplings.length;
+  const L: C[][] = Array.from({ length: k }, () => Array.from({ length: k }, () => ring.zero()));
+  for (let i = 0; i < k; i++) {
+    for (const t of flow.beta[i].homogeneous(2).terms.values()) {
+      if (t.powers[i] === 0) return null;
+      const j = t.powers.findIndex((p, l) => (l === i ? p === 2 : p === 1));
+      L[i][j] = ring.add(L[i][j], t.coeff);
+    }
+  }
+  const roots: C[][] = [];
+  for (let mask = 0; mask < 2 ** k; mask++) {
+    const subset = Array.from({ length: k }, (_, i) => i).filter((i) => mask & (1 << i));
+    const g = Array.from({ length: k }, () => ring.zero());
+    if (subset.length > 0) {
+      const solution = solveLinear(ring, subset.map((i) => subset.map((j) => L[i][j])), subset.map(() => ring.one()), flow.calculus.isNegligible);
+      if (!solution || solution.some((x) => flow.calculus.isNegligible(x))) continue;
+      subset.forEach((i, r) => (g[i] = solution[r]));
+    }
+    roots.push(g);
+  }
+  return roots;
+}
+
 function seededStarts(k: number, scale: number): Complex[][] {
   let seed = 12345;
   const next = () => {
@@ -165,7 +196,46 @@ function eigenvalueSeries<C>(flow: DerivedFlow<C>, matrices: C[][][]): (LaurentS
   const order = matrices.length;
   if (flow.couplings.length === 1) return [LaurentSeries.of(ring, 0, [ring.zero(), ...matrices.map((m) => m[0][0])], order)];
   if (!flow.calculus.symbolic) return numericEigenvalueSeries(flow as unknown as DerivedFlow<Real>, matrices as unknown as Real[][][]) as unknown as (LaurentSeries<C> | null)[];
-  return null;
+  return exactEigenvalueSeries(flow, matrices);
+}
+
+/**
+ * Exact eigenvalue series (symbolic coefficients): triangular M₁ and M₂ give the diagonal; for two
+ * couplings the one-loop eigenvalues are 1 (the radial direction g₁: ∂beta⁽²⁾(g₁)·g₁ = 2g₁) and
+ * tr M₁ − 1, and the ε² coefficients follow from perturbation theory with the exact left and right
+ * eigenvectors, μ = w M₂ v / (w v). Otherwise null (the eigenvalues are not rational in N).
+ */
+function exactEigenvalueSeries<C>(flow: DerivedFlow<C>, matrices: C[][][]): (LaurentSeries<C> | null)[] | null {
+  const { ring } = flow.calculus.ctx;
+  const zero = flow.calculus.isNegligible;
+  const k = flow.couplings.length;
+  const order = matrices.length;
+  const series = (coeffs: C[]) => LaurentSeries.of(ring, 0, [ring.zero(), ...coeffs], order);
+  const lower = (m: C[][]) => m.every((row, i) => row.every((x, j) => j <= i || zero(x)));
+  const upper = (m: C[][]) => m.every((row, i) => row.every((x, j) => j >= i || zero(x)));
+  if (matrices.every(lower) || matrices.every(upper)) return Array.from({ length: k }, (_, i) => series(matrices.map((m) => m[i][i])));
+  if (k !== 2) return null;
+  const [m1, m2] = matrices;
+  const trace = ring.add(m1[0][0], m1[1][1]);
+  const lambdas = [ring.one(), ring.sub(trace, ring.one())];
+  // check: det(M₁ − λ) = 0 for both (the radial eigenvalue is exact at one loop)
+  const det = (l: C) => ring.sub(ring.mul(ring.sub(m1[0][0], l), ring.sub(m1[1][1], l)), ring.mul(m1[0][1], m1[1][0]));
+  if (!lambdas.every((l) => zero(det(l)))) return null;
+  if (zero(ring.sub(lambdas[0], lambdas[1]))) return null;
+  return lambdas.map((lambda) => {
+    if (!m2) return series([lambda]);
+    const a = ring.sub(m1[0][0], lambda);
+    const b = m1[0][1];
+    const c = m1[1][0];
+    const d = ring.sub(m1[1][1], lambda);
+    const right = zero(a) && zero(b) ? [ring.neg(d), c] : [ring.neg(b), a];
+    const left = zero(a) && zero(c) ? [ring.neg(d), b] : [ring.neg(c), a];
+    const den = ring.add(ring.mul(left[0], right[0]), ring.mul(left[1], right[1]));
+    if (zero(den)) return null;
+    let num = ring.zero();
+    for (let i = 0; i < 2; i++) for (let j = 0; j < 2; j++) num = ring.add(num, ring.mul(ring.mul(left[i], m2[i][j]), right[j]));
+    return series([lambda, ring.mul(num, ring.inverse(den))]);
+  });
 }
 
 function numericEigenvalueSeries(flow: DerivedFlow<Real>, [m1, m2]: Real[][][]): (LaurentSeries<Real> | null)[] {
@@ -301,11 +371,14 @@ export interface FixedPointOptions<C> {
 export function findFixedPoints<C>(spec: ModelSpec, flow: DerivedFlow<C>, options: FixedPointOptions<C>): FixedPoint<C>[] {
   const numeric = !flow.calculus.symbolic;
   const k = flow.couplings.length;
-  if (k > 1 && !numeric) fail('not-representable', 'fixed points of several couplings need numeric s and N');
+  const factored = k > 1 && !numeric ? oneLoopRootsFactored(flow) : null;
+  if (k > 1 && !numeric && !factored) {
+    fail('not-representable', 'the one-loop fixed points of these couplings are not rational in the symbolic parameters (beta_i is not proportional to g_i); give N as a number (e.g. "N":3) and s as a number for numeric fixed points');
+  }
   const magnitude = numeric ? (c: C) => Math.abs(toNumber(c)) : undefined;
   const points: FixedPoint<C>[] = [];
   const roots: { g1: C[] | null; complex?: Complex[] }[] =
-    k === 1 ? oneLoopRootsSingle(flow).map((g1) => ({ g1 })) : oneLoopRootsNumeric(flow as unknown as DerivedFlow<Real>).map((r) => (r.every((x) => x.im === 0) ? { g1: polishOneLoop(flow as unknown as DerivedFlow<Real>, r.map((x) => x.re)) as unknown as C[] } : { g1: null, complex: r }));
+    k === 1 ? oneLoopRootsSingle(flow).map((g1) => ({ g1 })) : factored ? factored.map((g1) => ({ g1 })) : oneLoopRootsNumeric(flow as unknown as DerivedFlow<Real>).map((r) => (r.every((x) => x.im === 0) ? { g1: polishOneLoop(flow as unknown as DerivedFlow<Real>, r.map((x) => x.re)) as unknown as C[] } : { g1: null, complex: r }));
   for (const root of roots) {
     if (!root.g1) {
       points.push({ name: `complex (${spec.classify((root.complex as Complex[]).map((x) => x.re))})`, status: 'complex', couplingSeries: null, eigenvalueSeries: null, couplingValues: null, eigenvalueValues: null, complexCouplings: root.complex, stable: null, notes: ['complex at one loop: not a physical fixed point'] });
