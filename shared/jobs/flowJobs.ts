@@ -292,6 +292,17 @@ function chooseFixedPoint<C>(points: FixedPoint<C>[], name: string | undefined, 
   return stable;
 }
 
+/**
+ * When the identity insertion is not proportional to δ for all couplings (γ_φ² unavailable), φ_aφ_a
+ * may still be an eigen-operator of the quadratic-operator matrix at the chosen fixed point: its γ then defines 1/ν.
+ */
+function singletAtPoint(any: AnyFlow, point: FixedPoint<unknown>, s: Q | null, model: ModelSpec): LaurentSeries<Real> | undefined {
+  if (any.mode !== 'numeric' || any.flow.gammaPhi2 || !s || 'member' in model) return undefined;
+  const { ring } = any.flow.calculus.ctx;
+  const spectrum = quadraticSpectrum(any.flow, point as FixedPoint<Real>, ring.fromRational(s.num, s.den), model.fields);
+  return spectrum?.operators.find((o) => o.containsSinglet)?.gammaSeries;
+}
+
 function runExponents(job: z.infer<typeof ExponentsJob>) {
   const model = modelFrom(job.model);
   const s = job.s === undefined ? null : exactPositive(job.s, 's');
@@ -310,7 +321,7 @@ function runExponents(job: z.infer<typeof ExponentsJob>) {
   const epsCoefficient = numeric && eps ? any.flow.calculus.ctx.ring.fromRational(eps.num, eps.den) : null;
   const points = findFixedPoints(model, flow, { eps: epsCoefficient });
   const point = chooseFixedPoint(points, job.fixedPoint, !numeric);
-  const series = exponentSeries(flow, point);
+  const series = exponentSeries(flow, point, singletAtPoint(any, point, s, model));
   const out: Record<string, unknown> = {
     eps: eps ? decimalText(eps, job.digits) : 'eps',
     meanField: false,

@@ -54,19 +54,20 @@ function sCoefficient<C>(flow: DerivedFlow<C>): C {
  * Every exponent at a fixed point as an ε-series at fixed s through ε^loops, derived from the
  * RG functions and the scaling relations in RELATIONS (d = 2s − ε).
  */
-export function exponentSeries<C>(flow: DerivedFlow<C>, point: FixedPoint<C>): ExponentSeries<C> {
+export function exponentSeries<C>(flow: DerivedFlow<C>, point: FixedPoint<C>, singletGamma?: LaurentSeries<C>): ExponentSeries<C> {
   const { ring } = flow.calculus.ctx;
   const order = flow.loops;
   if (!point.couplingSeries) fail('not-representable', `fixed point ${point.name} has no real ε-series`);
   const g = point.couplingSeries;
-  if (!flow.gammaPhi2) fail('not-representable', `Δ_φ² is not defined for this model: ${flow.gammaPhi2Note ?? 'the φ² insertion mixes'}`);
+  if (!flow.gammaPhi2 && !singletGamma) fail('not-representable', `Δ_φ² is not defined for this model: ${flow.gammaPhi2Note ?? 'the φ² insertion mixes'}`);
   const constant = (c: C) => LaurentSeries.constant(ring, c, order);
   const number = (n: bigint, m = 1n) => constant(ring.fromRational(n, m));
   const s = constant(sCoefficient(flow));
   const eps = LaurentSeries.variable(ring, order);
   const d = s.scale(2n).sub(eps);
   const gammaPhi = onSeries(flow.gammaPhi, g, order);
-  const gammaPhi2 = onSeries(flow.gammaPhi2, g, order);
+  // singletGamma: γ of φ_aφ_a when it is an eigen-operator only at this fixed point (quadratic matrix)
+  const gammaPhi2 = singletGamma ? singletGamma.truncate(order) : onSeries(flow.gammaPhi2 as CouplingPolynomial<C>, g, order);
   const omega = smallestEigenvalueSeries(point, order);
   const eta = number(2n).sub(s).add(gammaPhi.scale(2n));
   const nuInv = s.sub(gammaPhi2);

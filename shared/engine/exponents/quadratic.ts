@@ -17,6 +17,8 @@ export interface QuadraticOperator {
   /** Symmetry description of the eigenspace (singlet, symmetric traceless, …). */
   name: string;
   multiplicity: number;
+  /** True when φ_aφ_a (δ) lies in the eigenspace: then it is itself an eigen-operator with this γ. */
+  containsSinglet: boolean;
   /** One operator of the eigenspace, e.g. "phi1^2 - phi2^2". */
   operator: string;
   /** γ = γ₁ε + γ₂ε² and Δ = d − s + γ at fixed s (d = 2s − ε). */
@@ -136,6 +138,11 @@ function eigenspaces(m1: Real[][], m2: Real[][] | null, digits: number): { basis
   return out;
 }
 
+function singletOverlap(basis: Real[][], pairs: [number, number][], fields: number): number {
+  const delta = pairs.map(([i, j]) => (i === j ? 1 / Math.sqrt(fields) : 0));
+  return basis.reduce((s, v) => s + v.reduce((t, x, r) => t + toNumber(x) * delta[r], 0) ** 2, 0);
+}
+
 /** Name of an eigenspace from its basis (coordinates t̂). */
 function nameOf(basis: Real[][], pairs: [number, number][], fields: number): string {
   const P = pairs.length;
@@ -194,7 +201,7 @@ export function quadraticSpectrum(flow: DerivedFlow<Real>, point: FixedPoint<Rea
     const gammaCoeffs = [ring.zero(), g1, ...(g2 ? [g2] : [])].slice(0, order + 1);
     const gammaSeries = LaurentSeries.of(ring, 0, gammaCoeffs, order);
     const dMinusS = LaurentSeries.of(ring, 0, [s, ring.fromRational(-1n)], order);
-    return { name: nameOf(basis, pairs, fields), multiplicity: basis.length, operator: operatorText(basis[0], pairs), gammaSeries, deltaSeries: dMinusS.add(gammaSeries), basis };
+    return { name: nameOf(basis, pairs, fields), multiplicity: basis.length, containsSinglet: singletOverlap(basis, pairs, fields) > 1 - 1e-12, operator: operatorText(basis[0], pairs), gammaSeries, deltaSeries: dMinusS.add(gammaSeries), basis };
   });
   return { operators, pairs };
 }

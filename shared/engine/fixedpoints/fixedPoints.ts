@@ -242,6 +242,9 @@ function numericEigenvalueSeries(flow: DerivedFlow<Real>, [m1, m2]: Real[][][]):
   const { ring } = flow.calculus.ctx;
   const k = m1.length;
   const lambdas = realEigenvalues(ring, m1, flow.calculus.isNegligible);
+  // M₁ = λ·1 (fully degenerate, e.g. decoupled copies of one model): the ε² coefficients are the eigenvalues of M₂
+  const scalar = m1.every((row, i) => row.every((x, j) => flow.calculus.isNegligible(i === j ? ring.sub(x, m1[0][0]) : x)));
+  if (scalar && m2) return realEigenvalues(ring, m2, flow.calculus.isNegligible).map((mu) => (mu === null ? null : LaurentSeries.of(ring, 0, [ring.zero(), m1[0][0], mu], 2)));
   return lambdas.map((lambda, idx) => {
     if (lambda === null) return null;
     if (!m2) return LaurentSeries.of(ring, 0, [ring.zero(), lambda], 1);

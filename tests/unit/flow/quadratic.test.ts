@@ -109,3 +109,14 @@ test('cubic N = 3 at the cubic point: quadratic operators split as 1 + (N−1) +
   const singlet = ops.find((o) => o.name === "singlet") as Any;
   singlet.series.Delta.forEach((c: string, k: number) => close(c, r.series.Delta_phi2[k], 1e-17, `singlet Δ ε^${k}`));
 });
+
+test('mixing model u/24 φ1⁴ + w/24 φ2⁴: the exponents job picks u* = w* and, with φ_aφ_a an eigen-operator there, gives the Ising 1/ν, ω, Δ_φ² (hand: two decoupled Ising copies; independent: O(1) exponents job)', () => {
+  const r = runFlowJob({ job: 'exponents', model: { preset: 'custom', fields: 2, potential: 'u/24*phi1^4 + w/24*phi2^4' }, d: '3', s: '1.75', digits: 20 }) as Any;
+  assert.equal(r.error, undefined, JSON.stringify(r.error));
+  assert.equal(r.fixedPoint, 'all couplings (u, w)');
+  const ising = runFlowJob({ job: 'exponents', model: { preset: 'on', N: 1 }, d: '3', s: '1.75', digits: 20 }) as Any;
+  for (const k of ['nuInv', 'omega', 'Delta_phi2']) {
+    r.series[k].forEach((c: string, m: number) => close(c, ising.series[k][m], 1e-17, `${k} ε^${m}`));
+    close(r.values[k], ising.values[k], 1e-17, `${k} value`);
+  }
+});
