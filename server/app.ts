@@ -55,6 +55,8 @@ function webApp(webRoot: string) {
 export function createApp(services: Services): Express {
   const app = express();
   app.disable('x-powered-by');
+  // Replies are small and rarely repeated byte for byte; hashing every body for an ETag costs more than it saves.
+  app.set('etag', false);
   app.set('trust proxy', 'loopback');
   app.use(
     pinoHttp({

@@ -16,6 +16,16 @@ export interface NotebookAccess {
   canEdit: boolean;
 }
 
+/** The better-sqlite3 database under the data source, for the few hot queries written by hand. */
+function sqliteHandle(dataSource: DataSource): { prepare(sql: string): { get(...params: unknown[]): unknown } } {
+  return (dataSource.driver as unknown as { databaseConnection: { prepare(sql: string): { get(...params: unknown[]): unknown } } }).databaseConnection;
+}
+
+/** SQLite datetime text (UTC, as TypeORM and datetime('now') write it) to a Date. */
+function sqliteDate(text: string): Date {
+  return new Date(`${text.replace(' ', 'T')}${text.endsWith('Z') ? '' : 'Z'}`);
+}
+
 export function parseCellInput(json: string): CellInput {
   return cellInput.parse(JSON.parse(json));
 }
@@ -34,11 +44,26 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
   }
 
   /** Owners and members of the notebook's group may view and edit; site admins may view any notebook. */
+  // Every notebook request starts here, so it is one prepared statement rather than two ORM queries.
+  const accessQuery = sqliteHandle(dataSource).prepare(
+    `SELECT n.id, n.title, n.summary, n.ownerId, n.groupId, n.createdAt, n.updatedAt,
+            EXISTS (SELECT 1 FROM group_memberships m WHERE m.groupId = n.groupId AND m.userId = ?) AS inGroup
+       FROM notebooks n WHERE n.id = ?`,
+  );
+
   async function access(viewer: SignedInUser, notebookId: string): Promise<NotebookAccess> {
-    const notebook = await notebooks.findOneBy({ id: notebookId });
-    if (!notebook) throw new AppError('not_found', 'No such notebook.');
-    const inGroup = notebook.groupId ? (await groupIdsOf(viewer.id)).includes(notebook.groupId) : false;
-    const canEdit = notebook.ownerId === viewer.id || inGroup;
+    const row = accessQuery.get(viewer.id, notebookId) as (Record<string, string | null> & { inGroup: number }) | undefined;
+    if (!row) throw new AppError('not_found', 'No such notebook.');
+    const notebook = notebooks.create({
+      id: row.id!,
+      title: row.title!,
+      summary: row.summary ?? '',
+      ownerId: row.ownerId!,
+      groupId: row.groupId,
+      createdAt: sqliteDate(row.createdAt!),
+      updatedAt: sqliteDate(row.updatedAt!),
+    });
+    const canEdit = notebook.ownerId === viewer.id || row.inGroup === 1;
     if (!canEdit && viewer.siteRole !== 'admin') throw new AppError('not_found', 'No such notebook.');
     return { notebook, canEdit };
   }

@@ -35,7 +35,11 @@ describe('notebooks, cells, runs, versions and exports', () => {
   test('create a notebook; it is listed for its owner only', async () => {
     notebook = (await owner.post('/api/notebooks').send({ title: 'Invented O(1) check', summary: 'invented scenario' }).expect(201)).body.notebook;
     assert.equal(notebook.cells.length, 0);
-    assert.equal((await owner.get('/api/notebooks?q=O(1)').expect(200)).body.notebooks.length, 1);
+    const listed = (await owner.get('/api/notebooks?q=O(1)').expect(200)).body.notebooks;
+    assert.equal(listed.length, 1);
+    const opened = (await owner.get(`/api/notebooks/${notebook.id}`).expect(200)).body.notebook;
+    assert.equal(opened.updatedAt, listed[0].updatedAt, 'list and detail read the same time stamp');
+    assert.ok(Math.abs(Date.parse(opened.updatedAt) - Date.now()) < 60_000, 'time stamps are UTC, not shifted by a zone');
     assert.equal((await owner.get('/api/notebooks?q=nothing-like-this').expect(200)).body.notebooks.length, 0);
     assert.deepEqual((await outsider.get('/api/notebooks').expect(200)).body.notebooks, []);
     await outsider.get(`/api/notebooks/${notebook.id}`).expect(404);

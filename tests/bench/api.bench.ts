@@ -70,7 +70,7 @@ async function main() {
 
   const port = await freePort();
   const base = `http://127.0.0.1:${port}`;
-  const server = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts'], {
+  const server = spawn(process.execPath, [...(process.env.BENCH_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir', process.env.BENCH_CPU_PROF] : []), '--import', 'tsx', 'server/main.ts'], {
     cwd: ROOT,
     env: { ...process.env, PORT: String(port), PUBLIC_URL: base, DATABASE_PATH: databasePath, SMTP_PORT: '0', LOG_LEVEL: 'warn', SEED_DEMO_DATA: 'false', SIGNIN_LIMIT_PER_IP: '1000' },
     stdio: ['ignore', 'ignore', 'inherit'],
@@ -84,6 +84,14 @@ async function main() {
     const cookie = (signIn.headers.get('set-cookie') ?? '').split(';')[0];
 
     let next = 0;
+    // Warm-up (JIT, first reads of every notebook, worker boot) is not part of the measurement.
+    await autocannon({
+      url: base,
+      connections: CLIENTS,
+      duration: 3,
+      headers: { cookie },
+      requests: [{ method: 'GET', setupRequest: (request) => ({ ...request, path: `/api/notebooks/${notebookIds[next++ % notebookIds.length]}` }) }],
+    });
     const result = await autocannon({
       url: base,
       connections: CLIENTS,
@@ -91,8 +99,6 @@ async function main() {
       headers: { cookie },
       requests: [{ method: 'GET', setupRequest: (request) => ({ ...request, path: `/api/notebooks/${notebookIds[next++ % notebookIds.length]}` }) }],
     });
-    const rss = await fetch(`${base}/api/health`).then(() => null);
-    void rss;
 
     const headers = { 'Content-Type': 'application/json', Origin: base, cookie };
     const detail = await (await fetch(`${base}/api/notebooks/${notebookIds[0]}`, { headers })).json();
