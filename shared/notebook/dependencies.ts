@@ -9,6 +9,7 @@ export interface CellForStaleness {
   lastRunStatus: 'done' | 'failed' | 'cancelled' | 'running' | 'queued' | null;
 }
 
+/** 'text': the cell holds no computation of its own (notes, model & parameters). */
 export type CellState = 'text' | 'never-run' | 'up-to-date' | 'out-of-date' | 'failed' | 'running' | 'broken-reference';
 
 /** Labels a cell takes input from. */
@@ -47,7 +48,7 @@ export function cellStates(cells: CellForStaleness[]): Map<string, CellState> {
   const byLabel = new Map(cells.map((cell) => [cell.label, cell]));
   const states = new Map<string, CellState>();
   for (const cell of cells) {
-    if (cell.input.kind === 'note') {
+    if (cell.input.kind === 'note' || cell.input.kind === 'setup') {
       states.set(cell.id, 'text');
       continue;
     }

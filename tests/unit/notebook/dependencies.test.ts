@@ -32,9 +32,9 @@ describe('cell staleness (fingerprints of own and upstream inputs)', () => {
     assert.notEqual(canonicalJson({ a: [1, 2] }), canonicalJson({ a: [2, 1] }));
   });
 
-  test('cells run on the current inputs are up to date; never-run cells and notes say so', () => {
+  test('cells run on the current inputs are up to date; never-run cells say so; notes and parameters hold no run', () => {
     const states = cellStates(notebook('1.75', { flow: { fingerprintFrom: '1.75', status: 'done' } }));
-    assert.deepEqual([...states.values()], ['never-run', 'up-to-date', 'never-run', 'text']);
+    assert.deepEqual([...states.values()], ['text', 'up-to-date', 'never-run', 'text']);
   });
 
   test('editing the parameters puts every dependent out of date, and only those', () => {
