@@ -2,6 +2,7 @@ import { StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, spacing } from '../../../constants/theme';
 import { CopyableFormula } from '../CopyableFormula';
 import { asPolynomial, isObject } from '../resultShapes';
+import { quadraticMatrixTex } from '../quadraticMatrix';
 import { polynomialTex } from '../texFormat';
 import { StructuredResult } from './StructuredResult';
 
@@ -10,7 +11,8 @@ const couplingTex = (name: string) => (name.length > 1 ? `${name[0]}_{${name.sli
 
 /** β-functions and anomalous dimensions typeset, the checks the derivation passed, the diagram trail folded. */
 export function FlowOutput({ result, fileName, testID }: { result: Record<string, unknown>; fileName: string; testID?: string }) {
-  const { beta, gamma_phi, gamma_phi2, convention, checks, trail, ...rest } = result;
+  const { beta, gamma_phi, gamma_phi2, gamma_quadratic, convention, checks, trail, ...rest } = result;
+  const matrixTex = quadraticMatrixTex(gamma_quadratic);
   const betas = isObject(beta) ? Object.entries(beta).flatMap(([name, terms]) => { const p = asPolynomial(terms); return p ? [{ name, p }] : []; }) : [];
   const anomalous = Object.entries({ gamma_phi, gamma_phi2 }).flatMap(([name, terms]) => { const p = asPolynomial(terms); return p ? [{ name, p }] : []; });
   return (
@@ -18,13 +20,19 @@ export function FlowOutput({ result, fileName, testID }: { result: Record<string
       {typeof convention === 'string' ? <Text style={styles.caption}>{convention}</Text> : null}
       {betas.map(({ name, p }) => <CopyableFormula key={name} tex={`\\beta_{${couplingTex(name)}} = ${polynomialTex(p)}`} testID={`beta-${name}`} />)}
       {anomalous.map(({ name, p }) => <CopyableFormula key={name} tex={`${anomalousNames[name]} = ${polynomialTex(p)}`} testID={`anomalous-${name}`} />)}
+      {matrixTex ? (
+        <View style={styles.checks}>
+          <Text style={styles.heading}>Quadratic operators: anomalous-dimension matrix (row: counterterm φ_kφ_l, column: insertion φ_iφ_j)</Text>
+          <CopyableFormula tex={matrixTex} testID="anomalous-quadratic-matrix" />
+        </View>
+      ) : null}
       {Array.isArray(checks) && checks.length ? (
         <View style={styles.checks}>
           <Text style={styles.heading}>Checks passed</Text>
           {checks.map((check, index) => <Text key={index} style={styles.check}>✓ {String(check)}</Text>)}
         </View>
       ) : null}
-      <StructuredResult value={{ ...rest, ...(trail !== undefined ? { trail } : {}) }} fileName={fileName} />
+      <StructuredResult value={{ ...rest, ...(gamma_quadratic !== undefined && !matrixTex ? { gamma_quadratic } : {}), ...(trail !== undefined ? { trail } : {}) }} fileName={fileName} />
     </View>
   );
 }
