@@ -4,6 +4,7 @@ import { type DerivedFlow, type TrailEntry } from '../engine/diagrams/renormaliz
 import { quadraticAtRoot, quadraticSpectrum } from '../engine/exponents/quadratic';
 import { exponentSeries, meanFieldValues, RELATIONS, SERIES_QUANTITIES, type Quantity } from '../engine/exponents/exponents';
 import { type FixedPoint, findFixedPoints } from '../engine/fixedpoints/fixedPoints';
+import { type ComplexReal } from '../engine/fixedpoints/complexRoots';
 import { type AnyFlow, checkPropagatorPower, flowFor } from '../engine/flows/flow';
 import { type CouplingPolynomial } from '../engine/models/couplingPolynomial';
 import { customModel } from '../engine/models/custom';
@@ -206,6 +207,23 @@ function checkDimension(d: Q): void {
   if (qCompare(d, q(0)) <= 0) fail('domain', 'd must be positive');
 }
 
+/** "a + bi" at `digits` significant digits (just "a" when the imaginary part is zero at that precision). */
+function formatComplex(z: ComplexReal, digits: number): string {
+  const size = z.re.abs().gt(z.im.abs()) ? z.re.abs() : z.im.abs();
+  const R = realContext(digits + 20);
+  if (z.im.isZero() || new R(z.im).abs().lt(new R(size).times(new R(10).pow(-(digits + 2))))) return String(formatCoefficient(z.re, digits));
+  const im = String(formatCoefficient(z.im.abs(), digits));
+  return `${String(formatCoefficient(z.re, digits))} ${z.im.isNegative() ? '-' : '+'} ${im}i`;
+}
+
+/** A double-precision complex number at min(digits, 15) significant digits. */
+function formatComplexDouble(z: { re: number; im: number }, digits: number): string {
+  const p = Math.min(digits, 15);
+  const text = (x: number) => String(Number(x.toPrecision(p)));
+  if (Math.abs(z.im) < 1e-12 * (1 + Math.abs(z.re))) return text(z.re);
+  return `${text(z.re)} ${z.im >= 0 ? '+' : '-'} ${text(Math.abs(z.im))}i`;
+}
+
 function formatFixedPoint<C>(p: FixedPoint<C>, couplings: readonly string[], digits: number) {
   return {
     name: p.name,
@@ -215,13 +233,13 @@ function formatFixedPoint<C>(p: FixedPoint<C>, couplings: readonly string[], dig
         name,
         {
           series: p.couplingSeries ? p.couplingSeries[k].coefficients().map((c) => formatCoefficient(c, digits)) : null,
-          value: p.couplingValues ? formatCoefficient(p.couplingValues[k], digits) : p.complexCouplings ? `${p.complexCouplings[k].re} ${p.complexCouplings[k].im >= 0 ? '+' : '-'} ${Math.abs(p.complexCouplings[k].im)}i` : null,
+          value: p.couplingValues ? formatCoefficient(p.couplingValues[k], digits) : p.complexValues ? formatComplex(p.complexValues[k], digits) : p.complexCouplings ? formatComplexDouble(p.complexCouplings[k], digits) : null,
         },
       ]),
     ),
     stability: {
       series: p.eigenvalueSeries ? p.eigenvalueSeries.map((e) => (e ? e.coefficients().map((c) => formatCoefficient(c, digits)) : null)) : null,
-      values: p.eigenvalueValues ? p.eigenvalueValues.map((z) => (Math.abs(z.im) < 1e-12 * (1 + Math.abs(z.re)) ? String(z.re) : `${z.re} ${z.im >= 0 ? '+' : '-'} ${Math.abs(z.im)}i`)) : null,
+      values: p.eigenvalueFull ? p.eigenvalueFull.map((z) => formatComplex(z, digits)) : p.eigenvalueValues ? p.eigenvalueValues.map((z) => formatComplexDouble(z, digits)) : null,
     },
     stable: p.stable,
     notes: p.notes,
@@ -282,7 +300,8 @@ function chooseFixedPoint<C>(points: FixedPoint<C>[], name: string | undefined, 
     if (!found) fail('invalid', `no fixed point named ${JSON.stringify(name)}; available: ${points.map((p) => p.name).join(', ')}`);
     return found;
   }
-  const candidates = points.filter((p) => p.name !== 'Gaussian' && p.status === 'real');
+  // a point complex only at the physical ε still has a real ε-series (the exponents are its truncations)
+  const candidates = points.filter((p) => p.name !== 'Gaussian' && (p.status === 'real' || (p.status === 'complex' && p.couplingSeries !== null)));
   const stableByLeadingOrder = (p: FixedPoint<C>) => !!p.eigenvalueSeries && p.eigenvalueSeries.every((e) => e !== null && Number(String(symbolic ? (e.coefficient(1) as unknown as Expression).rationalValue()?.num ?? NaN : e.coefficient(1))) > 0);
   const stable = candidates.find((p) => p.stable === true) ?? candidates.find(stableByLeadingOrder);
   if (!stable) {

@@ -4,6 +4,7 @@ import { type ModelSpec } from '../models/model';
 import { fail } from '../precision/errors';
 import { type Real, realContext } from '../precision/real';
 import { LaurentSeries } from '../series/laurent';
+import { type ComplexReal, complexOps, complexRootNear, complexStabilityMatrix, eigenvaluesFullPrecision } from './complexRoots';
 import { type Complex, cabs, polynomialRoots, solveComplex, solveLinear } from './linear';
 
 /**
@@ -20,6 +21,10 @@ export interface FixedPoint<C> {
   /** Eigenvalues of ∂β_i/∂g_j at that root (complex ones in double precision). */
   eigenvalueValues: Complex[] | null;
   complexCouplings?: Complex[];
+  /** status 'complex' with a real ε-series: the complex root of the truncated β at the physical ε (one of a conjugate pair), full precision. */
+  complexValues?: ComplexReal[];
+  /** Stability eigenvalues at the numeric root (real or complex) in full precision. */
+  eigenvalueFull?: ComplexReal[];
   stable: boolean | null;
   notes: string[];
 }
@@ -400,17 +405,30 @@ function describeFixedPoint<C>(spec: ModelSpec, flow: DerivedFlow<C>, g1: C[], o
   const eigen = eigenvalueSeries(flow, stabilitySeriesMatrices(flow, series, degenerate ? 1 : flow.loops));
   let couplingValues: Real[] | null = null;
   let eigenvalueValues: Complex[] | null = null;
+  let complexValues: ComplexReal[] | undefined;
+  let eigenvalueFull: ComplexReal[] | undefined;
   if (options.eps !== null && !flow.calculus.symbolic) {
     const realFlow = flow as unknown as DerivedFlow<Real>;
     const eps = options.eps as unknown as Real;
     const start = (series as unknown as LaurentSeries<Real>[]).map((s) => s.evaluate(eps));
+    const { ring } = realFlow.calculus.ctx;
+    const c = complexOps(ring);
     couplingValues = newtonRoot(realFlow, start, eps);
-    if (!couplingValues) notes.push('no root of the truncated β near the ε-series value at this ε');
-    else eigenvalueValues = complexEigenvalues(stabilityMatrixAt(realFlow, couplingValues, eps).map((row) => row.map(toNumber)));
+    if (couplingValues) {
+      eigenvalueFull = eigenvaluesFullPrecision(ring, stabilityMatrixAt(realFlow, couplingValues, eps).map((row) => row.map((x) => c.of(x))), realFlow.calculus.isNegligible);
+      eigenvalueValues = eigenvalueFull.map(c.toDouble);
+    } else {
+      complexValues = complexRootNear(realFlow, start, eps) ?? undefined;
+      if (complexValues) {
+        eigenvalueFull = eigenvaluesFullPrecision(ring, complexStabilityMatrix(realFlow, complexValues, eps), realFlow.calculus.isNegligible);
+        eigenvalueValues = eigenvalueFull.map(c.toDouble);
+        notes.push('the truncated β has no real root on this branch at the physical ε: the root is complex (given with positive imaginary part; its conjugate is a root too); the ε-series and its truncated values are real');
+      } else notes.push('no root of the truncated β near the ε-series value at this ε');
+    }
   }
   let stable: boolean | null = null;
   if (eigen && eigen.every((e) => e !== null) && options.eps !== null && !flow.calculus.symbolic) {
     stable = (eigen as LaurentSeries<C>[]).every((e) => toNumber(e.evaluate(options.eps as C)) > 0);
   } else if (eigenvalueValues) stable = eigenvalueValues.every((z) => z.re > 0);
-  return { name, status: degenerate ? 'degenerate' : 'real', couplingSeries: series, eigenvalueSeries: eigen, couplingValues, eigenvalueValues, stable, notes };
+  return { name, status: degenerate ? 'degenerate' : complexValues ? 'complex' : 'real', couplingSeries: series, eigenvalueSeries: eigen, couplingValues, eigenvalueValues, ...(complexValues ? { complexValues } : {}), ...(eigenvalueFull ? { eigenvalueFull } : {}), stable, notes };
 }
