@@ -50,13 +50,21 @@ export function escapeLatexText(text: string): string {
   return text.replace(/[\\{}#$%&_^~]/g, (c) => LATEX_SPECIALS[c]);
 }
 
-/** Note text: prose is escaped, $…$ and $$…$$ pass through as mathematics. */
-function noteToLatex(text: string): string {
+/** Prose with $…$ and $$…$$: the prose is escaped, the mathematics passes through. */
+function proseToLatex(text: string): string {
   return text
     .split(/(\$\$[\s\S]+?\$\$|\$[^$\n]+?\$)/)
     .map((part) => (part.startsWith('$$') ? `\\[${part.slice(2, -2)}\\]` : part.startsWith('$') ? part : escapeLatexText(part)))
-    .join('')
-    .replace(/^#+\s*(.*)$/gm, '\\paragraph{$1}');
+    .join('');
+}
+
+const HEADING_OPEN = '\u0001';
+const HEADING_CLOSE = '\u0002';
+
+/** Note text: Markdown headings become paragraph headings (marked before escaping, so # survives and math inside stays math). */
+function noteToLatex(text: string): string {
+  const marked = text.replace(/^#{1,6}[ \t]+(.*)$/gm, `${HEADING_OPEN}$1${HEADING_CLOSE}`);
+  return proseToLatex(marked).replaceAll(HEADING_OPEN, '\\paragraph{').replaceAll(HEADING_CLOSE, '}');
 }
 
 function coefficientTex(coefficient: unknown): string {
@@ -66,30 +74,118 @@ function coefficientTex(coefficient: unknown): string {
 }
 
 function seriesToLatex(lowest: number, coeffs: unknown[], order?: number): string {
+  return `\\begin{multline*}\n${seriesTermsTex(lowest, coeffs, order).split(' + ').join('\n + ')}\n\\end{multline*}`;
+}
+
+const QUANTITY_TEX: Record<string, string> = {
+  nuInv: '1/\\nu', nu: '\\nu', eta: '\\eta', gamma: '\\gamma', alpha: '\\alpha', beta: '\\beta', delta: '\\delta',
+  omega: '\\omega', Delta_phi: '\\Delta_{\\phi}', Delta_phi2: '\\Delta_{\\phi^2}', Delta_phi3: '\\Delta_{\\phi^3}', Delta_phi4: '\\Delta_{\\phi^4}',
+};
+const quantityTex = (name: string) => QUANTITY_TEX[name] ?? `\\mathrm{${escapeLatexText(name)}}`;
+const isRecord = (value: unknown): value is Record<string, unknown> => typeof value === 'object' && value !== null && !Array.isArray(value);
+
+/** "eps*u^2" → "\varepsilon\,u^{2}". */
+function monomialTex(monomial: string): string {
+  return monomial
+    .split('*')
+    .map((factor) => {
+      const [base, power] = factor.split('^');
+      const name = base === 'eps' ? '\\varepsilon' : base.length > 1 ? `${base[0]}_{${base.slice(1)}}` : base;
+      return power ? `${name}^{${power}}` : name;
+    })
+    .join('\\,');
+}
+
+function polynomialTex(terms: unknown): string | null {
+  if (!Array.isArray(terms)) return null;
+  const parts = terms.flatMap((term) => (isRecord(term) && typeof term.monomial === 'string' ? [`\\left(${coefficientTex(term.coeff)}\\right)${monomialTex(term.monomial)}`] : []));
+  return parts.length ? parts.join(' + ') : '0';
+}
+
+/** Non-ASCII text (engine notes, relation strings) in a form pdflatex accepts without extra packages. */
+function asciiText(text: string): string {
+  const names: Record<string, string> = { 'ε': 'eps', 'β': 'beta', 'γ': 'gamma', 'ν': 'nu', 'η': 'eta', 'ω': 'omega', 'φ': 'phi', 'Δ': 'Delta', '²': '^2', '³': '^3', '⁴': '^4', '−': '-', '≤': '<=', '≥': '>=', '→': '->', '∂': 'd', '·': '*', '…': '...', '₀': '_0', '₁': '_1', '₂': '_2', '₃': '_3', '₄': '_4', 'ᵢ': '_i', 'ⱼ': '_j', 'ₖ': '_k', 'ₗ': '_l', '∑': 'sum', 'Σ': 'Sum', 'ψ': 'psi', 'Γ': 'Gamma', 'π': 'pi', 'λ': 'lambda', 'μ': 'mu', 'σ': 'sigma', 'δ': 'delta', 'α': 'alpha', '≈': '~', '×': 'x', '✓': '' };
+  return text.replace(/[^\x00-\x7f]/g, (c) => names[c] ?? '?');
+}
+
+function tabular(header: string[], rows: string[][]): string {
+  return [
+    `\\begin{longtable}{${'l'.repeat(header.length)}}`,
+    '\\hline',
+    `${header.join(' & ')} \\\\`,
+    '\\hline',
+    ...rows.map((row) => `${row.join(' & ')} \\\\`),
+    '\\hline',
+    '\\end{longtable}',
+  ].join('\n');
+}
+
+const textCell = (value: unknown) => escapeLatexText(asciiText(value === null || value === undefined ? '--' : String(value)));
+
+function exponentsToLatex(value: Record<string, unknown>): string {
+  const series = isRecord(value.series) ? value.series : {};
+  const equations = Object.entries(series)
+    .filter(([, coeffs]) => Array.isArray(coeffs))
+    .map(([name, coeffs]) => `\\[ ${quantityTex(name)} = ${seriesTermsTex(0, coeffs as unknown[])} \\]`);
+  const values = isRecord(value.values) ? Object.entries(value.values).map(([name, v]) => [`$${quantityTex(name)}$`, textCell(v)]) : [];
+  const heading = typeof value.eps === 'string' ? `At $\\varepsilon = ${escapeLatexText(value.eps)}$${typeof value.fixedPoint === 'string' ? `, fixed point ${textCell(value.fixedPoint)}` : ''}.` : '';
+  return [heading, ...equations, values.length ? tabular(['quantity', 'value'], values) : ''].filter(Boolean).join('\n\n');
+}
+
+function flowToLatex(value: Record<string, unknown>): string {
+  const betas = isRecord(value.beta) ? Object.entries(value.beta).map(([coupling, terms]) => `\\[ \\beta_{${monomialTex(coupling)}} = ${polynomialTex(terms)} \\]`) : [];
+  const anomalous = (['gamma_phi', 'gamma_phi2'] as const).flatMap((name) => {
+    const tex = polynomialTex(value[name]);
+    return tex ? [`\\[ \\gamma_{${name === 'gamma_phi' ? '\\phi' : '\\phi^2'}} = ${tex} \\]`] : [];
+  });
+  const checks = Array.isArray(value.checks) ? [`Checks passed: ${value.checks.map(textCell).join('; ')}.`] : [];
+  return [...betas, ...anomalous, ...checks].join('\n\n');
+}
+
+function fixedPointsToLatex(value: Record<string, unknown>): string {
+  const points = Array.isArray(value.fixedPoints) ? value.fixedPoints.filter(isRecord) : [];
+  const rows = points.map((point) => {
+    const couplings = isRecord(point.couplings)
+      ? Object.entries(point.couplings).map(([name, c]) => `${name} = ${isRecord(c) ? (c.value ?? '--') : '--'}`).join(', ')
+      : '--';
+    const stability = isRecord(point.stability) && Array.isArray(point.stability.values) ? point.stability.values.join(', ') : '--';
+    return [textCell(point.name), textCell(couplings), textCell(stability), point.stable === true ? 'IR-stable' : point.stable === false ? 'unstable' : '--', textCell(point.status)];
+  });
+  return tabular(['fixed point', 'couplings', 'stability eigenvalues', 'stability', 'status'], rows);
+}
+
+function scanToLatex(value: Record<string, unknown>): string {
+  const quantities = Array.isArray(value.quantities) ? value.quantities.map(String) : [];
+  const points = Array.isArray(value.points) ? value.points.filter(isRecord) : [];
+  const rows = points.map((point) => [textCell(point.s), ...quantities.map((q) => textCell(isRecord(point.values) ? point.values[q] : null)), point.flagged ? textCell(point.regime) : '']);
+  const marks = isRecord(value.marks) ? Object.entries(value.marks).map(([name, v]) => `${name === 'sStar' ? '$s^*$' : name === 'meanFieldEnd' ? '$s = d/2$' : textCell(name)} $= ${escapeLatexText(String(v))}$`).join(', ') : '';
+  return [marks ? `Marks: ${marks}.` : '', tabular(['$s$', ...quantities.map((q) => `$${quantityTex(q)}$`), 'outside window'], rows)].filter(Boolean).join('\n\n');
+}
+
+function seriesTermsTex(lowest: number, coeffs: unknown[], order?: number): string {
   const terms = coeffs.map((c, k) => {
     const power = lowest + k;
     const epsilon = power === 0 ? '' : power === 1 ? '\\,\\varepsilon' : `\\,\\varepsilon^{${power}}`;
     return `\\left(${coefficientTex(c)}\\right)${epsilon}`;
   });
-  const remainder = `O(\\varepsilon^{${(order ?? lowest + coeffs.length - 1) + 1}})`;
-  return `\\begin{multline*}\n${[...terms, remainder].join('\n + ')}\n\\end{multline*}`;
+  return [...terms, `O(\\varepsilon^{${(order ?? lowest + coeffs.length - 1) + 1}})`].join(' + ');
 }
 
 function outputToLatex(output: unknown): string {
-  if (!output || typeof output !== 'object') return '';
-  const value = output as Record<string, unknown>;
-  if (typeof value.lowest === 'number' && Array.isArray(value.coeffs)) return seriesToLatex(value.lowest, value.coeffs, value.order as number | undefined);
-  if (value.values && typeof value.values === 'object') {
-    const rows = Object.entries(value.values as Record<string, unknown>).map(([name, v]) => `${escapeLatexText(name)} & ${escapeLatexText(String(v))} \\\\`);
-    return `\\begin{tabular}{ll}\n\\hline\nquantity & value \\\\\n\\hline\n${rows.join('\n')}\n\\hline\n\\end{tabular}`;
-  }
-  if ('error' in value) return `\\emph{This cell failed: ${escapeLatexText(String((value.error as { message?: unknown })?.message ?? ''))}}`;
-  return `\\begin{verbatim}\n${JSON.stringify(output, null, 2).slice(0, 20_000)}\n\\end{verbatim}`;
+  if (!isRecord(output)) return '';
+  if ('error' in output) return `\\emph{This cell failed: ${textCell(isRecord(output.error) ? output.error.message : '')}}`;
+  if (typeof output.lowest === 'number' && Array.isArray(output.coeffs)) return seriesToLatex(output.lowest, output.coeffs, output.order as number | undefined);
+  if (isRecord(output.series) && isRecord(output.values)) return exponentsToLatex(output);
+  if (isRecord(output.beta)) return flowToLatex(output);
+  if (Array.isArray(output.fixedPoints)) return fixedPointsToLatex(output);
+  if (Array.isArray(output.points)) return scanToLatex(output);
+  if (isRecord(output.values)) return tabular(['quantity', 'value'], Object.entries(output.values).map(([name, v]) => [textCell(name), textCell(v)]));
+  return `\\begin{verbatim}\n${asciiText(JSON.stringify(output, null, 2)).slice(0, 20_000)}\n\\end{verbatim}`;
 }
 
 function inputToLatex(input: CellInput): string {
   const fields = Object.entries(input).filter(([key]) => key !== 'kind');
-  return `\\begin{description}\n${fields.map(([key, v]) => `\\item[${escapeLatexText(key)}] \\texttt{${escapeLatexText(typeof v === 'string' ? v : JSON.stringify(v))}}`).join('\n')}\n\\end{description}`;
+  return `\\begin{description}\n${fields.map(([key, v]) => `\\item[${escapeLatexText(key)}] \\texttt{${textCell(typeof v === 'string' ? v : JSON.stringify(v))}}`).join('\n')}\n\\end{description}`;
 }
 
 /** A standalone LaTeX document: notes as text, inputs as descriptions, results as equations and tables. */
@@ -101,7 +197,7 @@ export function toLatexDocument(document: NotebookDocument): string {
   });
   return [
     '\\documentclass{article}',
-    '\\usepackage{amsmath,amssymb}',
+    '\\usepackage{amsmath,amssymb,longtable}',
     '\\usepackage[utf8]{inputenc}',
     `\\title{${escapeLatexText(document.title)}}`,
     '\\date{}',

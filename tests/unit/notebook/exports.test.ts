@@ -2,6 +2,7 @@ import assert from 'node:assert/strict';
 import { describe, test } from 'node:test';
 import { escapeLatexText, notebookDocument, toLatexDocument, toNotebookDocument } from '../../../shared/notebook/exports';
 import { jobForCell, type SetupInput } from '../../../shared/notebook/jobs';
+import type { CellInput } from '../../../shared/notebook/cells';
 
 const params: SetupInput = { kind: 'setup', model: { preset: 'on', N: 3 }, d: '3', s: '1.5', loops: 2, digits: 30 };
 const cells = [
@@ -64,5 +65,35 @@ describe('cell → engine job', () => {
 
   test('a reference to a missing setup is a field error, never an engine call', () => {
     assert.throws(() => jobForCell({ kind: 'flow', uses: 'nope' }, setups), /no model & parameters cell labelled "nope"/);
+  });
+});
+
+describe('LaTeX export of results', () => {
+  const doc = (label: string, input: CellInput, output: unknown) => toLatexDocument(toNotebookDocument('t', '', [{ label, input, output }], new Date()));
+  const params: CellInput = { kind: 'exponents', uses: 'params' };
+
+  test('Markdown headings become paragraph headings, with mathematics inside kept as mathematics', () => {
+    const tex = doc('n', { kind: 'note', text: '# The bubble at $s = 3/2$\nbody' }, null);
+    assert.match(tex, /\\paragraph\{The bubble at \$s = 3\/2\$\}\nbody/);
+    assert.doesNotMatch(tex, /\\#/);
+  });
+
+  test('exponent series are equations with their truncation order, values a table', () => {
+    const tex = doc('e', params, { eps: '0.5', fixedPoint: 'Ising', series: { nuInv: ['1.75', '-0.3333', '-0.142'] }, values: { nuInv: '1.5478' } });
+    assert.match(tex, /\\\[ 1\/\\nu = \\left\(1\.75\\right\) \+ \\left\(-0\.3333\\right\)\\,\\varepsilon \+ \\left\(-0\.142\\right\)\\,\\varepsilon\^\{2\} \+ O\(\\varepsilon\^\{3\}\) \\\]/);
+    assert.match(tex, /\$1\/\\nu\$ & 1\.5478 \\\\/);
+  });
+
+  test('β-functions are equations; fixed points and scans are tables; engine text is made ASCII', () => {
+    const flow = doc('f', { kind: 'flow', uses: 'params' }, { beta: { u: [{ monomial: 'eps*u', coeff: '-1' }, { monomial: 'u^2', coeff: '3' }] }, checks: ['1/ε² poles match'] });
+    assert.match(flow, /\\beta_\{u\} = \\left\(-1\\right\)\\varepsilon\\,u \+ \\left\(3\\right\)u\^\{2\}/);
+    assert.match(flow, /1\/eps\\\^\{\}2 poles match/);
+    const fixed = doc('p', { kind: 'fixedpoints', uses: 'params' }, { fixedPoints: [{ name: 'Ising', status: 'real', couplings: { u: { value: '0.1' } }, stability: { values: ['0.4'] }, stable: true }] });
+    assert.match(fixed, /Ising & u = 0\.1 & 0\.4 & IR-stable & real \\\\/);
+    const scan = doc('s', { kind: 'scan', uses: 'params', from: '1.5', to: '1.9', points: 2, quantities: ['nuInv'] }, { quantities: ['nuInv'], marks: { sStar: '1.96' }, points: [{ s: '1.5', values: { nuInv: '1.5' }, flagged: true, regime: 'mean-field' }] });
+    assert.match(scan, /1\.5 & 1\.5 & mean-field \\\\/);
+    assert.match(scan, /\$s\^\*\$ \$= 1\.96\$/);
+    // pdflatex without extra packages reads ASCII only outside mathematics (LaTeX2e input encoding, common practice).
+    for (const tex of [flow, fixed, scan]) assert.doesNotMatch(tex.replace(/\\usepackage\[utf8\]\{inputenc\}/, ''), /[^\x00-\x7f]/);
   });
 });
