@@ -401,7 +401,7 @@ function runScan(job: z.infer<typeof ScanJob>, hooks: JobHooks) {
   }
   const point = chooseFixedPoint(findFixedPoints(model, flow, { eps: null }), job.fixedPoint, true);
   const series = exponentSeries(flow, point);
-  const points = scanSeries({ d, sValues, series: job.quantities.map((k: Quantity) => ({ coefficients: (series[k] as LaurentSeries<Expression>).coefficients() })), digits: job.digits, shortRangeS, onProgress });
+  const points = scanSeries({ d, sValues, series: job.quantities.map((k: Quantity) => ({ coefficients: (series[k] as LaurentSeries<Expression>).coefficients() })), quantities: job.quantities, digits: job.digits, shortRangeS, onProgress });
   return {
     d: job.d,
     fixedPoint: point.name,

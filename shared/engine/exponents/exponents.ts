@@ -2,6 +2,7 @@ import { type DerivedFlow } from '../diagrams/renormalization';
 import { type FixedPoint } from '../fixedpoints/fixedPoints';
 import { type CouplingPolynomial } from '../models/couplingPolynomial';
 import { fail } from '../precision/errors';
+import type Decimal from 'decimal.js';
 import { type Real, realContext } from '../precision/real';
 import { LaurentSeries } from '../series/laurent';
 import { Expression } from '../symbolic/expression';
@@ -107,22 +108,30 @@ function smallestEigenvalueSeries<C>(point: FixedPoint<C>, order: number): Laure
 /** Landau (Gaussian) values, exact for d ≥ 2s where the quartic coupling is irrelevant. */
 export function meanFieldValues(d: string, s: string): Record<Quantity, string> & { statement: string } {
   const R = realContext(40);
-  const D = new R(d);
   const S = new R(s);
   const text = (x: Real) => x.toSignificantDigits(30).toString();
+  const values = meanFieldReals(new R(d), S);
   return {
     statement: `d = ${d} ≥ 2s = ${text(S.times(2))}: the Gaussian fixed point is IR-stable and mean-field exponents are exact (α, β, δ take their Landau values; hyperscaling does not hold above the upper critical dimension)`,
-    nuInv: text(S),
-    nu: text(new R(1).div(S)),
-    eta: text(new R(2).minus(S)),
-    gamma: '1',
-    alpha: '0',
-    beta: '0.5',
-    delta: '3',
-    omega: text(D.minus(S.times(2))),
-    Delta_phi: text(D.minus(S).div(2)),
-    Delta_phi2: text(D.minus(S)),
-    Delta_phi3: text(D.plus(S).div(2)),
-    Delta_phi4: text(D.minus(S).times(2)),
+    ...(Object.fromEntries(SERIES_QUANTITIES.map((k) => [k, text(values[k])])) as Record<Quantity, string>),
+  };
+}
+
+/** Landau (Gaussian) values as numbers in the precision of d and s (shared by the exponents job and scans). */
+export function meanFieldReals(D: Real, S: Real): Record<Quantity, Real> {
+  const R = D.constructor as typeof Decimal;
+  return {
+    nuInv: S,
+    nu: new R(1).div(S),
+    eta: new R(2).minus(S),
+    gamma: new R(1),
+    alpha: new R(0),
+    beta: new R('0.5'),
+    delta: new R(3),
+    omega: D.minus(S.times(2)),
+    Delta_phi: D.minus(S).div(2),
+    Delta_phi2: D.minus(S),
+    Delta_phi3: D.plus(S).div(2),
+    Delta_phi4: D.minus(S).times(2),
   };
 }

@@ -1,11 +1,11 @@
 import { numericCalculus } from '../diagrams/calculus';
 import { type DerivedFlow } from '../diagrams/renormalization';
-import { exponentSeries, type Quantity } from '../exponents/exponents';
+import { exponentSeries, meanFieldReals, type Quantity } from '../exponents/exponents';
 import { type FixedPoint, findFixedPoints } from '../fixedpoints/fixedPoints';
 import { type CouplingPolynomial } from '../models/couplingPolynomial';
 import { type ModelSpec } from '../models/model';
 import { EngineError } from '../precision/errors';
-import { type Real, realContext } from '../precision/real';
+import { type Real, GUARD_DIGITS, rationalToReal, realContext } from '../precision/real';
 import { type Expression } from '../symbolic/expression';
 import { type Q, q, qCompare, qMul, qSub } from '../symbolic/rational';
 import { type ScanPoint, evaluateAtPoint, meanFieldEnd, padeValue } from './scan';
@@ -69,6 +69,12 @@ export function scanFlow(request: FlowScanRequest): FlowScanPoint[] {
     if (request.onProgress && index % reportEvery === 0) request.onProgress(index / total);
     const eps = qSub(qMul(q(2), s), request.d);
     const regime = qCompare(s, half) <= 0 ? 'mean-field' : request.shortRangeS && qCompare(s, request.shortRangeS) >= 0 ? 'short-range' : 'long-range';
+    if (regime === 'mean-field') {
+      // s ≤ d/2: the Gaussian point is IR-stable and the mean-field values are exact (no series at ε ≤ 0)
+      const work = request.digits + GUARD_DIGITS;
+      const mf = meanFieldReals(rationalToReal(request.d, work), rationalToReal(s, work));
+      return { s, eps, regime, values: request.quantities.map((k) => new out(mf[k]).toSignificantDigits(request.digits)), pade: request.quantities.map(() => null), fixedPoint: 'Gaussian', note: 'mean-field (Gaussian) values, exact for s ≤ d/2' };
+    }
     const flow = flowAtS(request.flow, s, request.digits);
     const { ring } = flow.calculus.ctx;
     const epsReal = ring.fromRational(eps.num, eps.den);

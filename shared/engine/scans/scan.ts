@@ -5,6 +5,7 @@ import { type Atom, type Expression, atomKey } from '../symbolic/expression';
 import { type Q, qCompare, qSub, qMul, q } from '../symbolic/rational';
 import { ratEvaluate } from '../symbolic/ratfunc';
 import { evaluatePade, padeApproximant } from '../pade/pade';
+import { type Quantity, meanFieldReals } from '../exponents/exponents';
 
 /**
  * Evaluate exponent series whose coefficients are symbolic in s at many values of s: derived
@@ -63,6 +64,8 @@ export interface ScanRequest {
   d: Q;
   sValues: Q[];
   series: CompiledSeries[];
+  /** What each series is; with it, points with s ≤ d/2 get the exact mean-field values (no Padé). */
+  quantities?: readonly Quantity[];
   digits: number;
   shortRangeS: Q | null;
   /** Also evaluate the [L/1] Padé approximant at each point (default true). */
@@ -91,6 +94,10 @@ export function scanSeries(request: ScanRequest): ScanPoint[] {
     if (request.onProgress && index % reportEvery === 0) request.onProgress(index / total);
     const eps = qSub(qMul(q(2), s), request.d);
     const regime = qCompare(s, half) <= 0 ? 'mean-field' : request.shortRangeS && qCompare(s, request.shortRangeS) >= 0 ? 'short-range' : 'long-range';
+    if (regime === 'mean-field' && request.quantities) {
+      const mf = meanFieldReals(rationalToReal(request.d, work), rationalToReal(s, work));
+      return { s, eps, regime, values: request.quantities.map((k) => new out(mf[k]).toSignificantDigits(request.digits)), pade: request.quantities.map(() => null) };
+    }
     const atoms = new Map<string, Real>();
     const at = { s };
     const epsReal = rationalToReal(eps, work);
