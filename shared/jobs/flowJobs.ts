@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { ConsistencyError } from '../engine/diagrams/subtraction';
 import { type DerivedFlow, type TrailEntry } from '../engine/diagrams/renormalization';
 import { quadraticAtRoot, quadraticSpectrum } from '../engine/exponents/quadratic';
-import { exponentSeries, meanFieldValues, RELATIONS, SERIES_QUANTITIES, type Quantity } from '../engine/exponents/exponents';
+import { exactLongRangeValue, exponentSeries, meanFieldValues, RELATIONS, SERIES_QUANTITIES, type Quantity } from '../engine/exponents/exponents';
 import { type FixedPoint, findFixedPoints } from '../engine/fixedpoints/fixedPoints';
 import { type ComplexReal } from '../engine/fixedpoints/complexRoots';
 import { type AnyFlow, checkPropagatorPower, flowFor } from '../engine/flows/flow';
@@ -354,7 +354,10 @@ function runExponents(job: z.infer<typeof ExponentsJob>) {
   }
   if (numeric && eps && epsCoefficient) {
     const e = epsCoefficient as Real;
-    out.values = Object.fromEntries(SERIES_QUANTITIES.map((k) => [k, formatCoefficient((series[k] as LaurentSeries<Real>).evaluate(e), job.digits)]));
+    const { ring } = (any.flow as DerivedFlow<Real>).calculus.ctx;
+    const nu = () => (series.nu as LaurentSeries<Real>).evaluate(e);
+    const exact = (k: Quantity) => (d && s ? exactLongRangeValue(k, ring.fromRational(d.num, d.den), ring.fromRational(s.num, s.den), nu) : null);
+    out.values = Object.fromEntries(SERIES_QUANTITIES.map((k) => [k, formatCoefficient(exact(k) ?? (series[k] as LaurentSeries<Real>).evaluate(e), job.digits)]));
     out.pade = Object.fromEntries(SERIES_QUANTITIES.map((k) => {
       const v = padeValue((series[k] as LaurentSeries<Real>).coefficients(), e, job.digits);
       return [k, v ? formatCoefficient(v, job.digits) : null];
@@ -401,7 +404,7 @@ function runScan(job: z.infer<typeof ScanJob>, hooks: JobHooks) {
   }
   const point = chooseFixedPoint(findFixedPoints(model, flow, { eps: null }), job.fixedPoint, true);
   const series = exponentSeries(flow, point);
-  const points = scanSeries({ d, sValues, series: job.quantities.map((k: Quantity) => ({ coefficients: (series[k] as LaurentSeries<Expression>).coefficients() })), quantities: job.quantities, digits: job.digits, shortRangeS, onProgress });
+  const points = scanSeries({ d, sValues, series: job.quantities.map((k: Quantity) => ({ coefficients: (series[k] as LaurentSeries<Expression>).coefficients() })), quantities: job.quantities, nu: { coefficients: (series.nu as LaurentSeries<Expression>).coefficients() }, digits: job.digits, shortRangeS, onProgress });
   return {
     d: job.d,
     fixedPoint: point.name,

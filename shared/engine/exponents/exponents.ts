@@ -24,8 +24,8 @@ export const RELATIONS: Record<Quantity, string> = {
   nu: 'ν = 1/(1/ν)',
   gamma: 'γ = ν(2 − η) (Fisher)',
   alpha: 'α = 2 − dν (hyperscaling)',
-  beta: 'β = ν(d − 2 + η)/2 = ν Δ_φ',
-  delta: 'δ = (d + 2 − η)/(d − 2 + η) = Δ_{φ³}/Δ_φ',
+  beta: 'β = ν(d − 2 + η)/2 = ν Δ_φ (value for s < 2: the truncated ν times the exact Δ_φ = (d − s)/2)',
+  delta: 'δ = (d + 2 − η)/(d − 2 + η) = Δ_{φ³}/Δ_φ (value for s < 2: exactly (d + s)/(d − s), both dimensions being exact)',
 };
 
 /** p(g(ε)) for a coupling polynomial evaluated on coupling series. */
@@ -134,4 +134,25 @@ export function meanFieldReals(D: Real, S: Real): Record<Quantity, Real> {
     Delta_phi3: D.plus(S).div(2),
     Delta_phi4: D.minus(S).times(2),
   };
+}
+
+/**
+ * For s < 2 there is no field renormalization: Δ_φ = (d − s)/2 and Δ_{φ³} = (d + s)/2 hold to all
+ * orders (physics-notes §2), so δ = Δ_{φ³}/Δ_φ = (d + s)/(d − s) exactly and β = ν Δ_φ with the
+ * exact Δ_φ (ν its truncated value). Returns the exact value of k, or null when k has none.
+ */
+export function exactLongRangeValue(k: Quantity, D: Real, S: Real, nu: () => Real): Real | null {
+  if (!S.lt(2)) return null;
+  switch (k) {
+    case 'Delta_phi':
+      return D.minus(S).div(2);
+    case 'Delta_phi3':
+      return D.plus(S).div(2);
+    case 'delta':
+      return D.plus(S).div(D.minus(S));
+    case 'beta':
+      return nu().times(D.minus(S).div(2));
+    default:
+      return null;
+  }
 }

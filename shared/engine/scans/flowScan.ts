@@ -1,6 +1,6 @@
 import { numericCalculus } from '../diagrams/calculus';
 import { type DerivedFlow } from '../diagrams/renormalization';
-import { exponentSeries, meanFieldReals, type Quantity } from '../exponents/exponents';
+import { exactLongRangeValue, exponentSeries, meanFieldReals, type Quantity } from '../exponents/exponents';
 import { type FixedPoint, findFixedPoints } from '../fixedpoints/fixedPoints';
 import { type CouplingPolynomial } from '../models/couplingPolynomial';
 import { type ModelSpec } from '../models/model';
@@ -89,7 +89,8 @@ export function scanFlow(request: FlowScanRequest): FlowScanPoint[] {
       const pade: (Real | null)[] = [];
       for (const k of request.quantities) {
         const coeffs = series[k].coefficients();
-        values.push(new out(series[k].evaluate(epsReal)).toSignificantDigits(request.digits));
+        const exact = exactLongRangeValue(k, ring.fromRational(request.d.num, request.d.den), ring.fromRational(s.num, s.den), () => series.nu.evaluate(epsReal));
+        values.push(new out(exact ?? series[k].evaluate(epsReal)).toSignificantDigits(request.digits));
         pade.push(padeValue(coeffs, epsReal, request.digits));
       }
       return { ...empty, values, pade, fixedPoint: point.name };

@@ -5,7 +5,7 @@ import { type Atom, type Expression, atomKey } from '../symbolic/expression';
 import { type Q, qCompare, qSub, qMul, q } from '../symbolic/rational';
 import { ratEvaluate } from '../symbolic/ratfunc';
 import { evaluatePade, padeApproximant } from '../pade/pade';
-import { type Quantity, meanFieldReals } from '../exponents/exponents';
+import { type Quantity, exactLongRangeValue, meanFieldReals } from '../exponents/exponents';
 
 /**
  * Evaluate exponent series whose coefficients are symbolic in s at many values of s: derived
@@ -66,6 +66,8 @@ export interface ScanRequest {
   series: CompiledSeries[];
   /** What each series is; with it, points with s ≤ d/2 get the exact mean-field values (no Padé). */
   quantities?: readonly Quantity[];
+  /** The ν series: with quantities, δ and β take their exact long-range values for s < 2 (β = ν·(d − s)/2). */
+  nu?: CompiledSeries;
   digits: number;
   shortRangeS: Q | null;
   /** Also evaluate the [L/1] Padé approximant at each point (default true). */
@@ -109,6 +111,14 @@ export function scanSeries(request: ScanRequest): ScanPoint[] {
       for (let k = coeffs.length - 1; k >= 0; k--) v = v.times(epsReal).plus(coeffs[k]);
       values.push(new out(v).toSignificantDigits(request.digits));
       pade.push(request.withPade === false ? null : padeValue(coeffs, epsReal, request.digits));
+    }
+    if (request.quantities && request.nu) {
+      const nuCoeffs = request.nu.coefficients.map((c) => evaluateAtPoint(c, at, work, atoms));
+      const nu = () => nuCoeffs.reduceRight((v, c) => v.times(epsReal).plus(c), new R(0));
+      request.quantities.forEach((k, i) => {
+        const exact = exactLongRangeValue(k, rationalToReal(request.d, work), rationalToReal(s, work), nu);
+        if (exact) values[i] = new out(exact).toSignificantDigits(request.digits);
+      });
     }
     return { s, eps, regime, values, pade };
   });
