@@ -9,7 +9,12 @@ function readCookie(header: string | undefined, name: string): string | undefine
   if (!header) return undefined;
   for (const part of header.split(';')) {
     const [key, ...rest] = part.trim().split('=');
-    if (key === name) return decodeURIComponent(rest.join('='));
+    if (key !== name) continue;
+    try {
+      return decodeURIComponent(rest.join('='));
+    } catch {
+      return undefined; // a mangled cookie is no session, not a server error
+    }
   }
   return undefined;
 }

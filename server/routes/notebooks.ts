@@ -38,7 +38,16 @@ export function notebookRoutes({ notebooks, versions }: Services) {
     route({ method: 'post', path: '/notebooks/:notebookId/cells', access: 'signed-in', summary: 'Add a cell', params: notebookParams, body: createCellInput, status: 201,
       handler: async ({ user, params, body }) => ({ notebook: await notebooks.addCell(user!, params.notebookId, body) }) }),
     route({ method: 'patch', path: '/notebooks/:notebookId/cells/:cellId', access: 'signed-in', summary: 'Edit a cell (409 when the revision is stale)', params: cellParams, body: updateCellInput,
-      handler: async ({ user, params, body }) => ({ notebook: await notebooks.updateCell(user!, params.notebookId, params.cellId, body) }) }),
+      handler: async ({ user, params, body }) => {
+        // Changing a model & parameters cell re-bases every dependent: keep the state before it.
+        if (body.input?.kind === 'setup') {
+          const before = (await notebooks.detail(user!, params.notebookId)).cells.find((c) => c.id === params.cellId);
+          if (before && before.revision === body.revision && JSON.stringify(before.input) !== JSON.stringify(body.input)) {
+            await versions.save(user!, params.notebookId, `Before changing "${before.label}"`, true);
+          }
+        }
+        return { notebook: await notebooks.updateCell(user!, params.notebookId, params.cellId, body) };
+      } }),
     route({ method: 'post', path: '/notebooks/:notebookId/cells/:cellId/move', access: 'signed-in', summary: 'Move a cell', params: cellParams, body: moveCellInput,
       handler: async ({ user, params, body }) => ({ notebook: await notebooks.moveCell(user!, params.notebookId, params.cellId, body.position) }) }),
     route({ method: 'delete', path: '/notebooks/:notebookId/cells/:cellId', access: 'signed-in', summary: 'Delete a cell (a version is saved first)', params: cellParams,

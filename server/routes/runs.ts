@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { idParam } from '../../shared/api/schemas';
-import { calcRequest } from '../../shared/notebook/api';
+import { CalcJob, FlowCalcJob } from '../../shared/jobs';
 import { AppError } from '../http/errors';
 import { route } from '../http/route';
 import type { SignedInUser } from '../auth/sessions';
@@ -8,6 +8,8 @@ import type { Services } from '../services';
 import { toRunView } from '../services/runs';
 
 const runParams = z.object({ runId: idParam });
+/** Any job of the calc CLI contract; validated here, so malformed jobs never reach a worker. */
+const calcRequest = z.strictObject({ job: z.union([CalcJob, FlowCalcJob]) });
 const CALC_WAIT_MS = 30_000;
 
 export function runRoutes({ runs, notebooks }: Services) {
@@ -30,9 +32,14 @@ export function runRoutes({ runs, notebooks }: Services) {
       } }),
     route({ method: 'get', path: '/runs/:runId', access: 'signed-in', summary: 'State, progress and result of a run', params: runParams,
       handler: async ({ user, params }) => ({ run: toRunView(await visibleRun(user!, params.runId)) }) }),
-    route({ method: 'post', path: '/runs/:runId/cancel', access: 'signed-in', summary: 'Cancel a queued or running job', params: runParams,
+    route({ method: 'post', path: '/runs/:runId/cancel', access: 'signed-in', summary: 'Cancel a queued or running job (whoever started it, or an editor of its notebook)', params: runParams,
       handler: async ({ user, params }) => {
-        await visibleRun(user!, params.runId);
+        const run = await visibleRun(user!, params.runId);
+        if (run.requestedBy !== user!.id) {
+          const notebookId = run.cellId ? await notebooks.cellNotebookId(run.cellId) : null;
+          if (!notebookId) throw new AppError('forbidden', 'Only whoever started this run can cancel it.');
+          await notebooks.editable(user!, notebookId);
+        }
         return { run: toRunView(await runs.cancel(params.runId)) };
       } }),
   ];

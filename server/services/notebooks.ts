@@ -7,9 +7,21 @@ import type { SignedInUser } from '../auth/sessions';
 import { Cell, GroupMembership, JobRun, Notebook, ResearchGroup, User } from '../db/entities';
 import { AppError } from '../http/errors';
 import { newId } from '../ids';
+import { customModel } from '../../shared/engine/models/custom';
 import { toRunView, type RunService } from './runs';
 
 export const MAX_CELLS_PER_NOTEBOOK = 200;
+
+/** A custom potential is parsed by the engine when the cell is saved, so a bad one never waits for a run. */
+function assertModelAccepted(input: CellInput): void {
+  if (input.kind !== 'setup' || input.model.preset !== 'custom') return;
+  try {
+    customModel(input.model.fields, input.model.potential);
+  } catch (error) {
+    const message = error instanceof Error ? error.message : String(error);
+    throw new AppError('validation_failed', `The potential is not a quartic model: ${message}`, { 'input.model.potential': message });
+  }
+}
 
 export interface NotebookAccess {
   notebook: Notebook;
@@ -237,6 +249,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
 
     async addCell(viewer: SignedInUser, notebookId: string, input: { label: string; input: CellInput; position?: number }) {
       await editable(viewer, notebookId);
+      assertModelAccepted(input.input);
       await dataSource.transaction(async (manager) => {
         const existing = await orderedCells(notebookId, manager);
         if (existing.length >= MAX_CELLS_PER_NOTEBOOK) throw new AppError('conflict', `A notebook holds at most ${MAX_CELLS_PER_NOTEBOOK} cells.`);
@@ -254,6 +267,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
 
     async updateCell(viewer: SignedInUser, notebookId: string, cellId: string, patch: { label?: string; input?: CellInput; revision: number }) {
       await editable(viewer, notebookId);
+      if (patch.input) assertModelAccepted(patch.input);
       await dataSource.transaction(async (manager) => {
         const cell = await manager.findOneBy(Cell, { id: cellId, notebookId });
         if (!cell) throw new AppError('not_found', 'No such cell.');

@@ -32,7 +32,6 @@ export const updateCellInput = z.strictObject({
 export const moveCellInput = z.strictObject({ position: z.number().int().min(0).max(500) });
 export const saveVersionInput = z.strictObject({ message: z.string().trim().min(1, 'Say what this version is').max(500) });
 export const listNotebooksQuery = z.strictObject({ q: z.string().trim().max(200).optional() });
-export const calcRequest = z.strictObject({ job: z.unknown() });
 
 /** Reply shapes. */
 export interface RunView {

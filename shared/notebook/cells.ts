@@ -25,12 +25,16 @@ export const cellLabel = z
 const decimal = z.string().trim().regex(/^[+-]?(\d+\.?\d*|\.\d+)$/, 'Enter a decimal number, e.g. 1.75');
 const symbolOrNumber = z.string().trim().regex(/^([A-Za-z]\w*|[+-]?\d+(\.\d+)?)$/, 'Enter a number, or a symbol name such as N');
 
+/** The engine's limit on field components (shared/engine/models/presets MAX_FIELDS; a test keeps them equal). */
+export const MAX_MODEL_FIELDS = 6;
+const fieldCount = z.number().int().min(1, 'At least one field').max(MAX_MODEL_FIELDS, `At most ${MAX_MODEL_FIELDS} field components`);
+
 export const modelSpec = z.discriminatedUnion('preset', [
-  z.strictObject({ preset: z.literal('on'), N: z.union([z.number().int().min(1).max(64), z.literal('N')]) }),
-  z.strictObject({ preset: z.literal('cubic'), N: z.number().int().min(1).max(16) }),
+  z.strictObject({ preset: z.literal('on'), N: z.union([fieldCount, z.literal('N')]) }),
+  z.strictObject({ preset: z.literal('cubic'), N: fieldCount }),
   z.strictObject({
     preset: z.literal('custom'),
-    fields: z.number().int().min(1).max(8),
+    fields: fieldCount,
     potential: z.string().trim().min(1, 'Type the quartic potential').max(2000),
   }),
 ]);
@@ -38,11 +42,14 @@ export type ModelSpec = z.infer<typeof modelSpec>;
 
 export const noteInput = z.strictObject({ kind: z.literal('note'), text: z.string().max(20_000) });
 
+const dimension = decimal.refine((v) => Number(v) > 0, 'd must be positive');
+const propagatorPower = decimal.refine((v) => Number(v) > 0 && Number(v) <= 2, 's must lie in (0, 2]: s = 2 is the short-range theory');
+
 export const setupInput = z.strictObject({
   kind: z.literal('setup'),
   model: modelSpec,
-  d: decimal.optional(),
-  s: decimal.optional(),
+  d: dimension.optional(),
+  s: propagatorPower.optional(),
   loops: z.union([z.literal(1), z.literal(2)]),
   digits: z.number().int().min(5, 'At least 5 digits').max(200, 'At most 200 digits in a notebook'),
 });

@@ -98,6 +98,12 @@ describe('sign-up, sign-in, sign-out, current user', () => {
     assert.equal(await h.rungbook.services.dataSource.getRepository(Session).countBy({ expiresAt: LessThan(new Date()) }), 0);
   });
 
+  test('a mangled session cookie is treated as no session (401), not a server error', async () => {
+    const reply = await h.raw.get('/api/me').set('Cookie', 'rungbook_session=%E0%A4%A').expect(401);
+    assert.equal(reply.body.error.code, 'unauthenticated');
+    await h.raw.get('/api/health').set('Cookie', 'rungbook_session=%E0%A4%A').expect(200);
+  });
+
   test('/me without a session is 401', async () => {
     const reply = await h.raw.get('/api/me').expect(401);
     assert.equal(reply.body.error.code, 'unauthenticated');

@@ -103,7 +103,10 @@ describe('notebooks, cells, runs, versions and exports', () => {
     const current = ((await owner.get(`/api/notebooks/${notebook.id}`)).body.notebook as NotebookDetail).cells.find((c) => c.label === 'setup')!;
     await owner.patch(`/api/notebooks/${notebook.id}/cells/${setup.id}`).send({ revision: current.revision, input: { ...setupCell.input, s: '1.25' } }).expect(200);
     const second = (await owner.post(`/api/notebooks/${notebook.id}/versions`).send({ message: 's = 5/4' }).expect(201)).body.version;
-    assert.equal(second.number, first.number + 1);
+    // Changing the model & parameters cell saved an automatic version in between.
+    assert.equal(second.number, first.number + 2);
+    const between = (await owner.get(`/api/notebooks/${notebook.id}/versions`).expect(200)).body.versions.find((v: { number: number }) => v.number === first.number + 1);
+    assert.deepEqual([between.automatic, between.message], [true, 'Before changing "setup"']);
     const comparison = (await owner.get(`/api/notebooks/${notebook.id}/versions/compare?from=${first.id}&to=${second.id}`).expect(200)).body.comparison;
     const setupChange = comparison.cells.find((c: { label: string }) => c.label === 'setup');
     assert.equal(setupChange.change, 'changed');
@@ -114,8 +117,11 @@ describe('notebooks, cells, runs, versions and exports', () => {
     const restored = (await owner.post(`/api/notebooks/${notebook.id}/versions/${first.id}/restore`).expect(200)).body.notebook as NotebookDetail;
     assert.equal((restored.cells.find((c) => c.label === 'setup')!.input as { s: string }).s, '1.5');
     const list = (await owner.get(`/api/notebooks/${notebook.id}/versions`).expect(200)).body.versions;
-    assert.equal(list.length, 4, 'the two saved, one before the restore, one recording it');
-    assert.match(list[0].message, /^Restored version 1/);
+    assert.deepEqual(list.slice(0, 2).map((v: { automatic: boolean; message: string }) => [v.automatic, v.message.split(':')[0]]), [
+      [true, `Restored version ${first.number}`],
+      [true, `Before restoring version ${first.number}`],
+    ]);
+    assert.equal(list.filter((v: { automatic: boolean }) => !v.automatic).length, 2, 'the two saved by hand');
     notebook = restored;
   });
 
@@ -221,5 +227,59 @@ describe('cancelling a run', () => {
     } finally {
       await h.close();
     }
+  });
+});
+
+describe('cell input checks at save time, moving cells, run ownership', () => {
+  let h: Harness;
+  let owner: Client;
+  let stranger: Client;
+  let notebookId: string;
+  before(async () => {
+    h = await startHarness();
+    owner = h.browser();
+    stranger = h.browser();
+    await owner.post('/api/auth/sign-up').send(person(7)).expect(201);
+    await stranger.post('/api/auth/sign-up').send(person(8)).expect(201);
+    notebookId = (await owner.post('/api/notebooks').send({ title: 'Invented limits check' }).expect(201)).body.notebook.id;
+  });
+  after(() => h.close());
+
+  const setupWith = (overrides: Record<string, unknown>) => ({ label: 'p', input: { kind: 'setup', model: { preset: 'on', N: 1 }, d: '3', s: '1.75', loops: 2, digits: 20, ...overrides } });
+
+  test('setups the engine would refuse are refused when saved, with the field named', async () => {
+    const tooMany = await owner.post(`/api/notebooks/${notebookId}/cells`).send(setupWith({ model: { preset: 'on', N: 20 } })).expect(400);
+    assert.match(Object.values(tooMany.body.error.fields).join(' '), /At most 6 field components/);
+    const badS = await owner.post(`/api/notebooks/${notebookId}/cells`).send(setupWith({ s: '2.5' })).expect(400);
+    assert.match(badS.body.error.fields['input.s'], /\(0, 2\]/);
+    const badD = await owner.post(`/api/notebooks/${notebookId}/cells`).send(setupWith({ d: '-1' })).expect(400);
+    assert.ok(badD.body.error.fields['input.d']);
+    const cubicTerm = await owner.post(`/api/notebooks/${notebookId}/cells`).send(setupWith({ model: { preset: 'custom', fields: 2, potential: 'g*phi1^3*phi2' } }));
+    assert.equal(cubicTerm.status, 201, 'phi1^3*phi2 is quartic');
+    const notQuartic = await owner.post(`/api/notebooks/${notebookId}/cells`).send({ ...setupWith({ model: { preset: 'custom', fields: 1, potential: 'g*phi1^3' } }), label: 'q' }).expect(400);
+    assert.ok(notQuartic.body.error.fields['input.model.potential']);
+  });
+
+  test('cells move to a new position and the order is kept', async () => {
+    let nb = (await owner.post(`/api/notebooks/${notebookId}/cells`).send({ label: 'n1', input: { kind: 'note', text: 'first' } }).expect(201)).body.notebook;
+    nb = (await owner.post(`/api/notebooks/${notebookId}/cells`).send({ label: 'n2', input: { kind: 'note', text: 'second' } }).expect(201)).body.notebook;
+    const n2 = nb.cells.find((c: { label: string }) => c.label === 'n2');
+    nb = (await owner.post(`/api/notebooks/${notebookId}/cells/${n2.id}/move`).send({ position: 0 }).expect(200)).body.notebook;
+    assert.deepEqual(nb.cells.map((c: { label: string }) => c.label), ['n2', 'p', 'n1']);
+    assert.deepEqual(nb.cells.map((c: { position: number }) => c.position), [0, 1, 2]);
+  });
+
+  test('only whoever started a run (or an editor of its notebook) may cancel it', async () => {
+    const me = (await owner.get('/api/me').expect(200)).body.user;
+    const run = await h.rungbook.services.runs.submit({ job: { job: 'special', fn: 'gamma', x: '0.9', digits: 1000 }, userId: me.id });
+    await stranger.post(`/api/runs/${run.id}/cancel`).expect(404);
+    await owner.post(`/api/runs/${run.id}/cancel`).expect(200);
+  });
+
+  test('POST /api/calc validates the job against the engine contract before any worker sees it', async () => {
+    const reply = await owner.post('/api/calc').send({ job: { job: 'special', fn: 'gamma', x: 'one half', digits: 30 } }).expect(400);
+    assert.equal(reply.body.error.code, 'validation_failed');
+    const doc = (await h.raw.get('/api/openapi.json').expect(200)).body;
+    assert.ok(JSON.stringify(doc.paths['/api/calc'].post.requestBody).includes('laurent'), 'the calc body schema lists the job kinds');
   });
 });
