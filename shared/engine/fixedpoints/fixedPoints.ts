@@ -394,7 +394,29 @@ export function findFixedPoints<C>(spec: ModelSpec, flow: DerivedFlow<C>, option
     }
     points.push(describeFixedPoint(spec, flow, root.g1, options, magnitude));
   }
+  if (k > 1 && numeric && roots.length < 2 ** k) points.push(...mergedPoints(spec, points));
   return points;
+}
+
+/**
+ * Fewer one-loop roots than the Bézout count 2^k: a root with a zero one-loop stability eigenvalue is
+ * a multiple root where fixed points merge (e.g. cubic and O(N) at N = 4). Each such root is kept a
+ * second time as a "degenerate" entry, named as the generic (all couplings non-zero) point.
+ */
+function mergedPoints<C>(spec: ModelSpec, points: FixedPoint<C>[]): FixedPoint<C>[] {
+  const merged: FixedPoint<C>[] = [];
+  const taken = new Set(points.map((p) => p.name));
+  for (const p of points) {
+    if (p.name === 'Gaussian' || !p.couplingSeries || !p.eigenvalueSeries) continue;
+    const marginal = p.eigenvalueSeries.some((e) => e !== null && Math.abs(toNumber(e.coefficient(1))) < 1e-20);
+    if (!marginal) continue;
+    let name = spec.classify(p.couplingSeries.map(() => 1));
+    if (taken.has(name)) name = `${name} (merged with ${p.name})`;
+    taken.add(name);
+    p.notes.push(`another fixed point (${name}) coincides with this one at one loop (zero one-loop stability eigenvalue)`);
+    merged.push({ ...p, name, status: 'degenerate', notes: [`coincides with ${p.name}: a double root of the one-loop fixed-point equations (zero one-loop stability eigenvalue)`] });
+  }
+  return merged;
 }
 
 function describeFixedPoint<C>(spec: ModelSpec, flow: DerivedFlow<C>, g1: C[], options: FixedPointOptions<C>, magnitude?: (c: C) => number): FixedPoint<C> {
