@@ -113,7 +113,7 @@ function centredReciprocalGamma(bits: number): CenteredTable[] {
     const negligible = (m: number) => ((shifted[m] < 0n ? -shifted[m] : shifted[m]) * BigInt((m + 1) * (m + 1))) >> BigInt(Math.floor(HALF_WIDTH_LOG2 * m) + work - bits - 4) === 0n;
     while (last > 0 && negligible(last)) last--;
     const coeffs = shifted.slice(0, last + 1).map((c) => changeBits(c, work, bits));
-    const doubles = coeffs.map((c) => Number(c) / 2 ** bits);
+    const doubles = coeffs.map((c) => fixedToDouble(c, bits));
     let splitIndex = coeffs.length;
     const tailThreshold = 2 ** -(bits - 60);
     while (splitIndex > 1 && Math.abs(doubles[splitIndex - 1]) * (splitIndex * splitIndex) * 2 ** (-HALF_WIDTH_LOG2 * (splitIndex - 1)) < tailThreshold) splitIndex--;
@@ -121,6 +121,18 @@ function centredReciprocalGamma(bits: number): CenteredTable[] {
   }
   centredTables.set(bits, tables);
   return tables;
+}
+
+/**
+ * A fixed-point value as a double. `Number(v) / 2 ** bits` overflows to NaN from 1024 bits on, so the
+ * mantissa is cut to 64 bits first and the binary exponent applied in two steps.
+ */
+function fixedToDouble(v: Fixed, bits: number): number {
+  if (v === 0n) return 0;
+  const shift = Math.max(0, (v < 0n ? -v : v).toString(2).length - 64);
+  const exponent = shift - bits;
+  const half = Math.trunc(exponent / 2);
+  return Number(v >> BigInt(shift)) * 2 ** half * 2 ** (exponent - half);
 }
 
 /** A double converted exactly (all 53 bits kept) to fixed point. */
@@ -142,7 +154,7 @@ export function reciprocalGammaNearOne(tNum: bigint, den: bigint, bits: number, 
   // v = t − u0 = (2C·tNum − (2j+1−C)·den) / (2C·den)
   const twoC = BigInt(2 * CENTRE_COUNT);
   const v = fromRational(twoC * tNum - BigInt(2 * index + 1 - CENTRE_COUNT) * den, twoC * den, bits);
-  const vd = Number(v) / 2 ** bits;
+  const vd = fixedToDouble(v, bits);
   const { coeffs, doubles, splitIndex } = table;
   const accD = [0, 0, 0];
   for (let k = doubles.length - 1; k >= splitIndex; k--) {

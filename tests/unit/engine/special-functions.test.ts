@@ -1,6 +1,7 @@
 import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import fc from 'fast-check';
+import Decimal from 'decimal.js';
 import stdlibDigamma from '@stdlib/math-base-special-digamma';
 import stdlibGamma from '@stdlib/math-base-special-gamma';
 import stdlibGammaln from '@stdlib/math-base-special-gammaln';
@@ -138,4 +139,16 @@ test('double-precision agreement with @stdlib/math-base-special-* on random poin
     }),
     { numRuns: 200 },
   );
+});
+
+test("ψ′(1/2) = π²/2 and ψ(1/2) = −γ − 2 ln 2 across 250–420 digits, where the working precision crosses 1024 bits (DLMF 5.15.3, 5.4.13)", () => {
+  const Deep = Decimal.clone({ precision: 460 });
+  const deep = (x: { toString(): string }) => new Deep(x.toString());
+  for (const digits of [250, 290, 300, 310, 320, 350, 420]) {
+    const pi = deep(special.pi(digits + 10));
+    assertDigits(special.trigamma('0.5', digits), pi.pow(2).div(2).toString(), digits, `psi'(1/2) at ${digits} digits`);
+    const g = deep(special.eulerGamma(digits + 10));
+    const l2 = deep(special.ln2(digits + 10));
+    assertDigits(special.digamma('0.5', digits), g.neg().minus(l2.times(2)).toString(), digits, `psi(1/2) at ${digits} digits`);
+  }
 });
