@@ -3,7 +3,7 @@ import { ConsistencyError } from '../engine/diagrams/subtraction';
 import { type DerivedFlow, type TrailEntry } from '../engine/diagrams/renormalization';
 import { quadraticAtRoot, quadraticSpectrum } from '../engine/exponents/quadratic';
 import { exactLongRangeValue, exponentSeries, meanFieldValues, RELATIONS, SERIES_QUANTITIES, type Quantity } from '../engine/exponents/exponents';
-import { type FixedPoint, findFixedPoints } from '../engine/fixedpoints/fixedPoints';
+import { type FixedPoint, baseName, findFixedPoints } from '../engine/fixedpoints/fixedPoints';
 import { type ComplexReal } from '../engine/fixedpoints/complexRoots';
 import { type AnyFlow, checkPropagatorPower, flowFor } from '../engine/flows/flow';
 import { type CouplingPolynomial } from '../engine/models/couplingPolynomial';
@@ -211,7 +211,8 @@ function checkDimension(d: Q): void {
 function formatComplex(z: ComplexReal, digits: number): string {
   const size = z.re.abs().gt(z.im.abs()) ? z.re.abs() : z.im.abs();
   const R = realContext(digits + 20);
-  if (z.im.isZero() || new R(z.im).abs().lt(new R(size).times(new R(10).pow(-(digits + 2))))) return String(formatCoefficient(z.re, digits));
+  const negligible = new R(10).pow(-(digits + 10));
+  if (z.im.isZero() || new R(z.im).abs().lt(negligible) || new R(z.im).abs().lt(new R(size).times(new R(10).pow(-(digits + 2))))) return String(formatCoefficient(z.re, digits));
   const im = String(formatCoefficient(z.im.abs(), digits));
   return `${String(formatCoefficient(z.re, digits))} ${z.im.isNegative() ? '-' : '+'} ${im}i`;
 }
@@ -296,7 +297,8 @@ function decimalText(x: Q, digits: number): string {
 /** The IR-stable non-Gaussian fixed point (or a named one). */
 function chooseFixedPoint<C>(points: FixedPoint<C>[], name: string | undefined, symbolic: boolean): FixedPoint<C> {
   if (name !== undefined) {
-    const found = points.find((p) => p.name === name);
+    const byBase = points.filter((p) => baseName(p.name) === name);
+    const found = points.find((p) => p.name === name) ?? (byBase.length === 1 ? byBase[0] : undefined);
     if (!found) fail('invalid', `no fixed point named ${JSON.stringify(name)}; available: ${points.map((p) => p.name).join(', ')}`);
     return found;
   }

@@ -96,11 +96,12 @@ function polish(flow: DerivedFlow<Real>, start: ComplexReal[], eps: Real): Compl
 /**
  * A complex root of the truncated β at the physical ε on the branch of a real ε-series value
  * (for when no real root exists there). One coupling: β(u)/u = −ε + c₂u + c₃u² is solved exactly
- * (quadratic formula); several couplings: complex Newton from the series value displaced into the
- * complex plane. Both are polished in full precision. Returns the member of the conjugate pair with
+ * (quadratic formula); several couplings: the real root at a small ε (Newton from the series value)
+ * is continued to the physical ε along a path through complex ε, which passes the fold where the
+ * real branch ends. Both are polished in full precision. Returns the member of the conjugate pair with
  * positive imaginary part of the first non-real coupling, or null.
  */
-export function complexRootNear(flow: DerivedFlow<Real>, start: Real[], eps: Real): ComplexReal[] | null {
+export function complexRootNear(flow: DerivedFlow<Real>, seriesAt: (eps: number) => number[], eps: Real): ComplexReal[] | null {
   const { ring } = flow.calculus.ctx;
   const c = complexOps(ring);
   const k = flow.couplings.length;
@@ -117,33 +118,8 @@ export function complexRootNear(flow: DerivedFlow<Real>, start: Real[], eps: Rea
     const im = ring.mul(disc.neg().sqrt(), inv).abs();
     seeds.push([c.of(ring.mul(ring.neg(c2), inv), im)]);
   } else {
-    const size = Math.max(...start.map((x) => Math.abs(num(x))), 1e-30);
-    const base = start.map(num);
-    // double-precision complex Newton from displaced starts, then full-precision polish
-    const dbl = (g: Complex[]) => {
-      const gr = g.map((z) => c.fromDouble(z));
-      const { f, jac } = betaAndJacobian(flow, gr, eps);
-      return { f: f.map(c.toDouble), jac: jac.map((row) => row.map(c.toDouble)) };
-    };
-    const found: Complex[][] = [];
-    for (const scale of [0.25, 0.5, 1]) {
-      for (let dir = 0; dir < 2 * k; dir++) {
-        let g: Complex[] = base.map((x, i) => ({ re: x, im: i === dir % k || dir >= k ? (dir >= k ? -1 : 1) * scale * size * (i === dir % k ? 1 : 0.5) : 0 }));
-        for (let iter = 0; iter < 60; iter++) {
-          const { f, jac } = dbl(g);
-          const step = solveComplex(jac, f);
-          if (!step) break;
-          g = g.map((x, i) => csub(x, step[i]));
-          if (Math.max(...step.map(cabs)) < 1e-14 * (1 + Math.max(...g.map(cabs)))) break;
-        }
-        const residual = Math.max(...dbl(g).f.map(cabs));
-        const imag = Math.max(...g.map((z) => Math.abs(z.im)));
-        const distance = Math.max(...g.map((z, i) => cabs(csub(z, { re: base[i], im: 0 }))));
-        if (residual < 1e-12 && imag > 1e-9 * size && distance < 2 * size) found.push(g);
-      }
-    }
-    found.sort((a, b) => Math.max(...a.map((z, i) => cabs(csub(z, { re: base[i], im: 0 })))) - Math.max(...b.map((z, i) => cabs(csub(z, { re: base[i], im: 0 })))));
-    for (const g of found) seeds.push(g.map((z) => c.fromDouble(z)));
+    const tracked = trackInComplexEps(flow, seriesAt, num(eps));
+    if (tracked) seeds.push(tracked.map((z) => c.fromDouble(z)));
   }
   for (const seed of seeds) {
     const root = polish(flow, seed, eps);
@@ -225,4 +201,67 @@ export function eigenvaluesFullPrecision(ring: Ring, a: ComplexReal[][], isNegli
     }
     return z;
   });
+}
+
+/** β and its Jacobian in double precision at complex couplings and complex ε. */
+function doubleSystem(flow: DerivedFlow<Real>) {
+  const terms = (p: CouplingPolynomial<Real>) => [...p.terms.values()].map((t) => ({ c: num(t.coeff), powers: t.powers }));
+  const beta = flow.beta.map(terms);
+  const jac = jacobianPolynomials(flow).map((row) => row.map(terms));
+  const value = (ts: { c: number; powers: readonly number[] }[], g: Complex[]) => {
+    let s: Complex = { re: 0, im: 0 };
+    for (const t of ts) {
+      let term: Complex = { re: t.c, im: 0 };
+      t.powers.forEach((e, j) => {
+        for (let r = 0; r < e; r++) term = cmul(term, g[j]);
+      });
+      s = cadd(s, term);
+    }
+    return s;
+  };
+  return (g: Complex[], eps: Complex) => ({
+    f: beta.map((b, i) => csub(value(b, g), cmul(eps, g[i]))),
+    jac: jac.map((row, i) => row.map((p, j) => (i === j ? csub(value(p, g), eps) : value(p, g)))),
+  });
+}
+
+function newtonDouble(system: ReturnType<typeof doubleSystem>, start: Complex[], eps: Complex, maxIter: number): Complex[] | null {
+  let g = start;
+  for (let iter = 0; iter < maxIter; iter++) {
+    const { f, jac } = system(g, eps);
+    const step = solveComplex(jac, f);
+    if (!step) return null;
+    g = g.map((x, i) => csub(x, step[i]));
+    const size = 1e-300 + Math.max(...g.map(cabs));
+    if (!Number.isFinite(size)) return null;
+    if (Math.max(...step.map(cabs)) < 1e-13 * size) return g;
+  }
+  return null;
+}
+
+/** Continue the real branch of the ε-series from a small ε to the physical ε through complex ε. */
+function trackInComplexEps(flow: DerivedFlow<Real>, seriesAt: (eps: number) => number[], eps: number): Complex[] | null {
+  const system = doubleSystem(flow);
+  for (let j = 2; j <= 12; j++) {
+    const eps0 = eps / 2 ** j;
+    const guess = seriesAt(eps0);
+    const size = Math.max(...guess.map(Math.abs));
+    const real = newtonDouble(system, guess.map((x) => ({ re: x, im: 0 })), { re: eps0, im: 0 }, 50);
+    if (!real || real.some((z, i) => Math.abs(z.re - guess[i]) > 0.25 * size)) continue;
+    let g = real;
+    let t = 0;
+    let dt = 1 / 64;
+    const at = (u: number): Complex => ({ re: eps0 + (eps - eps0) * u, im: 0.5 * (eps - eps0) * u * (1 - u) });
+    while (t < 1 && dt > 1e-6) {
+      const next = Math.min(1, t + dt);
+      const moved = newtonDouble(system, g, at(next), 12);
+      if (moved && Math.max(...moved.map((z, i) => cabs(csub(z, g[i])))) < 0.2 * (1e-300 + Math.max(...g.map(cabs)))) {
+        g = moved;
+        t = next;
+        dt = Math.min(dt * 1.5, 1 / 16);
+      } else dt /= 2;
+    }
+    if (t >= 1) return g;
+  }
+  return null;
 }

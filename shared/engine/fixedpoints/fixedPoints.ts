@@ -395,6 +395,31 @@ export function findFixedPoints<C>(spec: ModelSpec, flow: DerivedFlow<C>, option
     points.push(describeFixedPoint(spec, flow, root.g1, options, magnitude));
   }
   if (k > 1 && numeric && roots.length < 2 ** k) points.push(...mergedPoints(spec, points));
+  return uniqueNames(points, flow.couplings);
+}
+
+/** The name a point was given before disambiguation ("O(2) (u only) [u+]" → "u only"), for lookups by the plain name. */
+export function baseName(name: string): string {
+  return name.replace(/ #\d+$/, '').replace(/ \[[^\]]*\]$/, '').replace(/^O\(\d+\) \((.*)\)$/, '$1');
+}
+
+/** Points sharing a name get the signs of their one-loop couplings appended, then an index if still equal. */
+function uniqueNames<C>(points: FixedPoint<C>[], couplings: readonly string[]): FixedPoint<C>[] {
+  const count = (names: string[], n: string) => names.filter((x) => x === n).length;
+  const sign = (p: FixedPoint<C>, i: number): string => {
+    const x = p.couplingSeries ? toNumber(p.couplingSeries[i].order >= 1 ? p.couplingSeries[i].coefficient(1) : 0) : p.complexCouplings ? p.complexCouplings[i].re : NaN;
+    return !Number.isFinite(x) || Math.abs(x) < 1e-12 ? '' : `${couplings[i]}${x > 0 ? '+' : '−'}`;
+  };
+  let names = points.map((p) => p.name);
+  names = names.map((n, j) => (count(names, n) > 1 ? `${n} [${couplings.map((_, i) => sign(points[j], i)).filter(Boolean).join(', ')}]` : n));
+  const seen = new Map<string, number>();
+  names = names.map((n) => {
+    if (count(names, n) === 1) return n;
+    const index = (seen.get(n) ?? 0) + 1;
+    seen.set(n, index);
+    return `${n} #${index}`;
+  });
+  points.forEach((p, j) => (p.name = names[j]));
   return points;
 }
 
@@ -421,7 +446,13 @@ function mergedPoints<C>(spec: ModelSpec, points: FixedPoint<C>[]): FixedPoint<C
 
 function describeFixedPoint<C>(spec: ModelSpec, flow: DerivedFlow<C>, g1: C[], options: FixedPointOptions<C>, magnitude?: (c: C) => number): FixedPoint<C> {
   const notes: string[] = [];
-  const name = spec.classify(flow.calculus.symbolic ? g1.map((c) => (flow.calculus.isNegligible(c) ? 0 : 1)) : g1.map(toNumber));
+  // symbolic coefficients: their rational value when they have one (s-free one-loop roots), else 0/1
+  const symbolicValue = (c: C) => {
+    if (flow.calculus.isNegligible(c)) return 0;
+    const r = (c as unknown as { rationalValue?: () => { num: bigint; den: bigint } | null }).rationalValue?.();
+    return r ? Number(r.num) / Number(r.den) : 1;
+  };
+  const name = spec.classify(flow.calculus.symbolic ? g1.map(symbolicValue) : g1.map(toNumber));
   const { series, degenerate } = couplingSeries(flow, g1, magnitude);
   if (degenerate) notes.push('the one-loop stability matrix has a zero eigenvalue here: the ε² correction is not determined (fixed points merge)');
   const eigen = eigenvalueSeries(flow, stabilitySeriesMatrices(flow, series, degenerate ? 1 : flow.loops));
@@ -440,7 +471,8 @@ function describeFixedPoint<C>(spec: ModelSpec, flow: DerivedFlow<C>, g1: C[], o
       eigenvalueFull = eigenvaluesFullPrecision(ring, stabilityMatrixAt(realFlow, couplingValues, eps).map((row) => row.map((x) => c.of(x))), realFlow.calculus.isNegligible);
       eigenvalueValues = eigenvalueFull.map(c.toDouble);
     } else {
-      complexValues = complexRootNear(realFlow, start, eps) ?? undefined;
+      const seriesAt = (e: number) => (series as unknown as LaurentSeries<Real>[]).map((sr) => toNumber(sr.evaluate(ring.fromRational(BigInt(Math.round(e * 1e15)), 10n ** 15n))));
+      complexValues = complexRootNear(realFlow, seriesAt, eps) ?? undefined;
       if (complexValues) {
         eigenvalueFull = eigenvaluesFullPrecision(ring, complexStabilityMatrix(realFlow, complexValues, eps), realFlow.calculus.isNegligible);
         eigenvalueValues = eigenvalueFull.map(c.toDouble);

@@ -119,7 +119,7 @@ export function customModel(fields: number, potential: string): QuarticModel {
     couplings,
     basis: tensors.map((t) => t.tensor),
     scales: tensors.map((t) => t.scale),
-    classify: (values) => nameCustomPoint(couplings, values),
+    classify: (values) => nameCustomPoint(couplings, values, isONSymmetric(model, values) ? fields : null),
   };
   assertIndependentCouplings(model);
   return model;
@@ -160,10 +160,34 @@ function lcm(a: bigint, b: bigint): bigint {
   return (a / x) * b;
 }
 
-function nameCustomPoint(couplings: readonly string[], values: readonly number[]): string {
+/** "u only", "all couplings (u, v)"; an O(n)-symmetric tensor as "O(n) (u only)". */
+function nameCustomPoint(couplings: readonly string[], values: readonly number[], symmetricFields: number | null): string {
   const active = couplings.filter((_, k) => Math.abs(values[k]) >= NEGLIGIBLE_COUPLING);
   if (active.length === 0) return 'Gaussian';
-  return active.length === couplings.length ? `all couplings (${active.join(', ')})` : `${active.join(', ')} only`;
+  const base = active.length === couplings.length ? `all couplings (${active.join(', ')})` : `${active.join(', ')} only`;
+  return symmetricFields !== null ? `O(${symmetricFields}) (${base})` : base;
+}
+
+/**
+ * λ = Σ g_k scale_k basis_k is O(n)-symmetric (n = all fields) when λ_abcd = c(δ_ab δ_cd + δ_ac δ_bd + δ_ad δ_bc)
+ * for one c ≠ 0 (checked entry by entry, relative tolerance 1e-9).
+ */
+export function isONSymmetric(model: QuarticModel, values: readonly number[]): boolean {
+  const n = model.fields;
+  const lambda = new Array<number>(n ** 4).fill(0);
+  model.basis.forEach((b, k) => {
+    const f = values[k] * (Number(model.scales[k].num) / Number(model.scales[k].den));
+    b.data.forEach((x, i) => (lambda[i] += f * x));
+  });
+  const size = Math.max(...lambda.map(Math.abs));
+  if (!(size > 0)) return false;
+  const c = lambda[0] / 3;
+  let ok = true;
+  forEachIndex(n, 4, ([a, b, cc, d], flat) => {
+    const expected = c * ((a === b ? 1 : 0) * (cc === d ? 1 : 0) + (a === cc ? 1 : 0) * (b === d ? 1 : 0) + (a === d ? 1 : 0) * (b === cc ? 1 : 0));
+    if (Math.abs(lambda[flat] - expected) > 1e-9 * size) ok = false;
+  });
+  return ok;
 }
 
 

@@ -49,3 +49,20 @@ for (const N of [1, 3]) {
     assert.equal(e.fixedPoint, point.name);
   });
 }
+
+test('complex fixed point with two couplings (complex-ε continuation): the decoupled-Ising point of u/24(φ1⁴+φ2⁴) + v/4 φ1²φ2² at s = 1.75, d = 3 has v = 0 and u from the quadratic formula on its β_u(u, 0)', () => {
+  const job = { model: { preset: 'custom', fields: 2, potential: 'u/24*(phi1^4+phi2^4) + v/4*phi1^2*phi2^2' }, s: '1.75', loops: 2, digits: 20 };
+  const flow = run({ ...job, job: 'flow' });
+  const coeff = (m: string) => Number(flow.beta.u.find((t: Any) => t.monomial === m).coeff);
+  const [c2, c3, eps] = [coeff('u^2'), coeff('u^3'), 0.5];
+  const disc = c2 * c2 + 4 * c3 * eps;
+  assert.ok(disc < 0);
+  const [re, im] = [-c2 / (2 * c3), Math.abs(Math.sqrt(-disc) / (2 * c3))];
+  const r = run({ ...job, job: 'fixedpoints', d: '3' });
+  const point = r.fixedPoints.find((p: Any) => p.name === 'u only');
+  assert.equal(point.status, 'complex');
+  const [gRe, gIm] = parseComplex(point.couplings.u.value);
+  close(gRe, re, 'Re u*');
+  close(gIm, im, 'Im u*');
+  assert.equal(point.couplings.v.value, '0');
+});
