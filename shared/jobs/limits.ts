@@ -16,6 +16,12 @@ export const JOB_LIMITS = {
   maxAbsArgument: 1e12,
   maxExpressionLength: 2000,
   maxGammaFactors: 40,
+  /** Γ factors × terms for symbolic expansions: the number of ψ-monomials grows combinatorially in both. */
+  maxSymbolicFactorsTimesDepth: 24,
+  /** digits × terms × Γ factors for numeric expansions (about 5 s of engine time at the limit on 2 cores). */
+  maxNumericWork: 60_000,
+  /** digits × terms summed over the jobs of one batch. */
+  maxBatchWork: 60_000,
   maxBatch: 100,
   maxPadeCoefficients: 41,
 } as const;

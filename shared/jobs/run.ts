@@ -71,10 +71,22 @@ export function runJob(input: unknown, hooks: JobHooks = {}): CalcResult {
   }
 }
 
+/** digits × terms a job asks for, read off its fields before parsing (a rough upper bound). */
+function estimatedWork(job: unknown): number {
+  if (typeof job !== 'object' || job === null) return 0;
+  const { digits, order, coeffs, points } = job as { digits?: unknown; order?: unknown; coeffs?: unknown; points?: unknown };
+  const d = typeof digits === 'number' ? digits : 30;
+  const terms = typeof order === 'number' ? Math.max(1, order + 1) : Array.isArray(coeffs) ? coeffs.length : 1;
+  const scanPoints = typeof points === 'number' ? points : 1;
+  return d * terms * scanPoints;
+}
+
 /** One job or an array of jobs (results in the same order). */
 export function runBatch(input: unknown): CalcResult | CalcResult[] {
   if (Array.isArray(input)) {
     if (input.length > JOB_LIMITS.maxBatch) return jobError('limit', `at most ${JOB_LIMITS.maxBatch} jobs per call`);
+    const batchWork = input.reduce((sum: number, job) => sum + estimatedWork(job), 0);
+    if (batchWork > JOB_LIMITS.maxBatchWork) return jobError('limit', `the batch asks for digits × terms = ${batchWork} in all (at most ${JOB_LIMITS.maxBatchWork}); split it into smaller calls`);
     return input.map((job) => runJob(job));
   }
   return runJob(input);
@@ -185,6 +197,9 @@ function expandSeries(spec: SeriesSpec): SeriesResult {
     const ctx = symbolicContext();
     const depth = spec.order - totalLeadingPower(ctx, spec.factors);
     if (depth > JOB_LIMITS.maxSymbolicDepth) limit(`symbolic expansions are limited to ${JOB_LIMITS.maxSymbolicDepth} terms beyond the leading power (asked ${depth})`);
+    if (spec.factors.length * Math.max(1, depth) > JOB_LIMITS.maxSymbolicFactorsTimesDepth) {
+      limit(`symbolic expansion of ${spec.factors.length} Γ factors to ${depth} terms is too large (factors × terms ≤ ${JOB_LIMITS.maxSymbolicFactorsTimesDepth}); expand at a numeric point with "at", or fewer terms`);
+    }
     const series = gammaProductSeries(ctx, spec.factors, spec.order, spec.prefactor);
     return withPrefactor(symbolicResult(series));
   }
@@ -193,6 +208,8 @@ function expandSeries(spec: SeriesSpec): SeriesResult {
   const depth = spec.order - totalLeadingPower(numericContext(values, digits), spec.factors);
   if (depth > JOB_LIMITS.maxNumericDepth) limit(`numeric expansions are limited to ${JOB_LIMITS.maxNumericDepth} terms beyond the leading power (asked ${depth})`);
   if (digits * (depth + 1) > JOB_LIMITS.maxDigitsTimesTerms) limit(`digits × terms = ${digits * (depth + 1)} exceeds ${JOB_LIMITS.maxDigitsTimesTerms}`);
+  const work = digits * (depth + 1) * spec.factors.length;
+  if (work > JOB_LIMITS.maxNumericWork) limit(`digits × terms × Γ factors = ${work} exceeds ${JOB_LIMITS.maxNumericWork}; ask for fewer digits or terms`);
   const series = verifiedNumericSeries(digits, (work) => gammaProductSeries(numericContext(values, work), spec.factors, spec.order, spec.prefactor));
   return withPrefactor(series);
 }

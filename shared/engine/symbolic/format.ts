@@ -1,6 +1,6 @@
 import { affineToLatex, affineToString, latexRational } from './affine';
 import { type Atom, type Expression, type Power, type Term, atomKey, monomialKey } from './expression';
-import { polyConstantValue, polyTermCount, polyToLatex, polyToString } from './polynomial';
+import { type Poly, polyConstantValue, polyNeg, polyTermCount, polyToLatex, polyToString, sortedTerms } from './polynomial';
 import { qIsOne, qToString } from './rational';
 import { factorToLatex, ratConstantValue, ratParts } from './ratfunc';
 
@@ -31,6 +31,12 @@ function powerText(p: Power, negate: boolean): string {
   return e.den === 1n ? `${base}^${e.num}` : `${base}^(${qToString(e)})`;
 }
 
+/** Pull the sign of the first printed term out of a numerator, so c and −c print as "x" and "−x" alike. */
+function signedNumerator(num: Poly): { negative: boolean; num: Poly } {
+  const lead = sortedTerms(num)[0];
+  return lead && lead.coeff.num < 0n ? { negative: true, num: polyNeg(num) } : { negative: false, num };
+}
+
 function termText(t: Term): { negative: boolean; text: string } {
   const numParts: string[] = [];
   const denParts: string[] = [];
@@ -43,12 +49,14 @@ function termText(t: Term): { negative: boolean; text: string } {
     if (n !== 1n || !t.monomial.some((p) => p.exponent.num > 0n)) numParts.push(n.toString());
     if (c.den !== 1n) denParts.push(c.den.toString());
   } else {
-    const { num, factors } = ratParts(t.coeff);
+    const parts = ratParts(t.coeff);
+    const signed = signedNumerator(parts.num);
+    const { num } = signed;
+    const factors = parts.factors;
+    negative = signed.negative;
     const single = polyConstantValue(num);
-    if (single && single.num < 0n) {
-      negative = true;
-      numParts.push(qToString({ num: -single.num, den: single.den }));
-    } else numParts.push(polyTermCount(num) > 1 && (hasAtoms || factors.length > 0) ? `(${polyToString(num)})` : polyToString(num));
+    if (single) numParts.push(qToString(single));
+    else numParts.push(polyTermCount(num) > 1 && (hasAtoms || factors.length > 0 || negative) ? `(${polyToString(num)})` : polyToString(num));
     for (const f of factors) {
       const base = polyTermCount(f.poly) > 1 ? `(${polyToString(f.poly)})` : polyToString(f.poly);
       denParts.push(f.power === 1 ? base : `${base}^${f.power}`);
@@ -108,12 +116,14 @@ function termLatex(t: Term): { negative: boolean; text: string } {
     if (n !== 1n || !t.monomial.some((p) => p.exponent.num > 0n)) numParts.push(n.toString());
     if (c.den !== 1n) denParts.push(c.den.toString());
   } else {
-    const { num, factors } = ratParts(t.coeff);
+    const parts = ratParts(t.coeff);
+    const signed = signedNumerator(parts.num);
+    const { num } = signed;
+    const factors = parts.factors;
+    negative = signed.negative;
     const single = polyConstantValue(num);
-    if (single && single.num < 0n) {
-      negative = true;
-      numParts.push(latexRational({ num: -single.num, den: single.den }));
-    } else numParts.push(polyTermCount(num) > 1 && t.monomial.length > 0 ? `\\left(${polyToLatex(num)}\\right)` : polyToLatex(num));
+    if (single) numParts.push(latexRational(single));
+    else numParts.push(polyTermCount(num) > 1 && (t.monomial.length > 0 || negative) ? `\\left(${polyToLatex(num)}\\right)` : polyToLatex(num));
     for (const f of factors) denParts.push(factorToLatex(f));
   }
   for (const p of t.monomial) (p.exponent.num > 0n ? numParts : denParts).push(powerLatex(p, p.exponent.num < 0n));

@@ -176,6 +176,7 @@ export function polyToString(p: Poly): string {
       if (c.num === 1n && c.den === 1n) return vars;
       if (c.num === -1n && c.den === 1n) return `-${vars}`;
       if (c.den === 1n) return `${c.num}*${vars}`;
+      if (c.num === 1n || c.num === -1n) return `${c.num < 0n ? '-' : ''}${vars}/${c.den}`;
       return `${c.num}*${vars}/${c.den}`;
     }),
   );

@@ -6,7 +6,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { evaluate } from 'mathjs';
 import { special } from '../../../shared/engine/index';
-import { CalcJob, CalcResult, JOB_LIMITS, runBatch, runJob } from '../../../shared/jobs/index';
+import { CalcJob, CalcResult, JOB_LIMITS, isJobError, runBatch, runJob } from '../../../shared/jobs/index';
 import { assertDigits, wide } from './helpers';
 
 const repoRoot = join(__dirname, '..', '..', '..');
@@ -147,4 +147,32 @@ test('CLI contract: one JSON on stdout, exit 0 / 2, no stack traces (spawned pro
   const missing = calc(`@${join(dir, 'nope.json')}`);
   assert.equal(missing.status, 2);
   assert.equal(errorCode(missing.json), 'parse');
+});
+
+test('work is refused up front: symbolic factors × terms, numeric digits × terms × factors, and a batch total', () => {
+  const factors = (n: number) => Array.from({ length: n }, (_, i) => `gamma(${i + 1}*s/7+eps)`).join('*');
+  const started = Date.now();
+  const symbolic = runJob({ job: 'laurent', expr: factors(12), order: 5 });
+  assert.ok(isJobError(symbolic) && symbolic.error.code === 'limit', JSON.stringify(symbolic).slice(0, 200));
+  const numeric = runJob({ job: 'laurent', expr: factors(10), order: 10, at: { s: '1.5' }, digits: 1000 });
+  assert.ok(isJobError(numeric) && /digits × terms × Γ factors = 110000/.test(numeric.error.message));
+  const batch = runBatch(Array.from({ length: 100 }, () => ({ job: 'special', fn: 'gamma', x: '0.3', digits: 1000 })));
+  assert.ok(!Array.isArray(batch) && isJobError(batch) && batch.error.code === 'limit');
+  // Refusals cost nothing like the work they refuse (each of those runs for tens of seconds).
+  assert.ok(Date.now() - started < 3000, `refusing took ${Date.now() - started} ms`);
+});
+
+test('symbolic coefficients print in one canonical sign convention, and still parse back to the numeric values (mathjs)', () => {
+  const expr = 'gamma(-1+eps)*gamma(1+s-eps)/gamma(s/2)^2';
+  const symbolic = runJob({ job: 'laurent', expr, order: 1 }) as { coeffs: { expr: string }[] };
+  const numeric = runJob({ job: 'laurent', expr, order: 1, at: { s: '1.5' }, digits: 20 }) as { coeffs: string[] };
+  for (const [k, c] of symbolic.coeffs.entries()) {
+    assert.doesNotMatch(c.expr, /\+ -|\(-[a-z]/, `ε^${k - 1}: ${c.expr}`);
+    assert.doesNotMatch(c.expr, /\b1\*/, `no unit factors: ${c.expr}`);
+    // mathjs has Γ but no ψ, so it checks the coefficients free of ψ and γ_E here; the bubble parse-back test covers ψ terms.
+    if (!c.expr.includes('psi') && !c.expr.includes('eulergamma')) {
+      const value = evaluate(c.expr, { s: 1.5 });
+      assert.ok(Math.abs(value - Number(numeric.coeffs[k])) < 1e-12 * Math.max(1, Math.abs(value)), `ε^${k - 1}`);
+    }
+  }
 });
