@@ -39,4 +39,6 @@ function main(): number {
   return failed ? 2 : 0;
 }
 
+// A reader that stops early (e.g. `| head`) closes the pipe: that ends the output, it is not a crash.
+process.stdout.on('error', (error: NodeJS.ErrnoException) => process.exit(error.code === 'EPIPE' ? process.exitCode ?? 0 : 1));
 process.exitCode = main();
