@@ -36,7 +36,7 @@ const Loops = z.union([z.literal(1), z.literal(2)]).default(2);
 const FlowDigits = Digits.max(200).default(30);
 
 export const FlowJob = z.strictObject({ job: z.literal('flow'), model: ModelInput, loops: Loops, s: DecimalString.optional(), digits: FlowDigits });
-export const FixedPointsJob = z.strictObject({ job: z.literal('fixedpoints'), model: ModelInput, d: DecimalString, s: DecimalString, loops: Loops, digits: FlowDigits });
+export const FixedPointsJob = z.strictObject({ job: z.literal('fixedpoints'), model: ModelInput, d: DecimalString.optional(), s: DecimalString.optional(), loops: Loops, digits: FlowDigits });
 export const ExponentsJob = z.strictObject({
   job: z.literal('exponents'),
   model: ModelInput,
@@ -257,18 +257,20 @@ function gaussianOnly(model: ModelSpec, d: string, s: string) {
 
 function runFixedPoints(job: z.infer<typeof FixedPointsJob>) {
   const model = modelFrom(job.model);
-  const d = toExactRational(job.d);
-  checkDimension(d);
-  const s = exactPositive(job.s, 's');
-  checkPropagatorPower(s);
-  const eps = physicalEps(d, s);
-  if (qCompare(eps, q(0)) <= 0) return { eps: qToString(eps), ...gaussianOnly(model, job.d, job.s) };
+  // like exponents: s and d optional (no s: series symbolic in s; no d: series only, no values)
+  const s = job.s === undefined ? null : exactPositive(job.s, 's');
+  if (s) checkPropagatorPower(s);
+  const d = job.d === undefined ? null : toExactRational(job.d);
+  if (d) checkDimension(d);
+  if (d && !s) fail('invalid', 'give s together with d (the expansion is at fixed s)');
+  const eps = d && s ? physicalEps(d, s) : null;
+  if (eps && qCompare(eps, q(0)) <= 0) return { eps: qToString(eps), ...gaussianOnly(model, job.d as string, job.s as string) };
   const any = deriveFor(model, s, job.loops, job.digits);
   const flow = any.flow as DerivedFlow<unknown>;
-  const epsCoefficient = any.mode === 'numeric' ? any.flow.calculus.ctx.ring.fromRational(eps.num, eps.den) : null;
+  const epsCoefficient = any.mode === 'numeric' && eps ? any.flow.calculus.ctx.ring.fromRational(eps.num, eps.den) : null;
   const points = findFixedPoints(model, flow, { eps: epsCoefficient });
-  const quadratic = (p: FixedPoint<unknown>) => (any.mode === 'numeric' && !('member' in model) ? formatQuadratic(any.flow, p as FixedPoint<Real>, s, eps, model.fields, job.digits) : null);
-  return { eps: decimalText(eps, job.digits), meanField: false, fixedPoints: points.map((p) => ({ ...formatFixedPoint(p, flow.couplings, job.digits), quadraticOperators: quadratic(p) })) };
+  const quadratic = (p: FixedPoint<unknown>) => (any.mode === 'numeric' && s && !('member' in model) ? formatQuadratic(any.flow, p as FixedPoint<Real>, s, eps, model.fields, job.digits) : null);
+  return { eps: eps ? decimalText(eps, job.digits) : 'eps', meanField: false, fixedPoints: points.map((p) => ({ ...formatFixedPoint(p, flow.couplings, job.digits), quadraticOperators: quadratic(p) })) };
 }
 
 /** Eigen-operators of the quadratic-operator matrix at a fixed point: series, truncated values, values at the numeric root. */
