@@ -1,4 +1,5 @@
 /** Turning engine results into TeX and plain text. */
+import { monomialTex } from '../../shared/notebook/exports';
 
 export interface SymbolicCoefficient {
   expr: string;
@@ -116,18 +117,6 @@ export const quantityNames: Record<string, string> = {
 
 export const texOfQuantity = (key: string) => quantityTex[key] ?? `\\mathrm{${key.replace(/_/g, '\\_')}}`;
 export const nameOfQuantity = (key: string): string => (key.startsWith('pade:') ? `${nameOfQuantity(key.slice(5))} (Padé)` : quantityNames[key] ?? key);
-
-/** "eps*u^2" → "\varepsilon\, u^{2}". */
-export function monomialTex(monomial: string): string {
-  return monomial
-    .split('*')
-    .map((factor) => {
-      const [base, power] = factor.split('^');
-      const name = base === 'eps' ? '\\varepsilon' : base.length > 1 ? `${base[0]}_{${base.slice(1)}}` : base;
-      return power ? `${name}^{${power}}` : name;
-    })
-    .join('\\,');
-}
 
 /** TeX of Σ coeff·monomial, e.g. β-functions and anomalous dimensions. */
 export function polynomialTex(terms: { monomial: string; coeff: Coefficient }[]): string {

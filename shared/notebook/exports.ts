@@ -84,8 +84,8 @@ const QUANTITY_TEX: Record<string, string> = {
 const quantityTex = (name: string) => QUANTITY_TEX[name] ?? `\\mathrm{${escapeLatexText(name)}}`;
 const isRecord = (value: unknown): value is Record<string, unknown> => typeof value === 'object' && value !== null && !Array.isArray(value);
 
-/** "eps*u^2" → "\varepsilon\,u^{2}". */
-function monomialTex(monomial: string): string {
+/** "eps*u^2" → "\varepsilon\,u^{2}" (also used by the app's result views). */
+export function monomialTex(monomial: string): string {
   return monomial
     .split('*')
     .map((factor) => {

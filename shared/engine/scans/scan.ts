@@ -1,7 +1,6 @@
 import { type Real, GUARD_DIGITS, rationalToReal, realContext } from '../precision/real';
-import { gamma, polygamma, pi, ln2, eulerGamma, zetaInteger } from '../special/index';
-import { evaluateAffine } from '../symbolic/affine';
-import { type Atom, type Expression, atomKey } from '../symbolic/expression';
+import { evaluateAtom } from '../symbolic/evaluate';
+import { type Expression, atomKey } from '../symbolic/expression';
 import { type Q, qCompare, qSub, qMul, q } from '../symbolic/rational';
 import { ratEvaluate } from '../symbolic/ratfunc';
 import { evaluatePade, padeApproximant } from '../pade/pade';
@@ -24,23 +23,6 @@ export interface ScanPoint {
   pade: (Real | null)[];
 }
 
-function atomValue(a: Atom, at: Record<string, Q>, digits: number): Real {
-  switch (a.kind) {
-    case 'pi':
-      return pi(digits);
-    case 'log2':
-      return ln2(digits);
-    case 'eulergamma':
-      return eulerGamma(digits);
-    case 'zeta':
-      return zetaInteger(a.n, digits);
-    case 'psi':
-      return polygamma(a.order, evaluateAffine(a.arg, at), digits);
-    case 'gamma':
-      return gamma(evaluateAffine(a.arg, at), digits);
-  }
-}
-
 export function evaluateAtPoint(e: Expression, at: Record<string, Q>, digits: number, atoms: Map<string, Real>): Real {
   const R = realContext(digits);
   let sum = new R(0);
@@ -50,7 +32,7 @@ export function evaluateAtPoint(e: Expression, at: Record<string, Q>, digits: nu
       const key = atomKey(p.atom);
       let base = atoms.get(key);
       if (!base) {
-        base = atomValue(p.atom, at, digits);
+        base = evaluateAtom(p.atom, at, digits);
         atoms.set(key, base);
       }
       term = term.times(p.exponent.den === 1n ? base.pow(p.exponent.num.toString()) : base.pow(new R(p.exponent.num.toString()).div(p.exponent.den.toString())));

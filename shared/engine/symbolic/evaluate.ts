@@ -23,7 +23,8 @@ export function evaluateExpression(e: Expression, values: Readonly<Record<string
   return new (realContext(digits))(sum).toSignificantDigits(digits);
 }
 
-function evaluateAtom(a: Atom, values: Readonly<Record<string, Q>>, digits: number): Real {
+/** The value of one atom (ψ, Γ, π, ln 2, γ_E, ζ(n)) at numeric parameter values. */
+export function evaluateAtom(a: Atom, values: Readonly<Record<string, Q>>, digits: number): Real {
   switch (a.kind) {
     case 'pi':
       return pi(digits);
