@@ -2,7 +2,7 @@ import { type DerivedFlow } from '../diagrams/renormalization';
 import { jacobianPolynomials } from '../flows/flow';
 import { type CouplingPolynomial } from '../models/couplingPolynomial';
 import { type Real } from '../precision/real';
-import { type Complex, cabs, cadd, cdiv, cmul, csub, solveComplex } from './linear';
+import { type Complex, cabs, cadd, cmul, complexPolynomialRoots, csub, solveComplex } from './linear';
 
 /** A complex number with arbitrary-precision parts. */
 export interface ComplexReal {
@@ -131,32 +131,6 @@ export function complexRootNear(flow: DerivedFlow<Real>, seriesAt: (eps: number)
   return null;
 }
 
-/** Complex Durand–Kerner on Σ coeffs[k] x^k with complex coefficients (double precision). */
-function complexPolynomialRoots(coeffs: Complex[]): Complex[] {
-  const n = coeffs.length - 1;
-  if (n < 1) return [];
-  const lead = coeffs[n];
-  const cc = coeffs.map((x) => cdiv(x, lead));
-  const evalAt = (z: Complex) => {
-    let s: Complex = { re: 0, im: 0 };
-    for (let k = n; k >= 0; k--) s = cadd(cmul(s, z), cc[k]);
-    return s;
-  };
-  const radius = 1 + Math.max(...cc.slice(0, n).map(cabs));
-  let z: Complex[] = Array.from({ length: n }, (_, k) => ({ re: radius * Math.cos((2 * Math.PI * k) / n + 0.4), im: radius * Math.sin((2 * Math.PI * k) / n + 0.4) }));
-  for (let iter = 0; iter < 500; iter++) {
-    let moved = 0;
-    z = z.map((zi, i) => {
-      let den: Complex = { re: 1, im: 0 };
-      z.forEach((zj, j) => j !== i && (den = cmul(den, csub(zi, zj))));
-      const step = cdiv(evalAt(zi), den);
-      moved = Math.max(moved, cabs(step));
-      return csub(zi, step);
-    });
-    if (moved < 1e-15 * radius) break;
-  }
-  return z;
-}
 
 /**
  * Eigenvalues of a (real or complex) matrix in full precision: characteristic polynomial by

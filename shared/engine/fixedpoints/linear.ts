@@ -58,18 +58,23 @@ export function solveComplex(matrix: Complex[][], rhs: Complex[]): Complex[] | n
   return a.map((row, i) => cdiv(row[m], row[i]));
 }
 
-/** Roots of a monic-normalised real polynomial Σ c_k x^k (Durand–Kerner, double precision). */
+/** Roots of Σ c_k x^k with real coefficients (double precision). */
 export function polynomialRoots(coeffs: number[]): Complex[] {
+  return complexPolynomialRoots(coeffs.map((re) => ({ re, im: 0 })));
+}
+
+/** Roots of Σ c_k x^k with complex coefficients: Durand–Kerner in double precision. */
+export function complexPolynomialRoots(coeffs: Complex[]): Complex[] {
   const n = coeffs.length - 1;
   if (n < 1) return [];
   const lead = coeffs[n];
-  const c = coeffs.map((x) => x / lead);
+  const cc = coeffs.map((x) => cdiv(x, lead));
   const evalAt = (z: Complex) => {
     let s: Complex = { re: 0, im: 0 };
-    for (let k = n; k >= 0; k--) s = cadd(cmul(s, z), { re: c[k], im: 0 });
+    for (let k = n; k >= 0; k--) s = cadd(cmul(s, z), cc[k]);
     return s;
   };
-  const radius = 1 + Math.max(...c.slice(0, n).map(Math.abs));
+  const radius = 1 + Math.max(...cc.slice(0, n).map(cabs));
   let z: Complex[] = Array.from({ length: n }, (_, k) => ({ re: radius * Math.cos((2 * Math.PI * k) / n + 0.4), im: radius * Math.sin((2 * Math.PI * k) / n + 0.4) }));
   for (let iter = 0; iter < 500; iter++) {
     let moved = 0;
