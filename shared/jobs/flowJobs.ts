@@ -199,6 +199,16 @@ function runFlow(job: z.infer<typeof FlowJob>) {
   return { model: model.label, s: job.s ?? 's', ...flowSummary(f, job.digits), trail: f.trail.map((t) => formatTrail(t, f.couplings, job.digits)) };
 }
 
+/** s and d of a job, both optional (no s: series symbolic in s; no d: series only), checked, with ε = 2s − d. */
+function expansionPoint(job: { s?: string; d?: string }): { s: Q | null; d: Q | null; eps: Q | null } {
+  const s = job.s === undefined ? null : exactPositive(job.s, 's');
+  if (s) checkPropagatorPower(s);
+  const d = job.d === undefined ? null : toExactRational(job.d);
+  if (d) checkDimension(d);
+  if (d && !s) fail('invalid', 'give s together with d (the expansion is at fixed s)');
+  return { s, d, eps: d && s ? physicalEps(d, s) : null };
+}
+
 function physicalEps(d: Q, s: Q): Q {
   return qSub(qMul(q(2), s), d);
 }
@@ -257,13 +267,7 @@ function gaussianOnly(model: ModelSpec, d: string, s: string) {
 
 function runFixedPoints(job: z.infer<typeof FixedPointsJob>) {
   const model = modelFrom(job.model);
-  // like exponents: s and d optional (no s: series symbolic in s; no d: series only, no values)
-  const s = job.s === undefined ? null : exactPositive(job.s, 's');
-  if (s) checkPropagatorPower(s);
-  const d = job.d === undefined ? null : toExactRational(job.d);
-  if (d) checkDimension(d);
-  if (d && !s) fail('invalid', 'give s together with d (the expansion is at fixed s)');
-  const eps = d && s ? physicalEps(d, s) : null;
+  const { s, eps } = expansionPoint(job);
   if (eps && qCompare(eps, q(0)) <= 0) return { eps: qToString(eps), ...gaussianOnly(model, job.d as string, job.s as string) };
   const any = deriveFor(model, s, job.loops, job.digits);
   const flow = any.flow as DerivedFlow<unknown>;
@@ -328,12 +332,7 @@ function singletAtPoint(any: AnyFlow, point: FixedPoint<unknown>, s: Q | null, m
 
 function runExponents(job: z.infer<typeof ExponentsJob>) {
   const model = modelFrom(job.model);
-  const s = job.s === undefined ? null : exactPositive(job.s, 's');
-  if (s) checkPropagatorPower(s);
-  const d = job.d === undefined ? null : toExactRational(job.d);
-  if (d) checkDimension(d);
-  if (d && !s) fail('invalid', 'give s together with d (the expansion is at fixed s)');
-  const eps = d && s ? physicalEps(d, s) : null;
+  const { s, d, eps } = expansionPoint(job);
   if (eps && qCompare(eps, q(0)) <= 0) {
     const { statement, ...values } = meanFieldValues(job.d as string, job.s as string);
     return { eps: qToString(eps), meanField: true, statement, fixedPoint: 'Gaussian', values };
