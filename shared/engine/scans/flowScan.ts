@@ -7,8 +7,8 @@ import { type ModelSpec } from '../models/model';
 import { EngineError } from '../precision/errors';
 import { type Real, GUARD_DIGITS, rationalToReal, realContext } from '../precision/real';
 import { type Expression } from '../symbolic/expression';
-import { type Q, q, qCompare, qMul, qSub } from '../symbolic/rational';
-import { type ScanPoint, evaluateAtPoint, meanFieldEnd, padeValue } from './scan';
+import { type Q, q, qCompare } from '../symbolic/rational';
+import { type ScanPoint, evaluateAtPoint, padeValue, walkGrid } from './scan';
 
 /**
  * Scans of models with several couplings: the flow is derived once symbolically in s; at each
@@ -62,13 +62,7 @@ export function flowAtS(flow: DerivedFlow<Expression>, s: Q, digits: number): De
 
 export function scanFlow(request: FlowScanRequest): FlowScanPoint[] {
   const out = realContext(request.digits);
-  const half = meanFieldEnd(request.d);
-  const total = request.sValues.length;
-  const reportEvery = Math.max(1, Math.floor(total / 100));
-  return request.sValues.map((s, index) => {
-    if (request.onProgress && index % reportEvery === 0) request.onProgress(index / total);
-    const eps = qSub(qMul(q(2), s), request.d);
-    const regime = qCompare(s, half) <= 0 ? 'mean-field' : request.shortRangeS && qCompare(s, request.shortRangeS) >= 0 ? 'short-range' : 'long-range';
+  return walkGrid(request, (s, eps, regime) => {
     if (regime === 'mean-field') {
       // s ≤ d/2: the Gaussian point is IR-stable and the mean-field values are exact (no series at ε ≤ 0)
       const work = request.digits + GUARD_DIGITS;

@@ -67,17 +67,31 @@ export function crossoverS(d: Q, deltaSigma: Q): Q {
   return qSub(d, qMul(q(2), deltaSigma));
 }
 
+export type Regime = ScanPoint['regime'];
+
+/**
+ * Visit every s of a scan grid with its ε = 2s − d and regime (mean-field for s ≤ d/2, short-range
+ * for s ≥ s*), reporting progress about a hundred times.
+ */
+export function walkGrid<T>(
+  grid: { d: Q; sValues: Q[]; shortRangeS: Q | null; onProgress?: (fraction: number) => void },
+  visit: (s: Q, eps: Q, regime: Regime) => T,
+): T[] {
+  const half = meanFieldEnd(grid.d);
+  const total = grid.sValues.length;
+  const reportEvery = Math.max(1, Math.floor(total / 100));
+  return grid.sValues.map((s, index) => {
+    if (grid.onProgress && index % reportEvery === 0) grid.onProgress(index / total);
+    const regime: Regime = qCompare(s, half) <= 0 ? 'mean-field' : grid.shortRangeS && qCompare(s, grid.shortRangeS) >= 0 ? 'short-range' : 'long-range';
+    return visit(s, qSub(qMul(q(2), s), grid.d), regime);
+  });
+}
+
 export function scanSeries(request: ScanRequest): ScanPoint[] {
   const work = request.digits + GUARD_DIGITS;
   const R = realContext(work);
   const out = realContext(request.digits);
-  const half = meanFieldEnd(request.d);
-  const total = request.sValues.length;
-  const reportEvery = Math.max(1, Math.floor(total / 100));
-  return request.sValues.map((s, index) => {
-    if (request.onProgress && index % reportEvery === 0) request.onProgress(index / total);
-    const eps = qSub(qMul(q(2), s), request.d);
-    const regime = qCompare(s, half) <= 0 ? 'mean-field' : request.shortRangeS && qCompare(s, request.shortRangeS) >= 0 ? 'short-range' : 'long-range';
+  return walkGrid(request, (s, eps, regime) => {
     if (regime === 'mean-field' && request.quantities) {
       const mf = meanFieldReals(rationalToReal(request.d, work), rationalToReal(s, work));
       return { s, eps, regime, values: request.quantities.map((k) => new out(mf[k]).toSignificantDigits(request.digits)), pade: request.quantities.map(() => null) };
