@@ -57,7 +57,7 @@ export function createApp(services: Services): Express {
   app.disable('x-powered-by');
   // Replies are small and rarely repeated byte for byte; hashing every body for an ETag costs more than it saves.
   app.set('etag', false);
-  app.set('trust proxy', 'loopback');
+  app.set('trust proxy', services.config.trustProxy);
   app.use(
     pinoHttp({
       logger: services.logger,

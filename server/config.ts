@@ -2,6 +2,8 @@ import path from 'node:path';
 
 /** Runtime settings, read once from the environment. Every value has a working default. */
 export interface ServerConfig {
+  /** NODE_ENV=production: safe defaults (no demo data, no mail fake, SMTP required). */
+  production: boolean;
   port: number;
   host: string;
   databasePath: string;
@@ -12,9 +14,25 @@ export interface ServerConfig {
   logLevel: string;
   mail: MailConfig;
   signInLimits: { perIpPer15Min: number; perAccountPer15Min: number };
+  /** Sign-up, forgot-password and reset requests per source per 15 minutes; e-mails (invitations, mentions) per sender per hour. */
+  authLimits: { signUpPerIpPer15Min: number; forgotPerIpPer15Min: number; resetPerIpPer15Min: number; mailPerSenderPerHour: number };
+  /** Express 'trust proxy' setting: false (default) ignores X-Forwarded-* headers. */
+  trustProxy: boolean | number | string;
   seedDemoData: boolean;
-  jobs: { threads: number; timeLimitMs: number };
+  jobs: JobQueueConfig;
   bodyLimit: string;
+}
+
+export interface JobQueueConfig {
+  threads: number;
+  /** Engine time allowed per job. */
+  timeLimitMs: number;
+  /** Jobs one person may have waiting in the queue (not yet running). */
+  perUserQueued: number;
+  /** Jobs of one person that may run at the same time. */
+  perUserRunning: number;
+  /** How long a job may wait in the queue before it is given up. */
+  queueWaitLimitMs: number;
 }
 
 export interface MailConfig {
@@ -40,11 +58,23 @@ function boolFrom(value: string | undefined, fallback: boolean): boolean {
   return ['1', 'true', 'yes', 'on'].includes(value.toLowerCase());
 }
 
+/** TRUST_PROXY: unset/false = trust no proxy; true; a hop count; or an address list such as 'loopback, 10.0.0.0/8'. */
+function trustProxyFrom(value: string | undefined): boolean | number | string {
+  if (value === undefined || value === '' || ['0', 'false', 'no', 'off'].includes(value.toLowerCase())) return false;
+  if (['true', 'yes', 'on'].includes(value.toLowerCase())) return true;
+  if (/^\d+$/.test(value)) return Number(value);
+  return value;
+}
+
+export class ConfigError extends Error {}
+
 export function loadConfig(env: Record<string, string | undefined> = process.env): ServerConfig {
+  const production = env.NODE_ENV === 'production';
   const port = intFrom(env.PORT, 8080);
   const host = env.HOST ?? '127.0.0.1';
   const publicUrl = (env.PUBLIC_URL ?? `http://localhost:${port}`).replace(/\/+$/, '');
-  return {
+  const config: ServerConfig = {
+    production,
     port,
     host,
     databasePath: env.DATABASE_PATH ?? path.resolve('data', 'rungbook.sqlite'),
@@ -53,7 +83,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     webRoot: env.WEB_ROOT ?? path.resolve('dist'),
     logLevel: env.LOG_LEVEL ?? 'info',
     mail: {
-      startFake: boolFrom(env.MAIL_FAKE, true),
+      startFake: boolFrom(env.MAIL_FAKE, !production),
       smtpHost: env.SMTP_HOST ?? '127.0.0.1',
       smtpPort: intFrom(env.SMTP_PORT, 2525),
       smtpSecure: boolFrom(env.SMTP_SECURE, false),
@@ -65,8 +95,27 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
       perIpPer15Min: intFrom(env.SIGNIN_LIMIT_PER_IP, 30),
       perAccountPer15Min: intFrom(env.SIGNIN_LIMIT_PER_ACCOUNT, 8),
     },
-    seedDemoData: boolFrom(env.SEED_DEMO_DATA, true),
-    jobs: { threads: Math.max(1, intFrom(env.JOB_THREADS, 2)), timeLimitMs: intFrom(env.JOB_TIME_LIMIT_MS, 120_000) },
+    authLimits: {
+      signUpPerIpPer15Min: intFrom(env.SIGNUP_LIMIT_PER_IP, 10),
+      forgotPerIpPer15Min: intFrom(env.FORGOT_LIMIT_PER_IP, 10),
+      resetPerIpPer15Min: intFrom(env.RESET_LIMIT_PER_IP, 20),
+      mailPerSenderPerHour: intFrom(env.MAIL_LIMIT_PER_SENDER, 30),
+    },
+    trustProxy: trustProxyFrom(env.TRUST_PROXY),
+    seedDemoData: boolFrom(env.SEED_DEMO_DATA, !production),
+    jobs: {
+      threads: Math.max(1, intFrom(env.JOB_THREADS, 2)),
+      timeLimitMs: intFrom(env.JOB_TIME_LIMIT_MS, 120_000),
+      perUserQueued: Math.max(1, intFrom(env.JOB_QUEUE_PER_USER, 8)),
+      perUserRunning: Math.max(1, intFrom(env.JOB_RUNNING_PER_USER, 1)),
+      queueWaitLimitMs: intFrom(env.JOB_QUEUE_WAIT_LIMIT_MS, 600_000),
+    },
     bodyLimit: env.BODY_LIMIT ?? '100kb',
   };
+  if (production && !config.mail.startFake && !env.SMTP_HOST) {
+    throw new ConfigError(
+      'NODE_ENV=production sends real e-mail (sign-up verification, password resets): set SMTP_HOST (and SMTP_PORT, SMTP_USER, SMTP_PASSWORD, SMTP_SECURE as your relay needs), or MAIL_FAKE=true to capture mail locally.',
+    );
+  }
+  return config;
 }

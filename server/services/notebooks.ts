@@ -7,21 +7,10 @@ import type { SignedInUser } from '../auth/sessions';
 import { Cell, GroupMembership, JobRun, Notebook, ResearchGroup, User } from '../db/entities';
 import { AppError } from '../http/errors';
 import { newId } from '../ids';
-import { customModel } from '../../shared/engine/models/custom';
+import { assertCellAccepted } from './cellChecks';
 import { toRunView, type RunService } from './runs';
 
 export const MAX_CELLS_PER_NOTEBOOK = 200;
-
-/** A custom potential is parsed by the engine when the cell is saved, so a bad one never waits for a run. */
-function assertModelAccepted(input: CellInput): void {
-  if (input.kind !== 'setup' || input.model.preset !== 'custom') return;
-  try {
-    customModel(input.model.fields, input.model.potential);
-  } catch (error) {
-    const message = error instanceof Error ? error.message : String(error);
-    throw new AppError('validation_failed', `The potential is not a quartic model: ${message}`, { 'input.model.potential': message });
-  }
-}
 
 export interface NotebookAccess {
   notebook: Notebook;
@@ -55,7 +44,10 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
     return rows.map((row) => row.groupId);
   }
 
-  /** Owners and members of the notebook's group may view and edit; site admins may view any notebook. */
+  /**
+   * Owners and members of the notebook's group may view and edit. Site admins have no special access to
+   * notebooks: they manage accounts and read captured mail, not other people's research.
+   */
   // Every notebook request starts here, so it is one prepared statement rather than two ORM queries.
   const accessQuery = sqliteHandle(dataSource).prepare(
     `SELECT n.id, n.title, n.summary, n.ownerId, n.groupId, n.createdAt, n.updatedAt,
@@ -76,7 +68,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
       updatedAt: sqliteDate(row.updatedAt!),
     });
     const canEdit = notebook.ownerId === viewer.id || row.inGroup === 1;
-    if (!canEdit && viewer.siteRole !== 'admin') throw new AppError('not_found', 'No such notebook.');
+    if (!canEdit) throw new AppError('not_found', 'No such notebook.');
     return { notebook, canEdit };
   }
 
@@ -235,7 +227,13 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
 
     async update(viewer: SignedInUser, notebookId: string, patch: { title?: string; summary?: string; groupId?: string | null }) {
       const notebook = await editable(viewer, notebookId);
-      if (patch.groupId !== undefined) await assertGroupMember(viewer, patch.groupId);
+      if (patch.groupId !== undefined && patch.groupId !== notebook.groupId) {
+        // Moving a notebook into or out of a group changes who can reach it: the owner's decision alone.
+        if (notebook.ownerId !== viewer.id) {
+          throw new AppError('forbidden', 'Only the notebook\'s owner can move it into or out of a group.', { groupId: 'Only the owner can change this' });
+        }
+        await assertGroupMember(viewer, patch.groupId);
+      }
       await notebooks.update({ id: notebook.id }, { ...patch, updatedAt: new Date() });
       return detail(viewer, notebookId);
     },
@@ -249,7 +247,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
 
     async addCell(viewer: SignedInUser, notebookId: string, input: { label: string; input: CellInput; position?: number }) {
       await editable(viewer, notebookId);
-      assertModelAccepted(input.input);
+      assertCellAccepted(input.input);
       await dataSource.transaction(async (manager) => {
         const existing = await orderedCells(notebookId, manager);
         if (existing.length >= MAX_CELLS_PER_NOTEBOOK) throw new AppError('conflict', `A notebook holds at most ${MAX_CELLS_PER_NOTEBOOK} cells.`);
@@ -267,7 +265,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
 
     async updateCell(viewer: SignedInUser, notebookId: string, cellId: string, patch: { label?: string; input?: CellInput; revision: number }) {
       await editable(viewer, notebookId);
-      if (patch.input) assertModelAccepted(patch.input);
+      if (patch.input) assertCellAccepted(patch.input);
       await dataSource.transaction(async (manager) => {
         const cell = await manager.findOneBy(Cell, { id: cellId, notebookId });
         if (!cell) throw new AppError('not_found', 'No such cell.');

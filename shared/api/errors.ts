@@ -3,6 +3,10 @@ export const errorStatus = {
   validation_failed: 400,
   malformed_json: 400,
   invalid_reset_token: 400,
+  invalid_verification_token: 400,
+  unsupported_encoding: 415,
+  job_too_large: 422,
+  email_not_verified: 403,
   unauthenticated: 401,
   wrong_credentials: 401,
   forbidden: 403,
@@ -12,6 +16,7 @@ export const errorStatus = {
   conflict: 409,
   payload_too_large: 413,
   rate_limited: 429,
+  queue_full: 429,
   internal: 500,
   mail_unavailable: 503,
 } as const;
