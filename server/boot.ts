@@ -35,7 +35,8 @@ export async function startRungbook(config: ServerConfig, logger: Logger, option
   const mailer = createMailer(config.mail, logger);
   await failInterruptedRuns(dataSource);
   const services = createServices(config, logger, dataSource, mailer, createWorkerPoolRunner({ threads: config.jobs.threads }));
-  const demoDataCreated = config.seedDemoData ? await seedDemoDataIfEmpty(dataSource) : false;
+  const demoSeed = config.production ? { production: { password: config.demoPassword } } : {};
+  const demoDataCreated = config.seedDemoData ? await seedDemoDataIfEmpty(dataSource, demoSeed) : false;
   const app = createApp(services);
 
   let server: Server | undefined;

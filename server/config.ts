@@ -19,6 +19,8 @@ export interface ServerConfig {
   /** Express 'trust proxy' setting: false (default) ignores X-Forwarded-* headers. */
   trustProxy: boolean | number | string;
   seedDemoData: boolean;
+  /** Production demo seed only: the password every demo person gets (unset = random, unknown to anyone). */
+  demoPassword?: string;
   jobs: JobQueueConfig;
   bodyLimit: string;
 }
@@ -103,6 +105,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     },
     trustProxy: trustProxyFrom(env.TRUST_PROXY),
     seedDemoData: boolFrom(env.SEED_DEMO_DATA, !production),
+    demoPassword: env.DEMO_PASSWORD || undefined,
     jobs: {
       threads: Math.max(1, intFrom(env.JOB_THREADS, 2)),
       timeLimitMs: intFrom(env.JOB_TIME_LIMIT_MS, 120_000),

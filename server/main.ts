@@ -1,15 +1,15 @@
 import 'reflect-metadata';
 import { pino } from 'pino';
 import { startRungbook } from './boot';
-import { loadConfig } from './config';
+import { ConfigError, loadConfig } from './config';
 import { demoPeople } from './seed/demo';
 
 async function main() {
-  const config = loadConfig();
+  const config = loadConfigOrExit();
   const logger = pino({ level: config.logLevel });
   const rungbook = await startRungbook(config, logger, { listen: true });
   logger.info({ databasePath: config.databasePath, port: rungbook.port, demoDataCreated: rungbook.demoDataCreated }, 'started');
-  printWelcome(config.publicUrl, config.seedDemoData, config.mail.startFake);
+  printWelcome(config.publicUrl, config.seedDemoData && !config.production, config.mail.startFake && !config.production);
 
   let stopping = false;
   async function shutdown(signal: string) {
@@ -26,6 +26,17 @@ async function main() {
   process.on('SIGTERM', () => void shutdown('SIGTERM'));
 }
 
+function loadConfigOrExit() {
+  try {
+    return loadConfig();
+  } catch (error) {
+    if (!(error instanceof ConfigError)) throw error;
+    process.stderr.write(`Rungbook refuses to start: ${error.message}\n`);
+    process.exit(1);
+  }
+}
+
+/** Local starts print the demo sign-ins; production starts never print a password. */
 function printWelcome(publicUrl: string, demo: boolean, mailFake: boolean) {
   const lines = [``, `  Rungbook is running at ${publicUrl}`];
   if (demo) {

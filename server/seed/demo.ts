@@ -1,3 +1,4 @@
+import { randomBytes } from 'node:crypto';
 import type { DataSource } from 'typeorm';
 import { hashPassword } from '../auth/passwords';
 import { Cell, GroupMembership, Notebook, ResearchGroup, User } from '../db/entities';
@@ -58,15 +59,32 @@ export const demoNotebook: { title: string; summary: string; cells: { label: str
   ],
 };
 
+export interface DemoSeedOptions {
+  /**
+   * Production seeding (NODE_ENV=production with SEED_DEMO_DATA=true): no demo site admin, and the
+   * published demo passwords are not used — every demo person gets `password` (DEMO_PASSWORD) or, when
+   * that is unset, a random one nobody knows (the account is usable only after a password reset).
+   */
+  production?: { password?: string };
+}
+
+/** The demo people a seed creates: everyone locally; in production nobody with site-admin rights. */
+export function demoPeopleFor(options: DemoSeedOptions = {}): DemoPerson[] {
+  if (!options.production) return demoPeople;
+  const password = () => options.production?.password || randomBytes(24).toString('base64url');
+  return demoPeople.filter((person) => person.siteRole !== 'admin').map((person) => ({ ...person, password: password() }));
+}
+
 /** Create the demo group and people when the database has no users yet. Returns whether it did. */
-export async function seedDemoDataIfEmpty(dataSource: DataSource): Promise<boolean> {
+export async function seedDemoDataIfEmpty(dataSource: DataSource, options: DemoSeedOptions = {}): Promise<boolean> {
   if ((await dataSource.getRepository(User).count()) > 0) return false;
-  const hashes = await Promise.all(demoPeople.map((person) => hashPassword(person.password)));
+  const people = demoPeopleFor(options);
+  const hashes = await Promise.all(people.map((person) => hashPassword(person.password)));
   await dataSource.transaction(async (manager) => {
     const groupId = newId();
     await manager.insert(ResearchGroup, { id: groupId, ...demoGroup });
     const userIds: string[] = [];
-    for (const [index, person] of demoPeople.entries()) {
+    for (const [index, person] of people.entries()) {
       const userId = newId();
       await manager.insert(User, {
         id: userId,
@@ -79,7 +97,7 @@ export async function seedDemoDataIfEmpty(dataSource: DataSource): Promise<boole
       userIds.push(userId);
       if (person.groupRole) await manager.insert(GroupMembership, { groupId, userId, role: person.groupRole });
     }
-    const leadId = userIds[demoPeople.findIndex((p) => p.groupRole === 'lead')];
+    const leadId = userIds[people.findIndex((p) => p.groupRole === 'lead')];
     const notebookId = newId();
     await manager.insert(Notebook, { id: notebookId, title: demoNotebook.title, summary: demoNotebook.summary, ownerId: leadId, groupId });
     for (const [position, cell] of demoNotebook.cells.entries()) {

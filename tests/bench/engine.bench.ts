@@ -42,8 +42,8 @@ function benchmarkPoints(): string[] {
 function ensureMpmath(): void {
   const probe = spawnSync('python3', ['-c', 'import mpmath'], { encoding: 'utf8' });
   if (probe.status === 0) return;
-  console.log('mpmath not found: apt-get install -y python3-mpmath');
-  execFileSync('apt-get', ['install', '-y', 'python3-mpmath'], { stdio: 'inherit' });
+  // Benchmarks, like tests, never install system packages themselves.
+  throw new Error('The reference run needs mpmath: install Debian\'s python3-mpmath.');
 }
 
 const MPMATH_SCRIPT = `

@@ -18,8 +18,8 @@ import { toExactRational } from '../../shared/engine/precision/real';
 function ensurePythonPackages(): void {
   const probe = spawnSync('python3', ['-c', 'import sympy, mpmath']);
   if (probe.status === 0) return;
-  console.log('installing python3-sympy (Debian package) …');
-  spawnSync('sh', ['-c', 'sudo -n apt-get install -y python3-sympy python3-mpmath || apt-get install -y python3-sympy python3-mpmath'], { stdio: 'inherit' });
+  // Benchmarks, like tests, never install system packages themselves.
+  throw new Error('The reference run needs sympy and mpmath: install Debian\'s python3-sympy and python3-mpmath.');
 }
 
 function derive() {

@@ -10,14 +10,10 @@ const ROOT = path.resolve(__dirname, '..', '..');
 const CHROMIUM = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
 const SOURCE_DIRS = ['app', 'components', 'hooks', 'constants', 'shared', 'assets', 'public'];
 
+/** The browser is a system package: CI (.ci/run) installs it; a test never installs anything itself. */
 function ensureChromium() {
   if (fs.existsSync(CHROMIUM)) return;
-  if (process.getuid?.() !== 0) {
-    throw new Error(`Chromium is missing at ${CHROMIUM}. Install it with "sudo apt-get install -y chromium" or set CHROMIUM_PATH.`);
-  }
-  console.log('e2e: Chromium missing, installing it with apt-get …');
-  execFileSync('apt-get', ['update', '-qq'], { stdio: 'inherit' });
-  execFileSync('apt-get', ['install', '-y', '-qq', 'chromium'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+  throw new Error(`Chromium is missing at ${CHROMIUM}: install Debian's package "chromium" (bash .ci/run does) or set CHROMIUM_PATH.`);
 }
 
 function newestMtime(dir: string): number {
