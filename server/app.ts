@@ -5,7 +5,7 @@ import express, { type Express } from 'express';
 import { pinoHttp } from 'pino-http';
 import { apiNotFound, errorHandler, sameOriginGuard, sessionLoader } from './http/middleware';
 import { mailRequestLimiter, signInLimiters } from './http/rateLimits';
-import { mount } from './http/route';
+import { mount, type AnyRouteSpec } from './http/route';
 import { adminRoutes } from './routes/admin';
 import { authRoutes } from './routes/auth';
 import { groupRoutes } from './routes/groups';
@@ -14,6 +14,19 @@ import { notebookRoutes } from './routes/notebooks';
 import { openApiRoutes } from './routes/openapi';
 import { runRoutes } from './routes/runs';
 import type { Services } from './services';
+
+/** Every API route, in mounting order: the single table the router, the OpenAPI document and the access-matrix test read. */
+export function apiRouteTable(services: Services): AnyRouteSpec[] {
+  const specs = [
+    ...healthRoutes(services),
+    ...authRoutes(services),
+    ...groupRoutes(services),
+    ...notebookRoutes(services),
+    ...runRoutes(services),
+    ...adminRoutes(services),
+  ];
+  return [...specs, ...openApiRoutes(() => specs)];
+}
 
 function apiRouter(services: Services) {
   const router = express.Router();
@@ -24,15 +37,7 @@ function apiRouter(services: Services) {
   router.post('/auth/sign-in', ...signInLimiters(services.config.signInLimits));
   router.post('/auth/forgot', mailRequestLimiter());
   router.use(sessionLoader(services.sessions));
-  const specs = [
-    ...healthRoutes(services),
-    ...authRoutes(services),
-    ...groupRoutes(services),
-    ...notebookRoutes(services),
-    ...runRoutes(services),
-    ...adminRoutes(services),
-  ];
-  mount(router, [...specs, ...openApiRoutes(() => specs)]);
+  mount(router, apiRouteTable(services));
   router.use(apiNotFound);
   return router;
 }
