@@ -3,8 +3,9 @@ import path from 'node:path';
 import cors from 'cors';
 import express, { type Express } from 'express';
 import { pinoHttp } from 'pino-http';
+import { acceptedBodyEncodings, boundedBodyDepth, noStore, rejectMalformedPath, securityHeaders, webNotFound } from './http/hardening';
 import { apiNotFound, errorHandler, sameOriginGuard, sessionLoader } from './http/middleware';
-import { mailRequestLimiter, signInLimiters } from './http/rateLimits';
+import { authRequestLimiters, signInLimiters } from './http/rateLimits';
 import { mount, type AnyRouteSpec } from './http/route';
 import { adminRoutes } from './routes/admin';
 import { authRoutes } from './routes/auth';
@@ -31,12 +32,19 @@ export function apiRouteTable(services: Services): AnyRouteSpec[] {
 function apiRouter(services: Services) {
   const router = express.Router();
   const { publicUrl, extraAppOrigins } = services.config;
+  router.use(noStore);
   if (extraAppOrigins.length) router.use(cors({ origin: extraAppOrigins, credentials: true }));
+  router.use(acceptedBodyEncodings);
   router.use(express.json({ limit: services.config.bodyLimit }));
+  router.use(boundedBodyDepth);
   router.use(sameOriginGuard([publicUrl, ...extraAppOrigins], services.sessions.cookieName));
-  router.post('/auth/sign-in', ...signInLimiters(services.config.signInLimits));
-  router.post('/auth/forgot', mailRequestLimiter());
+  const authLimits = authRequestLimiters(services.config.authLimits);
+  router.post('/auth/sign-in', ...signInLimiters(services.config.signInLimits, services.knownDevices));
+  router.post('/auth/sign-up', authLimits.signUp);
+  router.post('/auth/forgot', authLimits.forgot);
+  router.post('/auth/reset', authLimits.reset);
   router.use(sessionLoader(services.sessions));
+  router.post('/auth/verify/resend', authLimits.resendVerification);
   mount(router, apiRouteTable(services));
   router.use(apiNotFound);
   return router;
@@ -70,8 +78,11 @@ export function createApp(services: Services): Express {
       serializers: { req: (req) => ({ method: req.method, url: req.url }), res: (res) => ({ status: res.statusCode }) },
     }),
   );
+  app.use(securityHeaders(services.config.publicUrl));
+  app.use(rejectMalformedPath);
   app.use('/api', apiRouter(services));
   app.use(webApp(services.config.webRoot));
+  app.use(webNotFound);
   app.use(errorHandler(services.logger));
   return app;
 }

@@ -32,7 +32,7 @@ export async function startRungbook(config: ServerConfig, logger: Logger, option
     smtpFake = await startSmtpFake(dataSource, config.mail.smtpPort, logger);
     config.mail.smtpPort = smtpFake.port;
   }
-  const mailer = createMailer(config.mail, logger);
+  const mailer = createMailer(config.mail, logger, smtpFake?.credential);
   await failInterruptedRuns(dataSource);
   const services = createServices(config, logger, dataSource, mailer, createWorkerPoolRunner({ threads: config.jobs.threads }));
   const demoSeed = config.production ? { production: { password: config.demoPassword } } : {};
@@ -62,7 +62,7 @@ export async function startRungbook(config: ServerConfig, logger: Logger, option
         await closed;
       }
       await services.runs.close();
-      mailer.close();
+      await mailer.close();
       await smtpFake?.stop();
       if (dataSource.isInitialized) await dataSource.destroy();
     },

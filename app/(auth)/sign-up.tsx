@@ -1,11 +1,10 @@
-import { router } from 'expo-router';
 import { AuthFrame } from '../../components/auth/AuthFrame';
 import { SignUpForm } from '../../components/auth/SignUpForm';
 
 export default function SignUpRoute() {
   return (
     <AuthFrame title="Create an account">
-      <SignUpForm onSignedUp={() => router.replace('/notebooks')} />
+      <SignUpForm />
     </AuthFrame>
   );
 }

@@ -9,7 +9,8 @@ import { AuthLink } from './AuthLink';
 import { checkLocally, errorsFromServer, type FormErrors } from './formErrors';
 import { formStyles } from './formStyles';
 
-export function SignUpForm({ onSignedUp }: { onSignedUp: (notices: string[]) => void }) {
+/** Sign-up answers "check your inbox" whether or not the address is new; the e-mailed link finishes it. */
+export function SignUpForm() {
   const [name, setName] = useState('');
   const [email, setEmail] = useState('');
   const [password, setPassword] = useState('');
@@ -20,12 +21,19 @@ export function SignUpForm({ onSignedUp }: { onSignedUp: (notices: string[]) => 
     const { data, errors: localErrors } = checkLocally(signUpInput, { name, email, password });
     setErrors(localErrors);
     if (!data) return;
-    signUp.mutate(data, {
-      onSuccess: (result) => onSignedUp(result.notices ?? []),
-      onError: (error) => setErrors(errorsFromServer(error)),
-    });
+    signUp.mutate(data, { onError: (error) => setErrors(errorsFromServer(error)) });
   }
 
+  if (signUp.isSuccess) {
+    return (
+      <View style={formStyles.form}>
+        <Notice tone="success" message={signUp.data.message} testID="sign-up-sent" />
+        <View style={formStyles.links}>
+          <AuthLink href="/sign-in" label="Go to sign in" testID="to-sign-in" />
+        </View>
+      </View>
+    );
+  }
   return (
     <View style={formStyles.form}>
       {errors.message ? <Notice tone="error" message={errors.message} testID="sign-up-error" /> : null}

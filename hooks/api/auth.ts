@@ -22,7 +22,7 @@ export function useMeQuery() {
 function useSessionMutation<Input>(path: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (input: Input) => apiRequest<{ user: PublicUser; notices?: string[] }>('POST', path, input),
+    mutationFn: (input: Input) => apiRequest<{ user: PublicUser }>('POST', path, input),
     onSuccess: (result) => {
       queryClient.clear();
       queryClient.setQueryData(queryKeys.me, result.user);
@@ -31,7 +31,19 @@ function useSessionMutation<Input>(path: string) {
 }
 
 export const useSignInMutation = () => useSessionMutation<{ email: string; password: string }>('/auth/sign-in');
-export const useSignUpMutation = () => useSessionMutation<{ name: string; email: string; password: string }>('/auth/sign-up');
+/** Verifying the address from the e-mailed link signs its owner in. */
+export const useVerifyEmailMutation = () => useSessionMutation<{ token: string }>('/auth/verify');
+
+/** Sign-up starts no session: the reply only says to check the inbox (the same for a taken address). */
+export function useSignUpMutation() {
+  return useMutation({
+    mutationFn: (input: { name: string; email: string; password: string }) => apiRequest<{ message: string }>('POST', '/auth/sign-up', input),
+  });
+}
+
+export function useResendVerificationMutation() {
+  return useMutation({ mutationFn: () => apiRequest<{ message: string }>('POST', '/auth/verify/resend', {}) });
+}
 
 export function useSignOutMutation() {
   const queryClient = useQueryClient();

@@ -1,5 +1,6 @@
 // The only module that knows about lucia: the rest of the server asks for sessions through these
 // functions, so the session library can be replaced without touching routes or services.
+import { createHash } from 'node:crypto';
 import { Lucia, type Adapter, type DatabaseSession, type DatabaseUser } from 'lucia';
 import { LessThan, type DataSource } from 'typeorm';
 import { Session, User } from '../db/entities';
@@ -9,6 +10,7 @@ interface UserAttributes {
   name: string;
   email: string;
   siteRole: SiteRole;
+  emailVerified: boolean;
 }
 
 declare module 'lucia' {
@@ -18,7 +20,16 @@ declare module 'lucia' {
   }
 }
 
-class TypeormSessionAdapter implements Adapter {
+/** The database key of a session: SHA-256 (hex) of the token that only the cookie carries. */
+export const sessionKey = (sessionId: string) => createHash('sha256').update(sessionId).digest('hex');
+
+/**
+ * lucia 3 hands its adapter the session token itself as `id`. This adapter stores and looks up only
+ * sessionKey(id), so a copy of the sessions table yields no usable cookie; replies to lucia carry
+ * the token it asked about, so lucia's cookie handling is unchanged. getUserSessions can only return
+ * the stored keys (lucia uses it only for its own listing API, which Rungbook does not call).
+ */
+class HashingSessionAdapter implements Adapter {
   constructor(private readonly dataSource: DataSource) {}
 
   private get sessions() {
@@ -26,12 +37,12 @@ class TypeormSessionAdapter implements Adapter {
   }
 
   async getSessionAndUser(sessionId: string): Promise<[DatabaseSession | null, DatabaseUser | null]> {
-    const row = await this.sessions.findOne({ where: { id: sessionId }, relations: { user: true } });
+    const row = await this.sessions.findOne({ where: { id: sessionKey(sessionId) }, relations: { user: true } });
     if (!row || !row.user) return [null, null];
     const { user } = row;
     return [
-      { id: row.id, userId: row.userId, expiresAt: row.expiresAt, attributes: {} },
-      { id: user.id, attributes: { name: user.name, email: user.email, siteRole: user.siteRole } },
+      { id: sessionId, userId: row.userId, expiresAt: row.expiresAt, attributes: {} },
+      { id: user.id, attributes: { name: user.name, email: user.email, siteRole: user.siteRole, emailVerified: user.emailVerifiedAt !== null } },
     ];
   }
 
@@ -41,15 +52,15 @@ class TypeormSessionAdapter implements Adapter {
   }
 
   async setSession(session: DatabaseSession): Promise<void> {
-    await this.sessions.insert({ id: session.id, userId: session.userId, expiresAt: session.expiresAt });
+    await this.sessions.insert({ id: sessionKey(session.id), userId: session.userId, expiresAt: session.expiresAt });
   }
 
   async updateSessionExpiration(sessionId: string, expiresAt: Date): Promise<void> {
-    await this.sessions.update({ id: sessionId }, { expiresAt });
+    await this.sessions.update({ id: sessionKey(sessionId) }, { expiresAt });
   }
 
   async deleteSession(sessionId: string): Promise<void> {
-    await this.sessions.delete({ id: sessionId });
+    await this.sessions.delete({ id: sessionKey(sessionId) });
   }
 
   async deleteUserSessions(userId: string): Promise<void> {
@@ -62,7 +73,7 @@ class TypeormSessionAdapter implements Adapter {
 }
 
 function createLucia(dataSource: DataSource, secureCookie: boolean) {
-  return new Lucia(new TypeormSessionAdapter(dataSource), {
+  return new Lucia(new HashingSessionAdapter(dataSource), {
     sessionCookie: { name: 'rungbook_session', attributes: { secure: secureCookie, sameSite: 'lax' } },
     getUserAttributes: (attributes) => attributes,
   });
@@ -75,6 +86,7 @@ export interface SignedInUser {
   name: string;
   email: string;
   siteRole: SiteRole;
+  emailVerified: boolean;
 }
 
 export interface SessionService {
@@ -85,6 +97,8 @@ export interface SessionService {
   resolve(sessionId: string | undefined): Promise<{ user: SignedInUser | null; sessionId: string | null; refreshCookie?: string }>;
   end(sessionId: string): Promise<string>;
   endAllFor(userId: string): Promise<void>;
+  /** Drop cached copies of this person (after a change such as verifying the e-mail address). */
+  forgetCached(userId: string): void;
   blankCookie(): string;
 }
 
@@ -110,21 +124,22 @@ export function createSessionService(dataSource: DataSource, secureCookie: boole
       recentlyValidated.delete(sessionId);
       const { session, user } = await lucia.validateSession(sessionId);
       if (!session || !user) return { user: null, sessionId: null, refreshCookie: lucia.createBlankSessionCookie().serialize() };
-      const signedIn: SignedInUser = { id: user.id, name: user.name, email: user.email, siteRole: user.siteRole };
+      const signedIn: SignedInUser = { id: user.id, name: user.name, email: user.email, siteRole: user.siteRole, emailVerified: user.emailVerified };
       if (recentlyValidated.size > 10_000) recentlyValidated.clear();
       recentlyValidated.set(session.id, { user: signedIn, until: Math.min(Date.now() + VALIDATION_CACHE_MS, session.expiresAt.getTime()) });
       const refreshCookie = session.fresh ? lucia.createSessionCookie(session.id).serialize() : undefined;
       return { user: signedIn, sessionId: session.id, refreshCookie };
     },
     async end(sessionId) {
-      recentlyValidated.delete(sessionId);
       await lucia.invalidateSession(sessionId);
+      recentlyValidated.delete(sessionId);
       return lucia.createBlankSessionCookie().serialize();
     },
     async endAllFor(userId) {
-      forgetUser(userId);
       await lucia.invalidateUserSessions(userId);
+      forgetUser(userId);
     },
+    forgetCached: forgetUser,
     blankCookie: () => lucia.createBlankSessionCookie().serialize(),
   };
 }

@@ -1,30 +1,56 @@
 import { z } from 'zod';
-import { forgotPasswordInput, resetPasswordInput, signInInput, signUpInput } from '../../shared/api/schemas';
-import { route } from '../http/route';
+import { forgotPasswordInput, resetPasswordInput, signInInput, signUpInput, verifyEmailInput } from '../../shared/api/schemas';
+import { route, type RouteContext } from '../http/route';
 import type { Services } from '../services';
+import { emailKey } from '../services/accounts';
 
-export function authRoutes({ accounts, sessions, passwordReset }: Services) {
+export function authRoutes({ accounts, sessions, passwordReset, emailVerification, knownDevices }: Services) {
+  /** One session per browser: whoever was signed in here before is signed out on the server too. */
+  async function startSessionReplacing(ctx: Pick<RouteContext<unknown, unknown>, 'sessionId' | 'setCookie'>, userId: string) {
+    if (ctx.sessionId) await sessions.end(ctx.sessionId);
+    ctx.setCookie(await sessions.start(userId));
+  }
+
   return [
     route({
       method: 'post',
       path: '/auth/sign-up',
       access: 'public',
+      summary: 'Create an account; the reply is the same for a new and a taken address (the address owner is e-mailed either way)',
       body: signUpInput,
-      status: 201,
-      async handler({ body, setCookie }) {
-        const { user, notices } = await accounts.signUp(body);
-        setCookie(await sessions.start(user.id));
-        return { user, notices };
+      status: 202,
+      handler: async ({ body }) => accounts.signUp(body),
+    }),
+    route({
+      method: 'post',
+      path: '/auth/verify',
+      access: 'public',
+      summary: 'Confirm an e-mail address with the token from the e-mailed link; signs its owner in',
+      body: verifyEmailInput,
+      async handler(ctx) {
+        const user = await emailVerification.verify(ctx.body.token);
+        await startSessionReplacing(ctx, user.id);
+        return { user };
       },
+    }),
+    route({
+      method: 'post',
+      path: '/auth/verify/resend',
+      access: 'signed-in',
+      summary: 'E-mail a fresh confirmation link to the signed-in person',
+      body: z.unknown(),
+      status: 202,
+      handler: async ({ user }) => emailVerification.resend(user!),
     }),
     route({
       method: 'post',
       path: '/auth/sign-in',
       access: 'public',
       body: signInInput,
-      async handler({ body, setCookie }) {
-        const user = await accounts.checkCredentials(body);
-        setCookie(await sessions.start(user.id));
+      async handler(ctx) {
+        const user = await accounts.checkCredentials(ctx.body);
+        await startSessionReplacing(ctx, user.id);
+        ctx.setCookie(knownDevices.cookieFor(emailKey(user.email)));
         return { user };
       },
     }),
@@ -45,7 +71,7 @@ export function authRoutes({ accounts, sessions, passwordReset }: Services) {
       body: forgotPasswordInput,
       status: 202,
       async handler({ body }) {
-        await passwordReset.requestReset(body.email);
+        passwordReset.requestReset(body.email);
         return { message: 'If an account has this e-mail, a reset link is on its way.' };
       },
     }),

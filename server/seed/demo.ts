@@ -93,6 +93,7 @@ export async function seedDemoDataIfEmpty(dataSource: DataSource, options: DemoS
         emailKey: person.email.toLowerCase(),
         passwordHash: hashes[index],
         siteRole: person.siteRole,
+        emailVerifiedAt: new Date(),
       });
       userIds.push(userId);
       if (person.groupRole) await manager.insert(GroupMembership, { groupId, userId, role: person.groupRole });

@@ -5,57 +5,77 @@ import { User } from '../db/entities';
 import { AppError } from '../http/errors';
 import { newId } from '../ids';
 import type { Mailer } from '../mail/mailer';
+import type { EmailVerificationService } from './emailVerification';
 
 export const emailKey = (email: string) => email.trim().toLowerCase();
 
-export function toPublicUser(user: Pick<User, 'id' | 'name' | 'email' | 'siteRole'>): PublicUser {
-  return { id: user.id, name: user.name, email: user.email, siteRole: user.siteRole };
+export function toPublicUser(user: Pick<User, 'id' | 'name' | 'email' | 'siteRole' | 'emailVerifiedAt'>): PublicUser {
+  return { id: user.id, name: user.name, email: user.email, siteRole: user.siteRole, emailVerified: user.emailVerifiedAt !== null };
 }
 
 export interface AccountService {
-  signUp(input: SignUpInput): Promise<{ user: PublicUser; notices: string[] }>;
+  /**
+   * Answers the same way whether or not the address already has an account, so sign-up cannot be used
+   * to find out who has one: a new address gets a verification link, a taken one a note to its owner.
+   */
+  signUp(input: SignUpInput): Promise<{ message: string }>;
   checkCredentials(input: SignInInput): Promise<PublicUser>;
   findByEmail(email: string): Promise<User | null>;
 }
 
-export function createAccountService(dataSource: DataSource, mailer: Mailer, publicUrl: string): AccountService {
+export function createAccountService(dataSource: DataSource, mailer: Mailer, verification: EmailVerificationService, publicUrl: string): AccountService {
   const users = dataSource.getRepository(User);
 
   async function findByEmail(email: string) {
     return users.findOneBy({ emailKey: emailKey(email) });
   }
 
+  function tellOwnerAboutAttempt(owner: Pick<User, 'name' | 'email'>) {
+    mailer.sendLater(async () => ({
+      to: owner.email,
+      subject: 'Someone tried to sign up with your address',
+      text:
+        `Hello ${owner.name},\n\nsomeone (perhaps you) tried to create a Rungbook account with this e-mail address, ` +
+        `which already has one.\n\nSign in: ${publicUrl}/sign-in\nForgot the password? Reset it: ${publicUrl}/forgot-password\n\n` +
+        `If it was not you, ignore this message; nothing has changed.\n`,
+    }));
+  }
+
+  /** Inserts the account; false when the address is already taken (also when a concurrent sign-up won). */
+  async function insertNew(user: User): Promise<boolean> {
+    try {
+      await users.insert(user);
+      return true;
+    } catch (error) {
+      if (String(error).includes('UNIQUE')) return false;
+      throw error;
+    }
+  }
+
   return {
     findByEmail,
 
     async signUp(input) {
-      if (await findByEmail(input.email)) {
-        throw new AppError('email_taken', 'An account with this e-mail already exists. Sign in or reset your password.', {
-          email: 'This e-mail is already registered',
-        });
-      }
+      const existing = await findByEmail(input.email);
+      // Hash in both cases so the reply time does not tell a taken address from a new one.
+      const passwordHash = await hashPassword(input.password);
+      const message = `Almost done: we sent a message to ${input.email}. Follow its link to confirm the address and sign in.`;
       const user = users.create({
         id: newId(),
         name: input.name,
         email: input.email,
         emailKey: emailKey(input.email),
-        passwordHash: await hashPassword(input.password),
+        passwordHash,
         siteRole: 'member',
+        emailVerifiedAt: null,
       });
-      try {
-        await users.insert(user);
-      } catch (error) {
-        // Two sign-ups racing for one address: the unique index decides.
-        if (String(error).includes('UNIQUE')) throw new AppError('email_taken', 'An account with this e-mail already exists.');
-        throw error;
+      if (!existing && (await insertNew(user))) {
+        verification.sendLinkLater(user);
+      } else {
+        const owner = existing ?? (await findByEmail(input.email));
+        if (owner) tellOwnerAboutAttempt(owner);
       }
-      const { delivered } = await mailer.send({
-        to: user.email,
-        subject: 'Welcome to Rungbook',
-        text: `Hello ${user.name},\n\nyour Rungbook account is ready: ${publicUrl}/sign-in\n`,
-      });
-      const notices = delivered ? [] : ['Your account was created, but the welcome e-mail could not be sent.'];
-      return { user: toPublicUser(user), notices };
+      return { message };
     },
 
     async checkCredentials({ email, password }) {

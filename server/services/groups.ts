@@ -103,7 +103,12 @@ export function createGroupService(dataSource: DataSource): GroupService {
     async addMember(viewer, groupId, input) {
       const group = await manageable(viewer, groupId);
       const user = await dataSource.getRepository(User).findOneBy({ emailKey: emailKey(input.email) });
-      if (!user) throw new AppError('not_found', 'No Rungbook account has this e-mail.', { email: 'No account with this e-mail' });
+      // Unknown and unverified addresses get the same answer: a lead learns nothing about who signed up.
+      if (!user || user.emailVerifiedAt === null) {
+        throw new AppError('email_not_verified', 'No verified Rungbook account has this e-mail. Its owner must sign up and confirm the address first.', {
+          email: 'No verified account with this e-mail',
+        });
+      }
       if (roleOf(group, user.id)) throw new AppError('conflict', `${user.name} is already in this group.`);
       await memberships.insert({ groupId, userId: user.id, role: input.role });
       return toDetail(await loadGroup(groupId), viewer);

@@ -1,9 +1,11 @@
 import type { DataSource } from 'typeorm';
 import type { Logger } from 'pino';
+import { createKnownDevices, type KnownDevices } from '../auth/knownDevices';
 import { createSessionService, type SessionService } from '../auth/sessions';
 import type { ServerConfig } from '../config';
 import type { Mailer } from '../mail/mailer';
 import { createAccountService, type AccountService } from './accounts';
+import { createEmailVerificationService, type EmailVerificationService } from './emailVerification';
 import { createGroupService, type GroupService } from './groups';
 import { createNotebookService, type NotebookService } from './notebooks';
 import { createPasswordResetService, type PasswordResetService } from './passwordReset';
@@ -17,6 +19,8 @@ export interface Services {
   dataSource: DataSource;
   mailer: Mailer;
   sessions: SessionService;
+  knownDevices: KnownDevices;
+  emailVerification: EmailVerificationService;
   accounts: AccountService;
   passwordReset: PasswordResetService;
   groups: GroupService;
@@ -26,8 +30,10 @@ export interface Services {
 }
 
 export function createServices(config: ServerConfig, logger: Logger, dataSource: DataSource, mailer: Mailer, runner: JobRunner): Services {
-  const sessions = createSessionService(dataSource, config.publicUrl.startsWith('https://'));
-  const runs = createRunService(dataSource, runner, logger, config.jobs.timeLimitMs);
+  const secureCookies = config.publicUrl.startsWith('https://');
+  const sessions = createSessionService(dataSource, secureCookies);
+  const emailVerification = createEmailVerificationService(dataSource, mailer, sessions, config.publicUrl);
+  const runs = createRunService(dataSource, runner, logger, config.jobs);
   const notebooks = createNotebookService(dataSource, runs);
   return {
     config,
@@ -35,7 +41,9 @@ export function createServices(config: ServerConfig, logger: Logger, dataSource:
     dataSource,
     mailer,
     sessions,
-    accounts: createAccountService(dataSource, mailer, config.publicUrl),
+    knownDevices: createKnownDevices(secureCookies),
+    emailVerification,
+    accounts: createAccountService(dataSource, mailer, emailVerification, config.publicUrl),
     passwordReset: createPasswordResetService(dataSource, mailer, sessions, config.publicUrl),
     groups: createGroupService(dataSource),
     runs,

@@ -1,5 +1,5 @@
 import { createHash, randomBytes } from 'node:crypto';
-import type { DataSource } from 'typeorm';
+import { IsNull, type DataSource } from 'typeorm';
 import { hashPassword } from '../auth/passwords';
 import type { SessionService } from '../auth/sessions';
 import { PasswordResetToken, User } from '../db/entities';
@@ -11,9 +11,14 @@ export const RESET_TOKEN_LIFETIME_MS = 30 * 60 * 1000;
 
 const sha256 = (text: string) => createHash('sha256').update(text).digest('hex');
 
+const invalidToken = () => new AppError('invalid_reset_token', 'This reset link is invalid, already used or expired. Ask for a new one.');
+
 export interface PasswordResetService {
-  /** Always resolves the same way whether or not the account exists, so the reply reveals nothing. */
-  requestReset(email: string): Promise<void>;
+  /**
+   * Returns at once, the same way whether or not the account exists: the lookup, the token and the
+   * e-mail happen off the request path, so neither the reply nor its timing reveals anything.
+   */
+  requestReset(email: string): void;
   reset(token: string, newPassword: string): Promise<void>;
 }
 
@@ -27,41 +32,49 @@ export function createPasswordResetService(
   const tokens = dataSource.getRepository(PasswordResetToken);
   const users = dataSource.getRepository(User);
 
+  function isUsable(row: PasswordResetToken | null): row is PasswordResetToken {
+    return Boolean(row && !row.usedAt && row.expiresAt.getTime() > now().getTime());
+  }
+
   return {
-    async requestReset(email) {
-      const user = await users.findOneBy({ emailKey: emailKey(email) });
-      if (!user) return;
+    requestReset(email) {
       const token = randomBytes(32).toString('base64url');
-      await tokens.insert({
-        tokenHash: sha256(token),
-        userId: user.id,
-        expiresAt: new Date(now().getTime() + RESET_TOKEN_LIFETIME_MS),
-        usedAt: null,
-      });
-      const link = `${publicUrl}/reset-password?token=${token}`;
-      const { delivered } = await mailer.send({
-        to: user.email,
-        subject: 'Reset your Rungbook password',
-        text:
-          `Hello ${user.name},\n\nsomeone asked to reset the password of your Rungbook account.\n` +
-          `Open this link within 30 minutes to choose a new one (it works once):\n\n${link}\n\n` +
-          `If it was not you, ignore this message; your password stays as it is.\n`,
-      });
-      if (!delivered) {
-        await tokens.delete({ tokenHash: sha256(token) });
-        throw new AppError('mail_unavailable', 'The reset e-mail could not be sent right now. Try again in a few minutes.');
-      }
+      mailer.sendLater(
+        async () => {
+          const user = await users.findOneBy({ emailKey: emailKey(email) });
+          if (!user) return null;
+          await tokens.insert({
+            tokenHash: sha256(token),
+            userId: user.id,
+            expiresAt: new Date(now().getTime() + RESET_TOKEN_LIFETIME_MS),
+            usedAt: null,
+          });
+          return {
+            to: user.email,
+            subject: 'Reset your Rungbook password',
+            text:
+              `Hello ${user.name},\n\nsomeone asked to reset the password of your Rungbook account.\n` +
+              `Open this link within 30 minutes to choose a new one (it works once):\n\n${publicUrl}/reset-password?token=${token}\n\n` +
+              `If it was not you, ignore this message; your password stays as it is.\n`,
+          };
+        },
+        // A link nobody received must not stay usable.
+        async () => void (await tokens.delete({ tokenHash: sha256(token) })),
+      );
     },
 
     async reset(token, newPassword) {
+      // Check the token before paying for a password hash, so junk requests cost nothing.
+      if (!isUsable(await tokens.findOneBy({ tokenHash: sha256(token) }))) throw invalidToken();
       const passwordHash = await hashPassword(newPassword);
       const userId = await dataSource.transaction(async (manager) => {
         const row = await manager.findOneBy(PasswordResetToken, { tokenHash: sha256(token) });
-        if (!row || row.usedAt || row.expiresAt.getTime() <= now().getTime()) {
-          throw new AppError('invalid_reset_token', 'This reset link is invalid, already used or expired. Ask for a new one.');
-        }
-        await manager.update(PasswordResetToken, { tokenHash: row.tokenHash }, { usedAt: now() });
+        if (!isUsable(row)) throw invalidToken();
+        // Using one link spends every other outstanding link of the account.
+        await manager.update(PasswordResetToken, { userId: row.userId, usedAt: IsNull() }, { usedAt: now() });
         await manager.update(User, { id: row.userId }, { passwordHash });
+        // Following the e-mailed link proves the address as well as a verification link does.
+        await manager.update(User, { id: row.userId, emailVerifiedAt: IsNull() }, { emailVerifiedAt: now() });
         return row.userId;
       });
       await sessions.endAllFor(userId);

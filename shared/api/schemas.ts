@@ -37,6 +37,10 @@ export const resetPasswordInput = z.strictObject({
   password: passwordSchema,
 });
 
+export const verifyEmailInput = z.strictObject({
+  token: z.string({ error: 'Verification token is required' }).regex(/^[A-Za-z0-9_-]{20,100}$/, 'Verification link is malformed'),
+});
+
 export const siteRoles = ['admin', 'member'] as const;
 export const groupRoles = ['lead', 'member'] as const;
 export type SiteRole = (typeof siteRoles)[number];
@@ -67,6 +71,8 @@ export interface PublicUser {
   name: string;
   email: string;
   siteRole: SiteRole;
+  /** Whether the owner confirmed the address through the e-mailed link (needed to join a group). */
+  emailVerified: boolean;
 }
 
 export interface GroupSummary {

@@ -1,8 +1,9 @@
 import assert from 'node:assert/strict';
 import { after, before, describe, test } from 'node:test';
 import { LessThan } from 'typeorm';
+import { sessionKey } from '../../server/auth/sessions';
 import { Session, User } from '../../server/db/entities';
-import { ORIGIN, person, startHarness, type Harness } from './harness';
+import { mailTo, ORIGIN, person, signUpVerified, startHarness, verificationTokenFrom, type Harness } from './harness';
 
 describe('sign-up, sign-in, sign-out, current user', () => {
   let h: Harness;
@@ -13,13 +14,21 @@ describe('sign-up, sign-in, sign-out, current user', () => {
 
   const userCount = () => h.rungbook.services.dataSource.getRepository(User).count();
 
-  test('sign-up creates the account, starts a session in an HttpOnly SameSite=Lax cookie and /me answers', async () => {
+  test('sign-up creates an unconfirmed account without a session; the e-mailed link confirms it and signs in with an HttpOnly SameSite=Lax cookie', async () => {
     const client = h.browser();
-    const reply = await client.post('/api/auth/sign-up').send(person(1)).expect(201);
-    assert.equal(reply.body.user.email, person(1).email);
-    assert.equal(reply.body.user.siteRole, 'member');
-    assert.deepEqual(reply.body.notices, []);
-    const cookie = String(reply.headers['set-cookie']);
+    const reply = await client.post('/api/auth/sign-up').send(person(1)).expect(202);
+    assert.deepEqual(Object.keys(reply.body), ['message']);
+    assert.match(reply.body.message, /person1@test\.rungbook\.example/);
+    assert.equal(reply.headers['set-cookie'], undefined);
+    await client.get('/api/me').expect(401);
+    const stored = await h.rungbook.services.dataSource.getRepository(User).findOneByOrFail({ emailKey: person(1).email });
+    assert.equal(stored.emailVerifiedAt, null);
+    const mail = await mailTo(h, person(1).email, 'Confirm your Rungbook e-mail address');
+    const verified = await client.post('/api/auth/verify').send({ token: verificationTokenFrom(mail.textBody) }).expect(200);
+    assert.equal(verified.body.user.email, person(1).email);
+    assert.equal(verified.body.user.siteRole, 'member');
+    assert.equal(verified.body.user.emailVerified, true);
+    const cookie = String(verified.headers['set-cookie']);
     // Cookie attributes per RFC 6265 / the SameSite draft: HttpOnly, SameSite=Lax; not Secure on http.
     assert.match(cookie, /rungbook_session=[a-z0-9]+/);
     assert.match(cookie, /HttpOnly/);
@@ -27,6 +36,7 @@ describe('sign-up, sign-in, sign-out, current user', () => {
     assert.doesNotMatch(cookie, /Secure/);
     const me = await client.get('/api/me').expect(200);
     assert.equal(me.body.user.name, person(1).name);
+    assert.equal(me.body.user.emailVerified, true);
   });
 
   test('the stored password is an argon2id hash with the OWASP parameters (m=19456 KiB, t=2, p=1)', async () => {
@@ -36,15 +46,18 @@ describe('sign-up, sign-in, sign-out, current user', () => {
     assert.ok(!stored.passwordHash.includes(person(1).password));
   });
 
-  test('a duplicate e-mail differing only in case is refused with 409 and nothing is written', async () => {
+  test('a taken e-mail (differing only in case) gets the reply a new one gets, nothing is written, and the owner is told', async () => {
     const before = await userCount();
-    const reply = await h.browser()
-      .post('/api/auth/sign-up')
-      .send({ ...person(1), email: person(1).email.toUpperCase() })
-      .expect(409);
-    assert.equal(reply.body.error.code, 'email_taken');
-    assert.ok(reply.body.error.fields.email);
-    assert.equal(await userCount(), before);
+    const taken = { ...person(1), email: person(1).email.toUpperCase() };
+    const reply = await h.browser().post('/api/auth/sign-up').send(taken).expect(202);
+    const fresh = await h.browser().post('/api/auth/sign-up').send(person(6)).expect(202);
+    assert.deepEqual(Object.keys(reply.body), Object.keys(fresh.body));
+    assert.equal(reply.body.message, fresh.body.message.replace(person(6).email, taken.email));
+    assert.equal(reply.headers['set-cookie'], undefined);
+    assert.equal(await userCount(), before + 1, 'only the new address made an account');
+    const note = await mailTo(h, person(1).email, 'Someone tried to sign up with your address');
+    assert.match(note.textBody, /\/forgot-password/);
+    assert.doesNotMatch(note.textBody, /verify-email/);
   });
 
   test('bad sign-up input gives 400 with a message per field and writes nothing', async () => {
@@ -69,8 +82,18 @@ describe('sign-up, sign-in, sign-out, current user', () => {
     assert.equal(unknown.body.error.message, wrong.body.error.message, 'unknown account and wrong password look the same');
   });
 
-  test('repeated failures for one account are rate-limited with 429, even from a fresh client', async () => {
-    await h.browser().post('/api/auth/sign-up').send(person(2)).expect(201);
+  test('unconfirmed people can sign in, see emailVerified: false and keep their own notebooks', async () => {
+    await h.browser().post('/api/auth/sign-up').send(person(7)).expect(202);
+    const client = h.browser();
+    const signIn = await client.post('/api/auth/sign-in').send({ email: person(7).email, password: person(7).password }).expect(200);
+    assert.equal(signIn.body.user.emailVerified, false);
+    assert.equal((await client.get('/api/me').expect(200)).body.user.emailVerified, false);
+    await client.post('/api/notebooks').send({ title: 'Invented unconfirmed notebook' }).expect(201);
+    assert.equal((await client.get('/api/notebooks').expect(200)).body.notebooks.length, 1);
+  });
+
+  test('repeated failures for one account from one source are rate-limited with 429, even from a fresh client', async () => {
+    await signUpVerified(h, 2);
     for (let attempt = 0; attempt < 3; attempt += 1) {
       await h.browser().post('/api/auth/sign-in').send({ email: person(2).email, password: 'wrong-password' }).expect(401);
     }
@@ -91,7 +114,7 @@ describe('sign-up, sign-in, sign-out, current user', () => {
     const signIn = await client.post('/api/auth/sign-in').send({ email: person(1).email, password: person(1).password }).expect(200);
     const cookie = String(signIn.headers['set-cookie']).split(';')[0];
     const sessionId = cookie.split('=')[1];
-    await h.rungbook.services.dataSource.getRepository(Session).update({ id: sessionId }, { expiresAt: new Date(Date.now() - 1000) });
+    await h.rungbook.services.dataSource.getRepository(Session).update({ id: sessionKey(sessionId) }, { expiresAt: new Date(Date.now() - 1000) });
     const reply = await h.raw.get('/api/me').set('Cookie', cookie).expect(401);
     assert.equal(reply.body.error.code, 'unauthenticated');
     assert.match(String(reply.headers['set-cookie']), /Max-Age=0/);
@@ -126,8 +149,11 @@ describe('session cookie over https', () => {
   test('is marked Secure when PUBLIC_URL is https', async () => {
     const h = await startHarness({ PUBLIC_URL: 'https://rungbook.example' });
     try {
-      const reply = await h.raw.post('/api/auth/sign-up').set('Origin', 'https://rungbook.example').send(person(3)).expect(201);
-      assert.match(String(reply.headers['set-cookie']), /; Secure/);
+      await h.raw.post('/api/auth/sign-up').set('Origin', 'https://rungbook.example').send(person(3)).expect(202);
+      const mail = await mailTo(h, person(3).email, 'Confirm your Rungbook e-mail address');
+      assert.match(mail.textBody, /https:\/\/rungbook\.example\/verify-email\?token=/);
+      const reply = await h.raw.post('/api/auth/verify').set('Origin', 'https://rungbook.example').send({ token: verificationTokenFrom(mail.textBody) }).expect(200);
+      assert.match(String(reply.headers['set-cookie']), /rungbook_session=[^;]+;[^,]*; Secure/);
     } finally {
       await h.close();
     }

@@ -1,7 +1,7 @@
 import assert from 'node:assert/strict';
 import { after, before, describe, test } from 'node:test';
 import { User } from '../../server/db/entities';
-import { person, startHarness, type Harness } from './harness';
+import { mailTo, person, signUpVerified, startHarness, verificationTokenFrom, type Harness } from './harness';
 
 describe('research groups and roles, enforced on the server', () => {
   let h: Harness;
@@ -16,10 +16,10 @@ describe('research groups and roles, enforced on the server', () => {
   before(async () => {
     h = await startHarness();
     [lead, member, outsider, admin] = [h.browser(), h.browser(), h.browser(), h.browser()];
-    leadId = (await lead.post('/api/auth/sign-up').send(person(1)).expect(201)).body.user.id;
-    memberId = (await member.post('/api/auth/sign-up').send(person(2)).expect(201)).body.user.id;
-    await outsider.post('/api/auth/sign-up').send(person(3)).expect(201);
-    await admin.post('/api/auth/sign-up').send(person(4)).expect(201);
+    leadId = (await signUpVerified(h, 1, lead)).user.id;
+    memberId = (await signUpVerified(h, 2, member)).user.id;
+    await signUpVerified(h, 3, outsider);
+    await signUpVerified(h, 4, admin);
     await h.rungbook.services.dataSource.getRepository(User).update({ emailKey: person(4).email }, { siteRole: 'admin' });
   });
   after(() => h.close());
@@ -68,7 +68,8 @@ describe('research groups and roles, enforced on the server', () => {
   test('a member may leave; adding an unknown e-mail or a bad role is refused with field messages', async () => {
     const left = await member.delete(`/api/groups/${groupId}/members/${memberId}`).expect(200);
     assert.equal(left.body.group.memberCount, 1);
-    const unknown = await lead.post(`/api/groups/${groupId}/members`).send({ email: 'ghost@test.rungbook.example' }).expect(404);
+    const unknown = await lead.post(`/api/groups/${groupId}/members`).send({ email: 'ghost@test.rungbook.example' }).expect(403);
+    assert.equal(unknown.body.error.code, 'email_not_verified');
     assert.ok(unknown.body.error.fields.email);
     const badRole = await lead.post(`/api/groups/${groupId}/members`).send({ email: person(2).email, role: 'owner' }).expect(400);
     assert.ok(badRole.body.error.fields.role);
@@ -80,8 +81,21 @@ describe('research groups and roles, enforced on the server', () => {
     await h.raw.get('/api/admin/mail').expect(401);
     await lead.get('/api/admin/mail').expect(403);
     const inbox = await admin.get('/api/admin/mail').expect(200);
-    // Four sign-ups, four welcome messages through the capture.
+    // Four sign-ups, four confirmation links through the capture.
     assert.equal(inbox.body.messages.length, 4);
-    assert.ok(inbox.body.messages.every((m: { subject: string }) => m.subject === 'Welcome to Rungbook'));
+    assert.ok(inbox.body.messages.every((m: { subject: string }) => m.subject === 'Confirm your Rungbook e-mail address'));
+  });
+  test('an account whose address is not confirmed cannot be added, and the answer is the one an unknown address gets', async () => {
+    const newcomer = h.browser();
+    await newcomer.post('/api/auth/sign-up').send(person(5)).expect(202);
+    const unverified = await lead.post(`/api/groups/${groupId}/members`).send({ email: person(5).email }).expect(403);
+    const unknown = await lead.post(`/api/groups/${groupId}/members`).send({ email: 'nobody-here@test.rungbook.example' }).expect(403);
+    assert.deepEqual(unverified.body, unknown.body, 'an unconfirmed account is indistinguishable from no account');
+    assert.equal(unverified.body.error.code, 'email_not_verified');
+    const link = await mailTo(h, person(5).email, 'Confirm your Rungbook e-mail address');
+    await newcomer.post('/api/auth/verify').send({ token: verificationTokenFrom(link.textBody) }).expect(200);
+    const added = await lead.post(`/api/groups/${groupId}/members`).send({ email: person(5).email }).expect(201);
+    assert.ok(added.body.group.members.some((m: { email: string }) => m.email === person(5).email));
+    assert.equal((await newcomer.get('/api/groups').expect(200)).body.groups.length, 1);
   });
 });

@@ -64,3 +64,37 @@ export function resetTokenFrom(text: string): string {
   if (!match) throw new Error(`No reset link in: ${text}`);
   return match[1];
 }
+
+export function verificationTokenFrom(text: string): string {
+  const match = /verify-email\?token=([A-Za-z0-9_-]+)/.exec(text);
+  if (!match) throw new Error(`No confirmation link in: ${text}`);
+  return match[1];
+}
+
+/** The newest message to `email` with this subject, waiting for it to arrive through the capture. */
+export async function mailTo(harness: Harness, email: string, subject: string, timeoutMs = 5000): Promise<CapturedMail> {
+  const deadline = Date.now() + timeoutMs;
+  for (;;) {
+    await harness.rungbook.services.mailer.idle();
+    const found = (await harness.capturedMail()).filter((m) => m.recipients.toLowerCase().includes(email.toLowerCase()) && m.subject === subject);
+    if (found.length) return found[found.length - 1];
+    if (Date.now() > deadline) throw new Error(`No message "${subject}" to ${email}`);
+    await new Promise((resolve) => setTimeout(resolve, 25));
+  }
+}
+
+/**
+ * Sign up person `n` (or the given person) through the API and follow the e-mailed confirmation link,
+ * which signs them in: returns the signed-in client and the account.
+ */
+export async function signUpVerified(
+  harness: Harness,
+  who: number | { name: string; email: string; password: string },
+  client: ReturnType<Harness['browser']> = harness.browser(),
+) {
+  const account = typeof who === 'number' ? person(who) : who;
+  await client.post('/api/auth/sign-up').send(account).expect(202);
+  const mail = await mailTo(harness, account.email, 'Confirm your Rungbook e-mail address');
+  const verified = await client.post('/api/auth/verify').send({ token: verificationTokenFrom(mail.textBody) }).expect(200);
+  return { client, user: verified.body.user as { id: string; name: string; email: string; siteRole: string; emailVerified: boolean } };
+}

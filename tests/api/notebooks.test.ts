@@ -1,7 +1,7 @@
 import assert from 'node:assert/strict';
 import { after, before, describe, test } from 'node:test';
 import type { NotebookDetail, RunView } from '../../shared/notebook/api';
-import { person, startHarness, type Harness } from './harness';
+import { signUpVerified, startHarness, type Harness } from './harness';
 
 type Client = ReturnType<Harness['browser']>;
 
@@ -27,8 +27,8 @@ describe('notebooks, cells, runs, versions and exports', () => {
     h = await startHarness();
     owner = h.browser();
     outsider = h.browser();
-    await owner.post('/api/auth/sign-up').send(person(1)).expect(201);
-    await outsider.post('/api/auth/sign-up').send(person(2)).expect(201);
+    await signUpVerified(h, 1, owner);
+    await signUpVerified(h, 2, outsider);
   });
   after(() => h.close());
 
@@ -155,7 +155,7 @@ describe('POST /api/calc and runs', () => {
   before(async () => {
     h = await startHarness({ JOB_TIME_LIMIT_MS: '20000' });
     client = h.browser();
-    await client.post('/api/auth/sign-up').send(person(3)).expect(201);
+    await signUpVerified(h, 3, client);
   });
   after(() => h.close());
 
@@ -193,7 +193,7 @@ describe('run limits', () => {
   before(async () => {
     h = await startHarness({ JOB_TIME_LIMIT_MS: '300' });
     client = h.browser();
-    await client.post('/api/auth/sign-up').send(person(4)).expect(201);
+    await signUpVerified(h, 4, client);
   });
   after(() => h.close());
 
@@ -217,8 +217,8 @@ describe('cancelling a run', () => {
     try {
       const owner = h.browser();
       const other = h.browser();
-      const me = (await owner.post('/api/auth/sign-up').send(person(5)).expect(201)).body.user;
-      await other.post('/api/auth/sign-up').send(person(6)).expect(201);
+      const me = (await signUpVerified(h, 5, owner)).user;
+      await signUpVerified(h, 6, other);
       const run = await h.rungbook.services.runs.submit({ job: { job: 'special', fn: 'gamma', x: '0.7', digits: 1000 }, userId: me.id });
       await other.post(`/api/runs/${run.id}/cancel`).expect(404);
       const cancelled = (await owner.post(`/api/runs/${run.id}/cancel`).expect(200)).body.run;
@@ -239,8 +239,8 @@ describe('cell input checks at save time, moving cells, run ownership', () => {
     h = await startHarness();
     owner = h.browser();
     stranger = h.browser();
-    await owner.post('/api/auth/sign-up').send(person(7)).expect(201);
-    await stranger.post('/api/auth/sign-up').send(person(8)).expect(201);
+    await signUpVerified(h, 7, owner);
+    await signUpVerified(h, 8, stranger);
     notebookId = (await owner.post('/api/notebooks').send({ title: 'Invented limits check' }).expect(201)).body.notebook.id;
   });
   after(() => h.close());

@@ -81,7 +81,7 @@ describe('a separate app origin (development web server)', () => {
       const preflight = await h.raw.options('/api/auth/sign-up').set('Origin', devOrigin).set('Access-Control-Request-Method', 'POST').expect(204);
       assert.equal(preflight.headers['access-control-allow-origin'], devOrigin);
       assert.equal(preflight.headers['access-control-allow-credentials'], 'true');
-      await h.raw.post('/api/auth/sign-up').set('Origin', devOrigin).send({ name: 'Dev Person', email: 'dev@test.rungbook.example', password: 'long-enough-pass' }).expect(201);
+      await h.raw.post('/api/auth/sign-up').set('Origin', devOrigin).send({ name: 'Dev Person', email: 'dev@test.rungbook.example', password: 'long-enough-pass' }).expect(202);
       const other = await h.raw.options('/api/auth/sign-up').set('Origin', 'http://localhost:9999').set('Access-Control-Request-Method', 'POST');
       assert.equal(other.headers['access-control-allow-origin'], undefined);
     } finally {

@@ -7,7 +7,7 @@ let mockPathname = '/groups';
 jest.mock('expo-router', () => ({ usePathname: () => mockPathname, router: { navigate: jest.fn() } }));
 jest.mock('react-native/Libraries/Utilities/useWindowDimensions', () => ({ __esModule: true, default: jest.fn() }));
 
-const member = { id: 'u1', name: 'Invented Member', email: 'm@x.example', siteRole: 'member' as const };
+const member = { id: 'u1', name: 'Invented Member', email: 'm@x.example', siteRole: 'member' as const, emailVerified: true };
 const admin = { ...member, siteRole: 'admin' as const };
 
 function atWidth(width: number) {

@@ -33,7 +33,7 @@ describe('SignInForm', () => {
   });
 
   it('calls back once signed in', async () => {
-    mockFetchOnce(200, { user: { id: 'u1', name: 'Invented', email: 'a@b.example', siteRole: 'member' } });
+    mockFetchOnce(200, { user: { id: 'u1', name: 'Invented', email: 'a@b.example', siteRole: 'member', emailVerified: true } });
     const onSignedIn = jest.fn();
     renderWithQueryClient(<SignInForm onSignedIn={onSignedIn} />);
     fireEvent.changeText(screen.getByTestId('sign-in-email'), 'a@b.example');

@@ -1,5 +1,6 @@
 import { fireEvent, screen, waitFor } from '@testing-library/react-native';
 import { SignUpForm } from '../../components/auth/SignUpForm';
+import { queryKeys } from '../../hooks/api/keys';
 import { mockFetchOnce, renderWithQueryClient } from './testUtils';
 
 jest.mock('expo-router', () => ({ Link: ({ children }: { children: unknown }) => children }));
@@ -8,27 +9,39 @@ beforeEach(() => {
   global.fetch = jest.fn();
 });
 
+function fillIn(email: string, password: string) {
+  fireEvent.changeText(screen.getByTestId('sign-up-name'), 'Invented Person');
+  fireEvent.changeText(screen.getByTestId('sign-up-email'), email);
+  fireEvent.changeText(screen.getByTestId('sign-up-password'), password);
+  fireEvent.press(screen.getByTestId('sign-up-submit'));
+}
+
 describe('SignUpForm', () => {
   it('asks for a 10-character password before sending anything', () => {
-    renderWithQueryClient(<SignUpForm onSignedUp={jest.fn()} />);
-    fireEvent.changeText(screen.getByTestId('sign-up-name'), 'Invented Person');
-    fireEvent.changeText(screen.getByTestId('sign-up-email'), 'x@y.example');
-    fireEvent.changeText(screen.getByTestId('sign-up-password'), 'short');
-    fireEvent.press(screen.getByTestId('sign-up-submit'));
+    renderWithQueryClient(<SignUpForm />);
+    fillIn('x@y.example', 'short');
     expect(screen.getByTestId('sign-up-password-error')).toHaveTextContent('Password must be at least 10 characters');
     expect(global.fetch).not.toHaveBeenCalled();
   });
 
-  it('shows a duplicate e-mail next to the e-mail field', async () => {
-    mockFetchOnce(409, {
-      error: { code: 'email_taken', message: 'An account with this e-mail already exists.', fields: { email: 'This e-mail is already registered' } },
-    });
-    renderWithQueryClient(<SignUpForm onSignedUp={jest.fn()} />);
-    fireEvent.changeText(screen.getByTestId('sign-up-name'), 'Invented Person');
-    fireEvent.changeText(screen.getByTestId('sign-up-email'), 'taken@y.example');
-    fireEvent.changeText(screen.getByTestId('sign-up-password'), 'long-enough-password');
-    fireEvent.press(screen.getByTestId('sign-up-submit'));
-    await waitFor(() => expect(screen.getByTestId('sign-up-email-error')).toHaveTextContent('This e-mail is already registered'));
-    expect(screen.getByTestId('sign-up-error')).toHaveTextContent(/already exists/);
+  it('after sending, shows the server’s "check your inbox" message instead of the form and signs nobody in', async () => {
+    const message = 'Almost done: we sent a message to new@y.example. Follow its link to confirm the address and sign in.';
+    mockFetchOnce(202, { message });
+    const { client } = renderWithQueryClient(<SignUpForm />);
+    fillIn('new@y.example', 'long-enough-password');
+    await waitFor(() => expect(screen.getByTestId('sign-up-sent')).toHaveTextContent(message));
+    expect(screen.queryByTestId('sign-up-submit')).toBeNull();
+    expect(client.getQueryData(queryKeys.me)).toBeUndefined();
+    const [url, init] = (global.fetch as jest.Mock).mock.calls[0];
+    expect(String(url)).toMatch(/\/api\/auth\/sign-up$/);
+    expect(JSON.parse(init.body)).toEqual({ name: 'Invented Person', email: 'new@y.example', password: 'long-enough-password' });
+  });
+
+  it('shows a server refusal (e.g. the sign-up rate limit) above the form and keeps the input', async () => {
+    mockFetchOnce(429, { error: { code: 'rate_limited', message: 'Too many sign-ups from this network. Wait a few minutes.' } });
+    renderWithQueryClient(<SignUpForm />);
+    fillIn('x@y.example', 'long-enough-password');
+    await waitFor(() => expect(screen.getByTestId('sign-up-error')).toHaveTextContent(/Too many sign-ups/));
+    expect(screen.getByTestId('sign-up-submit')).toBeTruthy();
   });
 });

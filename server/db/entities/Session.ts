@@ -1,6 +1,7 @@
 import { Column, Entity, Index, JoinColumn, ManyToOne, PrimaryColumn } from 'typeorm';
 import { User } from './User';
 
+/** `id` is the SHA-256 (hex) of the session token in the cookie, never the token itself. */
 @Entity({ name: 'sessions' })
 export class Session {
   @PrimaryColumn({ type: 'varchar', length: 64 })

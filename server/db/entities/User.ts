@@ -23,6 +23,10 @@ export class User {
   @Column({ type: 'varchar', length: 10, default: 'member' })
   siteRole: SiteRole;
 
+  /** When the owner proved the address by following the e-mailed link; null until then. */
+  @Column({ type: 'datetime', nullable: true })
+  emailVerifiedAt: Date | null;
+
   @CreateDateColumn({ type: 'datetime' })
   createdAt: Date;
 }

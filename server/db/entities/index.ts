@@ -1,5 +1,6 @@
 import { CapturedMail } from './CapturedMail';
 import { Cell } from './Cell';
+import { EmailVerificationToken } from './EmailVerificationToken';
 import { GroupMembership } from './GroupMembership';
 import { JobRun } from './JobRun';
 import { Notebook } from './Notebook';
@@ -9,5 +10,5 @@ import { ResearchGroup } from './ResearchGroup';
 import { Session } from './Session';
 import { User } from './User';
 
-export { CapturedMail, Cell, GroupMembership, JobRun, Notebook, NotebookVersion, PasswordResetToken, ResearchGroup, Session, User };
-export const entities = [User, Session, ResearchGroup, GroupMembership, PasswordResetToken, CapturedMail, Notebook, Cell, JobRun, NotebookVersion];
+export { CapturedMail, Cell, EmailVerificationToken, GroupMembership, JobRun, Notebook, NotebookVersion, PasswordResetToken, ResearchGroup, Session, User };
+export const entities = [User, Session, ResearchGroup, GroupMembership, PasswordResetToken, CapturedMail, Notebook, Cell, JobRun, NotebookVersion, EmailVerificationToken];

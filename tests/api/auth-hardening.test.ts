@@ -1,0 +1,337 @@
+import assert from 'node:assert/strict';
+import { createHash } from 'node:crypto';
+import fs from 'node:fs';
+import net from 'node:net';
+import os from 'node:os';
+import path from 'node:path';
+import { after, before, describe, test } from 'node:test';
+import nodemailer from 'nodemailer';
+import { hashPassword } from '../../server/auth/passwords';
+import { createDataSource, openDatabase } from '../../server/db/data-source';
+import { EmailVerificationToken, PasswordResetToken, Session, User } from '../../server/db/entities';
+import { migrations } from '../../server/db/migrations';
+import { mailTo, person, resetTokenFrom, signUpVerified, startHarness, verificationTokenFrom, type Harness } from './harness';
+
+const CONFIRM = 'Confirm your Rungbook e-mail address';
+const RESET = 'Reset your Rungbook password';
+// FIPS 180-4 SHA-256, as computed by Node's OpenSSL binding, rendered in hex.
+const sha256 = (text: string) => createHash('sha256').update(text).digest('hex');
+const sessionTokenOf = (setCookie: unknown) => /rungbook_session=([^;]+)/.exec(String(setCookie))![1];
+const median = (values: number[]) => [...values].sort((a, b) => a - b)[Math.floor(values.length / 2)];
+
+async function timed<T>(work: () => Promise<T>): Promise<[T, number]> {
+  const start = performance.now();
+  const result = await work();
+  return [result, performance.now() - start];
+}
+
+describe('sessions are stored only as SHA-256 hashes and end when they should', () => {
+  let h: Harness;
+  before(async () => {
+    h = await startHarness();
+    await signUpVerified(h, 1);
+    await signUpVerified(h, 2);
+  });
+  after(() => h.close());
+
+  const signIn = (client: ReturnType<Harness['browser']>, n: number) =>
+    client.post('/api/auth/sign-in').send({ email: person(n).email, password: person(n).password }).expect(200);
+
+  test('the sessions table holds sha256(token), never the token; a token rebuilt from a database copy opens nothing', async () => {
+    const token = sessionTokenOf((await signIn(h.browser(), 1)).headers['set-cookie']);
+    const rows = await h.rungbook.services.dataSource.getRepository(Session).find();
+    assert.ok(rows.every((row) => row.id !== token && /^[0-9a-f]{64}$/.test(row.id)));
+    assert.ok(rows.some((row) => row.id === sha256(token)));
+    for (const row of rows) await h.raw.get('/api/me').set('Cookie', `rungbook_session=${row.id}`).expect(401);
+    await h.raw.get('/api/me').set('Cookie', `rungbook_session=${token}`).expect(200);
+  });
+
+  test('sign-out ends a session at once, even one validated a moment ago (no cached survival)', async () => {
+    const client = h.browser();
+    const cookie = `rungbook_session=${sessionTokenOf((await signIn(client, 1)).headers['set-cookie'])}`;
+    await h.raw.get('/api/me').set('Cookie', cookie).expect(200);
+    await client.post('/api/auth/sign-out').send({}).expect(204);
+    await h.raw.get('/api/me').set('Cookie', cookie).expect(401);
+  });
+
+  test('signing in as another person in the same browser ends the previous session on the server', async () => {
+    const client = h.browser();
+    const first = `rungbook_session=${sessionTokenOf((await signIn(client, 1)).headers['set-cookie'])}`;
+    await signIn(client, 2);
+    assert.equal((await client.get('/api/me').expect(200)).body.user.email, person(2).email);
+    await h.raw.get('/api/me').set('Cookie', first).expect(401);
+  });
+
+  test('a password reset ends every session at once, cached or not', async () => {
+    const cookie = `rungbook_session=${sessionTokenOf((await signIn(h.browser(), 2)).headers['set-cookie'])}`;
+    await h.raw.get('/api/me').set('Cookie', cookie).expect(200);
+    await h.browser().post('/api/auth/forgot').send({ email: person(2).email }).expect(202);
+    const token = resetTokenFrom((await mailTo(h, person(2).email, RESET)).textBody);
+    await h.browser().post('/api/auth/reset').send({ token, password: 'changed-password-2' }).expect(200);
+    await h.raw.get('/api/me').set('Cookie', cookie).expect(401);
+  });
+});
+
+describe('the migration to hashed sessions and verified addresses', () => {
+  test('hashes existing session ids in place (people stay signed in) and marks existing accounts verified', async () => {
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'rungbook-migrate-'));
+    const file = path.join(dir, 'old.sqlite');
+    try {
+      const old = createDataSource(file);
+      old.setOptions({ migrations: migrations.slice(0, 2) });
+      await old.initialize();
+      await old.runMigrations();
+      await old.query(`INSERT INTO users (id, name, email, emailKey, passwordHash) VALUES ('u0000000001', 'Invented Old Account', 'old@test.rungbook.example', 'old@test.rungbook.example', 'x')`);
+      await old.query(`INSERT INTO sessions (id, userId, expiresAt) VALUES ('oldtoken1234567890abcdef', 'u0000000001', '2099-01-01 00:00:00')`);
+      await old.destroy();
+      const current = await openDatabase(file);
+      try {
+        const [session] = await current.getRepository(Session).find();
+        assert.equal(session.id, sha256('oldtoken1234567890abcdef'));
+        const [user] = await current.getRepository(User).find();
+        assert.ok(user.emailVerifiedAt instanceof Date);
+      } finally {
+        await current.destroy();
+      }
+    } finally {
+      fs.rmSync(dir, { recursive: true, force: true });
+    }
+  });
+});
+
+describe('e-mail verification links', () => {
+  let h: Harness;
+  before(async () => {
+    h = await startHarness({ FORGOT_LIMIT_PER_IP: '2' });
+  });
+  after(() => h.close());
+
+  test('only the SHA-256 of the token is stored; the link works once, and never after it expires', async () => {
+    await h.browser().post('/api/auth/sign-up').send(person(1)).expect(202);
+    const token = verificationTokenFrom((await mailTo(h, person(1).email, CONFIRM)).textBody);
+    const rows = await h.rungbook.services.dataSource.getRepository(EmailVerificationToken).find();
+    assert.deepEqual(rows.map((row) => row.tokenHash), [sha256(token)]);
+    // 24 hours, as promised in the message.
+    const lifetimeH = (rows[0].expiresAt.getTime() - rows[0].createdAt.getTime()) / 3_600_000;
+    assert.ok(Math.abs(lifetimeH - 24) < 0.1, `lifetime ${lifetimeH} h`);
+    await h.browser().post('/api/auth/verify').send({ token }).expect(200);
+    const again = await h.browser().post('/api/auth/verify').send({ token }).expect(400);
+    assert.equal(again.body.error.code, 'invalid_verification_token');
+
+    await h.browser().post('/api/auth/sign-up').send(person(2)).expect(202);
+    const late = verificationTokenFrom((await mailTo(h, person(2).email, CONFIRM)).textBody);
+    await h.rungbook.services.dataSource.getRepository(EmailVerificationToken).update({ tokenHash: sha256(late) }, { expiresAt: new Date(Date.now() - 1000) });
+    const expired = await h.browser().post('/api/auth/verify').send({ token: late }).expect(400);
+    assert.equal(expired.body.error.code, 'invalid_verification_token');
+    const made = await h.browser().post('/api/auth/verify').send({ token: 'B'.repeat(43) }).expect(400);
+    assert.equal(made.body.error.code, 'invalid_verification_token');
+  });
+
+  test('an open session of the same person sees emailVerified flip at once', async () => {
+    const client = h.browser();
+    await client.post('/api/auth/sign-up').send(person(3)).expect(202);
+    await client.post('/api/auth/sign-in').send({ email: person(3).email, password: person(3).password }).expect(200);
+    assert.equal((await client.get('/api/me').expect(200)).body.user.emailVerified, false);
+    const token = verificationTokenFrom((await mailTo(h, person(3).email, CONFIRM)).textBody);
+    // Another browser follows the link; the first one's (cached) session must not keep the old state.
+    await h.browser().post('/api/auth/verify').send({ token }).expect(200);
+    assert.equal((await client.get('/api/me').expect(200)).body.user.emailVerified, true);
+  });
+
+  test('resend: signed-in and unconfirmed only, a fresh link each time, rate-limited', async () => {
+    await h.raw.post('/api/auth/verify/resend').send({}).expect(401);
+    const client = h.browser();
+    await client.post('/api/auth/sign-up').send(person(4)).expect(202);
+    await client.post('/api/auth/sign-in').send({ email: person(4).email, password: person(4).password }).expect(200);
+    const first = verificationTokenFrom((await mailTo(h, person(4).email, CONFIRM)).textBody);
+    await client.post('/api/auth/verify/resend').send({}).expect(202);
+    const second = verificationTokenFrom((await mailTo(h, person(4).email, CONFIRM)).textBody);
+    assert.notEqual(second, first);
+    await client.post('/api/auth/verify/resend').send({}).expect(202);
+    // FORGOT_LIMIT_PER_IP=2 bounds resends per person per 15 minutes.
+    const limited = await client.post('/api/auth/verify/resend').send({}).expect(429);
+    assert.equal(limited.body.error.code, 'rate_limited');
+    const verifiedClient = h.browser();
+    await verifiedClient.post('/api/auth/sign-in').send({ email: person(1).email, password: person(1).password }).expect(200);
+    await verifiedClient.post('/api/auth/verify/resend').send({}).expect(409);
+  });
+});
+
+describe('rate limits on sign-up, forgot-password and reset', () => {
+  test('each answers 429 past its per-source limit', async () => {
+    const h = await startHarness({ SIGNUP_LIMIT_PER_IP: '2', FORGOT_LIMIT_PER_IP: '2', RESET_LIMIT_PER_IP: '2' });
+    try {
+      for (const n of [1, 2]) await h.browser().post('/api/auth/sign-up').send(person(n)).expect(202);
+      assert.equal((await h.browser().post('/api/auth/sign-up').send(person(3)).expect(429)).body.error.code, 'rate_limited');
+      for (let i = 0; i < 2; i += 1) await h.browser().post('/api/auth/forgot').send({ email: person(1).email }).expect(202);
+      assert.equal((await h.browser().post('/api/auth/forgot').send({ email: person(1).email }).expect(429)).body.error.code, 'rate_limited');
+      for (let i = 0; i < 2; i += 1) await h.browser().post('/api/auth/reset').send({ token: 'C'.repeat(43), password: 'whatever-new-pass' }).expect(400);
+      assert.equal((await h.browser().post('/api/auth/reset').send({ token: 'C'.repeat(43), password: 'whatever-new-pass' }).expect(429)).body.error.code, 'rate_limited');
+    } finally {
+      await h.close();
+    }
+  });
+});
+
+describe('password reset', () => {
+  let h: Harness;
+  before(async () => {
+    h = await startHarness({ RESET_LIMIT_PER_IP: '1000' });
+    await signUpVerified(h, 1);
+  });
+  after(() => h.close());
+
+  async function requestLink(): Promise<string> {
+    const before = (await h.capturedMail()).length;
+    await h.browser().post('/api/auth/forgot').send({ email: person(1).email }).expect(202);
+    await h.rungbook.services.mailer.idle();
+    const mail = (await h.capturedMail()).slice(before).filter((m) => m.subject === RESET);
+    assert.equal(mail.length, 1);
+    return resetTokenFrom(mail[0].textBody);
+  }
+
+  test('a completed reset spends every other outstanding link of the account', async () => {
+    const older = await requestLink();
+    const newer = await requestLink();
+    await h.browser().post('/api/auth/reset').send({ token: newer, password: 'reset-password-one' }).expect(200);
+    const stale = await h.browser().post('/api/auth/reset').send({ token: older, password: 'reset-password-two' }).expect(400);
+    assert.equal(stale.body.error.code, 'invalid_reset_token');
+    const open = await h.rungbook.services.dataSource.getRepository(PasswordResetToken).find();
+    assert.ok(open.every((row) => row.usedAt !== null));
+    await h.browser().post('/api/auth/sign-in').send({ email: person(1).email, password: 'reset-password-one' }).expect(200);
+  });
+
+  test('a junk token is refused before any password hash is computed', async () => {
+    // Reference: the cost of the argon2id hashes these requests would need if they hashed first.
+    const [, hashingMs] = await timed(async () => {
+      for (let i = 0; i < 8; i += 1) await hashPassword(`reference-password-${i}`);
+    });
+    const [, junkMs] = await timed(async () => {
+      for (let i = 0; i < 8; i += 1) {
+        await h.browser().post('/api/auth/reset').send({ token: `junk${i}`.padEnd(43, 'J'), password: 'whatever-new-pass' }).expect(400);
+      }
+    });
+    assert.ok(junkMs < hashingMs / 2, `8 junk resets took ${junkMs.toFixed(0)} ms; 8 hashes take ${hashingMs.toFixed(0)} ms`);
+  });
+});
+
+describe('no account enumeration', () => {
+  let silentSmtp: net.Server;
+  let h: Harness;
+  before(async () => {
+    // An SMTP relay that accepts the connection and never greets: a send waits for the mailer's 5 s greeting timeout.
+    silentSmtp = net.createServer(() => undefined);
+    await new Promise<void>((resolve) => silentSmtp.listen(0, '127.0.0.1', resolve));
+    const port = (silentSmtp.address() as net.AddressInfo).port;
+    h = await startHarness({ MAIL_FAKE: 'false', SMTP_PORT: String(port), SIGNUP_LIMIT_PER_IP: '1000' });
+  });
+  after(async () => {
+    await h.close();
+    await new Promise((resolve) => silentSmtp.close(resolve));
+  });
+
+  test('forgot-password answers at once and alike for known and unknown addresses: the reply never waits for SMTP', async () => {
+    await h.browser().post('/api/auth/sign-up').send(person(1)).expect(202);
+    const [known, knownMs] = await timed(() => h.browser().post('/api/auth/forgot').send({ email: person(1).email }).expect(202));
+    const [unknown, unknownMs] = await timed(() => h.browser().post('/api/auth/forgot').send({ email: 'nobody@test.rungbook.example' }).expect(202));
+    assert.deepEqual(known.body, unknown.body);
+    assert.ok(knownMs < 1000 && unknownMs < 1000, `known ${knownMs.toFixed(0)} ms, unknown ${unknownMs.toFixed(0)} ms; a send would take ≥ 5000 ms`);
+  });
+
+  test('sign-up with a taken address replies like a new sign-up and spends a password hash too', async () => {
+    const newTimes: number[] = [];
+    const takenTimes: number[] = [];
+    for (let i = 0; i < 5; i += 1) {
+      const [fresh, freshMs] = await timed(() => h.browser().post('/api/auth/sign-up').send(person(100 + i)).expect(202));
+      const [taken, takenMs] = await timed(() => h.browser().post('/api/auth/sign-up').send({ ...person(100 + i), name: 'Someone Else (invented)' }).expect(202));
+      assert.equal(taken.body.message, fresh.body.message);
+      assert.equal(taken.headers['set-cookie'], fresh.headers['set-cookie']);
+      newTimes.push(freshMs);
+      takenTimes.push(takenMs);
+    }
+    // Without the hash a taken address would answer in about a millisecond, against tens for argon2id.
+    assert.ok(median(takenTimes) > median(newTimes) / 3, `medians: taken ${median(takenTimes).toFixed(1)} ms, new ${median(newTimes).toFixed(1)} ms`);
+  });
+});
+
+describe('a stranger cannot lock an account out', () => {
+  let h: Harness;
+  const owner = person(1);
+  const fail = (xff: string, client = h.browser()) =>
+    client.post('/api/auth/sign-in').set('X-Forwarded-For', xff).send({ email: owner.email, password: 'not-the-password' });
+  before(async () => {
+    h = await startHarness({ TRUST_PROXY: 'true', SIGNIN_LIMIT_PER_ACCOUNT: '3', SIGNIN_LIMIT_PER_IP: '1000' });
+    await signUpVerified(h, 1);
+  });
+  after(() => h.close());
+
+  test('failures count per account and source: the stranger is stopped, the owner elsewhere signs in', async () => {
+    // Documentation addresses (RFC 5737).
+    for (let i = 0; i < 3; i += 1) await fail('203.0.113.7').expect(401);
+    assert.equal((await fail('203.0.113.7').expect(429)).body.error.code, 'rate_limited');
+    await h.browser().post('/api/auth/sign-in').set('X-Forwarded-For', '198.51.100.2').send({ email: owner.email, password: owner.password }).expect(200);
+  });
+
+  test('the owner on a known device signs in even from the address the stranger exhausted', async () => {
+    const device = h.browser();
+    await device.post('/api/auth/sign-in').set('X-Forwarded-For', '192.0.2.50').send({ email: owner.email, password: owner.password }).expect(200);
+    for (let i = 0; i < 3; i += 1) await fail('192.0.2.50').expect(401);
+    await fail('192.0.2.50').expect(429);
+    await device.post('/api/auth/sign-in').set('X-Forwarded-For', '192.0.2.50').send({ email: owner.email, password: owner.password }).expect(200);
+    // A forged device cookie is just an unknown source.
+    const forger = h.browser();
+    await forger.post('/api/auth/sign-in').set('X-Forwarded-For', '192.0.2.50').set('Cookie', 'rungbook_device=abc.def').send({ email: owner.email, password: owner.password }).expect(429);
+  });
+
+  test('malformed attempts do not count against the account', async () => {
+    for (let i = 0; i < 6; i += 1) {
+      await h.browser().post('/api/auth/sign-in').set('X-Forwarded-For', '198.51.100.77').send({ email: owner.email, password: '' }).expect(400);
+    }
+    await h.browser().post('/api/auth/sign-in').set('X-Forwarded-For', '198.51.100.77').send({ email: owner.email, password: owner.password }).expect(200);
+  });
+});
+
+describe('proxy headers without TRUST_PROXY', () => {
+  test('X-Forwarded-For is ignored: a stranger cannot pose as many sources', async () => {
+    const h = await startHarness({ SIGNIN_LIMIT_PER_ACCOUNT: '3', SIGNIN_LIMIT_PER_IP: '1000' });
+    try {
+      await signUpVerified(h, 1);
+      for (let i = 0; i < 3; i += 1) {
+        await h.browser().post('/api/auth/sign-in').set('X-Forwarded-For', `203.0.113.${i + 1}`).send({ email: person(1).email, password: 'not-the-password' }).expect(401);
+      }
+      await h.browser().post('/api/auth/sign-in').set('X-Forwarded-For', '203.0.113.99').send({ email: person(1).email, password: 'not-the-password' }).expect(429);
+    } finally {
+      await h.close();
+    }
+  });
+});
+
+describe('the local mail capture accepts only the server’s own messages', () => {
+  let h: Harness;
+  before(async () => {
+    h = await startHarness();
+  });
+  after(() => h.close());
+
+  const rawClient = (auth?: { user: string; pass: string }) =>
+    nodemailer.createTransport({ host: '127.0.0.1', port: h.config.mail.smtpPort, secure: false, ignoreTLS: true, auth });
+  const planted = { from: 'intruder@test.rungbook.example', to: 'someone@test.rungbook.example', subject: 'Planted message', text: 'planted' };
+
+  test('a client without the per-start credential, or with a wrong one, is refused and nothing is captured', async () => {
+    await assert.rejects(rawClient().sendMail(planted), /530|Authentication required/i);
+    await assert.rejects(rawClient({ user: 'rungbook', pass: 'guessed-password' }).sendMail(planted), /535|Invalid username or password/i);
+    assert.equal((await h.capturedMail()).length, 0);
+  });
+
+  test('the server’s own mail is captured; the credential differs at every start', async () => {
+    await h.browser().post('/api/auth/sign-up').send(person(1)).expect(202);
+    await mailTo(h, person(1).email, CONFIRM);
+    const other = await startHarness();
+    try {
+      assert.notEqual(other.rungbook.smtpFake!.credential.pass, h.rungbook.smtpFake!.credential.pass);
+      assert.ok(h.rungbook.smtpFake!.credential.pass.length >= 32);
+    } finally {
+      await other.close();
+    }
+  });
+});

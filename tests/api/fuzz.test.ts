@@ -1,0 +1,142 @@
+// Property-based fuzzing (fast-check) of every route in the API route table: arbitrary JSON, mutated
+// valid bodies, hostile keys, lone surrogates, odd path segments and queries. The contract under test
+// is the API's own promise: bad input is a 4xx JSON error, never a 500, and the server stays healthy.
+import assert from 'node:assert/strict';
+import { after, before, describe, test } from 'node:test';
+import fc from 'fast-check';
+import { apiRouteTable } from '../../server/app';
+import type { AnyRouteSpec } from '../../server/http/route';
+import { startHarness, type Harness } from './harness';
+import { createPerson, type TestPerson } from './people';
+
+const RUNS_PER_ROUTE = Number(process.env.FUZZ_RUNS ?? 25);
+
+interface Fixture {
+  notebookId: string;
+  cellId: string;
+  versionId: string;
+  runId: string;
+  groupId: string;
+  userId: string;
+}
+
+/** A plausible valid body per route, as the seed that mutations start from (unknown routes start from {}). */
+function seedBody(spec: AnyRouteSpec): Record<string, unknown> {
+  const key = `${spec.method.toUpperCase()} ${spec.path}`;
+  const seeds: Record<string, Record<string, unknown>> = {
+    'POST /auth/sign-up': { name: 'Invented Fuzz', email: 'fuzz@test.rungbook.example', password: 'long-enough-pass-fuzz' },
+    'POST /auth/sign-in': { email: 'fuzz@test.rungbook.example', password: 'long-enough-pass-fuzz' },
+    'POST /auth/forgot': { email: 'fuzz@test.rungbook.example' },
+    'POST /auth/reset': { token: 'x'.repeat(43), password: 'long-enough-pass-fuzz' },
+    'POST /groups': { name: 'Invented Fuzz Group', description: 'invented' },
+    'POST /groups/:groupId/members': { email: 'fuzz@test.rungbook.example', role: 'member' },
+    'PATCH /groups/:groupId/members/:userId': { role: 'member' },
+    'POST /notebooks': { title: 'Invented fuzz notebook', summary: 'invented' },
+    'PATCH /notebooks/:notebookId': { title: 'Renamed' },
+    'POST /notebooks/:notebookId/cells': { label: 'note1', input: { kind: 'note', text: 'Invented $x^2$' } },
+    'PATCH /notebooks/:notebookId/cells/:cellId': { revision: 1, input: { kind: 'note', text: 'edited' } },
+    'POST /notebooks/:notebookId/cells/:cellId/move': { position: 0 },
+    'POST /notebooks/:notebookId/versions': { message: 'fuzz' },
+    'POST /notebooks/import': { format: 'rungbook-notebook', version: 1, title: 'Invented import', summary: '', cells: [] },
+    'POST /calc': { job: { kind: 'gamma', x: '1/2', digits: 20 } },
+  };
+  return seeds[key] ?? {};
+}
+
+const anyCodeUnit = fc.integer({ min: 0, max: 0xffff }).map((code) => String.fromCharCode(code));
+const hostileString = fc.oneof(
+  fc.string(),
+  fc.string({ unit: anyCodeUnit, maxLength: 12 }),
+  fc.constantFrom('\ud800', 'a\udfffb', '__proto__', 'constructor', '((u1+u2+u3+u4+u5+u6+u7)^4)^3', '%E0%A4%A', '\\input{/etc/passwd}', '1e999', '-0'),
+);
+const hostileKey = fc.oneof(fc.constantFrom('__proto__', 'constructor', 'prototype', 'toString', 'hasOwnProperty'), fc.string({ maxLength: 8 }));
+const anyJson = fc.oneof(fc.jsonValue({ maxDepth: 3 }), hostileString);
+
+/** Valid-looking bodies with one field changed, a hostile key added, or replaced wholesale. */
+function bodies(seed: Record<string, unknown>): fc.Arbitrary<unknown> {
+  const keys = Object.keys(seed);
+  const replaced = keys.length
+    ? fc.tuple(fc.constantFrom(...keys), anyJson).map(([key, value]) => ({ ...seed, [key]: value }))
+    : fc.constant(seed);
+  const extra = fc.tuple(hostileKey, anyJson).map(([key, value]) => JSON.parse(JSON.stringify({ ...seed }).replace(/^\{/, `{${JSON.stringify(key)}:${JSON.stringify(value)}${keys.length ? ',' : ''}`)));
+  const dropped = keys.length ? fc.constantFrom(...keys).map((key) => Object.fromEntries(Object.entries(seed).filter(([k]) => k !== key))) : fc.constant({});
+  return fc.oneof(replaced, extra, dropped, anyJson, fc.dictionary(hostileKey, anyJson, { maxKeys: 4 }));
+}
+
+const pathSegment = fc.oneof(
+  { weight: 6, arbitrary: fc.constant(null) }, // the real id
+  { weight: 1, arbitrary: fc.string({ maxLength: 12 }).map((s) => encodeURIComponent(s)) },
+  { weight: 1, arbitrary: fc.constantFrom('%E0%A4%A', '%ff', '%', '..', 'a'.repeat(300), '%00', '__proto__') },
+);
+
+function fillPath(path: string, fixture: Fixture, overrides: (string | null)[]): string {
+  let index = 0;
+  return path.replace(/:(\w+)/g, (_match, name: keyof Fixture) => overrides[index++] ?? fixture[name] ?? 'zzzzzzzzzzzz');
+}
+
+describe('fuzzing every request schema: only 4xx, never 500', () => {
+  let h: Harness;
+  let owner: TestPerson;
+  let fixture: Fixture;
+  let requests = 0;
+  const statusCounts = new Map<number, number>();
+
+  before(async () => {
+    h = await startHarness({ SIGNIN_LIMIT_PER_IP: '100000', SIGNIN_LIMIT_PER_ACCOUNT: '100000' });
+    owner = await createPerson(h, { tag: 'owner' });
+    const member = await createPerson(h, { tag: 'member', signIn: false });
+    fixture = await buildFixture(h, owner, member.id);
+  });
+  after(async () => {
+    const counts = [...statusCounts.entries()].sort(([a], [b]) => a - b).map(([status, n]) => `${status}×${n}`).join(' ');
+    console.log(`fuzz: ${requests} requests over ${apiRouteTable(h.rungbook.services).length} routes; statuses ${counts}`);
+    await h.close();
+  });
+
+  async function signedIn(): Promise<void> {
+    const me = await owner.client.get('/api/me');
+    if (me.status === 401) await owner.client.post('/api/auth/sign-in').send({ email: owner.email, password: owner.password }).expect(200);
+  }
+
+  test('every route answers arbitrary input with a status below 500', async () => {
+    const specs = apiRouteTable(h.rungbook.services).filter((spec) => !(spec.method === 'delete' && spec.path === '/notebooks/:notebookId'));
+    const paramCount = (path: string) => (path.match(/:\w+/g) ?? []).length;
+    for (const spec of specs) {
+      await signedIn();
+      const property = fc.asyncProperty(
+        bodies(seedBody(spec)),
+        fc.array(pathSegment, { minLength: paramCount(spec.path), maxLength: paramCount(spec.path) }),
+        fc.dictionary(hostileKey, hostileString, { maxKeys: 3 }),
+        async (body, segments, query) => {
+          const url = `/api${fillPath(spec.path, fixture, segments)}`;
+          let request = owner.client[spec.method](url);
+          if (spec.method === 'get') request = request.query(query);
+          else request = request.set('Content-Type', 'application/json').send(JSON.stringify(body) ?? 'null');
+          const reply = await request;
+          requests += 1;
+          statusCounts.set(reply.status, (statusCounts.get(reply.status) ?? 0) + 1);
+          assert.ok(reply.status < 500, `${spec.method.toUpperCase()} ${url} with ${JSON.stringify(body)?.slice(0, 300)} gave ${reply.status}: ${reply.text.slice(0, 300)}`);
+          if (reply.status >= 400) assert.equal(typeof reply.body?.error?.code, 'string', `${url}: a 4xx reply carries a JSON error code`);
+        },
+      );
+      await fc.assert(property, { numRuns: RUNS_PER_ROUTE });
+    }
+  });
+
+  test('the server is healthy after the fuzzing', async () => {
+    const health = await h.raw.get('/api/health').expect(200);
+    assert.equal(health.body.database, 'ok');
+  });
+});
+
+async function buildFixture(h: Harness, owner: TestPerson, userId: string): Promise<Fixture> {
+  const client = owner.client;
+  const groupId = (await client.post('/api/groups').send({ name: 'Invented Fuzz Group', description: 'invented' }).expect(201)).body.group.id as string;
+  const notebook = (await client.post('/api/notebooks').send({ title: 'Invented fuzz target', summary: 'invented', groupId }).expect(201)).body.notebook;
+  await client.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'setup', input: { kind: 'setup', model: { preset: 'on', N: 1 }, d: '3', s: '1.5', loops: 2, digits: 20 } }).expect(201);
+  const withCell = (await client.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'bubble', input: { kind: 'integral', uses: 'setup', form: 'bubble', a: 's/2', b: 's/2', d: '2*s-eps', order: 1 } }).expect(201)).body.notebook;
+  const cellId = withCell.cells.find((c: { label: string }) => c.label === 'bubble').id as string;
+  const runId = (await client.post(`/api/notebooks/${notebook.id}/cells/${cellId}/run`).expect(202)).body.run.id as string;
+  const versionId = (await client.post(`/api/notebooks/${notebook.id}/versions`).send({ message: 'fuzz base' }).expect(201)).body.version.id as string;
+  return { notebookId: notebook.id, cellId, versionId, runId, groupId, userId };
+}
