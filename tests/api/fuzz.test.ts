@@ -37,8 +37,8 @@ function seedBody(spec: AnyRouteSpec): Record<string, unknown> {
     'PATCH /notebooks/:notebookId/cells/:cellId': { revision: 1, input: { kind: 'note', text: 'edited' } },
     'POST /notebooks/:notebookId/cells/:cellId/move': { position: 0 },
     'POST /notebooks/:notebookId/versions': { message: 'fuzz' },
-    'POST /notebooks/import': { format: 'rungbook-notebook', version: 1, title: 'Invented import', summary: '', cells: [] },
-    'POST /calc': { job: { kind: 'gamma', x: '1/2', digits: 20 } },
+    'POST /notebooks/import': { format: 'rungbook-notebook', formatVersion: 1, title: 'Invented import', summary: '', cells: [] },
+    'POST /calc': { job: { job: 'special', fn: 'gamma', x: '0.5', digits: 20 } },
   };
   return seeds[key] ?? {};
 }
