@@ -81,7 +81,7 @@ async function main() {
       await new Promise((r) => setTimeout(r, 250));
     }
     const signIn = await fetch(`${base}/api/auth/sign-in`, { method: 'POST', headers: { 'Content-Type': 'application/json', Origin: base }, body: JSON.stringify(PERSON) });
-    const cookie = (signIn.headers.get('set-cookie') ?? '').split(';')[0];
+    const cookie = (signIn.headers.getSetCookie().find((c) => c.startsWith('rungbook_session=')) ?? '').split(';')[0];
 
     let next = 0;
     // Warm-up (JIT, first reads of every notebook, worker boot) is not part of the measurement.
