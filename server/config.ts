@@ -75,6 +75,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
   const port = intFrom(env.PORT, 8080);
   const host = env.HOST ?? '127.0.0.1';
   const publicUrl = (env.PUBLIC_URL ?? `http://localhost:${port}`).replace(/\/+$/, '');
+  const threads = Math.max(1, intFrom(env.JOB_THREADS, 2));
   const config: ServerConfig = {
     production,
     port,
@@ -107,10 +108,11 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     seedDemoData: boolFrom(env.SEED_DEMO_DATA, !production),
     demoPassword: env.DEMO_PASSWORD || undefined,
     jobs: {
-      threads: Math.max(1, intFrom(env.JOB_THREADS, 2)),
+      threads,
       timeLimitMs: intFrom(env.JOB_TIME_LIMIT_MS, 120_000),
       perUserQueued: Math.max(1, intFrom(env.JOB_QUEUE_PER_USER, 8)),
-      perUserRunning: Math.max(1, intFrom(env.JOB_RUNNING_PER_USER, 1)),
+      // One person alone may use every thread; with others waiting, free threads go to them in turn.
+      perUserRunning: Math.max(1, intFrom(env.JOB_RUNNING_PER_USER, threads)),
       queueWaitLimitMs: intFrom(env.JOB_QUEUE_WAIT_LIMIT_MS, 600_000),
     },
     bodyLimit: env.BODY_LIMIT ?? '100kb',

@@ -8,6 +8,8 @@ interface CellActionsProps {
   testPrefix: string;
   canRun: boolean;
   running: boolean;
+  /** The cell's run waits in the queue for a worker. */
+  waiting?: boolean;
   editing: boolean;
   isFirst: boolean;
   isLast: boolean;
@@ -18,10 +20,10 @@ interface CellActionsProps {
 }
 
 /** Wide screens show every action; phones keep Run at hand and fold the rest into a small menu. */
-export function CellActions({ wide, testPrefix, canRun, running, editing, isFirst, isLast, onRun, onToggleEdit, onMove, onDelete }: CellActionsProps) {
+export function CellActions({ wide, testPrefix, canRun, running, waiting = false, editing, isFirst, isLast, onRun, onToggleEdit, onMove, onDelete }: CellActionsProps) {
   const [menuOpen, setMenuOpen] = useState(false);
   const [confirmDelete, setConfirmDelete] = useState(false);
-  const run = canRun ? <ChipButton label={running ? 'Running…' : 'Run'} tone="accent" disabled={running} onPress={onRun} testID={`${testPrefix}-run`} /> : null;
+  const run = canRun ? <ChipButton label={waiting ? 'Waiting…' : running ? 'Running…' : 'Run'} tone="accent" disabled={running} onPress={onRun} testID={`${testPrefix}-run`} /> : null;
   const secondary = (
     <>
       <ChipButton label={editing ? 'Close editor' : 'Edit'} onPress={() => { onToggleEdit(); setMenuOpen(false); }} testID={`${testPrefix}-edit`} />

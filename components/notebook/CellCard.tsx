@@ -2,7 +2,7 @@ import { useState } from 'react';
 import { StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, spacing } from '../../constants/theme';
 import { isConflict, useDeleteCellMutation, useMoveCellMutation, useReloadNotebook, useRunCellMutation, useUpdateCellMutation } from '../../hooks/api/notebooks';
-import { cellKindTitles, type CellView, type NotebookDetail } from '../../shared/notebook';
+import { cellKindTitles, type CellView, type NotebookDetail, type RunView } from '../../shared/notebook';
 import { TextField } from '../ui/TextField';
 import { Notice } from '../ui/Notice';
 import { errorsFromServer } from '../auth/formErrors';
@@ -30,6 +30,21 @@ export interface CellCardProps {
 }
 
 export const runsJob = (cell: Pick<CellView, 'kind'>) => cell.kind !== 'note' && cell.kind !== 'setup';
+
+function duration(ms: number): string {
+  if (ms < 120_000) return `${Math.round(ms / 1000)} s`;
+  if (ms < 7_200_000) return `${Math.round(ms / 60_000)} min`;
+  return `${Math.round(ms / 3_600_000)} h`;
+}
+
+/** What a queued run is waiting for, and when the wait is given up. */
+export function queueNote(run: RunView, now = Date.now()): string | null {
+  if (run.status !== 'queued' || !run.queue) return null;
+  const { ahead, since, waitLimitMs } = run.queue;
+  const waited = Math.max(0, now - Date.parse(since));
+  const lead = ahead === 0 ? 'Next in line for a worker' : `${ahead} job${ahead === 1 ? '' : 's'} ahead in the queue`;
+  return `${lead}; waiting ${duration(waited)} so far, given up after ${duration(waitLimitMs)}.`;
+}
 
 export function CellCard({ notebook, cell, index, wide, selected, onSelect, startEditing = false, registerRunner }: CellCardProps) {
   const [editing, setEditing] = useState(startEditing);
@@ -75,13 +90,14 @@ export function CellCard({ notebook, cell, index, wide, selected, onSelect, star
 
   if (runsJob(cell)) registerRunner?.(() => void runNow());
   const stale = cell.state === 'out-of-date';
+  const waitingNote = cell.state === 'running' && cell.lastRun ? queueNote(cell.lastRun) : null;
   return (
     <View style={[styles.card, stale && styles.stale, selected && wide && styles.selected]} testID={testPrefix} onStartShouldSetResponderCapture={() => { onSelect(); return false; }}>
       <View style={styles.head}>
         <View style={styles.headText}>
           <Text style={styles.kind}>{cellKindTitles[cell.kind]}</Text>
           <Text style={styles.label} testID={`${testPrefix}-label`}>{cell.label}</Text>
-          {runsJob(cell) ? <CellStateBadge state={cell.state} testID={`${testPrefix}-state`} /> : null}
+          {runsJob(cell) ? <CellStateBadge state={cell.state} run={cell.lastRun} testID={`${testPrefix}-state`} /> : null}
         </View>
         {notebook.canEdit ? (
           <CellActions
@@ -89,6 +105,7 @@ export function CellCard({ notebook, cell, index, wide, selected, onSelect, star
             testPrefix={testPrefix}
             canRun={runsJob(cell)}
             running={cell.state === 'running' || run.isPending}
+            waiting={cell.lastRun?.status === 'queued'}
             editing={editing}
             isFirst={index === 0}
             isLast={index === notebook.cells.length - 1}
@@ -100,6 +117,7 @@ export function CellCard({ notebook, cell, index, wide, selected, onSelect, star
         ) : null}
       </View>
 
+      {waitingNote ? <Text style={styles.meta} testID={`${testPrefix}-queue`}>{waitingNote}</Text> : null}
       {cell.dependents.length ? <Text style={styles.meta}>Feeds {cell.dependents.join(', ')}</Text> : null}
       {stale ? (
         <Text style={styles.staleText} testID={`${testPrefix}-stale`}>

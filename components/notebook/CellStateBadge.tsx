@@ -1,6 +1,6 @@
 import { StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, spacing } from '../../constants/theme';
-import type { CellState } from '../../shared/notebook';
+import type { CellState, RunView } from '../../shared/notebook';
 
 export const stateWords: Record<CellState, string> = {
   text: 'Text',
@@ -22,12 +22,20 @@ export const stateColor: Record<CellState, string> = {
   'broken-reference': colors.danger,
 };
 
-export function CellStateBadge({ state, testID }: { state: CellState; testID?: string }) {
+/** "Waiting — 2 ahead" for a run still in the queue; null for any other run. */
+export function queueWords(run: RunView | null | undefined): string | null {
+  if (run?.status !== 'queued') return null;
+  const ahead = run.queue?.ahead ?? 0;
+  return ahead === 0 ? 'Waiting — next' : `Waiting — ${ahead} ahead`;
+}
+
+export function CellStateBadge({ state, run, testID }: { state: CellState; run?: RunView | null; testID?: string }) {
   if (state === 'text') return null;
+  const words = (state === 'running' && queueWords(run)) || stateWords[state];
   return (
-    <View style={[styles.badge, { borderColor: stateColor[state] }]} testID={testID} accessibilityLabel={`State: ${stateWords[state]}`}>
+    <View style={[styles.badge, { borderColor: stateColor[state] }]} testID={testID} accessibilityLabel={`State: ${words}`}>
       <View style={[styles.dot, { backgroundColor: stateColor[state] }]} />
-      <Text style={[styles.text, { color: stateColor[state] }]}>{stateWords[state]}</Text>
+      <Text style={[styles.text, { color: stateColor[state] }]}>{words}</Text>
     </View>
   );
 }

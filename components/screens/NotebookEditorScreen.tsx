@@ -24,6 +24,11 @@ export function NotebookEditorScreen({ notebookId }: { notebookId: string }) {
   return <NotebookEditor notebook={notebook.data} />;
 }
 
+export function waitingMessage(labels: string[]): string {
+  const cells = labels.length === 1 ? `1 cell (${labels[0]}) is` : `${labels.length} cells (${labels.join(', ')}) are`;
+  return `${cells} waiting for a free slot in your queue. Run all again once some of your queued jobs have started.`;
+}
+
 function Centered({ children }: { children: React.ReactNode }) {
   return <View style={styles.centered}>{children}</View>;
 }
@@ -42,6 +47,8 @@ function NotebookEditor({ notebook }: { notebook: NotebookDetail }) {
   const addCell = useAddCellMutation(notebook.id);
   const runAll = useRunAllMutation(notebook.id);
 
+  // Cells run-all could not queue (queue limit) and that are still not up to date; run all again picks them up.
+  const runAllWaiting = (runAll.data?.waiting ?? []).filter((label) => notebook.cells.some((cell) => cell.label === label && cell.state !== 'up-to-date' && cell.state !== 'running'));
   const selectedIndex = notebook.cells.findIndex((cell) => cell.id === selectedId);
   const add = (kind: CellKind) => {
     const label = freshLabel(kind, notebook.cells);
@@ -98,7 +105,8 @@ function NotebookEditor({ notebook }: { notebook: NotebookDetail }) {
           <ChipButton label="JSON" onPress={() => void exportAs('json')} testID="export-json" accessibilityLabel="Export as JSON" />
           {wide ? <ChipButton label="Shortcuts" onPress={() => setHelpOpen(true)} testID="open-shortcuts" /> : null}
         </View>
-        {runAll.data && runAll.data.length === 0 ? <Notice tone="info" message="Every cell is already up to date." testID="run-all-nothing" /> : null}
+        {runAll.data && runAll.data.runs.length === 0 && runAll.data.waiting.length === 0 ? <Notice tone="info" message="Every cell is already up to date." testID="run-all-nothing" /> : null}
+        {runAllWaiting.length ? <Notice tone="info" message={waitingMessage(runAllWaiting)} testID="run-all-waiting" /> : null}
         {runAll.isError ? <Notice tone="error" message={runAll.error.message} /> : null}
         {exportError ? <Notice tone="error" message={exportError} /> : null}
         {versionFormOpen ? <SaveVersionForm notebookId={notebook.id} /> : null}

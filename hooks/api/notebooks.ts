@@ -1,5 +1,5 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { CellInput, NotebookDetail, NotebookSummary, RunView, VersionComparison, VersionDetail, VersionSummary } from '../../shared/notebook';
+import type { CellInput, NotebookDetail, NotebookSummary, RunAllReply, RunView, VersionComparison, VersionDetail, VersionSummary } from '../../shared/notebook';
 import { ApiError, apiRequest } from './client';
 import { queryKeys } from './keys';
 
@@ -131,11 +131,12 @@ export function useRunCellMutation(notebookId: string) {
   });
 }
 
+/** Runs what the queue limit allows; `waiting` lists the cells left for a later run-all. */
 export function useRunAllMutation(notebookId: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: async () => (await apiRequest<{ runs: RunView[] }>('POST', `/notebooks/${notebookId}/run-all`, {})).runs,
-    onSuccess: (runs) => {
+    mutationFn: () => apiRequest<RunAllReply>('POST', `/notebooks/${notebookId}/run-all`, {}),
+    onSuccess: ({ runs }) => {
       for (const run of runs) queryClient.setQueryData(queryKeys.run(run.id), run);
       void queryClient.invalidateQueries({ queryKey: queryKeys.notebook(notebookId) });
     },

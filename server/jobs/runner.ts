@@ -18,6 +18,10 @@ export interface JobRunner {
 
 export class RunAborted extends Error {}
 
+/**
+ * The run service's fair queue (scheduler.ts) hands the pool at most `threads` jobs at a time, so the order
+ * of work is decided there, not by piscina's first-come queue.
+ */
 export function createWorkerPoolRunner(options: { threads: number }): JobRunner {
   const pool = new Piscina({
     filename: path.join(__dirname, 'worker.ts'),

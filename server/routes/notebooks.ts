@@ -59,8 +59,8 @@ export function notebookRoutes({ notebooks, versions }: Services) {
       } }),
     route({ method: 'post', path: '/notebooks/:notebookId/cells/:cellId/run', access: 'signed-in', summary: 'Run a cell on the server', params: cellParams, status: 202,
       handler: async ({ user, params }) => ({ run: await notebooks.runCell(user!, params.notebookId, params.cellId) }) }),
-    route({ method: 'post', path: '/notebooks/:notebookId/run-all', access: 'signed-in', summary: 'Run every cell that is not up to date', params: notebookParams, status: 202,
-      handler: async ({ user, params }) => ({ runs: await notebooks.runAll(user!, params.notebookId) }) }),
+    route({ method: 'post', path: '/notebooks/:notebookId/run-all', access: 'signed-in', summary: 'Run every cell that is not up to date, as far as your queue limit allows; the rest are listed in `waiting`', params: notebookParams, status: 202,
+      handler: async ({ user, params }) => notebooks.runAll(user!, params.notebookId) }),
 
     route({ method: 'get', path: '/notebooks/:notebookId/versions', access: 'signed-in', summary: 'Saved versions, newest first', params: notebookParams,
       handler: async ({ user, params }) => ({ versions: await versions.list(user!, params.notebookId) }) }),

@@ -5,7 +5,6 @@ import { AppError } from '../http/errors';
 import { route } from '../http/route';
 import type { SignedInUser } from '../auth/sessions';
 import type { Services } from '../services';
-import { toRunView } from '../services/runs';
 
 const runParams = z.object({ runId: idParam });
 /** Any job of the calc CLI contract; validated here, so malformed jobs never reach a worker. */
@@ -15,8 +14,8 @@ const CALC_WAIT_MS = 30_000;
 export function runRoutes({ runs, notebooks }: Services) {
   async function visibleRun(user: SignedInUser, runId: string) {
     const run = await runs.find(runId);
-    if (run.requestedBy !== user.id && user.siteRole !== 'admin') {
-      // Runs of a shared notebook's cells are visible to everyone who can open the notebook.
+    if (run.requestedBy !== user.id) {
+      // Runs of a shared notebook's cells are visible to everyone who can open the notebook (site admins included: no more).
       const cellNotebook = run.cellId ? (await notebooks.cellNotebookId(run.cellId)) : null;
       if (!cellNotebook) throw new AppError('not_found', 'No such run.');
       await notebooks.access(user, cellNotebook);
@@ -25,13 +24,13 @@ export function runRoutes({ runs, notebooks }: Services) {
   }
 
   return [
-    route({ method: 'post', path: '/calc', access: 'signed-in', summary: 'Run one engine job (the same objects the calc CLI takes); waits up to 30 s', body: calcRequest, status: 200,
+    route({ method: 'post', path: '/calc', access: 'signed-in', summary: 'Run one engine job (the same objects the calc CLI takes); waits up to 30 s. 422 job_too_large over the cost limit, 429 queue_full when your queue is full', body: calcRequest, status: 200,
       handler: async ({ user, body }) => {
         const run = await runs.submit({ job: body.job, userId: user!.id });
-        return { run: toRunView(await runs.settle(run.id, CALC_WAIT_MS)) };
+        return { run: runs.view(await runs.settle(run.id, CALC_WAIT_MS)) };
       } }),
-    route({ method: 'get', path: '/runs/:runId', access: 'signed-in', summary: 'State, progress and result of a run', params: runParams,
-      handler: async ({ user, params }) => ({ run: toRunView(await visibleRun(user!, params.runId)) }) }),
+    route({ method: 'get', path: '/runs/:runId', access: 'signed-in', summary: 'State, progress and result of a run; while queued, how many jobs are ahead of it', params: runParams,
+      handler: async ({ user, params }) => ({ run: runs.view(await visibleRun(user!, params.runId)) }) }),
     route({ method: 'post', path: '/runs/:runId/cancel', access: 'signed-in', summary: 'Cancel a queued or running job (whoever started it, or an editor of its notebook)', params: runParams,
       handler: async ({ user, params }) => {
         const run = await visibleRun(user!, params.runId);
@@ -40,7 +39,7 @@ export function runRoutes({ runs, notebooks }: Services) {
           if (!notebookId) throw new AppError('forbidden', 'Only whoever started this run can cancel it.');
           await notebooks.editable(user!, notebookId);
         }
-        return { run: toRunView(await runs.cancel(params.runId)) };
+        return { run: runs.view(await runs.cancel(params.runId)) };
       } }),
   ];
 }

@@ -2,13 +2,13 @@ import type { DataSource, EntityManager } from 'typeorm';
 import { cellInput, type CellInput } from '../../shared/notebook/cells';
 import { cellStates, dependentsOf, fingerprintOf, type CellForStaleness } from '../../shared/notebook/dependencies';
 import { CellJobError, jobForCell, type SetupInput } from '../../shared/notebook/jobs';
-import type { CellView, NotebookDetail, NotebookSummary, RunView } from '../../shared/notebook/api';
+import type { CellView, NotebookDetail, NotebookSummary, RunAllReply, RunView } from '../../shared/notebook/api';
 import type { SignedInUser } from '../auth/sessions';
 import { Cell, GroupMembership, JobRun, Notebook, ResearchGroup, User } from '../db/entities';
 import { AppError } from '../http/errors';
 import { newId } from '../ids';
 import { assertCellAccepted } from './cellChecks';
-import { toRunView, type RunService } from './runs';
+import type { RunService } from './runs';
 
 export const MAX_CELLS_PER_NOTEBOOK = 200;
 
@@ -129,7 +129,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
       revision: row.revision,
       state: states.get(row.id)!,
       dependents: dependentsOf(row.label, labelled),
-      lastRun: run ? toRunView(run) : null,
+      lastRun: run ? runs.view(run) : null,
       updatedAt: row.updatedAt.toISOString(),
     }));
   }
@@ -193,10 +193,19 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
     }
     if (!job) return null;
     const byLabel = new Map(all.map((c) => [c.label, { label: c.label, input: parseCellInput(c.inputJson) }]));
-    const run = await runs.submit({ job, userId: viewer.id, cellId: row.id });
+    const run = await submitCellJob(viewer, row, job);
     await cells.update({ id: row.id }, { lastRunId: run.id, lastRunFingerprint: fingerprintOf({ label: row.label, input }, byLabel) });
     forget(row.notebookId);
-    return toRunView(run);
+    return runs.view(run);
+  }
+
+  async function submitCellJob(viewer: SignedInUser, row: Cell, job: Record<string, unknown>) {
+    try {
+      return await runs.submit({ job, userId: viewer.id, cellId: row.id });
+    } catch (error) {
+      if (error instanceof AppError && error.code === 'job_too_large') throw new AppError('job_too_large', `Cell "${row.label}": ${error.message}`, error.fields);
+      throw error;
+    }
   }
 
   return {
@@ -331,18 +340,28 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
       return run;
     },
 
-    /** Run every cell that is not up to date, in notebook order. */
-    async runAll(viewer: SignedInUser, notebookId: string): Promise<RunView[]> {
+    /**
+     * Run every cell that is not up to date, in notebook order, as far as the person's queue limit allows;
+     * the cells beyond it are reported as waiting (run all again once some have started).
+     */
+    async runAll(viewer: SignedInUser, notebookId: string): Promise<RunAllReply> {
       await editable(viewer, notebookId);
       const views = await cellViews(notebookId);
       const all = await orderedCells(notebookId);
       const started: RunView[] = [];
+      const waiting: string[] = [];
       for (const view of views) {
         if (!['never-run', 'out-of-date', 'failed'].includes(view.state)) continue;
-        const run = await runCellRow(viewer, all.find((c) => c.id === view.id)!, all);
-        if (run) started.push(run);
+        try {
+          const run = await runCellRow(viewer, all.find((c) => c.id === view.id)!, all);
+          if (run) started.push(run);
+        } catch (error) {
+          // Later cells may still be answered from the cache, so keep going.
+          if (!(error instanceof AppError && error.code === 'queue_full')) throw error;
+          waiting.push(view.label);
+        }
       }
-      return started;
+      return { runs: started, waiting };
     },
   };
 }

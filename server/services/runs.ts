@@ -2,12 +2,15 @@ import { createHash } from 'node:crypto';
 import type { DataSource } from 'typeorm';
 import type { Logger } from 'pino';
 import { canonicalJson } from '../../shared/notebook/dependencies';
-import type { RunView } from '../../shared/notebook/api';
+import { jobCostProblem } from '../../shared/jobs/cost';
+import type { QueueStanding, RunView } from '../../shared/notebook/api';
+import type { JobQueueConfig } from '../config';
 import { JobRun } from '../db/entities';
 import { AppError } from '../http/errors';
 import { newId } from '../ids';
 import { ENGINE_VERSION } from '../jobs/engineVersion';
 import { RunAborted, type JobRunner } from '../jobs/runner';
+import { FairQueue, type QueuedJob } from '../jobs/scheduler';
 
 export interface RunRequest {
   job: unknown;
@@ -16,12 +19,18 @@ export interface RunRequest {
 }
 
 export interface RunService {
-  /** Queue a job (or answer it from the cache at once). Returns without waiting for the engine. */
+  /**
+   * Queue a job (or answer it from the cache at once). Returns without waiting for the engine.
+   * Refuses a job over the cost limit (job_too_large) and a person's job beyond their queue limit (queue_full).
+   */
   submit(request: RunRequest): Promise<JobRun>;
   /** Wait for a run to finish, up to `timeoutMs`; returns its latest state either way. */
   settle(runId: string, timeoutMs: number): Promise<JobRun>;
   find(runId: string): Promise<JobRun>;
+  /** Stops a running job, or takes a queued one out of the queue. */
   cancel(runId: string): Promise<JobRun>;
+  /** The reply shape of a run, with its place in the queue while it waits. */
+  view(run: JobRun): RunView;
   close(): Promise<void>;
 }
 
@@ -35,7 +44,7 @@ function isEngineError(result: unknown): result is { error: { code: string; mess
   return typeof result === 'object' && result !== null && 'error' in result;
 }
 
-export function toRunView(run: JobRun): RunView {
+export function toRunView(run: JobRun, queue: QueueStanding | null = null): RunView {
   return {
     id: run.id,
     status: run.status,
@@ -47,12 +56,15 @@ export function toRunView(run: JobRun): RunView {
     error: run.errorJson ? JSON.parse(run.errorJson) : null,
     startedAt: run.startedAt?.toISOString() ?? null,
     finishedAt: run.finishedAt?.toISOString() ?? null,
+    queue: run.status === 'queued' ? queue : null,
   };
 }
 
+const duration = (ms: number) => (ms < 120_000 ? `${(ms / 1000).toFixed(ms < 1000 ? 2 : 0)} s` : `${Math.round(ms / 60_000)} min`);
+
 class TimeLimitExceeded extends Error {
   constructor(readonly limitMs: number) {
-    super(`Stopped after the time limit of ${(limitMs / 1000).toFixed(limitMs < 1000 ? 2 : 0)} s; the worker was replaced.`);
+    super(`Stopped after the time limit of ${duration(limitMs)}; the worker was replaced.`);
   }
 }
 
@@ -65,16 +77,32 @@ function failureOf(error: unknown, abortReason: unknown): Partial<JobRun> {
   return { status: 'failed', errorJson: JSON.stringify({ code: 'worker-crashed', message: 'The calculation worker crashed; it has been replaced. Run the cell again.' }) };
 }
 
-export function createRunService(dataSource: DataSource, runner: JobRunner, logger: Logger, timeLimitMs: number): RunService {
-  const runs = dataSource.getRepository(JobRun);
-  const inFlight = new Map<string, { done: Promise<void>; abort: AbortController }>();
+const errorJson = (code: string, message: string) => JSON.stringify({ code, message });
 
-  async function execute(run: JobRun, job: unknown, abort: AbortController) {
+interface InFlight {
+  userId: string;
+  job: unknown;
+  abort: AbortController;
+  /** Resolves once the run is recorded as finished, whichever way it ended. */
+  done: Promise<void>;
+  end: () => void;
+  waitTimer?: NodeJS.Timeout;
+}
+
+export function createRunService(dataSource: DataSource, runner: JobRunner, logger: Logger, limits: JobQueueConfig): RunService {
+  const runs = dataSource.getRepository(JobRun);
+  const inFlight = new Map<string, InFlight>();
+  const queue = new FairQueue<InFlight>({ threads: limits.threads, perUserRunning: limits.perUserRunning });
+  // Jobs accepted but not yet in the queue (their row is being written): they count against the queue limit.
+  const admitting = new Map<string, number>();
+  let closing = false;
+
+  async function execute(run: { id: string }, job: unknown, abort: AbortController) {
     let timer: NodeJS.Timeout | undefined;
     let started = Date.now();
     const onStarted = () => {
       started = Date.now();
-      timer = setTimeout(() => abort.abort(new TimeLimitExceeded(timeLimitMs)), timeLimitMs);
+      timer = setTimeout(() => abort.abort(new TimeLimitExceeded(limits.timeLimitMs)), limits.timeLimitMs);
       void runs.update({ id: run.id, status: 'queued' }, { status: 'running', startedAt: new Date(started) });
     };
     let lastProgressWrite = 0;
@@ -99,10 +127,84 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
     await runs.update({ id: run.id }, { ...patch, finishedAt: new Date(), durationMs: Date.now() - started });
   }
 
+  /** Hands free workers to waiting jobs, fairly across people. */
+  function dispatch() {
+    if (closing) return;
+    for (let next = queue.take(); next; next = queue.take()) start(next);
+  }
+
+  function start({ id, userId, item }: QueuedJob<InFlight>) {
+    clearTimeout(item.waitTimer);
+    execute({ id }, item.job, item.abort)
+      .catch((error) => logger.error({ err: error, runId: id }, 'recording a run failed'))
+      .finally(() => {
+        queue.finished(userId);
+        item.end();
+        dispatch();
+      });
+  }
+
+  /** Ends a run that never left the queue. */
+  async function endWaiting(id: string, patch: Partial<JobRun>) {
+    const waiting = queue.remove(id);
+    if (!waiting) return false;
+    clearTimeout(waiting.item.waitTimer);
+    try {
+      await runs.update({ id, status: 'queued' }, { ...patch, finishedAt: new Date() });
+    } catch (error) {
+      logger.error({ err: error, runId: id }, 'recording a run failed');
+    } finally {
+      waiting.item.end();
+    }
+    return true;
+  }
+
+  function giveUpWaiting(id: string) {
+    const message = `Waited ${duration(limits.queueWaitLimitMs)} in the queue without a free worker, so it was given up. Run it again when the queue is shorter.`;
+    void endWaiting(id, { status: 'failed', errorJson: errorJson('queue-wait', message) });
+  }
+
+  function assertRoomInQueue(userId: string) {
+    const waiting = queue.queuedBy(userId) + (admitting.get(userId) ?? 0);
+    if (waiting >= limits.perUserQueued) {
+      throw new AppError('queue_full', `You already have ${waiting} job${waiting === 1 ? '' : 's'} waiting in the queue; the limit is ${limits.perUserQueued} per person. Wait for one to start, or cancel one, then try again.`);
+    }
+  }
+
+  async function enqueue(base: Pick<JobRun, 'id' | 'inputHash' | 'engineVersion' | 'jobJson' | 'cellId' | 'requestedBy'>, userId: string, job: unknown) {
+    assertRoomInQueue(userId);
+    admitting.set(userId, (admitting.get(userId) ?? 0) + 1);
+    try {
+      await runs.insert(runs.create({ ...base, status: 'queued', progress: 0, cached: false }));
+    } finally {
+      const left = admitting.get(userId)! - 1;
+      if (left) admitting.set(userId, left);
+      else admitting.delete(userId);
+    }
+    let end = () => {};
+    const done = new Promise<void>((resolve) => (end = resolve)).finally(() => inFlight.delete(base.id));
+    const entry: InFlight = { userId, job, abort: new AbortController(), done, end };
+    entry.waitTimer = setTimeout(() => giveUpWaiting(base.id), limits.queueWaitLimitMs);
+    entry.waitTimer.unref();
+    inFlight.set(base.id, entry);
+    queue.enqueue({ id: base.id, userId, queuedAt: Date.now(), item: entry });
+    dispatch();
+  }
+
   async function find(runId: string) {
     const run = await runs.findOneBy({ id: runId });
     if (!run) throw new AppError('not_found', 'No such run.');
     return run;
+  }
+
+  function standing(run: JobRun): QueueStanding {
+    const waiting = queue.find(run.id);
+    return {
+      // A run taken from the queue but whose worker has not begun yet is next in line.
+      ahead: queue.ahead(run.id) ?? 0,
+      since: new Date(waiting?.queuedAt ?? run.createdAt).toISOString(),
+      waitLimitMs: limits.queueWaitLimitMs,
+    };
   }
 
   return {
@@ -111,6 +213,8 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
     async submit({ job, userId, cellId }) {
       const jobJson = canonicalJson(job);
       if (jobJson.length > MAX_JOB_JSON_LENGTH) throw new AppError('payload_too_large', 'This job is too large to run.');
+      const costProblem = jobCostProblem(job);
+      if (costProblem) throw new AppError('job_too_large', costProblem);
       const inputHash = jobHash(job);
       const base = { id: newId(), inputHash, engineVersion: ENGINE_VERSION, jobJson, cellId: cellId ?? null, requestedBy: userId };
       const hit = await runs.findOne({ where: { inputHash, status: 'done' }, order: { createdAt: 'DESC' } });
@@ -119,14 +223,8 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
         await runs.insert(cachedRun);
         return find(cachedRun.id);
       }
-      const run = runs.create({ ...base, status: 'queued', progress: 0, cached: false });
-      await runs.insert(run);
-      const abort = new AbortController();
-      const done = execute(run, job, abort)
-        .catch((error) => logger.error({ err: error, runId: run.id }, 'recording a run failed'))
-        .finally(() => inFlight.delete(run.id));
-      inFlight.set(run.id, { done, abort });
-      return find(run.id);
+      await enqueue(base, userId, job);
+      return find(base.id);
     },
 
     async settle(runId, timeoutMs) {
@@ -138,16 +236,23 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
     async cancel(runId) {
       const run = await find(runId);
       const pending = inFlight.get(runId);
-      if (pending) {
+      if (!pending) return run;
+      const cancelled = errorJson('cancelled', 'Cancelled while waiting in the queue.');
+      if (!(await endWaiting(runId, { status: 'cancelled', errorJson: cancelled }))) {
         pending.abort.abort(new Error('cancelled by request'));
         await pending.done;
       }
-      return pending ? find(runId) : run;
+      return find(runId);
     },
 
+    view: (run) => toRunView(run, run.status === 'queued' ? standing(run) : null),
+
     async close() {
-      for (const { abort } of inFlight.values()) abort.abort(new Error('server shutting down'));
-      await Promise.allSettled([...inFlight.values()].map((entry) => entry.done));
+      closing = true;
+      const entries = [...inFlight.entries()];
+      for (const [id] of entries) await endWaiting(id, { status: 'cancelled', errorJson: errorJson('cancelled', 'Cancelled: server shutting down') });
+      for (const [, { abort }] of entries) abort.abort(new Error('server shutting down'));
+      await Promise.allSettled(entries.map(([, entry]) => entry.done));
       await runner.close();
     },
   };

@@ -45,6 +45,23 @@ export interface RunView {
   error: { code: string; message: string } | null;
   startedAt: string | null;
   finishedAt: string | null;
+  /** Set while the run waits for a worker (status 'queued'). */
+  queue: QueueStanding | null;
+}
+
+export interface QueueStanding {
+  /** Jobs that get a worker before this one. */
+  ahead: number;
+  /** When the run joined the queue (ISO time). */
+  since: string;
+  /** A run still waiting after this long is given up (error code 'queue-wait'). */
+  waitLimitMs: number;
+}
+
+/** Reply of run-all: the runs started or queued, and the labels of cells left waiting because the queue was full. */
+export interface RunAllReply {
+  runs: RunView[];
+  waiting: string[];
 }
 
 export interface CellView {
@@ -105,11 +122,37 @@ export interface TextChange {
   removed?: boolean;
 }
 
+/** One value that differs, at a JSON path such as `points[3].values.nuInv` (texts shortened). */
+export interface ValueChange {
+  path: string;
+  before: string | null;
+  after: string | null;
+}
+
+/** What differs between two inputs or two results, found by walking both (a bounded walk). */
+export interface ValueDifferences {
+  /** Values that differ (counted as far as the walk went). */
+  changed: number;
+  /** The first of them; `more` are not listed. */
+  listed: ValueChange[];
+  more: number;
+  /** False when the walk stopped at its size limit before seeing everything. */
+  complete: boolean;
+  /** Size of each side as compact JSON, in characters (0 when absent). */
+  sizeBefore: number;
+  sizeAfter: number;
+}
+
 export interface CellComparison {
   label: string;
   change: 'added' | 'removed' | 'changed' | 'unchanged';
+  /** Line-by-line text diffs; empty for a part whose text is too large to diff (see the `*Summarised` flags). */
   input: TextChange[];
   output: TextChange[];
+  inputSummarised: boolean;
+  outputSummarised: boolean;
+  inputValues: ValueDifferences;
+  outputValues: ValueDifferences;
 }
 
 export interface VersionComparison {

@@ -11,7 +11,7 @@ jest.mock('../../../components/formula', () => {
 jest.mock('d3-scale', () => ({ scaleLinear: jest.fn() }));
 jest.mock('d3-shape', () => ({ line: jest.fn() }));
 
-const run = { id: 'run1', status: 'done' as const, progress: 1, cached: false, engineVersion: 'engine-test', durationMs: 210, error: null, startedAt: null, finishedAt: null };
+const run = { id: 'run1', status: 'done' as const, progress: 1, cached: false, engineVersion: 'engine-test', durationMs: 210, error: null, startedAt: null, finishedAt: null, queue: null };
 const exponentsResult = {
   eps: '0.5',
   fixedPoint: 'Ising',
@@ -52,6 +52,38 @@ describe('CellCard', () => {
     renderCard(stale, [setup, stale]);
     expect(screen.getByTestId('cell-exponents-state')).toHaveTextContent('Out of date');
     expect(screen.getByTestId('cell-exponents-stale')).toHaveTextContent(/Run it again/);
+  });
+
+  it('shows a queued run as waiting, with the jobs ahead of it and when the wait is given up', async () => {
+    const queuedRun = { ...run, status: 'queued' as const, progress: 0, durationMs: null, result: null, queue: { ahead: 2, since: new Date(Date.now() - 90_000).toISOString(), waitLimitMs: 600_000 } };
+    const waiting = { ...exponents, state: 'running' as const, lastRun: queuedRun };
+    mockFetchOnce(200, { run: queuedRun });
+    const { client, unmount } = renderCard(waiting, [setup, waiting]);
+    expect(screen.getByTestId('cell-exponents-state')).toHaveTextContent('Waiting — 2 ahead');
+    expect(screen.getByTestId('cell-exponents-queue')).toHaveTextContent('2 jobs ahead in the queue; waiting 90 s so far, given up after 10 min.');
+    expect(screen.getByTestId('cell-exponents-run')).toHaveTextContent('Waiting…');
+    // The card polls the queued run: wait for that request to settle.
+    await waitFor(() => expect(global.fetch).toHaveBeenCalledWith('/api/runs/run1', expect.anything()));
+    await waitFor(() => expect(client.isFetching()).toBe(0));
+    unmount();
+  });
+
+  it('says "next" for a queued run with nobody ahead, and plain "Running" once it runs', async () => {
+    const next = { ...exponents, state: 'running' as const, lastRun: { ...run, status: 'queued' as const, result: null, queue: { ahead: 0, since: new Date().toISOString(), waitLimitMs: 600_000 } } };
+    mockFetchOnce(200, { run: next.lastRun });
+    const view = renderCard(next, [setup, next]);
+    expect(screen.getByTestId('cell-exponents-state')).toHaveTextContent('Waiting — next');
+    await waitFor(() => expect(global.fetch).toHaveBeenCalledTimes(1));
+    await waitFor(() => expect(view.client.isFetching()).toBe(0));
+    view.unmount();
+    const running = { ...exponents, state: 'running' as const, lastRun: { ...run, status: 'running' as const, result: null, progress: 0.4 } };
+    mockFetchOnce(200, { run: running.lastRun });
+    const second = renderCard(running, [setup, running]);
+    expect(screen.getByTestId('cell-exponents-state')).toHaveTextContent('Running');
+    expect(screen.queryByTestId('cell-exponents-queue')).toBeNull();
+    await waitFor(() => expect(global.fetch).toHaveBeenCalledTimes(2));
+    await waitFor(() => expect(second.client.isFetching()).toBe(0));
+    second.unmount();
   });
 
   it('shows an unknown result shape as JSON instead of failing', () => {
