@@ -1,5 +1,6 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import type { Logger } from 'pino';
+import type { ErrorCode } from '../../shared/api/errors';
 import type { SessionService } from '../auth/sessions';
 import { AppError } from './errors';
 
@@ -80,13 +81,27 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
   };
 }
 
+/** Errors from Express and its body parser that describe the request (status 4xx) keep a 4xx. */
+const STATUS_CODES: Partial<Record<number, ErrorCode>> = {
+  400: 'validation_failed',
+  401: 'unauthenticated',
+  403: 'forbidden',
+  404: 'not_found',
+  413: 'payload_too_large',
+  415: 'unsupported_encoding',
+  429: 'rate_limited',
+};
+
 function toAppError(error: unknown): AppError {
   if (error instanceof AppError) return error;
-  const httpError = error as { type?: string; status?: number };
+  const httpError = (typeof error === 'object' && error !== null ? error : {}) as { type?: string; status?: number; statusCode?: number };
   if (httpError.type === 'entity.parse.failed') return new AppError('malformed_json', 'The request body is not valid JSON.');
   if (httpError.type === 'entity.too.large') return new AppError('payload_too_large', 'The request body is too large.');
-  if (httpError.type === 'encoding.unsupported' || httpError.type === 'charset.unsupported') {
-    return new AppError('validation_failed', 'Unsupported request encoding.');
+  if (httpError.type === 'encoding.unsupported') return new AppError('unsupported_encoding', 'Request bodies may be sent plain or compressed with gzip or deflate.');
+  if (httpError.type === 'charset.unsupported') return new AppError('unsupported_encoding', 'Request bodies must be JSON in UTF-8.');
+  const status = httpError.status ?? httpError.statusCode;
+  if (typeof status === 'number' && status >= 400 && status < 500) {
+    return new AppError(STATUS_CODES[status] ?? 'validation_failed', 'The request could not be read (malformed, incomplete or not what this address accepts).');
   }
   return new AppError('internal', 'Something went wrong on the server. The error was logged.');
 }

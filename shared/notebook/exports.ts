@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { cellInput, cellKindTitles, cellLabel, type CellInput } from './cells';
+import { FormulaFilter, withoutControlCharacters } from './latexSafety';
 
 /**
  * The notebook exchange file: our own JSON schema, versioned by `formatVersion`.
@@ -46,42 +47,73 @@ const LATEX_SPECIALS: Record<string, string> = {
   '\\': '\\textbackslash{}', '{': '\\{', '}': '\\}', '#': '\\#', $: '\\$', '%': '\\%', '&': '\\&', _: '\\_', '^': '\\^{}', '~': '\\~{}',
 };
 
+/** Text that TeX prints as it is: every special character escaped, control characters dropped. */
 export function escapeLatexText(text: string): string {
-  return text.replace(/[\\{}#$%&_^~]/g, (c) => LATEX_SPECIALS[c]);
+  return withoutControlCharacters(text).replace(/[\\{}#$%&_^~]/g, (c) => LATEX_SPECIALS[c]);
 }
 
-/** Prose with $…$ and $$…$$: the prose is escaped, the mathematics passes through. */
-function proseToLatex(text: string): string {
+/** One export in progress: every formula goes through the safety filter, which records what it removed. */
+class LatexWriter {
+  private readonly formulas = new FormulaFilter();
+  readonly report = this.formulas.report;
+
+  get formulasExhausted(): boolean {
+    return this.formulas.exhausted;
+  }
+
+  inline(math: string): string {
+    const safe = this.formulas.safe(math, false);
+    return safe === null ? `\\texttt{${escapeLatexText(math)}}` : `$${safe}$`;
+  }
+
+  display(math: string): string {
+    const safe = this.formulas.safe(math, true);
+    return safe === null ? this.asText(math) : `\\[${safe}\\]`;
+  }
+
+  multline(math: string): string {
+    const safe = this.formulas.safe(math, true);
+    return safe === null ? this.asText(math) : `\\begin{multline*}\n${safe}\n\\end{multline*}`;
+  }
+
+  private asText(math: string): string {
+    return `\\begin{center}\\texttt{${escapeLatexText(math)}}\\end{center}`;
+  }
+}
+
+const HEADING_OPEN = '\uE000';
+const HEADING_CLOSE = '\uE001';
+
+/** Prose with $…$ and $$…$$: the prose is escaped, the mathematics goes through the formula filter. Math never crosses a heading's end. */
+function proseToLatex(text: string, writer: LatexWriter): string {
+  if (writer.formulasExhausted) return escapeLatexText(text);
   return text
-    .split(/(\$\$[\s\S]+?\$\$|\$[^$\n]+?\$)/)
-    .map((part) => (part.startsWith('$$') ? `\\[${part.slice(2, -2)}\\]` : part.startsWith('$') ? part : escapeLatexText(part)))
+    .split(/(\$\$[^\uE000\uE001]+?\$\$|\$[^$\n\uE000\uE001]+?\$)/)
+    .map((part) => (part.startsWith('$$') ? writer.display(part.slice(2, -2)) : part.startsWith('$') ? writer.inline(part.slice(1, -1)) : escapeLatexText(part)))
     .join('');
 }
 
-const HEADING_OPEN = '\u0001';
-const HEADING_CLOSE = '\u0002';
-
 /** Note text: Markdown headings become paragraph headings (marked before escaping, so # survives and math inside stays math). */
-function noteToLatex(text: string): string {
-  const marked = text.replace(/^#{1,6}[ \t]+(.*)$/gm, `${HEADING_OPEN}$1${HEADING_CLOSE}`);
-  return proseToLatex(marked).replaceAll(HEADING_OPEN, '\\paragraph{').replaceAll(HEADING_CLOSE, '}');
+function noteToLatex(text: string, writer: LatexWriter): string {
+  const ownText = withoutControlCharacters(text).replace(/[\uE000\uE001]/g, '');
+  const marked = ownText.replace(/^#{1,6}[ \t]+(.*)$/gm, `${HEADING_OPEN}$1${HEADING_CLOSE}`);
+  return proseToLatex(marked, writer).replaceAll(HEADING_OPEN, '\\paragraph{').replaceAll(HEADING_CLOSE, '}');
 }
 
 function coefficientTex(coefficient: unknown): string {
   if (typeof coefficient === 'string') return coefficient;
   if (coefficient && typeof coefficient === 'object' && 'latex' in coefficient) return String((coefficient as { latex: unknown }).latex);
-  return escapeLatexText(JSON.stringify(coefficient));
+  return `\\text{${escapeMathText(JSON.stringify(coefficient))}}`;
 }
 
-function seriesToLatex(lowest: number, coeffs: unknown[], order?: number): string {
-  return `\\begin{multline*}\n${seriesTermsTex(lowest, coeffs, order).split(' + ').join('\n + ')}\n\\end{multline*}`;
-}
+/** Text inside a formula keeps letters, digits and plain punctuation only. */
+const escapeMathText = (text: string) => String(text).replace(/[^A-Za-z0-9 .,:;+\-*/=()'"!?<>|[\]_]/g, '').replace(/_/g, '\\_');
 
 const QUANTITY_TEX: Record<string, string> = {
   nuInv: '1/\\nu', nu: '\\nu', eta: '\\eta', gamma: '\\gamma', alpha: '\\alpha', beta: '\\beta', delta: '\\delta',
   omega: '\\omega', Delta_phi: '\\Delta_{\\phi}', Delta_phi2: '\\Delta_{\\phi^2}', Delta_phi3: '\\Delta_{\\phi^3}', Delta_phi4: '\\Delta_{\\phi^4}',
 };
-const quantityTex = (name: string) => QUANTITY_TEX[name] ?? `\\mathrm{${escapeLatexText(name)}}`;
+const quantityTex = (name: string) => QUANTITY_TEX[name] ?? `\\mathrm{${escapeMathText(name)}}`;
 const isRecord = (value: unknown): value is Record<string, unknown> => typeof value === 'object' && value !== null && !Array.isArray(value);
 
 /** "eps*u^2" → "\varepsilon\,u^{2}" (also used by the app's result views). */
@@ -122,21 +154,27 @@ function tabular(header: string[], rows: string[][]): string {
 
 const textCell = (value: unknown) => escapeLatexText(asciiText(value === null || value === undefined ? '--' : String(value)));
 
-function exponentsToLatex(value: Record<string, unknown>): string {
+/** Lines of text in a typewriter face, every character escaped (no verbatim: its end marker could be forged). */
+function monospaceBlock(text: string): string {
+  const lines = text.split('\n').map((line) => escapeLatexText(line).replace(/^ +/, (spaces) => '~'.repeat(spaces.length)) || '~');
+  return `{\\ttfamily\\raggedright\\noindent\n${lines.join('\\\\\n')}\\par}`;
+}
+
+function exponentsToLatex(value: Record<string, unknown>, writer: LatexWriter): string {
   const series = isRecord(value.series) ? value.series : {};
   const equations = Object.entries(series)
     .filter(([, coeffs]) => Array.isArray(coeffs))
-    .map(([name, coeffs]) => `\\[ ${quantityTex(name)} = ${seriesTermsTex(0, coeffs as unknown[])} \\]`);
-  const values = isRecord(value.values) ? Object.entries(value.values).map(([name, v]) => [`$${quantityTex(name)}$`, textCell(v)]) : [];
-  const heading = typeof value.eps === 'string' ? `At $\\varepsilon = ${escapeLatexText(value.eps)}$${typeof value.fixedPoint === 'string' ? `, fixed point ${textCell(value.fixedPoint)}` : ''}.` : '';
+    .map(([name, coeffs]) => writer.display(` ${quantityTex(name)} = ${seriesTermsTex(0, coeffs as unknown[])} `));
+  const values = isRecord(value.values) ? Object.entries(value.values).map(([name, v]) => [writer.inline(quantityTex(name)), textCell(v)]) : [];
+  const heading = typeof value.eps === 'string' ? `At ${writer.inline(`\\varepsilon = ${value.eps}`)}${typeof value.fixedPoint === 'string' ? `, fixed point ${textCell(value.fixedPoint)}` : ''}.` : '';
   return [heading, ...equations, values.length ? tabular(['quantity', 'value'], values) : ''].filter(Boolean).join('\n\n');
 }
 
-function flowToLatex(value: Record<string, unknown>): string {
-  const betas = isRecord(value.beta) ? Object.entries(value.beta).map(([coupling, terms]) => `\\[ \\beta_{${monomialTex(coupling)}} = ${polynomialTex(terms)} \\]`) : [];
+function flowToLatex(value: Record<string, unknown>, writer: LatexWriter): string {
+  const betas = isRecord(value.beta) ? Object.entries(value.beta).map(([coupling, terms]) => writer.display(` \\beta_{${monomialTex(coupling)}} = ${polynomialTex(terms)} `)) : [];
   const anomalous = (['gamma_phi', 'gamma_phi2'] as const).flatMap((name) => {
     const tex = polynomialTex(value[name]);
-    return tex ? [`\\[ \\gamma_{${name === 'gamma_phi' ? '\\phi' : '\\phi^2'}} = ${tex} \\]`] : [];
+    return tex ? [writer.display(` \\gamma_{${name === 'gamma_phi' ? '\\phi' : '\\phi^2'}} = ${tex} `)] : [];
   });
   const checks = Array.isArray(value.checks) ? [`Checks passed: ${value.checks.map(textCell).join('; ')}.`] : [];
   return [...betas, ...anomalous, ...checks].join('\n\n');
@@ -154,12 +192,13 @@ function fixedPointsToLatex(value: Record<string, unknown>): string {
   return tabular(['fixed point', 'couplings', 'stability eigenvalues', 'stability', 'status'], rows);
 }
 
-function scanToLatex(value: Record<string, unknown>): string {
+function scanToLatex(value: Record<string, unknown>, writer: LatexWriter): string {
   const quantities = Array.isArray(value.quantities) ? value.quantities.map(String) : [];
   const points = Array.isArray(value.points) ? value.points.filter(isRecord) : [];
   const rows = points.map((point) => [textCell(point.s), ...quantities.map((q) => textCell(isRecord(point.values) ? point.values[q] : null)), point.flagged ? textCell(point.regime) : '']);
-  const marks = isRecord(value.marks) ? Object.entries(value.marks).map(([name, v]) => `${name === 'sStar' ? '$s^*$' : name === 'meanFieldEnd' ? '$s = d/2$' : textCell(name)} $= ${escapeLatexText(String(v))}$`).join(', ') : '';
-  return [marks ? `Marks: ${marks}.` : '', tabular(['$s$', ...quantities.map((q) => `$${quantityTex(q)}$`), 'outside window'], rows)].filter(Boolean).join('\n\n');
+  const markName = (name: string) => (name === 'sStar' ? '$s^*$' : name === 'meanFieldEnd' ? '$s = d/2$' : textCell(name));
+  const marks = isRecord(value.marks) ? Object.entries(value.marks).map(([name, v]) => `${markName(name)} ${writer.inline(`= ${String(v)}`)}`).join(', ') : '';
+  return [marks ? `Marks: ${marks}.` : '', tabular(['$s$', ...quantities.map((q) => writer.inline(quantityTex(q))), 'outside window'], rows)].filter(Boolean).join('\n\n');
 }
 
 function seriesTermsTex(lowest: number, coeffs: unknown[], order?: number): string {
@@ -171,16 +210,18 @@ function seriesTermsTex(lowest: number, coeffs: unknown[], order?: number): stri
   return [...terms, `O(\\varepsilon^{${(order ?? lowest + coeffs.length - 1) + 1}})`].join(' + ');
 }
 
-function outputToLatex(output: unknown): string {
+function outputToLatex(output: unknown, writer: LatexWriter): string {
   if (!isRecord(output)) return '';
   if ('error' in output) return `\\emph{This cell failed: ${textCell(isRecord(output.error) ? output.error.message : '')}}`;
-  if (typeof output.lowest === 'number' && Array.isArray(output.coeffs)) return seriesToLatex(output.lowest, output.coeffs, output.order as number | undefined);
-  if (isRecord(output.series) && isRecord(output.values)) return exponentsToLatex(output);
-  if (isRecord(output.beta)) return flowToLatex(output);
+  if (typeof output.lowest === 'number' && Array.isArray(output.coeffs)) {
+    return writer.multline(seriesTermsTex(output.lowest, output.coeffs, output.order as number | undefined).split(' + ').join('\n + '));
+  }
+  if (isRecord(output.series) && isRecord(output.values)) return exponentsToLatex(output, writer);
+  if (isRecord(output.beta)) return flowToLatex(output, writer);
   if (Array.isArray(output.fixedPoints)) return fixedPointsToLatex(output);
-  if (Array.isArray(output.points)) return scanToLatex(output);
+  if (Array.isArray(output.points)) return scanToLatex(output, writer);
   if (isRecord(output.values)) return tabular(['quantity', 'value'], Object.entries(output.values).map(([name, v]) => [textCell(name), textCell(v)]));
-  return `\\begin{verbatim}\n${asciiText(JSON.stringify(output, null, 2)).slice(0, 20_000)}\n\\end{verbatim}`;
+  return monospaceBlock(asciiText(JSON.stringify(output, null, 2)).slice(0, 20_000));
 }
 
 function inputToLatex(input: CellInput): string {
@@ -188,21 +229,30 @@ function inputToLatex(input: CellInput): string {
   return `\\begin{description}\n${fields.map(([key, v]) => `\\item[${escapeLatexText(key)}] \\texttt{${textCell(typeof v === 'string' ? v : JSON.stringify(v))}}`).join('\n')}\n\\end{description}`;
 }
 
-/** A standalone LaTeX document: notes as text, inputs as descriptions, results as equations and tables. */
+/**
+ * A standalone LaTeX document: notes as text, inputs as descriptions, results as equations and
+ * tables. Safe to compile for someone who did not write the notebook: all text is escaped and
+ * formulas keep only allow-listed commands; what was removed is said at the top, in a comment and
+ * in the document.
+ */
 export function toLatexDocument(document: NotebookDocument): string {
+  const writer = new LatexWriter();
   const body = document.cells.map((cell) => {
-    if (cell.input.kind === 'note') return noteToLatex(cell.input.text);
+    if (cell.input.kind === 'note') return noteToLatex(cell.input.text, writer);
     const heading = `\\subsection*{${escapeLatexText(cellKindTitles[cell.input.kind])}: \\texttt{${escapeLatexText(cell.label)}}}`;
-    return [heading, inputToLatex(cell.input), outputToLatex(cell.output)].filter(Boolean).join('\n\n');
+    return [heading, inputToLatex(cell.input), outputToLatex(cell.output, writer)].filter(Boolean).join('\n\n');
   });
+  const removals = writer.report.empty ? null : writer.report.summary();
   return [
     '\\documentclass{article}',
+    ...(removals ? [`% Export note: ${removals}`] : []),
     '\\usepackage{amsmath,amssymb,longtable}',
     '\\usepackage[utf8]{inputenc}',
     `\\title{${escapeLatexText(document.title)}}`,
     '\\date{}',
     '\\begin{document}',
     '\\maketitle',
+    removals ? `\\noindent\\emph{Export note: ${escapeLatexText(removals)}}\n` : '',
     document.summary ? `${escapeLatexText(document.summary)}\n` : '',
     ...body.map((part) => `${part}\n`),
     '\\end{document}',
