@@ -8,7 +8,7 @@ import { cellSummary } from './cellSummary';
 import { monoFont } from './monoFont';
 import { NoteView } from './NoteView';
 import { ResultView } from './outputs/ResultView';
-import { TextChanges } from './TextChanges';
+import { TextChanges, ValueChangesSummary } from './TextChanges';
 
 /** An old version as it was, read-only. */
 export function VersionReader({ notebookId, versionId }: { notebookId: string; versionId: string }) {
@@ -57,8 +57,17 @@ export function VersionComparisonView({ notebookId, from, to }: { notebookId: st
           {cell.change !== 'unchanged' ? (
             <>
               <Text style={styles.part}>Inputs</Text>
-              <TextChanges changes={cell.input} testID={`compare-${cell.label}-input`} />
-              {cell.output.some((change) => change.added || change.removed) ? (
+              {cell.inputSummarised ? (
+                <ValueChangesSummary values={cell.inputValues} testID={`compare-${cell.label}-input-summary`} />
+              ) : (
+                <TextChanges changes={cell.input} testID={`compare-${cell.label}-input`} />
+              )}
+              {cell.outputSummarised ? (
+                <>
+                  <Text style={styles.part}>Results</Text>
+                  <ValueChangesSummary values={cell.outputValues} testID={`compare-${cell.label}-output-summary`} />
+                </>
+              ) : cell.output.some((change) => change.added || change.removed) ? (
                 <>
                   <Text style={styles.part}>Results</Text>
                   <TextChanges changes={cell.output} testID={`compare-${cell.label}-output`} />

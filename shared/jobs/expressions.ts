@@ -14,9 +14,12 @@ import {
   splitEps,
   toExactRational,
 } from '../engine/index';
+import { isObjectPropertyName } from '../engine/models/custom';
 import { JOB_LIMITS } from './limits';
 
 const math = create({ parseDependencies }, { number: 'BigNumber', precision: 64 });
+// The first parse instantiates mathjs's lazy factories (about 0.1 s): pay it at load, not inside a request.
+math.parse('0');
 
 const RESERVED = new Set(['pi', 'e', 'i', 'gamma', 'psi', 'zeta', 'log', 'eulergamma', 'Infinity', 'NaN']);
 
@@ -40,7 +43,27 @@ interface NodeLike {
 }
 
 function constantValue(node: NodeLike): Q {
-  return toExactRational(String(node.value));
+  return sizedQ(toExactRational(String(node.value)));
+}
+
+const bitsOf = (n: bigint): number => (n < 0n ? -n : n).toString(2).length;
+
+/** Exact arithmetic on the numbers of an expression stays small: refused once a number passes the bit limit. */
+function sizedQ(x: Q): Q {
+  if (Math.max(bitsOf(x.num), bitsOf(x.den)) > JOB_LIMITS.maxNumberBits) fail('limit', `a number in the expression grows beyond ${JOB_LIMITS.maxNumberBits} bits; use smaller numbers or powers`);
+  return x;
+}
+
+function sized(a: Affine): Affine {
+  sizedQ(a.constant);
+  for (const [, c] of a.terms) sizedQ(c);
+  return a;
+}
+
+/** A parameter name, refused when it is one of the built-in names every JavaScript object carries. */
+export function checkParameterName(name: string): string {
+  if (isObjectPropertyName(name)) fail('invalid', `"${name}" cannot name a parameter (it is a built-in property name); choose another name`);
+  return name;
 }
 
 /** Affine expression in eps and parameters; `definitions` substitutes names such as d. */
@@ -49,13 +72,17 @@ export function parseAffine(text: string, definitions: Readonly<Record<string, A
 }
 
 function toAffine(node: NodeLike, defs: Readonly<Record<string, Affine>>, source: string): Affine {
+  return sized(affineOf(node, defs, source));
+}
+
+function affineOf(node: NodeLike, defs: Readonly<Record<string, Affine>>, source: string): Affine {
   const notAffine = (): never => fail('not-affine', `${JSON.stringify(source.slice(0, 80))} is not affine in eps and the parameters`);
   switch (node.type) {
     case 'ConstantNode':
       return affineConstant(constantValue(node));
     case 'SymbolNode': {
-      const name = node.name as string;
-      if (defs[name]) return defs[name];
+      const name = checkParameterName(node.name as string);
+      if (Object.hasOwn(defs, name)) return defs[name];
       if (RESERVED.has(name)) return notAffine();
       return affineParameter(name);
     }
@@ -131,6 +158,8 @@ function toProduct(node: NodeLike, defs: Readonly<Record<string, Affine>>, sourc
         const n = Number(exponent.constant.num);
         if (Math.abs(n) > 50) fail('limit', 'integer powers are limited to |n| ≤ 50');
         if (base.prefactor.num === 0n && n < 0) fail('domain', 'division by zero');
+        if (Math.max(bitsOf(base.prefactor.num), bitsOf(base.prefactor.den)) * Math.abs(n) > JOB_LIMITS.maxNumberBits + 1) fail('limit', `a number in the expression grows beyond ${JOB_LIMITS.maxNumberBits} bits; use smaller numbers or powers`);
+        if (base.factors.some((f) => Math.abs(f.power * n) > JOB_LIMITS.maxGammaPower)) fail('limit', `a gamma factor may be raised to a power of at most ${JOB_LIMITS.maxGammaPower} in all`);
         const pre = n >= 0 ? q(base.prefactor.num ** BigInt(n), base.prefactor.den ** BigInt(n)) : q(base.prefactor.den ** BigInt(-n), base.prefactor.num ** BigInt(-n));
         return { prefactor: pre, factors: base.factors.map((f) => ({ arg: f.arg, power: f.power * n })) };
       }
@@ -141,7 +170,7 @@ function toProduct(node: NodeLike, defs: Readonly<Record<string, Affine>>, sourc
   }
 }
 
-const mulQ = (a: Q, b: Q): Q => q(a.num * b.num, a.den * b.den);
+const mulQ = (a: Q, b: Q): Q => sizedQ(q(a.num * b.num, a.den * b.den));
 
 /** Definitions such as d = 2*s − eps, parsed against the parameters. */
 export function parseDefinitions(d: string | undefined): Record<string, Affine> {

@@ -19,7 +19,7 @@ import { type Expression } from '../engine/symbolic/expression';
 import { expressionToLatex, expressionToString } from '../engine/symbolic/format';
 import { polyToString } from '../engine/symbolic/polynomial';
 import { type Q, q, qAdd, qCompare, qMul, qSub, qToString } from '../engine/symbolic/rational';
-import { DecimalString, Digits, type JobError } from './schemas';
+import { DecimalString, Digits, ExpressionText, type JobError } from './schemas';
 
 // ---- schemas ------------------------------------------------------------------------------------
 
@@ -29,7 +29,7 @@ const SymbolicN = z.literal('N');
 export const ModelInput = z.discriminatedUnion('preset', [
   z.strictObject({ preset: z.literal('on'), N: z.union([FieldCount, SymbolicN]) }),
   z.strictObject({ preset: z.literal('cubic'), N: z.union([FieldCount, SymbolicN]) }),
-  z.strictObject({ preset: z.literal('custom'), fields: FieldCount, potential: z.string().min(1).max(2000) }),
+  z.strictObject({ preset: z.literal('custom'), fields: FieldCount, potential: ExpressionText }),
 ]);
 
 const Loops = z.union([z.literal(1), z.literal(2)]).default(2);

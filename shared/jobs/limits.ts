@@ -24,4 +24,8 @@ export const JOB_LIMITS = {
   maxBatchWork: 60_000,
   maxBatch: 100,
   maxPadeCoefficients: 41,
+  /** Size of any exact number built while reading an expression (numerator or denominator). */
+  maxNumberBits: 4096,
+  /** |power| of one Γ factor after nested powers are multiplied out. */
+  maxGammaPower: 50,
 } as const;

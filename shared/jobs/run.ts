@@ -27,6 +27,7 @@ import {
   symbolicContext,
   toExactRational,
 } from '../engine/index';
+import { batchWorkProblem, padeWorkProblem, parameterValues, seriesWorkProblem, specialWorkProblem } from './cost';
 import { parseAffine, parseDefinitions, parseGammaProduct } from './expressions';
 import { isFlowJob, runFlowJob, type JobHooks } from './flowJobs';
 import { JOB_LIMITS } from './limits';
@@ -71,22 +72,11 @@ export function runJob(input: unknown, hooks: JobHooks = {}): CalcResult {
   }
 }
 
-/** digits × terms a job asks for, read off its fields before parsing (a rough upper bound). */
-function estimatedWork(job: unknown): number {
-  if (typeof job !== 'object' || job === null) return 0;
-  const { digits, order, coeffs, points } = job as { digits?: unknown; order?: unknown; coeffs?: unknown; points?: unknown };
-  const d = typeof digits === 'number' ? digits : 30;
-  const terms = typeof order === 'number' ? Math.max(1, order + 1) : Array.isArray(coeffs) ? coeffs.length : 1;
-  const scanPoints = typeof points === 'number' ? points : 1;
-  return d * terms * scanPoints;
-}
-
 /** One job or an array of jobs (results in the same order). */
 export function runBatch(input: unknown): CalcResult | CalcResult[] {
   if (Array.isArray(input)) {
-    if (input.length > JOB_LIMITS.maxBatch) return jobError('limit', `at most ${JOB_LIMITS.maxBatch} jobs per call`);
-    const batchWork = input.reduce((sum: number, job) => sum + estimatedWork(job), 0);
-    if (batchWork > JOB_LIMITS.maxBatchWork) return jobError('limit', `the batch asks for digits × terms = ${batchWork} in all (at most ${JOB_LIMITS.maxBatchWork}); split it into smaller calls`);
+    const problem = batchWorkProblem(input);
+    if (problem) return jobError('limit', problem);
     return input.map((job) => runJob(job));
   }
   return runJob(input);
@@ -120,7 +110,8 @@ function runSpecial(job: SpecialJob): SpecialResult {
   if (Math.abs(Number(x.num) / Number(x.den)) > JOB_LIMITS.maxAbsArgument) limit(`|x| must be at most ${JOB_LIMITS.maxAbsArgument}`);
   if (job.order !== undefined && job.fn !== 'psi') throw new EngineError('invalid', '"order" applies only to fn "psi"');
   const order = job.order ?? 0;
-  if (job.digits * (order + 1) > JOB_LIMITS.maxDigitsTimesTerms * 4) limit('digits × (order+1) too large');
+  const problem = specialWorkProblem(job.digits, order);
+  if (problem) limit(problem);
   let value: Real;
   switch (job.fn) {
     case 'gamma':
@@ -179,37 +170,20 @@ function runStarTriangle(job: StarTriangleJob): SeriesResult {
   return expandSeries({ factors, prefactor: q(1), order: job.order, at: job.at, digits: job.digits, powers: { piExponent } });
 }
 
-function parameterValues(at: Record<string, string>): Record<string, Q> {
-  const values: Record<string, Q> = {};
-  for (const [name, text] of Object.entries(at)) {
-    if (name === 'eps' || name === 'd') throw new EngineError('invalid', `"at" may not assign ${name}`);
-    values[name] = toExactRational(text);
-  }
-  return values;
-}
-
 function expandSeries(spec: SeriesSpec): SeriesResult {
   const prefactorOut = spec.powers
     ? { piExponent: affineToString(spec.powers.piExponent), ...(spec.powers.twoExponent ? { twoExponent: affineToString(spec.powers.twoExponent) } : {}) }
     : undefined;
   const withPrefactor = (r: Omit<SeriesResult, 'prefactor'>): SeriesResult => (prefactorOut ? { ...r, prefactor: prefactorOut } : r);
+  const problem = seriesWorkProblem(spec.factors, spec.order, spec.at, spec.digits ?? 30);
+  if (problem) limit(problem);
   if (spec.at === undefined) {
     const ctx = symbolicContext();
-    const depth = spec.order - totalLeadingPower(ctx, spec.factors);
-    if (depth > JOB_LIMITS.maxSymbolicDepth) limit(`symbolic expansions are limited to ${JOB_LIMITS.maxSymbolicDepth} terms beyond the leading power (asked ${depth})`);
-    if (spec.factors.length * Math.max(1, depth) > JOB_LIMITS.maxSymbolicFactorsTimesDepth) {
-      limit(`symbolic expansion of ${spec.factors.length} Γ factors to ${depth} terms is too large (factors × terms ≤ ${JOB_LIMITS.maxSymbolicFactorsTimesDepth}); expand at a numeric point with "at", or fewer terms`);
-    }
     const series = gammaProductSeries(ctx, spec.factors, spec.order, spec.prefactor);
     return withPrefactor(symbolicResult(series));
   }
   const values = parameterValues(spec.at);
   const digits = spec.digits ?? 30;
-  const depth = spec.order - totalLeadingPower(numericContext(values, digits), spec.factors);
-  if (depth > JOB_LIMITS.maxNumericDepth) limit(`numeric expansions are limited to ${JOB_LIMITS.maxNumericDepth} terms beyond the leading power (asked ${depth})`);
-  if (digits * (depth + 1) > JOB_LIMITS.maxDigitsTimesTerms) limit(`digits × terms = ${digits * (depth + 1)} exceeds ${JOB_LIMITS.maxDigitsTimesTerms}`);
-  const work = digits * (depth + 1) * spec.factors.length;
-  if (work > JOB_LIMITS.maxNumericWork) limit(`digits × terms × Γ factors = ${work} exceeds ${JOB_LIMITS.maxNumericWork}; ask for fewer digits or terms`);
   const series = verifiedNumericSeries(digits, (work) => gammaProductSeries(numericContext(values, work), spec.factors, spec.order, spec.prefactor));
   return withPrefactor(series);
 }
@@ -271,7 +245,8 @@ function verifiedNumericSeries(digits: number, compute: (workDigits: number) => 
 function runPade(job: PadeJob): PadeResult {
   const n = job.coeffs.length - 1;
   if ((job.L === undefined) !== (job.M === undefined)) throw new EngineError('invalid', 'give both L and M, or neither for the full table');
-  if (job.digits * (n + 1) > JOB_LIMITS.maxDigitsTimesTerms) limit('digits × coefficients too large');
+  const problem = padeWorkProblem(job.digits, n + 1);
+  if (problem) limit(problem);
   const interval = job.interval;
   if (job.L !== undefined && job.M !== undefined) {
     const approximant = padeApproximant(job.coeffs, job.L, job.M, job.digits);

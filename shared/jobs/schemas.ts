@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { isObjectPropertyName } from '../engine/models/custom';
 import { JOB_LIMITS } from './limits';
 
 /**
@@ -12,10 +13,32 @@ export const DecimalString = z
 
 export const Digits = z.number().int().min(JOB_LIMITS.minDigits).max(JOB_LIMITS.maxDigits);
 
-/** An affine expression in eps and parameters, e.g. "2*s - eps". */
-export const AffineText = z.string().min(1).max(JOB_LIMITS.maxExpressionLength);
+/** The first name in an expression that every JavaScript object already carries (constructor, __proto__, …), if any. */
+export function builtInNameIn(text: string): string | null {
+  for (const [name] of text.matchAll(/[A-Za-z_$][A-Za-z0-9_$]*/g)) if (isObjectPropertyName(name)) return name;
+  return null;
+}
 
-export const ParameterValues = z.record(z.string().regex(/^[A-Za-z][A-Za-z0-9_]*$/), DecimalString);
+/** Expression text; names such as `constructor` would read built-ins instead of values, so they are refused here. */
+export const ExpressionText = z
+  .string()
+  .min(1)
+  .max(JOB_LIMITS.maxExpressionLength)
+  .superRefine((text, ctx) => {
+    const name = builtInNameIn(text);
+    if (name) ctx.addIssue({ code: 'custom', message: `"${name}" cannot be used as a name (it is a built-in property name); choose another name` });
+  });
+
+/** An affine expression in eps and parameters, e.g. "2*s - eps". */
+export const AffineText = ExpressionText;
+
+export const ParameterValues = z.record(
+  z
+    .string()
+    .regex(/^[A-Za-z][A-Za-z0-9_]*$/)
+    .refine((name) => !isObjectPropertyName(name), 'this name is a built-in property name; choose another parameter name'),
+  DecimalString,
+);
 
 export const SpecialJob = z.strictObject({
   job: z.literal('special'),
@@ -29,7 +52,7 @@ const SeriesOrder = z.number().int().min(JOB_LIMITS.minOrder).max(JOB_LIMITS.max
 
 export const LaurentJob = z.strictObject({
   job: z.literal('laurent'),
-  expr: z.string().min(1).max(JOB_LIMITS.maxExpressionLength),
+  expr: ExpressionText,
   order: SeriesOrder,
   d: AffineText.optional(),
   at: ParameterValues.optional(),

@@ -9,6 +9,8 @@ import { assertIndependentCouplings } from './projection';
 import { type Tensor, forEachIndex, zeroTensor } from './tensor';
 
 const math = create({ parseDependencies });
+// The first parse instantiates mathjs's lazy factories (about 0.1 s): pay it at load, not inside a request.
+math.parse('0');
 const FIELD = /^phi([1-9][0-9]*)$/;
 const COUPLING = /^[A-Za-z][A-Za-z0-9_]*$/;
 const RESERVED = new Set(['pi', 'e', 'i', 'E', 'PI', 'Infinity', 'NaN', 'phi', 'eps', 'N', 's', 'd']);
@@ -22,6 +24,159 @@ interface NodeLike {
   args?: NodeLike[];
   content?: NodeLike;
   value?: unknown;
+}
+
+/**
+ * Names every JavaScript object already carries (constructor, toString, __proto__, …). Engine code keys
+ * plain objects by symbol name, so such a name would read a built-in instead of a value: refused everywhere.
+ */
+const OBJECT_PROPERTY_NAMES: ReadonlySet<string> = new Set([...Object.getOwnPropertyNames(Object.prototype), 'prototype']);
+
+export function isObjectPropertyName(name: string): boolean {
+  return OBJECT_PROPERTY_NAMES.has(name);
+}
+
+/** What a potential may ask of the expansion; checked on the parse tree before anything is multiplied out. */
+export const POTENTIAL_LIMITS = {
+  /** Quartic in the fields. */
+  maxFieldDegree: 4,
+  /** Each term linear in one coupling. */
+  maxCouplingDegree: 1,
+  /** Upper bound on the terms any sub-expression can expand to. */
+  maxTerms: 20_000,
+  /** Upper bound on term-by-term products summed over every multiplication and power. */
+  maxExpansionWork: 200_000,
+  /** Upper bound on the size of any coefficient (numerator or denominator), in bits. */
+  maxCoefficientBits: 4096,
+} as const;
+
+/** Upper bounds on what a sub-expression expands to: degrees, number of terms, coefficient size in bits. */
+interface ExpansionBound {
+  fieldDegree: number;
+  couplingDegree: number;
+  terms: number;
+  numeratorBits: number;
+  denominatorBits: number;
+}
+
+const bitsOf = (n: bigint): number => (n < 0n ? -n : n).toString(2).length;
+
+/**
+ * Walks the parse tree and refuses the potential when any sub-expression could exceed the limits, so a
+ * potential such as ((phi1+…+phi6)^4)^3 is refused in microseconds instead of being multiplied out.
+ */
+function assertExpansionBounded(tree: NodeLike, fields: number): void {
+  const couplings = new Set<string>();
+  collectSymbols(tree, fields, couplings);
+  // monomials of degree ≤ fieldDegree in the fields, times at most one coupling
+  const distinctTerms = (b: ExpansionBound) => binomial(fields + Math.min(b.fieldDegree, POTENTIAL_LIMITS.maxFieldDegree), Math.min(b.fieldDegree, POTENTIAL_LIMITS.maxFieldDegree)) * (b.couplingDegree > 0 ? 1 + couplings.size : 1);
+  const budget = { work: 0 };
+  const visit = (node: NodeLike): ExpansionBound => {
+    const b = boundOf(node, fields, visit, budget);
+    const terms = Math.min(b.terms, distinctTerms(b));
+    checkBound({ ...b, terms }, budget.work);
+    return { ...b, terms };
+  };
+  visit(tree);
+}
+
+function checkBound(b: ExpansionBound, work: number): void {
+  if (b.fieldDegree > POTENTIAL_LIMITS.maxFieldDegree) fail('limit', `the potential must be quartic in the fields, but a part of it has degree up to ${b.fieldDegree}; multiply out fewer fields (at most degree ${POTENTIAL_LIMITS.maxFieldDegree})`);
+  if (b.couplingDegree > POTENTIAL_LIMITS.maxCouplingDegree) fail('limit', `each term takes exactly one coupling factor, but a part of the potential multiplies up to ${b.couplingDegree} couplings together`);
+  if (b.terms > POTENTIAL_LIMITS.maxTerms) fail('limit', `the potential could expand to ${b.terms} terms (at most ${POTENTIAL_LIMITS.maxTerms}); use fewer couplings or smaller brackets`);
+  if (work > POTENTIAL_LIMITS.maxExpansionWork) fail('limit', `multiplying out the potential takes up to ${work} term products (at most ${POTENTIAL_LIMITS.maxExpansionWork}); write it with fewer or smaller brackets`);
+  if (Math.max(b.numeratorBits, b.denominatorBits) > POTENTIAL_LIMITS.maxCoefficientBits) fail('limit', `the numbers in the potential grow too large (over ${POTENTIAL_LIMITS.maxCoefficientBits} bits); use smaller numbers or powers`);
+}
+
+function collectSymbols(node: NodeLike, fields: number, couplings: Set<string>): void {
+  if (node.type === 'SymbolNode' && !FIELD.test(node.name as string)) couplings.add(node.name as string);
+  if (node.type === 'SymbolNode') symbol(node.name as string, fields);
+  if (node.content) collectSymbols(node.content, fields, couplings);
+  for (const arg of node.args ?? []) collectSymbols(arg, fields, couplings);
+}
+
+function boundOf(node: NodeLike, fields: number, visit: (n: NodeLike) => ExpansionBound, budget: { work: number }): ExpansionBound {
+  switch (node.type) {
+    case 'ConstantNode': {
+      const c = toExactRational(String(node.value));
+      return { fieldDegree: 0, couplingDegree: 0, terms: 1, numeratorBits: bitsOf(c.num), denominatorBits: bitsOf(c.den) };
+    }
+    case 'SymbolNode': {
+      const field = FIELD.test(node.name as string);
+      return { fieldDegree: field ? 1 : 0, couplingDegree: field ? 0 : 1, terms: 1, numeratorBits: 1, denominatorBits: 1 };
+    }
+    case 'ParenthesisNode':
+      return visit(node.content as NodeLike);
+    case 'OperatorNode':
+      return operatorBound(node, visit, budget);
+    default:
+      return fail('parse', `unsupported construct in the potential (${node.type}); use numbers, couplings, phi1…phi${fields}, + − * / ^`);
+  }
+}
+
+function operatorBound(node: NodeLike, visit: (n: NodeLike) => ExpansionBound, budget: { work: number }): ExpansionBound {
+  const args = node.args ?? [];
+  if (node.fn === 'unaryMinus' || node.fn === 'unaryPlus') return visit(args[0]);
+  if (args.length !== 2) return fail('parse', `operator ${node.op} is not allowed in the potential`);
+  const a = visit(args[0]);
+  const b = visit(args[1]);
+  switch (node.op) {
+    case '+':
+    case '-':
+      return {
+        fieldDegree: Math.max(a.fieldDegree, b.fieldDegree),
+        couplingDegree: Math.max(a.couplingDegree, b.couplingDegree),
+        terms: a.terms + b.terms,
+        numeratorBits: Math.max(a.numeratorBits + b.denominatorBits, b.numeratorBits + a.denominatorBits) + 1,
+        denominatorBits: a.denominatorBits + b.denominatorBits,
+      };
+    case '*':
+      budget.work += a.terms * b.terms;
+      return product(a, b, a.terms * b.terms);
+    case '/':
+      return { ...a, numeratorBits: a.numeratorBits + b.denominatorBits, denominatorBits: a.denominatorBits + b.numeratorBits };
+    case '^':
+      return power(a, integerExponent(args[1]), budget);
+    default:
+      return fail('parse', `operator ${node.op} is not allowed in the potential`);
+  }
+}
+
+function product(a: ExpansionBound, b: ExpansionBound, terms: number): ExpansionBound {
+  const sumBits = Math.ceil(Math.log2(Math.max(1, Math.min(a.terms, b.terms)))) + 1;
+  return {
+    fieldDegree: a.fieldDegree + b.fieldDegree,
+    couplingDegree: a.couplingDegree + b.couplingDegree,
+    terms,
+    numeratorBits: a.numeratorBits + b.numeratorBits + sumBits,
+    denominatorBits: a.denominatorBits + b.denominatorBits,
+  };
+}
+
+function power(base: ExpansionBound, n: number, budget: { work: number }): ExpansionBound {
+  let result: ExpansionBound = { fieldDegree: 0, couplingDegree: 0, terms: 1, numeratorBits: 1, denominatorBits: 1 };
+  for (let k = 0; k < n; k++) {
+    budget.work += result.terms * base.terms;
+    result = product(result, base, Math.min(result.terms * base.terms, POTENTIAL_LIMITS.maxExpansionWork + 1));
+    checkBound(result, budget.work);
+  }
+  return result;
+}
+
+/** The exponent of a power: a plain integer 0…4 (possibly in brackets or with a sign). */
+function integerExponent(node: NodeLike): number {
+  const inner = node.type === 'ParenthesisNode' ? (node.content as NodeLike) : node;
+  const negative = inner.type === 'OperatorNode' && inner.fn === 'unaryMinus';
+  const constant = negative || (inner.type === 'OperatorNode' && inner.fn === 'unaryPlus') ? (inner.args ?? [])[0] : inner;
+  const text = constant?.type === 'ConstantNode' ? String(constant.value) : '';
+  if (!/^\d+$/.test(text) || negative || Number(text) > 4) return fail('invalid', 'powers in the potential must be integers 0…4');
+  return Number(text);
+}
+
+function binomial(n: number, k: number): number {
+  let r = 1;
+  for (let i = 1; i <= k; i++) r = (r * (n - k + i)) / i;
+  return Math.round(r);
 }
 
 /** The potential as a polynomial in field and coupling symbols (fields named phi1 … phin). */
@@ -47,6 +202,7 @@ function symbol(name: string, fields: number): Poly {
     if (index > fields) fail('invalid', `${name} is not a field of a ${fields}-field model (fields are phi1…phi${fields})`);
     return polyVariable(name);
   }
+  if (isObjectPropertyName(name)) fail('invalid', `"${name}" cannot name a coupling (it is a built-in property name); choose another name, e.g. g1`);
   if (RESERVED.has(name) || !COUPLING.test(name)) fail('invalid', `unknown symbol ${name}: fields are phi1…phi${fields}, other names are couplings (reserved: ${[...RESERVED].join(', ')})`);
   return polyVariable(name);
 }
@@ -91,6 +247,7 @@ export function customModel(fields: number, potential: string): QuarticModel {
   } catch (e) {
     return fail('parse', `cannot parse the potential: ${(e as Error).message}`);
   }
+  assertExpansionBounded(tree as unknown as NodeLike, fields);
   const polynomial = toPolynomial(tree as unknown as NodeLike, fields);
   const byCoupling = new Map<string, Map<string, { exponents: number[]; coeff: Q }>>();
   for (const term of polynomial.values()) {

@@ -1,0 +1,201 @@
+import {
+  type Affine,
+  EngineError,
+  type ExpansionContext,
+  type GammaFactor,
+  bubbleFactors,
+  fourierPowerFactors,
+  leadingPower,
+  numericContext,
+  starTriangleFactors,
+  symbolicContext,
+  toExactRational,
+} from '../engine/index';
+import { customModel } from '../engine/models/custom';
+import { type Q } from '../engine/symbolic/rational';
+import { checkParameterName, parseAffine, parseDefinitions, parseGammaProduct } from './expressions';
+import { FlowCalcJob, isFlowJob } from './flowJobs';
+import { JOB_LIMITS } from './limits';
+import { CalcJob } from './schemas';
+
+/**
+ * Engine time is estimated in units of about one millisecond on the development machine (2 cores,
+ * Node 20), from measured runs (docs/engine.md, "Work limits"): a job over `maxUnits` is refused before it starts.
+ */
+export const COST_LIMITS = {
+  maxUnits: 45_000,
+  /** Derivation of a flow at two loops: units × fields² × couplings² × (1 + digits/50). */
+  derivationUnit: 6,
+  /** One scan point of a one-coupling model, per quantity: units × (1 + digits/30). */
+  seriesPointUnit: 0.4,
+  /** One scan point (or one fixed-point search) of the cubic model: units × fields² × (1 + digits/60). */
+  presetPointUnit: 3,
+  /** One scan point (or one fixed-point search) of a custom model: units × couplings² × (1 + digits/60). */
+  customPointUnit: 40,
+} as const;
+
+const seconds = (units: number) => `${Math.max(1, Math.round(units / 1000))} s`;
+
+/** Why a series expansion is too large to start, or null: the same rule for the cost check and the runner. */
+export function seriesWorkProblem(factors: GammaFactor[], order: number, at: Record<string, string> | undefined, digits = 30): string | null {
+  if (at === undefined) {
+    const depth = order - totalLeadingPower(symbolicContext(), factors);
+    if (depth > JOB_LIMITS.maxSymbolicDepth) return `symbolic expansions are limited to ${JOB_LIMITS.maxSymbolicDepth} terms beyond the leading power (asked ${depth}); reduce the order`;
+    if (factors.length * Math.max(1, depth) > JOB_LIMITS.maxSymbolicFactorsTimesDepth) {
+      return `symbolic expansion of ${factors.length} Γ factors to ${depth} terms is too large (factors × terms ≤ ${JOB_LIMITS.maxSymbolicFactorsTimesDepth}); expand at a numeric point with "at", or reduce the order`;
+    }
+    return null;
+  }
+  const values = parameterValues(at);
+  const depth = order - totalLeadingPower(numericContext(values, digits), factors);
+  if (depth > JOB_LIMITS.maxNumericDepth) return `numeric expansions are limited to ${JOB_LIMITS.maxNumericDepth} terms beyond the leading power (asked ${depth}); reduce the order`;
+  if (digits * (depth + 1) > JOB_LIMITS.maxDigitsTimesTerms) return `digits × terms = ${digits * (depth + 1)} exceeds ${JOB_LIMITS.maxDigitsTimesTerms}; reduce the digits or the order`;
+  const work = digits * (depth + 1) * factors.length;
+  if (work > JOB_LIMITS.maxNumericWork) return `digits × terms × Γ factors = ${work} exceeds ${JOB_LIMITS.maxNumericWork}; reduce the digits, the order or the number of Γ factors`;
+  return null;
+}
+
+/** Parameter values of a job's "at", by name; names every object carries are refused. */
+export function parameterValues(at: Record<string, string>): Record<string, Q> {
+  const values: Record<string, Q> = Object.create(null);
+  for (const [name, text] of Object.entries(at)) {
+    checkParameterName(name);
+    if (name === 'eps' || name === 'd') throw new EngineError('invalid', `"at" may not assign ${name}`);
+    values[name] = toExactRational(text);
+  }
+  return values;
+}
+
+function totalLeadingPower<C>(ctx: ExpansionContext<C>, factors: GammaFactor[]): number {
+  return factors.reduce((s, f) => s + leadingPower(ctx as ExpansionContext<unknown>, f), 0);
+}
+
+export function specialWorkProblem(digits: number, order: number): string | null {
+  return digits * (order + 1) > JOB_LIMITS.maxDigitsTimesTerms * 4 ? `digits × (order+1) = ${digits * (order + 1)} exceeds ${JOB_LIMITS.maxDigitsTimesTerms * 4}; reduce the digits or the order` : null;
+}
+
+export function padeWorkProblem(digits: number, coefficients: number): string | null {
+  return digits * coefficients > JOB_LIMITS.maxDigitsTimesTerms ? `digits × coefficients = ${digits * coefficients} exceeds ${JOB_LIMITS.maxDigitsTimesTerms}; reduce the digits or the number of coefficients` : null;
+}
+
+/** digits × terms a job asks for, read off its fields before parsing (a rough upper bound). */
+export function estimatedWork(job: unknown): number {
+  if (typeof job !== 'object' || job === null) return 0;
+  const { digits, order, coeffs, points } = job as { digits?: unknown; order?: unknown; coeffs?: unknown; points?: unknown };
+  const d = typeof digits === 'number' ? digits : 30;
+  const terms = typeof order === 'number' ? Math.max(1, order + 1) : Array.isArray(coeffs) ? coeffs.length : 1;
+  const scanPoints = typeof points === 'number' ? points : 1;
+  return d * terms * scanPoints;
+}
+
+export function batchWorkProblem(jobs: unknown[]): string | null {
+  if (jobs.length > JOB_LIMITS.maxBatch) return `at most ${JOB_LIMITS.maxBatch} jobs per call; split the batch`;
+  const work = jobs.reduce((sum: number, job) => sum + estimatedWork(job), 0);
+  if (work > JOB_LIMITS.maxBatchWork) return `the batch asks for digits × terms = ${work} in all (at most ${JOB_LIMITS.maxBatchWork}); split it into smaller calls`;
+  return null;
+}
+
+/**
+ * Why a job (or a batch of jobs) would take too long to run, naming the input to reduce; null when it
+ * is within the limits or is not a valid job at all (the job schema reports that). Runs in well under a
+ * millisecond for ordinary jobs and in a few milliseconds for a custom potential (which is bounded before expansion).
+ */
+export function jobCostProblem(job: unknown): string | null {
+  try {
+    if (Array.isArray(job)) return batchWorkProblem(job) ?? job.reduce<string | null>((found, one, i) => found ?? prefixed(`job ${i + 1}`, jobCostProblem(one)), null);
+    if (isFlowJob(job)) return flowCostProblem(job);
+    return calcCostProblem(job);
+  } catch (error) {
+    // a limit met while reading the job (an expression or potential that grows too large) is a cost problem; other errors are the runner's to report
+    if (error instanceof EngineError && error.code === 'limit') return error.message;
+    if (error instanceof EngineError) return null;
+    throw error;
+  }
+}
+
+const prefixed = (where: string, problem: string | null) => (problem ? `${where}: ${problem}` : null);
+
+function calcCostProblem(input: unknown): string | null {
+  const parsed = CalcJob.safeParse(input);
+  if (!parsed.success) return null;
+  const job = parsed.data;
+  switch (job.job) {
+    case 'special':
+      return specialWorkProblem(job.digits, job.order ?? 0);
+    case 'pade':
+      return padeWorkProblem(job.digits, job.coeffs.length);
+    case 'laurent': {
+      const { factors } = parseGammaProduct(job.expr, parseDefinitions(job.d));
+      return seriesWorkProblem(factors, job.order, job.at, job.digits);
+    }
+    case 'bubble': {
+      const d = parseAffine(job.d);
+      return seriesWorkProblem(bubbleFactors(parseAffine(job.a, { d }), parseAffine(job.b, { d }), d), job.order, job.at, job.digits);
+    }
+    case 'fourier': {
+      const d = parseAffine(job.d);
+      return seriesWorkProblem(fourierPowerFactors(parseAffine(job.a, { d }), d).factors, job.order, job.at, job.digits);
+    }
+    case 'startriangle': {
+      const d = parseAffine(job.d);
+      const deltas = job.deltas.map((t) => parseAffine(t, { d })) as [Affine, Affine, Affine];
+      return seriesWorkProblem(starTriangleFactors(deltas, d).factors, job.order, job.at, job.digits);
+    }
+  }
+}
+
+/** Fields and couplings of a job's model (a custom potential is read, within its own bounds, to count them). */
+interface ModelSize {
+  fields: number;
+  couplings: number;
+  custom: boolean;
+  label: string;
+}
+
+function modelSize(model: FlowCalcJob['model']): ModelSize {
+  if (model.preset === 'custom') {
+    const built = customModel(model.fields, model.potential);
+    return { fields: model.fields, couplings: built.couplings.length, custom: true, label: `a ${model.fields}-field model with ${built.couplings.length} couplings` };
+  }
+  const fields = model.N === 'N' ? 1 : model.N;
+  const couplings = model.preset === 'cubic' && fields > 1 ? 2 : 1;
+  return { fields, couplings, custom: false, label: `the ${model.preset === 'on' ? 'O' : 'cubic'}(${model.N}) model` };
+}
+
+function derivationUnits(fields: number, couplings: number, loops: number, digits: number): number {
+  const perLoop = loops === 2 ? 1 : 0.2;
+  return COST_LIMITS.derivationUnit * perLoop * fields ** 2 * couplings ** 2 * (1 + digits / 50);
+}
+
+/** A numeric fixed-point search at one ε (every scan point of a model with several couplings). */
+function numericPointUnits(size: ModelSize, digits: number): number {
+  const perPoint = size.custom ? COST_LIMITS.customPointUnit * size.couplings ** 2 : COST_LIMITS.presetPointUnit * size.fields ** 2;
+  return perPoint * (1 + digits / 60);
+}
+
+function flowCostProblem(input: unknown): string | null {
+  const parsed = FlowCalcJob.safeParse(input);
+  if (!parsed.success) return null;
+  const job = parsed.data;
+  const size = modelSize(job.model);
+  const derivation = derivationUnits(size.fields, size.couplings, job.loops, job.digits);
+  let units = derivation;
+  let asked = `deriving the flow of ${size.label} at ${job.loops} loops and ${job.digits} digits`;
+  let reduce = 'digits, loops or the number of couplings';
+  if (job.job === 'fixedpoints' || job.job === 'exponents') {
+    units += 10 * numericPointUnits(size, job.digits);
+    asked = `the fixed points of ${size.label} at ${job.loops} loops and ${job.digits} digits`;
+  }
+  if (job.job === 'scan') {
+    const points = job.s.points;
+    const quantities = job.quantities.length;
+    units +=
+      size.couplings > 1
+        ? points * (numericPointUnits(size, job.digits) + COST_LIMITS.seriesPointUnit * quantities * (1 + job.digits / 30))
+        : points * COST_LIMITS.seriesPointUnit * quantities * (1 + job.digits / 30);
+    asked = `this scan asks for ${points} points × ${quantities} quantities × ${job.digits} digits with ${size.label}`;
+    reduce = 'points, quantities, digits or the number of couplings';
+  }
+  if (units <= COST_LIMITS.maxUnits) return null;
+  return `${asked} — about ${seconds(units)} of engine time, over the limit of about ${seconds(COST_LIMITS.maxUnits)}; reduce ${reduce}`;
+}

@@ -1,0 +1,191 @@
+import assert from 'node:assert/strict';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { after, before, describe, test } from 'node:test';
+import { pino } from 'pino';
+import supertest from 'supertest';
+import { startRungbook } from '../../server/boot';
+import { loadConfig } from '../../server/config';
+import { Cell, CapturedMail, JobRun } from '../../server/db/entities';
+import { newId } from '../../server/ids';
+import { COMPARISON_LIMITS } from '../../server/services/versions';
+import type { NotebookDetail, VersionComparison } from '../../shared/notebook/api';
+import { NOTEBOOK_FORMAT, NOTEBOOK_FORMAT_VERSION } from '../../shared/notebook/exports';
+import { ORIGIN, signUpVerified, type Harness } from './harness';
+
+/** The real server listening on a free port, so health checks and heavy requests share one event loop over real sockets. */
+async function startListening(): Promise<Harness & { url: string }> {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'rungbook-bounded-'));
+  const webRoot = path.join(dir, 'web');
+  fs.mkdirSync(webRoot);
+  fs.writeFileSync(path.join(webRoot, 'index.html'), '<!doctype html><title>Rungbook test shell</title>');
+  const config = loadConfig({ DATABASE_PATH: path.join(dir, 'test.sqlite'), SMTP_PORT: '0', PORT: '0', PUBLIC_URL: ORIGIN, WEB_ROOT: webRoot, SEED_DEMO_DATA: 'false' });
+  const rungbook = await startRungbook(config, pino({ level: 'silent' }), { listen: true });
+  const url = `http://127.0.0.1:${rungbook.port}`;
+  return {
+    rungbook,
+    config,
+    url,
+    browser: () => supertest.agent(url).set('Origin', ORIGIN),
+    raw: supertest(url),
+    capturedMail: () => rungbook.services.dataSource.getRepository(CapturedMail).find({ order: { id: 'ASC' } }),
+    async close() {
+      await rungbook.stop();
+      fs.rmSync(dir, { recursive: true, force: true });
+    },
+  };
+}
+
+/**
+ * Run `heavy` while GET /api/health is fired every 20 ms; returns the heavy request's reply, how long it
+ * took, and the slowest health reply seen meanwhile.
+ */
+async function whileHealthIsPolled<T>(url: string, heavy: () => Promise<T>): Promise<{ reply: T; heavyMs: number; slowestHealthMs: number; healthChecks: number }> {
+  const latencies: number[] = [];
+  let running = true;
+  const poll = (async () => {
+    while (running) {
+      const started = performance.now();
+      const reply = await fetch(`${url}/api/health`);
+      await reply.arrayBuffer();
+      latencies.push(performance.now() - started);
+      await new Promise((resolve) => setTimeout(resolve, 20));
+    }
+  })();
+  await new Promise((resolve) => setTimeout(resolve, 30));
+  const started = performance.now();
+  const reply = await heavy();
+  const heavyMs = performance.now() - started;
+  // keep polling a little after, so work scheduled after the reply is also observed
+  await new Promise((resolve) => setTimeout(resolve, 60));
+  running = false;
+  await poll;
+  return { reply, heavyMs, slowestHealthMs: Math.max(...latencies), healthChecks: latencies.length };
+}
+
+const SIX = ['nuInv', 'nu', 'eta', 'gamma', 'omega', 'Delta_phi2'] as const;
+
+/** A scan result of the engine's shape: 1000 points × 6 quantities, values and Padé values at `digits` digits. */
+function bigScanResult(digits: number) {
+  const value = (i: number, k: number) => (1 + (i * 7 + k) / 9973).toPrecision(digits);
+  return {
+    d: '3',
+    fixedPoint: 'Ising',
+    quantities: SIX,
+    marks: { meanFieldEnd: '1.5' },
+    points: Array.from({ length: 1000 }, (_, i) => ({
+      s: (1.55 + (0.4 * i) / 999).toFixed(6),
+      eps: (0.1 + (0.8 * i) / 999).toFixed(6),
+      regime: 'long-range',
+      flagged: false,
+      values: Object.fromEntries(SIX.map((q, k) => [q, value(i, k)])),
+      pade: Object.fromEntries(SIX.map((q, k) => [q, value(i, k + 6)])),
+    })),
+  };
+}
+
+const HOSTILE = '((phi1+phi2+phi3+phi4+phi5+phi6)^4)^3';
+const hostileSetup = { kind: 'setup', model: { preset: 'custom', fields: 6, potential: HOSTILE }, loops: 2, digits: 30 };
+
+describe('no request does unbounded work on the request thread', () => {
+  let h: Awaited<ReturnType<typeof startListening>>;
+  let owner: ReturnType<Harness['browser']>;
+  let notebook: NotebookDetail;
+
+  before(async () => {
+    h = await startListening();
+    owner = h.browser();
+    const { user } = await signUpVerified(h, 1, owner);
+    notebook = (await owner.post('/api/notebooks').send({ title: 'Invented heavy scan', summary: '' }).expect(201)).body.notebook;
+    await owner.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'setup', input: { kind: 'setup', model: { preset: 'on', N: 1 }, d: '3', loops: 2, digits: 30 } }).expect(201);
+    notebook = (await owner.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'scan', input: { kind: 'scan', uses: 'setup', from: '1.55', to: '1.95', points: 1000, quantities: [...SIX] } }).expect(201)).body.notebook;
+    const scanCell = notebook.cells.find((c) => c.label === 'scan')!;
+    // two finished runs with large results (30 and 31 digits), written directly: the engine is not what is tested here
+    const { dataSource } = h.rungbook.services;
+    for (const [digits, message] of [[30, 'scan at 30 digits'], [31, 'scan at 31 digits']] as const) {
+      const run = { id: newId(), inputHash: newId(), engineVersion: 'test', jobJson: '{}', status: 'done' as const, progress: 1, cached: false, cellId: scanCell.id, requestedBy: user.id, resultJson: JSON.stringify(bigScanResult(digits)), durationMs: 1, startedAt: new Date(), finishedAt: new Date() };
+      await dataSource.getRepository(JobRun).insert(run);
+      await dataSource.getRepository(Cell).update({ id: scanCell.id }, { lastRunId: run.id });
+      h.rungbook.services.notebooks.forget(notebook.id);
+      await owner.post(`/api/notebooks/${notebook.id}/versions`).send({ message }).expect(201);
+    }
+  });
+  after(() => h.close());
+
+  test('comparing two versions with 1000-point, 6-quantity scans (30 vs 31 digits) answers fast, summarised, without delaying health', async () => {
+    const versions = (await owner.get(`/api/notebooks/${notebook.id}/versions`).expect(200)).body.versions as { id: string; message: string }[];
+    const from = versions.find((v) => v.message === 'scan at 30 digits')!;
+    const to = versions.find((v) => v.message === 'scan at 31 digits')!;
+    const { reply, heavyMs, slowestHealthMs, healthChecks } = await whileHealthIsPolled(h.url, () => owner.get(`/api/notebooks/${notebook.id}/versions/compare?from=${from.id}&to=${to.id}`).expect(200));
+    assert.ok(heavyMs < 1000, `comparison took ${heavyMs.toFixed(0)} ms`);
+    assert.ok(healthChecks >= 1);
+    assert.ok(slowestHealthMs < 200, `slowest health reply ${slowestHealthMs.toFixed(0)} ms`);
+    const comparison = reply.body.comparison as VersionComparison;
+    const scan = comparison.cells.find((c) => c.label === 'scan')!;
+    assert.equal(scan.change, 'changed');
+    assert.equal(scan.outputSummarised, true);
+    assert.deepEqual(scan.output, [], 'no line diff of a result this large');
+    const before = bigScanResult(30);
+    const afterResult = bigScanResult(31);
+    assert.equal(scan.outputValues.sizeBefore, JSON.stringify(before).length);
+    assert.equal(scan.outputValues.sizeAfter, JSON.stringify(afterResult).length);
+    assert.ok(scan.outputValues.sizeBefore > COMPARISON_LIMITS.maxTextDiffChars);
+    // every value and Padé value gains a digit: 1000 × 12 values differ, counted by direct comparison here
+    const expectedChanged = before.points.reduce((n, p, i) => n + SIX.filter((q) => p.values[q] !== afterResult.points[i].values[q]).length + SIX.filter((q) => p.pade[q] !== afterResult.points[i].pade[q]).length, 0);
+    assert.equal(scan.outputValues.complete, true);
+    assert.equal(scan.outputValues.changed, expectedChanged);
+    assert.equal(scan.outputValues.listed.length, COMPARISON_LIMITS.maxListedChanges);
+    assert.equal(scan.outputValues.more, expectedChanged - COMPARISON_LIMITS.maxListedChanges);
+    assert.deepEqual(scan.outputValues.listed[0], { path: 'points[0].values.nuInv', before: before.points[0].values.nuInv, after: afterResult.points[0].values.nuInv });
+    assert.equal(comparison.cells.find((c) => c.label === 'setup')?.change, 'unchanged');
+  });
+
+  test('a hostile potential is refused on save in well under a second, with a message, without delaying health', async () => {
+    const { reply, heavyMs, slowestHealthMs } = await whileHealthIsPolled(h.url, () => owner.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'hostile', input: hostileSetup }));
+    assert.equal(reply.status, 400);
+    assert.match(reply.body.error.message, /quartic in the fields/);
+    assert.ok(heavyMs < 1000, `refused after ${heavyMs.toFixed(0)} ms`);
+    assert.ok(slowestHealthMs < 200, `slowest health reply ${slowestHealthMs.toFixed(0)} ms`);
+  });
+
+  test('import refuses what saving refuses, with the same message, and creates nothing', async () => {
+    const document = (cells: { label: string; input: unknown }[]) => ({ format: NOTEBOOK_FORMAT, formatVersion: NOTEBOOK_FORMAT_VERSION, title: 'Invented import', summary: '', cells });
+    const countBefore = (await owner.get('/api/notebooks').expect(200)).body.notebooks.length;
+    const { reply, heavyMs, slowestHealthMs } = await whileHealthIsPolled(h.url, () => owner.post('/api/notebooks/import').send(document([{ label: 'hostile', input: hostileSetup }])));
+    assert.equal(reply.status, 400);
+    assert.match(reply.body.error.message, /quartic in the fields/);
+    assert.ok(heavyMs < 1000);
+    assert.ok(slowestHealthMs < 200, `slowest health reply ${slowestHealthMs.toFixed(0)} ms`);
+    // a name that reads a built-in property: refused on save and on import alike
+    const builtIn = { kind: 'integral', form: 'laurent', expr: 'gamma(1+constructor*eps)', d: '4-eps', order: 1 };
+    const onSave = await owner.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'builtin', input: builtIn });
+    const onImport = await owner.post('/api/notebooks/import').send(document([{ label: 'builtin', input: builtIn }]));
+    assert.equal(onSave.status, 400);
+    assert.equal(onImport.status, 400);
+    assert.match(onSave.body.error.message, /"constructor" cannot be used as a name/);
+    assert.match(onImport.body.error.message, /"constructor" cannot be used as a name/);
+    // a scan whose job is over the engine's work limit: import checks it against the setups in the file
+    const tooBig = document([
+      { label: 'setup', input: { kind: 'setup', model: { preset: 'cubic', N: 6 }, d: '3', loops: 2, digits: 200 } },
+      { label: 'scan', input: { kind: 'scan', uses: 'setup', from: '1.55', to: '1.95', points: 1000, quantities: [...SIX] } },
+    ]);
+    const refused = await owner.post('/api/notebooks/import').send(tooBig);
+    assert.equal(refused.status, 422);
+    assert.match(refused.body.error.message, /reduce points, quantities, digits/);
+    assert.equal((await owner.get('/api/notebooks').expect(200)).body.notebooks.length, countBefore, 'nothing was created');
+  });
+
+  test('/api/calc refuses a hostile potential before any engine run, and built-in names with 400', async () => {
+    const { reply, heavyMs, slowestHealthMs } = await whileHealthIsPolled(h.url, () => owner.post('/api/calc').send({ job: { job: 'flow', model: { preset: 'custom', fields: 6, potential: HOSTILE }, loops: 2, digits: 30 } }));
+    assert.ok(reply.status >= 400 && reply.status < 500, `status ${reply.status}`);
+    assert.match(reply.body.error.message, /quartic in the fields/);
+    assert.ok(heavyMs < 1000);
+    assert.ok(slowestHealthMs < 200, `slowest health reply ${slowestHealthMs.toFixed(0)} ms`);
+    for (const name of ['constructor', '__proto__', 'toString']) {
+      const calc = await owner.post('/api/calc').send({ job: { job: 'laurent', expr: `gamma(1+${name}*eps)`, order: 1 } });
+      assert.equal(calc.status, 400, name);
+      assert.match(JSON.stringify(calc.body.error), /built-in property name/);
+    }
+  });
+});

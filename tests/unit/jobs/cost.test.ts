@@ -1,0 +1,108 @@
+import assert from 'node:assert/strict';
+import { test } from 'node:test';
+import { COST_LIMITS, jobCostProblem } from '../../../shared/jobs/cost';
+import { JOB_LIMITS } from '../../../shared/jobs/limits';
+import { runBatch, runJob } from '../../../shared/jobs';
+import { jobForCell, type SetupInput } from '../../../shared/notebook/jobs';
+import { demoNotebook } from '../../../server/seed/demo';
+
+const scan = (model: unknown, points: number, quantities: string[], digits: number) => ({
+  job: 'scan',
+  model,
+  d: '3',
+  s: { from: '1.55', to: '1.95', points },
+  quantities,
+  loops: 2,
+  digits,
+});
+const six = ['nuInv', 'nu', 'eta', 'gamma', 'omega', 'Delta_phi2'];
+
+test('every job of the demo notebook is well within the limits', () => {
+  const setups = new Map<string, SetupInput>(demoNotebook.cells.flatMap((c) => (c.input.kind === 'setup' ? [[c.label, c.input] as const] : [])));
+  const jobs = demoNotebook.cells.map((c) => jobForCell(c.input, setups)).filter((j) => j !== null);
+  assert.ok(jobs.length >= 3, 'the demo notebook runs jobs');
+  for (const job of jobs) assert.equal(jobCostProblem(job), null, JSON.stringify(job));
+});
+
+test('a one-coupling scan at the schema maximum (1000 points × 6 quantities × 200 digits, measured about 8 s) is accepted', () => {
+  assert.equal(jobCostProblem(scan({ preset: 'on', N: 1 }, 1000, six, 200)), null);
+});
+
+test('a scan of a two-coupling model is limited by points × digits × fields, and the message names what to reduce', () => {
+  // cubic(3): measured about 40 ms a point at 30 digits, so about 1000 points fit the limit and 2000 would not.
+  assert.equal(jobCostProblem(scan({ preset: 'cubic', N: 3 }, 500, ['nuInv', 'omega'], 30)), null);
+  // cubic(6): measured about 190 ms a point at 30 digits — 1000 points is minutes of engine time.
+  const problem = jobCostProblem(scan({ preset: 'cubic', N: 6 }, 1000, six, 30));
+  assert.ok(problem, 'refused');
+  assert.match(problem, /1000 points × 6 quantities × 30 digits/);
+  assert.match(problem, /reduce points, quantities, digits or the number of couplings/);
+  // the estimate grows with points: find the largest accepted count by bisection and check the next one is refused
+  let lo = 2;
+  let hi = 1000;
+  while (hi - lo > 1) {
+    const mid = Math.floor((lo + hi) / 2);
+    if (jobCostProblem(scan({ preset: 'cubic', N: 6 }, mid, six, 30)) === null) lo = mid;
+    else hi = mid;
+  }
+  assert.equal(jobCostProblem(scan({ preset: 'cubic', N: 6 }, lo, six, 30)), null);
+  assert.ok(jobCostProblem(scan({ preset: 'cubic', N: 6 }, lo + 1, six, 30)));
+  // at the limit the estimate is about maxUnits ms; with 190 ms a point measured, lo points take about lo × 0.19 s ≤ 60 s
+  assert.ok(lo * 0.19 <= 60, `${lo} points of cubic(6) would take about ${Math.round(lo * 0.19)} s`);
+});
+
+test('a custom flow is limited by its number of couplings', () => {
+  const three = { preset: 'custom', fields: 2, potential: 'u*(phi1^4+phi2^4) + v*phi1^2*phi2^2 + w*(phi1^3*phi2+phi1*phi2^3)' };
+  // measured: about 0.5 s a point for this model at 30 digits
+  assert.equal(jobCostProblem(scan(three, 20, ['nuInv', 'omega'], 30)), null);
+  const problem = jobCostProblem(scan(three, 1000, ['nuInv', 'omega'], 30));
+  assert.ok(problem);
+  assert.match(problem, /2-field model with 3 couplings/);
+});
+
+test('series jobs: digits × terms at the limit is accepted, one digit over is refused with the input to reduce', () => {
+  // Γ(eps) has a simple pole (leading power −1), Γ(1−eps) none: depth beyond the leading power = order + 1
+  const at = (digits: number, order: number) => ({ job: 'laurent', expr: 'gamma(eps)*gamma(1-eps)', order, at: { s: '1' }, digits });
+  const digitsAtLimit = Math.floor(JOB_LIMITS.maxDigitsTimesTerms / 31); // order 29 → depth 30 → 31 terms
+  assert.equal(jobCostProblem(at(digitsAtLimit, 29)), null);
+  assert.match(jobCostProblem(at(digitsAtLimit + 1, 29)) ?? '', /digits × terms = \d+ exceeds 12000; reduce the digits or the order/);
+  assert.match(jobCostProblem(at(30, 30)) ?? '', /limited to 30 terms beyond the leading power \(asked 31\); reduce the order/);
+  // the runner gives the same message
+  assert.deepEqual(runJob(at(30, 30)), { error: { code: 'limit', message: jobCostProblem(at(30, 30)) } });
+});
+
+test('special and Padé jobs keep their digits × terms limits', () => {
+  const limit = JOB_LIMITS.maxDigitsTimesTerms * 4;
+  assert.equal(jobCostProblem({ job: 'special', fn: 'psi', x: '2', order: limit / 1000 - 1, digits: 1000 }), null);
+  assert.match(jobCostProblem({ job: 'special', fn: 'psi', x: '2', order: 200, digits: 1000 }) ?? '', /reduce the digits or the order/);
+  const coeffs = (n: number) => Array.from({ length: n }, (_, i) => String(i + 1));
+  assert.equal(jobCostProblem({ job: 'pade', coeffs: coeffs(40), digits: JOB_LIMITS.maxDigitsTimesTerms / 40 }), null);
+  assert.match(jobCostProblem({ job: 'pade', coeffs: coeffs(41), digits: JOB_LIMITS.maxDigitsTimesTerms / 40 }) ?? '', /reduce the digits or the number of coefficients/);
+});
+
+test('a batch is limited in count and in total work; the runner refuses exactly what the cost check refuses', () => {
+  const one = { job: 'special', fn: 'gamma', x: '2', digits: 1000 };
+  const fits = Array.from({ length: JOB_LIMITS.maxBatchWork / 1000 }, () => one);
+  assert.equal(jobCostProblem(fits), null);
+  const over = [...fits, one];
+  const problem = jobCostProblem(over);
+  assert.match(problem ?? '', /split it into smaller calls/);
+  assert.deepEqual(runBatch(over), { error: { code: 'limit', message: problem } });
+  assert.match(jobCostProblem(Array.from({ length: JOB_LIMITS.maxBatch + 1 }, () => ({ job: 'special', fn: 'gamma', x: '2', digits: 5 }))) ?? '', /at most 100 jobs/);
+});
+
+test('a hostile potential is refused by the cost check in milliseconds', () => {
+  const started = performance.now();
+  const problem = jobCostProblem({ job: 'flow', model: { preset: 'custom', fields: 6, potential: '((phi1+phi2+phi3+phi4+phi5+phi6)^4)^3' }, loops: 2, digits: 30 });
+  assert.ok(performance.now() - started < 500);
+  assert.match(problem ?? '', /quartic in the fields/);
+});
+
+test('invalid jobs are left to the job schema (no cost problem reported)', () => {
+  assert.equal(jobCostProblem({ job: 'nonsense' }), null);
+  assert.equal(jobCostProblem(null), null);
+});
+
+test('the unit is calibrated to the limit in seconds the messages print', () => {
+  assert.ok(COST_LIMITS.maxUnits >= 30_000 && COST_LIMITS.maxUnits <= 60_000);
+  assert.equal(runJob({ job: 'special', fn: 'gamma', x: '5', digits: 10 }).hasOwnProperty('value'), true);
+});
