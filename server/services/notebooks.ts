@@ -173,6 +173,31 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
     return { ...summary, canEdit, cells: await cellViews(notebookId) };
   }
 
+  /**
+   * The checks of saving one cell, with its job's cost measured against the notebook's setups as they
+   * would be after the save; a changed setup is also checked against every cell that uses it.
+   */
+  async function assertSavable(notebookId: string, cellId: string | null, newLabel: string | undefined, input: CellInput) {
+    const rows = await orderedCells(notebookId);
+    const label = newLabel ?? rows.find((row) => row.id === cellId)?.label ?? '';
+    const others = rows.filter((row) => row.id !== cellId).map((row) => ({ label: row.label, input: parseCellInput(row.inputJson) }));
+    const setups = new Map<string, SetupInput>();
+    for (const other of others) if (other.input.kind === 'setup') setups.set(other.label, other.input);
+    if (input.kind === 'setup') setups.set(label, input);
+    assertCellAccepted(input, setups);
+    if (input.kind !== 'setup') return;
+    for (const dependent of others.filter((other) => 'uses' in other.input && other.input.uses === label)) {
+      try {
+        assertCellAccepted(dependent.input, setups);
+      } catch (error) {
+        if (error instanceof AppError && error.code === 'job_too_large') {
+          throw new AppError('job_too_large', `With these parameters cell "${dependent.label}" would be too large to run: ${error.message}`);
+        }
+        throw error;
+      }
+    }
+  }
+
   async function setupsOf(notebookId: string): Promise<Map<string, SetupInput>> {
     const setups = new Map<string, SetupInput>();
     for (const row of await orderedCells(notebookId)) {
@@ -256,7 +281,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
 
     async addCell(viewer: SignedInUser, notebookId: string, input: { label: string; input: CellInput; position?: number }) {
       await editable(viewer, notebookId);
-      assertCellAccepted(input.input);
+      await assertSavable(notebookId, null, input.label, input.input);
       await dataSource.transaction(async (manager) => {
         const existing = await orderedCells(notebookId, manager);
         if (existing.length >= MAX_CELLS_PER_NOTEBOOK) throw new AppError('conflict', `A notebook holds at most ${MAX_CELLS_PER_NOTEBOOK} cells.`);
@@ -274,7 +299,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
 
     async updateCell(viewer: SignedInUser, notebookId: string, cellId: string, patch: { label?: string; input?: CellInput; revision: number }) {
       await editable(viewer, notebookId);
-      if (patch.input) assertCellAccepted(patch.input);
+      if (patch.input) await assertSavable(notebookId, cellId, patch.label, patch.input);
       await dataSource.transaction(async (manager) => {
         const cell = await manager.findOneBy(Cell, { id: cellId, notebookId });
         if (!cell) throw new AppError('not_found', 'No such cell.');
