@@ -62,6 +62,7 @@ export async function startRungbook(config: ServerConfig, logger: Logger, option
         await closed;
       }
       await services.runs.close();
+      await services.documents.close();
       await mailer.close();
       await smtpFake?.stop();
       if (dataSource.isInitialized) await dataSource.destroy();

@@ -9,7 +9,7 @@ import {
   updateCellInput,
   updateNotebookInput,
 } from '../../shared/notebook/api';
-import { notebookDocument, toLatexDocument } from '../../shared/notebook/exports';
+import { notebookDocument } from '../../shared/notebook/exports';
 import { FileReply, route } from '../http/route';
 import type { Services } from '../services';
 
@@ -20,7 +20,7 @@ const compareQuery = z.strictObject({ from: idParam, to: idParam });
 
 const fileName = (title: string, extension: string) => `${title.replace(/[^A-Za-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 60) || 'notebook'}.${extension}`;
 
-export function notebookRoutes({ notebooks, versions }: Services) {
+export function notebookRoutes({ notebooks, versions, documents }: Services) {
   return [
     route({ method: 'get', path: '/notebooks', access: 'signed-in', summary: 'Notebooks you can open, newest first', query: listNotebooksQuery,
       handler: async ({ user, query }) => ({ notebooks: await notebooks.list(user!, query.q) }) }),
@@ -81,7 +81,7 @@ export function notebookRoutes({ notebooks, versions }: Services) {
     route({ method: 'get', path: '/notebooks/:notebookId/export.tex', access: 'signed-in', summary: 'The notebook as a LaTeX document', params: notebookParams,
       handler: async ({ user, params }) => {
         const document = await versions.exportDocument(user!, params.notebookId);
-        return new FileReply('application/x-tex', fileName(document.title, 'tex'), toLatexDocument(document));
+        return new FileReply('application/x-tex', fileName(document.title, 'tex'), await documents.latex(document));
       } }),
   ];
 }

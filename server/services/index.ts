@@ -12,6 +12,7 @@ import { createPasswordResetService, type PasswordResetService } from './passwor
 import { createRunService, type RunService } from './runs';
 import { createVersionService, type VersionService } from './versions';
 import type { JobRunner } from '../jobs/runner';
+import { createDocumentRenderer, type DocumentRenderer } from '../jobs/documents';
 
 export interface Services {
   config: ServerConfig;
@@ -27,6 +28,8 @@ export interface Services {
   runs: RunService;
   notebooks: NotebookService;
   versions: VersionService;
+  /** Renders exports (LaTeX) in a worker thread. */
+  documents: DocumentRenderer;
 }
 
 export function createServices(config: ServerConfig, logger: Logger, dataSource: DataSource, mailer: Mailer, runner: JobRunner): Services {
@@ -35,6 +38,7 @@ export function createServices(config: ServerConfig, logger: Logger, dataSource:
   const emailVerification = createEmailVerificationService(dataSource, mailer, sessions, config.publicUrl);
   const runs = createRunService(dataSource, runner, logger, config.jobs);
   const notebooks = createNotebookService(dataSource, runs);
+  const documents = createDocumentRenderer();
   return {
     config,
     logger,
@@ -48,6 +52,7 @@ export function createServices(config: ServerConfig, logger: Logger, dataSource:
     groups: createGroupService(dataSource),
     runs,
     notebooks,
-    versions: createVersionService(dataSource, notebooks),
+    versions: createVersionService(dataSource, notebooks, documents),
+    documents,
   };
 }

@@ -1,7 +1,7 @@
-import { diffLines } from 'diff';
 import type { DataSource, EntityManager } from 'typeorm';
-import type { CellComparison, TextChange, ValueChange, ValueDifferences, VersionComparison, VersionDetail, VersionSummary } from '../../shared/notebook/api';
-import type { VersionCellSnapshot } from '../../shared/notebook/api';
+import type { VersionComparison, VersionDetail, VersionSummary } from '../../shared/notebook/api';
+import type { VersionSnapshot } from '../../shared/notebook/comparison';
+import type { DocumentRenderer } from '../jobs/documents';
 import type { CellInput } from '../../shared/notebook/cells';
 import { fingerprintOf } from '../../shared/notebook/dependencies';
 import { toNotebookDocument, type NotebookDocument } from '../../shared/notebook/exports';
@@ -14,131 +14,12 @@ import { assertCellsAccepted } from './cellChecks';
 import { MAX_CELLS_PER_NOTEBOOK, type NotebookService } from './notebooks';
 import { jobHash } from './runs';
 
-interface Snapshot {
-  title: string;
-  summary: string;
-  cells: VersionCellSnapshot[];
-}
+type Snapshot = VersionSnapshot;
+
+export { COMPARISON_LIMITS, valueDifferences } from '../../shared/notebook/comparison';
 
 function toSummary(row: NotebookVersion): VersionSummary {
   return { id: row.id, number: row.number, message: row.message, authorName: row.authorName, createdAt: row.createdAt.toISOString(), automatic: row.automatic };
-}
-
-/** Limits that keep a comparison cheap whatever the size of the results being compared. */
-export const COMPARISON_LIMITS = {
-  /** A part (input or result) is diffed line by line only when both sides print to at most this many characters. */
-  maxTextDiffChars: 20_000,
-  /** Values visited by the structural walk of one part. */
-  maxNodesPerPart: 50_000,
-  /** Values visited over the whole comparison. */
-  maxNodesPerComparison: 400_000,
-  /** Changed values listed per part (the rest are counted). */
-  maxListedChanges: 20,
-  /** Characters of a listed before/after value. */
-  maxValueChars: 120,
-} as const;
-
-/** Yield to the event loop, so requests waiting behind a long comparison are served in between. */
-const nextTurn = () => new Promise<void>((resolve) => setImmediate(resolve));
-
-const compactSize = (value: unknown) => (value === null || value === undefined ? 0 : JSON.stringify(value).length);
-const pretty = (value: unknown) => (value === null || value === undefined ? '' : `${JSON.stringify(value, null, 2)}\n`);
-
-function textChanges(before: unknown, after: unknown): TextChange[] {
-  return diffLines(pretty(before), pretty(after)).map((part) => ({ value: part.value, ...(part.added ? { added: true } : {}), ...(part.removed ? { removed: true } : {}) }));
-}
-
-function shortText(value: unknown): string | null {
-  if (value === undefined || value === null) return null;
-  const text = typeof value === 'string' ? value : JSON.stringify(value);
-  return text.length > COMPARISON_LIMITS.maxValueChars ? `${text.slice(0, COMPARISON_LIMITS.maxValueChars - 1)}…` : text;
-}
-
-const isContainer = (v: unknown): v is Record<string, unknown> | unknown[] => typeof v === 'object' && v !== null;
-
-/** Values walked between two turns of the event loop. */
-const NODES_PER_TURN = 4000;
-
-/**
- * The values that differ between two JSON values, walking both side by side. The walk visits at most
- * `budget.nodes` values, so its cost is bounded whatever the size of the inputs, and it yields to the
- * event loop every few thousand values, so other requests are served meanwhile.
- */
-export async function valueDifferences(before: unknown, after: unknown, budget: { nodes: number }): Promise<ValueDifferences> {
-  const listed: ValueChange[] = [];
-  let changed = 0;
-  let nodes = Math.min(budget.nodes, COMPARISON_LIMITS.maxNodesPerPart);
-  const startNodes = nodes;
-  // the path is kept as segments and printed only for the few changes that are listed
-  const segments: (string | number)[] = [];
-  const pathText = () => segments.map((s, i) => (typeof s === 'number' ? `[${s}]` : i === 0 ? s : `.${s}`)).join('') || '(whole value)';
-  const note = (b: unknown, a: unknown) => {
-    changed++;
-    if (listed.length < COMPARISON_LIMITS.maxListedChanges) listed.push({ path: pathText(), before: shortText(b), after: shortText(a) });
-  };
-  function* child(segment: string | number, b: unknown, a: unknown): Generator<void> {
-    segments.push(segment);
-    yield* walk(b, a);
-    segments.pop();
-  }
-  function* walk(b: unknown, a: unknown): Generator<void> {
-    if (nodes <= 0) return;
-    nodes--;
-    if (nodes % NODES_PER_TURN === 0) yield;
-    if (Array.isArray(b) && Array.isArray(a)) {
-      if (b.length !== a.length) {
-        segments.push('length');
-        note(b.length, a.length);
-        segments.pop();
-      }
-      for (let i = 0; i < Math.max(b.length, a.length) && nodes > 0; i++) yield* child(i, b[i], a[i]);
-      return;
-    }
-    if (isContainer(b) && isContainer(a) && !Array.isArray(b) && !Array.isArray(a)) {
-      for (const key of Object.keys(b)) if (nodes > 0) yield* child(key, b[key], Object.hasOwn(a, key) ? a[key] : undefined);
-      for (const key of Object.keys(a)) if (nodes > 0 && !Object.hasOwn(b, key)) yield* child(key, undefined, a[key]);
-      return;
-    }
-    if (b === a || (b ?? null) === (a ?? null)) return;
-    // a value that changed shape, appeared or vanished counts once, not leaf by leaf
-    note(b, a);
-  }
-  const steps = walk(before, after);
-  while (!steps.next().done) await nextTurn();
-  budget.nodes -= startNodes - nodes;
-  const sizeBefore = compactSize(before);
-  await nextTurn();
-  return { changed, listed, more: changed - listed.length, complete: nodes > 0, sizeBefore, sizeAfter: compactSize(after) };
-}
-
-/** Line diff of one part when both sides are small enough to print, otherwise only its value differences. */
-async function comparePart(before: unknown, after: unknown, budget: { nodes: number }) {
-  const values = await valueDifferences(before, after, budget);
-  const same = values.complete ? values.changed === 0 : JSON.stringify(before ?? null) === JSON.stringify(after ?? null);
-  if (same) return { text: [] as TextChange[], summarised: false, values, same };
-  // pretty text is never shorter than compact JSON, so the compact size decides most cases without printing
-  const small = values.sizeBefore <= COMPARISON_LIMITS.maxTextDiffChars && values.sizeAfter <= COMPARISON_LIMITS.maxTextDiffChars;
-  const before_ = small ? pretty(before) : '';
-  const after_ = small ? pretty(after) : '';
-  if (!small || before_.length > COMPARISON_LIMITS.maxTextDiffChars || after_.length > COMPARISON_LIMITS.maxTextDiffChars) return { text: [] as TextChange[], summarised: true, values, same };
-  return { text: textChanges(before, after), summarised: false, values, same };
-}
-
-/** One cell of a comparison: which parts changed, with line diffs below the size cap and value summaries always. */
-export async function compareCell(label: string, before: VersionCellSnapshot | undefined, after: VersionCellSnapshot | undefined, budget: { nodes: number }): Promise<CellComparison> {
-  const input = await comparePart(before?.input, after?.input, budget);
-  const output = await comparePart(before?.output, after?.output, budget);
-  const change = !before ? 'added' : !after ? 'removed' : input.same && output.same ? 'unchanged' : 'changed';
-  return {
-    label,
-    change,
-    input: input.text,
-    output: output.text,
-    inputSummarised: input.summarised,
-    outputSummarised: output.summarised,
-    inputValues: input.values,
-    outputValues: output.values,
-  };
 }
 
 /**
@@ -186,7 +67,7 @@ async function recordCachedRun(manager: EntityManager, hit: JobRun, cellId: stri
 }
 
 /** Versions are immutable snapshots; restoring one writes the old cells back and records a new version. */
-export function createVersionService(dataSource: DataSource, notebooks: NotebookService) {
+export function createVersionService(dataSource: DataSource, notebooks: NotebookService, documents: DocumentRenderer) {
   const versions = dataSource.getRepository(NotebookVersion);
 
   async function currentSnapshot(notebookId: string): Promise<Snapshot> {
@@ -249,19 +130,12 @@ export function createVersionService(dataSource: DataSource, notebooks: Notebook
 
     async compare(viewer: SignedInUser, notebookId: string, fromId: string, toId: string): Promise<VersionComparison> {
       await notebooks.access(viewer, notebookId);
-      const from = await load(notebookId, fromId);
-      await nextTurn();
-      const to = await load(notebookId, toId);
-      await nextTurn();
-      const labels = [...new Set([...from.snapshot.cells.map((c) => c.label), ...to.snapshot.cells.map((c) => c.label)])];
-      const beforeByLabel = new Map(from.snapshot.cells.map((c) => [c.label, c]));
-      const afterByLabel = new Map(to.snapshot.cells.map((c) => [c.label, c]));
-      const budget = { nodes: COMPARISON_LIMITS.maxNodesPerComparison };
-      const cells: CellComparison[] = [];
-      for (const label of labels) {
-        cells.push(await compareCell(label, beforeByLabel.get(label), afterByLabel.get(label), budget));
-      }
-      return { from: toSummary(from.row), to: toSummary(to.row), cells };
+      const rows = await Promise.all([fromId, toId].map((id) => versions.findOneBy({ id, notebookId })));
+      const [from, to] = rows;
+      if (!from || !to) throw new AppError('not_found', 'No such version of this notebook.');
+      // Parsing and walking two large snapshots is work that grows with the results: a worker thread does it.
+      const cells = await documents.compare(from.snapshotJson, to.snapshotJson);
+      return { from: toSummary(from), to: toSummary(to), cells };
     },
 
     async restore(viewer: SignedInUser, notebookId: string, versionId: string) {

@@ -10,7 +10,7 @@ import { createPerson, type TestPerson } from './people';
 
 const smallSetup = { kind: 'setup', model: { preset: 'on', N: 1 }, d: '3', s: '1.5', loops: 2, digits: 30 } as const;
 const heavySetup = { kind: 'setup', model: { preset: 'cubic', N: 6 }, d: '3', s: '1.5', loops: 2, digits: 30 } as const;
-const scan = { kind: 'scan', uses: 'setup', from: '1.55', to: '1.95', points: 1000, quantities: ['nuInv', 'nu', 'eta', 'gamma', 'omega', 'Delta_phi2'] } as const;
+const scan = { kind: 'scan', uses: 'setup', from: '1.55', to: '1.95', points: 1000, quantities: ['nuInv', 'nu', 'eta', 'gamma', 'omega', 'Delta_phi2'] };
 
 describe('work limits on save', () => {
   let h: Harness;
