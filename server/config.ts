@@ -14,8 +14,13 @@ export interface ServerConfig {
   logLevel: string;
   mail: MailConfig;
   signInLimits: { perIpPer15Min: number; perAccountPer15Min: number };
-  /** Sign-up, forgot-password and reset requests per source per 15 minutes; e-mails (invitations, mentions) per sender per hour. */
-  authLimits: { signUpPerIpPer15Min: number; forgotPerIpPer15Min: number; resetPerIpPer15Min: number; mailPerSenderPerHour: number };
+  /**
+   * A start that only this machine can reach and that is not production: the demo site admin with its
+   * published password and the captured-mail reader exist only then.
+   */
+  localOnly: boolean;
+  /** Sign-up, forgot-password and reset requests per source per 15 minutes; people one person may add to groups per hour. */
+  authLimits: { signUpPerIpPer15Min: number; forgotPerIpPer15Min: number; resetPerIpPer15Min: number; groupAddsPerUserPerHour: number };
   /** Express 'trust proxy' setting: false (default) ignores X-Forwarded-* headers. */
   trustProxy: boolean | number | string;
   seedDemoData: boolean;
@@ -45,6 +50,8 @@ export interface MailConfig {
   smtpSecure: boolean;
   smtpUser?: string;
   smtpPassword?: string;
+  /** A real relay must upgrade to TLS (STARTTLS) unless SMTP_REQUIRE_TLS=false: credentials and sign-in links never travel in clear. */
+  requireTls: boolean;
   from: string;
 }
 
@@ -70,6 +77,10 @@ function trustProxyFrom(value: string | undefined): boolean | number | string {
 
 export class ConfigError extends Error {}
 
+function isLoopback(host: string): boolean {
+  return host === 'localhost' || host === '::1' || /^127\.\d+\.\d+\.\d+$/.test(host);
+}
+
 export function loadConfig(env: Record<string, string | undefined> = process.env): ServerConfig {
   const production = env.NODE_ENV === 'production';
   const port = intFrom(env.PORT, 8080);
@@ -78,6 +89,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
   const threads = Math.max(1, intFrom(env.JOB_THREADS, 2));
   const config: ServerConfig = {
     production,
+    localOnly: !production && isLoopback(host),
     port,
     host,
     databasePath: env.DATABASE_PATH ?? path.resolve('data', 'rungbook.sqlite'),
@@ -92,6 +104,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
       smtpSecure: boolFrom(env.SMTP_SECURE, false),
       smtpUser: env.SMTP_USER || undefined,
       smtpPassword: env.SMTP_PASSWORD || undefined,
+      requireTls: boolFrom(env.SMTP_REQUIRE_TLS, true),
       from: env.MAIL_FROM ?? 'Rungbook <no-reply@rungbook.example>',
     },
     signInLimits: {
@@ -102,7 +115,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
       signUpPerIpPer15Min: intFrom(env.SIGNUP_LIMIT_PER_IP, 10),
       forgotPerIpPer15Min: intFrom(env.FORGOT_LIMIT_PER_IP, 10),
       resetPerIpPer15Min: intFrom(env.RESET_LIMIT_PER_IP, 20),
-      mailPerSenderPerHour: intFrom(env.MAIL_LIMIT_PER_SENDER, 30),
+      groupAddsPerUserPerHour: intFrom(env.GROUP_ADD_LIMIT_PER_USER, 30),
     },
     trustProxy: trustProxyFrom(env.TRUST_PROXY),
     seedDemoData: boolFrom(env.SEED_DEMO_DATA, !production),
@@ -117,6 +130,11 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     },
     bodyLimit: env.BODY_LIMIT ?? '100kb',
   };
+  if (production && config.trustProxy === true) {
+    throw new ConfigError(
+      'TRUST_PROXY=true would believe any X-Forwarded-For a client sends (and so every rate limit could be dodged): give the number of proxies in front of Rungbook (e.g. TRUST_PROXY=1) or their addresses (e.g. TRUST_PROXY=10.0.0.5).',
+    );
+  }
   if (production && !config.mail.startFake && !env.SMTP_HOST) {
     throw new ConfigError(
       'NODE_ENV=production sends real e-mail (sign-up verification, password resets): set SMTP_HOST (and SMTP_PORT, SMTP_USER, SMTP_PASSWORD, SMTP_SECURE as your relay needs), or MAIL_FAKE=true to capture mail locally.',
