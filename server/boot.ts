@@ -35,7 +35,7 @@ export async function startRungbook(config: ServerConfig, logger: Logger, option
   const mailer = createMailer(config.mail, logger, smtpFake?.credential);
   await failInterruptedRuns(dataSource);
   const services = createServices(config, logger, dataSource, mailer, createWorkerPoolRunner({ threads: config.jobs.threads }));
-  const demoSeed = config.production ? { production: { password: config.demoPassword } } : {};
+  const demoSeed = config.localOnly ? {} : { reachable: { password: config.demoPassword } };
   const demoDataCreated = config.seedDemoData ? await seedDemoDataIfEmpty(dataSource, demoSeed) : false;
   const app = createApp(services);
 

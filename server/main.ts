@@ -9,7 +9,7 @@ async function main() {
   const logger = pino({ level: config.logLevel });
   const rungbook = await startRungbook(config, logger, { listen: true });
   logger.info({ databasePath: config.databasePath, port: rungbook.port, demoDataCreated: rungbook.demoDataCreated }, 'started');
-  printWelcome(config.publicUrl, config.seedDemoData && !config.production, config.mail.startFake && !config.production);
+  printWelcome(config.publicUrl, config.seedDemoData && config.localOnly, config.mail.startFake && config.localOnly);
 
   let stopping = false;
   async function shutdown(signal: string) {
@@ -36,7 +36,7 @@ function loadConfigOrExit() {
   }
 }
 
-/** Local starts print the demo sign-ins; production starts never print a password. */
+/** Local starts print the demo sign-ins; a server others can reach never prints a password. */
 function printWelcome(publicUrl: string, demo: boolean, mailFake: boolean) {
   const lines = [``, `  Rungbook is running at ${publicUrl}`];
   if (demo) {

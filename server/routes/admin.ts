@@ -9,11 +9,11 @@ export function adminRoutes({ dataSource, config }: Services) {
       method: 'get',
       path: '/admin/mail',
       access: 'admin',
-      summary: 'Mail captured by the local mail fake (development only: captured mail holds sign-in links)',
+      summary: 'Mail captured by the local mail fake (local development starts only: captured mail holds sign-in links)',
       handler: async () => {
-        // Captured mail carries reset and verification links for every account: reading it in production
-        // would let one admin take over anyone's account.
-        if (config.production) throw new AppError('not_found', 'The captured-mail reader exists only in development.');
+        // Captured mail carries reset and verification links for every account: reading it on a server
+        // others can reach would let one admin take over anyone's account.
+        if (!config.localOnly) throw new AppError('not_found', 'The captured-mail reader exists only on a local development start (HOST on loopback, not production).');
         return { messages: await listCapturedMail(dataSource) };
       },
     }),

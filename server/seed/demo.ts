@@ -61,17 +61,17 @@ export const demoNotebook: { title: string; summary: string; cells: { label: str
 
 export interface DemoSeedOptions {
   /**
-   * Production seeding (NODE_ENV=production with SEED_DEMO_DATA=true): no demo site admin, and the
-   * published demo passwords are not used — every demo person gets `password` (DEMO_PASSWORD) or, when
-   * that is unset, a random one nobody knows (the account is usable only after a password reset).
+   * Seeding a server others can reach (production, or any HOST other than loopback): no demo site admin,
+   * and the published demo passwords are not used — every demo person gets `password` (DEMO_PASSWORD) or,
+   * when that is unset, a random one nobody knows (the account is usable only after a password reset).
    */
-  production?: { password?: string };
+  reachable?: { password?: string };
 }
 
-/** The demo people a seed creates: everyone locally; in production nobody with site-admin rights. */
+/** The demo people a seed creates: everyone on a local start; on a reachable server nobody with site-admin rights. */
 export function demoPeopleFor(options: DemoSeedOptions = {}): DemoPerson[] {
-  if (!options.production) return demoPeople;
-  const password = () => options.production?.password || randomBytes(24).toString('base64url');
+  if (!options.reachable) return demoPeople;
+  const password = () => options.reachable?.password || randomBytes(24).toString('base64url');
   return demoPeople.filter((person) => person.siteRole !== 'admin').map((person) => ({ ...person, password: password() }));
 }
 

@@ -57,6 +57,27 @@ describe('production defaults', () => {
     }
   });
 
+  test('a start others can reach (HOST=0.0.0.0) without NODE_ENV gets no demo admin, no published passwords and no mail reader', async () => {
+    assert.equal(loadConfig({ HOST: '0.0.0.0' }).localOnly, false);
+    assert.equal(loadConfig({ HOST: '127.0.0.1' }).localOnly, true);
+    const h = await startHarness({ HOST: '0.0.0.0', SEED_DEMO_DATA: 'true' });
+    try {
+      const users = await h.rungbook.services.dataSource.getRepository(User).find();
+      assert.deepEqual(users.filter((u) => u.siteRole === 'admin'), []);
+      const lead = demoPeople.find((p) => p.groupRole === 'lead')!;
+      await h.browser().post('/api/auth/sign-in').send({ email: lead.email, password: lead.password }).expect(401);
+      const admin = await createPerson(h, { siteAdmin: true });
+      await admin.client.get('/api/admin/mail').expect(404);
+    } finally {
+      await h.close();
+    }
+  });
+
+  test('TRUST_PROXY=true is refused in production (clients could forge X-Forwarded-For)', () => {
+    assert.throws(() => loadConfig({ NODE_ENV: 'production', SMTP_HOST: 'smtp.relay.example', TRUST_PROXY: 'true' }), (error: unknown) => error instanceof ConfigError && /TRUST_PROXY=1/.test(error.message));
+    assert.equal(loadConfig({ NODE_ENV: 'production', SMTP_HOST: 'smtp.relay.example', TRUST_PROXY: '1' }).trustProxy, 1);
+  });
+
   test('in production the captured-mail reader does not exist, even for a site admin', async () => {
     const h = await startHarness({ NODE_ENV: 'production', MAIL_FAKE: 'true' });
     try {
