@@ -43,8 +43,10 @@ function apiRouter(services: Services) {
   router.post('/auth/sign-up', authLimits.signUp);
   router.post('/auth/forgot', authLimits.forgot);
   router.post('/auth/reset', authLimits.reset);
+  router.post('/auth/verify', authLimits.verify);
   router.use(sessionLoader(services.sessions));
   router.post('/auth/verify/resend', authLimits.resendVerification);
+  router.post('/groups/:groupId/members', authLimits.groupAdds);
   mount(router, apiRouteTable(services));
   router.use(apiNotFound);
   return router;

@@ -1,32 +1,32 @@
-import { useEffect, useRef } from 'react';
+import { useState } from 'react';
 import { View } from 'react-native';
+import { verifyEmailInput } from '../../shared/api/schemas';
 import { useVerifyEmailMutation } from '../../hooks/api/auth';
 import { Button } from '../ui/Button';
 import { Notice } from '../ui/Notice';
+import { TextField } from '../ui/TextField';
 import { AuthLink } from './AuthLink';
-import { errorsFromServer } from './formErrors';
+import { checkLocally, errorsFromServer, type FormErrors } from './formErrors';
 import { formStyles } from './formStyles';
 
-/** Opened from the e-mailed link: confirms the address once, then hands over to the signed-in app. */
+/**
+ * Opened from the e-mailed link: the account's password confirms the address (a link alone must not
+ * sign anyone in to an account someone else may have set up), then hands over to the signed-in app.
+ */
 export function VerifyEmailForm({ token, onVerified }: { token: string; onVerified: () => void }) {
+  const [password, setPassword] = useState('');
+  const [errors, setErrors] = useState<FormErrors>({ fields: {} });
   const verify = useVerifyEmailMutation();
-  const sent = useRef(false);
-
-  useEffect(() => {
-    if (!token || sent.current) return;
-    sent.current = true;
-    verify.mutate({ token }, { onSuccess: onVerified });
-  }, [token, verify, onVerified]);
 
   if (!token) return <Notice tone="error" message="This confirmation link is incomplete. Open the link from the e-mail again." testID="verify-error" />;
-  if (verify.isError) {
-    return (
-      <View style={formStyles.form}>
-        <Notice tone="error" message={errorsFromServer(verify.error).message ?? verify.error.message} testID="verify-error" />
-        <AuthLink href="/sign-in" label="Sign in to ask for a new link" testID="to-sign-in" />
-      </View>
-    );
+
+  function submit() {
+    const { data, errors: localErrors } = checkLocally(verifyEmailInput, { token, password });
+    setErrors(localErrors);
+    if (!data) return;
+    verify.mutate(data, { onSuccess: onVerified, onError: (error) => setErrors(errorsFromServer(error)) });
   }
+
   if (verify.isSuccess) {
     return (
       <View style={formStyles.form}>
@@ -35,5 +35,16 @@ export function VerifyEmailForm({ token, onVerified }: { token: string; onVerifi
       </View>
     );
   }
-  return <Notice tone="info" message="Confirming your address…" testID="verify-pending" />;
+  return (
+    <View style={formStyles.form}>
+      <Notice tone="info" message="Enter the password of your Rungbook account to confirm this address and sign in." testID="verify-intro" />
+      {errors.message || errors.fields.token ? <Notice tone="error" message={errors.message ?? errors.fields.token} testID="verify-error" /> : null}
+      <TextField label="Password" value={password} onChangeText={setPassword} secureTextEntry autoComplete="current-password" error={errors.fields.password} onSubmitEditing={submit} testID="verify-password" />
+      <Button label="Confirm and sign in" onPress={submit} busy={verify.isPending} testID="verify-submit" />
+      <View style={formStyles.links}>
+        <AuthLink href="/forgot-password" label="Forgot the password, or did not sign up yourself? Set your own" testID="to-forgot" />
+        <AuthLink href="/sign-in" label="Sign in to ask for a new link" testID="to-sign-in" />
+      </View>
+    </View>
+  );
 }

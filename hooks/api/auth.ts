@@ -31,8 +31,8 @@ function useSessionMutation<Input>(path: string) {
 }
 
 export const useSignInMutation = () => useSessionMutation<{ email: string; password: string }>('/auth/sign-in');
-/** Verifying the address from the e-mailed link signs its owner in. */
-export const useVerifyEmailMutation = () => useSessionMutation<{ token: string }>('/auth/verify');
+/** Verifying the address from the e-mailed link, with the account's password, signs its owner in. */
+export const useVerifyEmailMutation = () => useSessionMutation<{ token: string; password: string }>('/auth/verify');
 
 /** Sign-up starts no session: the reply only says to check the inbox (the same for a taken address). */
 export function useSignUpMutation() {

@@ -1,11 +1,15 @@
 import { rateLimit, ipKeyGenerator } from 'express-rate-limit';
 import type { Request, RequestHandler } from 'express';
-import { signInInput } from '../../shared/api/schemas';
+import { addMemberInput, signInInput, verifyEmailInput } from '../../shared/api/schemas';
 import type { KnownDevices } from '../auth/knownDevices';
 import type { ServerConfig } from '../config';
 import { AppError } from './errors';
 
 const FIFTEEN_MINUTES = 15 * 60 * 1000;
+const ONE_HOUR = 60 * 60 * 1000;
+
+/** Failed sign-ins for one account from all unknown sources together, per hour (known devices are not counted nor stopped). */
+export const FAILED_SIGNINS_PER_ACCOUNT_PER_HOUR = 100;
 
 function refuse(message: string): RequestHandler {
   return (_req, _res, next) => next(new AppError('rate_limited', message));
@@ -13,6 +17,9 @@ function refuse(message: string): RequestHandler {
 
 /** The client's network address; behind a proxy only as trusted by TRUST_PROXY (Express 'trust proxy'). */
 const sourceAddress = (req: Request) => ipKeyGenerator(req.ip ?? '');
+
+/** The signed-in person (set by the session loader), if any. */
+const signedInUserId = (req: Request) => (req.res?.locals.user as { id?: string } | null | undefined)?.id;
 
 function perSource(limit: number, message: string): RequestHandler {
   return rateLimit({
@@ -25,33 +32,74 @@ function perSource(limit: number, message: string): RequestHandler {
   });
 }
 
-export function signInLimiters(limits: ServerConfig['signInLimits'], knownDevices: KnownDevices): RequestHandler[] {
-  const perIp = perSource(limits.perIpPer15Min, 'Too many sign-in attempts from this network. Wait a few minutes.');
+export interface SignInLimits {
+  perIpPer15Min: number;
+  perAccountPer15Min: number;
+  /** Defaults to FAILED_SIGNINS_PER_ACCOUNT_PER_HOUR. */
+  failedPerAccountPerHour?: number;
+}
+
+export function signInLimiters(limits: SignInLimits, knownDevices: KnownDevices): RequestHandler[] {
+  /** The account named in a well-formed body (its e-mail key), else null: malformed attempts never count against an account. */
+  const accountOf = (req: Request) => {
+    const parsed = signInInput.safeParse(req.body);
+    return parsed.success ? parsed.data.email.toLowerCase() : null;
+  };
+  const deviceOf = (req: Request) => {
+    const account = accountOf(req);
+    return account ? knownDevices.deviceFor(req, account) : null;
+  };
+  // A shared network address (campus NAT) must not let one stranger lock everyone out: successes do not
+  // count, and a browser that has signed in to the named account before is not counted per address.
+  const perIp = rateLimit({
+    windowMs: FIFTEEN_MINUTES,
+    limit: limits.perIpPer15Min,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    skipSuccessfulRequests: true,
+    skip: (req) => deviceOf(req) !== null,
+    keyGenerator: sourceAddress,
+    handler: (req, res, next) => refuse('Too many sign-in attempts from this network. Wait a few minutes.')(req, res, next),
+  });
   // Failures count per (account, source): a known device of the account, else the network address.
-  // Malformed attempts never reach the account count, and successes do not count at all.
   const perAccountAndSource = rateLimit({
     windowMs: FIFTEEN_MINUTES,
     limit: limits.perAccountPer15Min,
     standardHeaders: false,
     legacyHeaders: false,
     skipSuccessfulRequests: true,
-    skip: (req) => !signInInput.safeParse(req.body).success,
+    skip: (req) => accountOf(req) === null,
     keyGenerator: (req) => {
-      const account = signInInput.parse(req.body).email.toLowerCase();
-      const device = knownDevices.deviceFor(req, account);
-      return `account:${account}|${device ? `device:${device}` : `ip:${sourceAddress(req)}`}`;
+      const device = deviceOf(req);
+      return `account:${accountOf(req)}|${device ? `device:${device}` : `ip:${sourceAddress(req)}`}`;
     },
     handler: (req, res, next) => refuse('Too many failed sign-ins for this account. Wait 15 minutes or reset the password.')(req, res, next),
   });
-  return [perIp, perAccountAndSource];
+  // Guessing spread over many addresses still meets a cap per account; its owner's known devices pass.
+  const perAccountFromAnywhere = rateLimit({
+    windowMs: ONE_HOUR,
+    limit: limits.failedPerAccountPerHour ?? FAILED_SIGNINS_PER_ACCOUNT_PER_HOUR,
+    standardHeaders: false,
+    legacyHeaders: false,
+    skipSuccessfulRequests: true,
+    skip: (req) => accountOf(req) === null || deviceOf(req) !== null,
+    keyGenerator: (req) => `account:${accountOf(req)}`,
+    handler: (req, res, next) =>
+      refuse('Too many failed sign-ins for this account from many places. Sign in from a device you used before, or wait an hour.')(req, res, next),
+  });
+  return [perIp, perAccountAndSource, perAccountFromAnywhere];
 }
 
 export interface AuthRequestLimiters {
   signUp: RequestHandler;
   forgot: RequestHandler;
   reset: RequestHandler;
+  /** Failed confirmations (wrong password or link) per source; each costs a password hash check. */
+  verify: RequestHandler;
   /** Mount after the session loader: counts per signed-in person. */
   resendVerification: RequestHandler;
+  /** Mount after the session loader: people one person tries to add to groups (each try tells whether an address has an account). */
+  groupAdds: RequestHandler;
 }
 
 export function authRequestLimiters(limits: ServerConfig['authLimits']): AuthRequestLimiters {
@@ -59,16 +107,36 @@ export function authRequestLimiters(limits: ServerConfig['authLimits']): AuthReq
     signUp: perSource(limits.signUpPerIpPer15Min, 'Too many sign-ups from this network. Wait a few minutes.'),
     forgot: perSource(limits.forgotPerIpPer15Min, 'Too many reset requests. Wait a few minutes.'),
     reset: perSource(limits.resetPerIpPer15Min, 'Too many password-reset attempts from this network. Wait a few minutes.'),
+    verify: rateLimit({
+      windowMs: FIFTEEN_MINUTES,
+      limit: limits.resetPerIpPer15Min,
+      standardHeaders: 'draft-8',
+      legacyHeaders: false,
+      skipSuccessfulRequests: true,
+      skip: (req) => !verifyEmailInput.safeParse(req.body).success,
+      keyGenerator: sourceAddress,
+      handler: (req, res, next) => refuse('Too many failed confirmations from this network. Wait a few minutes.')(req, res, next),
+    }),
     resendVerification: rateLimit({
       windowMs: FIFTEEN_MINUTES,
       limit: limits.forgotPerIpPer15Min,
       standardHeaders: 'draft-8',
       legacyHeaders: false,
       keyGenerator: (req) => {
-        const userId = (req.res?.locals.user as { id?: string } | null | undefined)?.id;
+        const userId = signedInUserId(req);
         return userId ? `user:${userId}` : `ip:${sourceAddress(req)}`;
       },
       handler: (req, res, next) => refuse('Too many verification e-mails asked for. Wait a few minutes.')(req, res, next),
+    }),
+    groupAdds: rateLimit({
+      windowMs: ONE_HOUR,
+      limit: limits.groupAddsPerUserPerHour,
+      standardHeaders: 'draft-8',
+      legacyHeaders: false,
+      // Signed-out callers get their 401 from the route; malformed bodies reveal nothing and are not counted.
+      skip: (req) => !signedInUserId(req) || !addMemberInput.safeParse(req.body).success,
+      keyGenerator: (req) => `user:${signedInUserId(req)}`,
+      handler: (req, res, next) => refuse('You have added (or tried to add) many people to groups in the last hour. Wait a while before adding more.')(req, res, next),
     }),
   };
 }

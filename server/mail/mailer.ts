@@ -1,4 +1,5 @@
 import nodemailer, { type Transporter } from 'nodemailer';
+import type SMTPTransport from 'nodemailer/lib/smtp-transport';
 import type { Logger } from 'pino';
 import type { MailConfig } from '../config';
 
@@ -26,20 +27,29 @@ export interface Mailer {
   close(): Promise<void>;
 }
 
-/** Sends over SMTP: the built-in fake by default (authenticated with its per-start credential), a real relay when SMTP_HOST points at one. */
-export function createMailer(config: MailConfig, logger: Logger, fakeCredential?: SmtpCredential): Mailer {
+/**
+ * nodemailer transport options. The fake speaks plain SMTP on loopback; a real relay must upgrade to TLS
+ * (STARTTLS) unless it already speaks TLS (SMTP_SECURE) or SMTP_REQUIRE_TLS=false: credentials and
+ * sign-in links never travel in clear.
+ */
+export function transportOptions(config: MailConfig, fakeCredential?: SmtpCredential): SMTPTransport.Options {
   const relayAuth = config.smtpUser ? { user: config.smtpUser, pass: config.smtpPassword ?? '' } : undefined;
-  const transport: Transporter = nodemailer.createTransport({
+  return {
     host: config.smtpHost,
     port: config.smtpPort,
     secure: config.smtpSecure,
     auth: fakeCredential ?? relayAuth,
-    // The fake speaks plain SMTP on loopback; a real relay negotiates STARTTLS when it offers it.
     ignoreTLS: config.startFake,
+    requireTLS: config.requireTls && !config.smtpSecure && !config.startFake,
     connectionTimeout: 5000,
     greetingTimeout: 5000,
     socketTimeout: 10000,
-  });
+  };
+}
+
+/** Sends over SMTP: the built-in fake by default (authenticated with its per-start credential), a real relay when SMTP_HOST points at one. */
+export function createMailer(config: MailConfig, logger: Logger, fakeCredential?: SmtpCredential): Mailer {
+  const transport: Transporter = nodemailer.createTransport(transportOptions(config, fakeCredential));
   const pending = new Set<Promise<void>>();
 
   async function send(message: OutgoingMessage) {

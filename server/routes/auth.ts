@@ -25,11 +25,13 @@ export function authRoutes({ accounts, sessions, passwordReset, emailVerificatio
       method: 'post',
       path: '/auth/verify',
       access: 'public',
-      summary: 'Confirm an e-mail address with the token from the e-mailed link; signs its owner in',
+      summary: "Confirm an e-mail address with the token from the e-mailed link and the account's password; ends the account's other sessions and signs its owner in",
       body: verifyEmailInput,
       async handler(ctx) {
-        const user = await emailVerification.verify(ctx.body.token);
+        const user = await emailVerification.verify(ctx.body.token, ctx.body.password);
         await startSessionReplacing(ctx, user.id);
+        // The password was just proven, as at sign-in: this browser becomes a known device.
+        ctx.setCookie(knownDevices.cookieFor(emailKey(user.email)));
         return { user };
       },
     }),

@@ -4,7 +4,7 @@ import { hashPassword, verifyAgainstDecoy, verifyPassword } from '../auth/passwo
 import { User } from '../db/entities';
 import { AppError } from '../http/errors';
 import { newId } from '../ids';
-import type { Mailer } from '../mail/mailer';
+import type { Mailer, OutgoingMessage } from '../mail/mailer';
 import type { EmailVerificationService } from './emailVerification';
 
 export const emailKey = (email: string) => email.trim().toLowerCase();
@@ -30,15 +30,18 @@ export function createAccountService(dataSource: DataSource, mailer: Mailer, ver
     return users.findOneBy({ emailKey: emailKey(email) });
   }
 
-  function tellOwnerAboutAttempt(owner: Pick<User, 'name' | 'email'>) {
-    mailer.sendLater(async () => ({
+  function attemptNote(owner: Pick<User, 'name' | 'email'>): OutgoingMessage {
+    return {
       to: owner.email,
       subject: 'Someone tried to sign up with your address',
       text:
         `Hello ${owner.name},\n\nsomeone (perhaps you) tried to create a Rungbook account with this e-mail address, ` +
         `which already has one.\n\nSign in: ${publicUrl}/sign-in\nForgot the password? Reset it: ${publicUrl}/forgot-password\n\n` +
-        `If it was not you, ignore this message; nothing has changed.\n`,
-    }));
+        `If you started a sign-up with this address earlier and never finished it, or the password you chose is not accepted, ` +
+        `someone else may have registered your address: set your own password at ${publicUrl}/forgot-password. ` +
+        `That confirms the address and signs everyone else out.\n\n` +
+        `If none of this was you and you have signed in before, ignore this message; nothing has changed.\n`,
+    };
   }
 
   /** Inserts the account; false when the address is already taken (also when a concurrent sign-up won). */
@@ -56,10 +59,9 @@ export function createAccountService(dataSource: DataSource, mailer: Mailer, ver
     findByEmail,
 
     async signUp(input) {
-      const existing = await findByEmail(input.email);
-      // Hash in both cases so the reply time does not tell a taken address from a new one.
+      // Only the hash happens before the reply, for new and taken addresses alike; the lookup, the insert
+      // and the mail happen after it, so neither the reply nor its timing tells who has an account.
       const passwordHash = await hashPassword(input.password);
-      const message = `Almost done: we sent a message to ${input.email}. Follow its link to confirm the address and sign in.`;
       const user = users.create({
         id: newId(),
         name: input.name,
@@ -69,13 +71,12 @@ export function createAccountService(dataSource: DataSource, mailer: Mailer, ver
         siteRole: 'member',
         emailVerifiedAt: null,
       });
-      if (!existing && (await insertNew(user))) {
-        verification.sendLinkLater(user);
-      } else {
-        const owner = existing ?? (await findByEmail(input.email));
-        if (owner) tellOwnerAboutAttempt(owner);
-      }
-      return { message };
+      mailer.sendLater(async () => {
+        if (await insertNew(user)) return verification.linkMessage(user);
+        const owner = await findByEmail(input.email);
+        return owner ? attemptNote(owner) : null;
+      });
+      return { message: `Almost done: we sent a message to ${input.email}. Follow its link to confirm the address and sign in.` };
     },
 
     async checkCredentials({ email, password }) {

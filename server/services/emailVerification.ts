@@ -1,23 +1,43 @@
 import { createHash, randomBytes } from 'node:crypto';
-import { IsNull, type DataSource } from 'typeorm';
+import { IsNull, type DataSource, type EntityManager } from 'typeorm';
 import type { PublicUser } from '../../shared/api/schemas';
+import { verifyAgainstDecoy, verifyPassword } from '../auth/passwords';
 import type { SessionService, SignedInUser } from '../auth/sessions';
 import { EmailVerificationToken, User } from '../db/entities';
 import { AppError } from '../http/errors';
-import type { Mailer } from '../mail/mailer';
+import type { Mailer, OutgoingMessage } from '../mail/mailer';
 import { toPublicUser } from './accounts';
 
 export const VERIFICATION_TOKEN_LIFETIME_MS = 24 * 3600 * 1000;
 
 const sha256 = (text: string) => createHash('sha256').update(text).digest('hex');
 
+const invalidLink = () =>
+  new AppError('invalid_verification_token', 'This confirmation link is invalid, already used or expired. Sign in and ask for a new one.');
+
+const PASSWORD_MISMATCH =
+  'This link is for an account with a different password. If you mistyped, try again. If you did not create this account, or forgot its password, ' +
+  'use "Forgot password" to set your own: that confirms the address and signs everyone else out.';
+
+const wrongPassword = () => new AppError('invalid_verification_token', PASSWORD_MISMATCH, { password: 'Not the password of this account' });
+
 export interface EmailVerificationService {
+  /** Create a link for this account and return the message carrying it (call from a mailer task, off the request path). */
+  linkMessage(user: Pick<User, 'id' | 'name' | 'email'>): Promise<OutgoingMessage>;
   /** Create a link for this account and e-mail it, off the request path. */
   sendLinkLater(user: Pick<User, 'id' | 'name' | 'email'>): void;
   /** Send a fresh link to a signed-in person whose address is not verified yet. */
   resend(viewer: SignedInUser): Promise<{ message: string }>;
-  /** Consume a link: marks the address verified and returns the account (whose owner may now be signed in). */
-  verify(token: string): Promise<PublicUser>;
+  /**
+   * Consume a link, given the account's password: marks the address verified, spends every link of the
+   * account and ends all its sessions; returns the account (whose owner may now be signed in).
+   */
+  verify(token: string, password: string): Promise<PublicUser>;
+}
+
+/** Spends every outstanding confirmation link of the account (after a confirmation or a password reset). */
+export async function spendVerificationLinks(manager: EntityManager, userId: string, at: Date): Promise<void> {
+  await manager.update(EmailVerificationToken, { userId, usedAt: IsNull() }, { usedAt: at });
 }
 
 export function createEmailVerificationService(
@@ -28,48 +48,67 @@ export function createEmailVerificationService(
   now: () => Date = () => new Date(),
 ): EmailVerificationService {
   const tokens = dataSource.getRepository(EmailVerificationToken);
+  const users = dataSource.getRepository(User);
 
-  function sendLinkLater(user: Pick<User, 'id' | 'name' | 'email'>) {
-    mailer.sendLater(async () => {
-      const token = randomBytes(32).toString('base64url');
-      await tokens.insert({
-        tokenHash: sha256(token),
-        userId: user.id,
-        expiresAt: new Date(now().getTime() + VERIFICATION_TOKEN_LIFETIME_MS),
-        usedAt: null,
-      });
-      return {
-        to: user.email,
-        subject: 'Confirm your Rungbook e-mail address',
-        text:
-          `Hello ${user.name},\n\nplease confirm that this is your address by opening this link within 24 hours ` +
-          `(it works once and signs you in):\n\n${publicUrl}/verify-email?token=${token}\n\n` +
-          `If you did not create a Rungbook account, ignore this message.\n`,
-      };
+  function isUsable(row: EmailVerificationToken | null): row is EmailVerificationToken {
+    return Boolean(row && !row.usedAt && row.expiresAt.getTime() > now().getTime());
+  }
+
+  async function linkMessage(user: Pick<User, 'id' | 'name' | 'email'>): Promise<OutgoingMessage> {
+    const token = randomBytes(32).toString('base64url');
+    await tokens.insert({
+      tokenHash: sha256(token),
+      userId: user.id,
+      expiresAt: new Date(now().getTime() + VERIFICATION_TOKEN_LIFETIME_MS),
+      usedAt: null,
     });
+    return {
+      to: user.email,
+      subject: 'Confirm your Rungbook e-mail address',
+      text:
+        `Hello ${user.name},\n\nplease confirm that this is your address by opening this link within 24 hours ` +
+        `and entering your Rungbook password (the link works once and signs you in):\n\n${publicUrl}/verify-email?token=${token}\n\n` +
+        `If the password you chose is not accepted, someone else may have signed up with your address: ` +
+        `set your own password at ${publicUrl}/forgot-password instead.\n\n` +
+        `If you did not create a Rungbook account, ignore this message.\n`,
+    };
+  }
+
+  /** The account the link confirms, or null; spends an argon2 verification either way so timing tells nothing. */
+  async function accountMatching(token: string, password: string): Promise<{ user: User | null; passwordMatches: boolean }> {
+    const row = await tokens.findOneBy({ tokenHash: sha256(token) });
+    const user = isUsable(row) ? await users.findOneBy({ id: row.userId }) : null;
+    const passwordMatches = user ? await verifyPassword(user.passwordHash, password) : await verifyAgainstDecoy(password);
+    return { user, passwordMatches };
   }
 
   return {
-    sendLinkLater,
+    linkMessage,
+
+    sendLinkLater(user) {
+      mailer.sendLater(() => linkMessage(user));
+    },
 
     async resend(viewer) {
       if (viewer.emailVerified) throw new AppError('conflict', 'Your e-mail address is already verified.');
-      sendLinkLater(viewer);
+      mailer.sendLater(() => linkMessage(viewer));
       return { message: `A new confirmation link is on its way to ${viewer.email}.` };
     },
 
-    async verify(token) {
-      const user = await dataSource.transaction(async (manager) => {
-        const row = await manager.findOneBy(EmailVerificationToken, { tokenHash: sha256(token) });
-        if (!row || row.usedAt || row.expiresAt.getTime() <= now().getTime()) {
-          throw new AppError('invalid_verification_token', 'This confirmation link is invalid, already used or expired. Sign in and ask for a new one.');
-        }
-        await manager.update(EmailVerificationToken, { userId: row.userId, usedAt: IsNull() }, { usedAt: now() });
-        await manager.update(User, { id: row.userId, emailVerifiedAt: IsNull() }, { emailVerifiedAt: now() });
-        return manager.findOneByOrFail(User, { id: row.userId });
+    async verify(token, password) {
+      // The password is checked before the link is spent: a wrong one leaves the link usable.
+      const { user, passwordMatches } = await accountMatching(token, password);
+      if (!user) throw invalidLink();
+      if (!passwordMatches) throw wrongPassword();
+      const verified = await dataSource.transaction(async (manager) => {
+        if (!isUsable(await manager.findOneBy(EmailVerificationToken, { tokenHash: sha256(token) }))) throw invalidLink();
+        await spendVerificationLinks(manager, user.id, now());
+        await manager.update(User, { id: user.id, emailVerifiedAt: IsNull() }, { emailVerifiedAt: now() });
+        return manager.findOneByOrFail(User, { id: user.id });
       });
-      sessions.forgetCached(user.id);
-      return toPublicUser(user);
+      // Whoever was signed in to this account before it was confirmed is signed out.
+      await sessions.endAllFor(user.id);
+      return toPublicUser(verified);
     },
   };
 }

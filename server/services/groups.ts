@@ -58,11 +58,16 @@ export function createGroupService(dataSource: DataSource): GroupService {
     return group;
   }
 
-  /** Leads manage membership of their group; site admins manage any group. */
-  async function manageable(viewer: SignedInUser, groupId: string) {
+  /**
+   * Leads manage membership of their group; site admins manage any group, but never their own place in
+   * one (that would let them join any group and read its notebooks).
+   */
+  async function manageable(viewer: SignedInUser, groupId: string, targetUserId?: string) {
     const group = await viewable(viewer, groupId);
-    if (viewer.siteRole !== 'admin' && roleOf(group, viewer.id) !== 'lead') {
-      throw new AppError('forbidden', 'Only a lead of this group can change its membership.');
+    if (roleOf(group, viewer.id) === 'lead') return group;
+    if (viewer.siteRole !== 'admin') throw new AppError('forbidden', 'Only a lead of this group can change its membership.');
+    if (targetUserId === viewer.id) {
+      throw new AppError('forbidden', 'A site admin cannot add themself to a group or change their own role in it: ask a lead of the group.');
     }
     return group;
   }
@@ -88,6 +93,9 @@ export function createGroupService(dataSource: DataSource): GroupService {
     },
 
     async create(viewer, input) {
+      if (!viewer.emailVerified) {
+        throw new AppError('email_not_verified', 'Confirm your e-mail address before starting a research group: follow the link we sent you, or ask for a new one.');
+      }
       const id = newId();
       await dataSource.transaction(async (manager) => {
         await manager.insert(ResearchGroup, { id, name: input.name, description: input.description });
@@ -101,7 +109,8 @@ export function createGroupService(dataSource: DataSource): GroupService {
     },
 
     async addMember(viewer, groupId, input) {
-      const group = await manageable(viewer, groupId);
+      const addsSelf = emailKey(input.email) === emailKey(viewer.email);
+      const group = await manageable(viewer, groupId, addsSelf ? viewer.id : undefined);
       const user = await dataSource.getRepository(User).findOneBy({ emailKey: emailKey(input.email) });
       // Unknown and unverified addresses get the same answer: a lead learns nothing about who signed up.
       if (!user || user.emailVerifiedAt === null) {
@@ -115,7 +124,7 @@ export function createGroupService(dataSource: DataSource): GroupService {
     },
 
     async changeRole(viewer, groupId, userId, role) {
-      const group = await manageable(viewer, groupId);
+      const group = await manageable(viewer, groupId, userId);
       if (!roleOf(group, userId)) throw new AppError('not_found', 'This person is not in the group.');
       assertKeepsALead(group, userId, role);
       await memberships.update({ groupId, userId }, { role });

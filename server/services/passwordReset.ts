@@ -6,6 +6,7 @@ import { PasswordResetToken, User } from '../db/entities';
 import { AppError } from '../http/errors';
 import type { Mailer } from '../mail/mailer';
 import { emailKey } from './accounts';
+import { spendVerificationLinks } from './emailVerification';
 
 export const RESET_TOKEN_LIFETIME_MS = 30 * 60 * 1000;
 
@@ -75,6 +76,7 @@ export function createPasswordResetService(
         await manager.update(User, { id: row.userId }, { passwordHash });
         // Following the e-mailed link proves the address as well as a verification link does.
         await manager.update(User, { id: row.userId, emailVerifiedAt: IsNull() }, { emailVerifiedAt: now() });
+        await spendVerificationLinks(manager, row.userId, now());
         return row.userId;
       });
       await sessions.endAllFor(userId);

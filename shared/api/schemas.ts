@@ -37,8 +37,10 @@ export const resetPasswordInput = z.strictObject({
   password: passwordSchema,
 });
 
+/** Confirming an address takes the account's password too: a link alone must not sign anyone in to an account someone else set up. */
 export const verifyEmailInput = z.strictObject({
   token: z.string({ error: 'Verification token is required' }).regex(/^[A-Za-z0-9_-]{20,100}$/, 'Verification link is malformed'),
+  password: z.string({ error: 'Password is required' }).min(1, 'Password is required').max(200),
 });
 
 export const siteRoles = ['admin', 'member'] as const;
@@ -62,6 +64,7 @@ export const idParam = z.string().regex(/^[a-z0-9]{10,40}$/, 'Malformed id');
 
 export type SignUpInput = z.infer<typeof signUpInput>;
 export type SignInInput = z.infer<typeof signInInput>;
+export type VerifyEmailInput = z.infer<typeof verifyEmailInput>;
 export type CreateGroupInput = z.infer<typeof createGroupInput>;
 export type AddMemberInput = z.infer<typeof addMemberInput>;
 

@@ -42,7 +42,7 @@ const matrix: Record<string, Row> = {
   'GET /health': { expect: all(200) },
   'GET /openapi.json': { expect: all(200) },
   'POST /auth/sign-up': { body: () => ({ name: 'Invented Newcomer', email: `new-${newId()}@test.rungbook.example`, password: 'long-enough-pass-new' }), expect: all(202) },
-  'POST /auth/verify': { body: () => ({ token: 'a'.repeat(43) }), expect: all(400) },
+  'POST /auth/verify': { body: () => ({ token: 'a'.repeat(43), password: 'long-enough-pass-new' }), expect: all(400) },
   'POST /auth/verify/resend': { body: () => ({}), expect: { ...signedIn(409), unverified: 202 } },
   'POST /auth/sign-in': { body: () => ({ email: 'nobody@test.rungbook.example', password: 'wrong-password-123' }), expect: all(401) },
   'POST /auth/sign-out': { body: () => ({}), expect: all(204) },
@@ -51,7 +51,8 @@ const matrix: Record<string, Row> = {
   'GET /me': { expect: signedIn(200) },
 
   'GET /groups': { expect: signedIn(200) },
-  'POST /groups': { body: () => ({ name: 'Invented Matrix Group', description: 'invented' }), expect: signedIn(201) },
+  // Only a confirmed address may start a group (it can then add people).
+  'POST /groups': { body: () => ({ name: 'Invented Matrix Group', description: 'invented' }), expect: { ...signedIn(201), unverified: 403 } },
   'GET /groups/:groupId': { expect: { signedOut: 401, unverified: 404, siteAdmin: 200, otherUser: 404, groupMember: 200, groupLead: 200, owner: 200 } },
   'POST /groups/:groupId/members': { body: () => ({ email: 'newcomer@test.rungbook.example', role: 'member' }), expect: groupManager(201) },
   'PATCH /groups/:groupId/members/:userId': { body: () => ({ role: 'member' }), expect: groupManager(200) },
@@ -90,7 +91,7 @@ describe('access matrix: every route × every kind of caller', () => {
   const people = {} as Record<Exclude<Identity, 'signedOut'>, TestPerson>;
 
   before(async () => {
-    h = await startHarness({ SIGNIN_LIMIT_PER_IP: '100000', SIGNIN_LIMIT_PER_ACCOUNT: '100000', SIGNUP_LIMIT_PER_IP: '100000', FORGOT_LIMIT_PER_IP: '100000', RESET_LIMIT_PER_IP: '100000', JOB_QUEUE_PER_USER: '1000' });
+    h = await startHarness({ SIGNIN_LIMIT_PER_IP: '100000', SIGNIN_LIMIT_PER_ACCOUNT: '100000', SIGNUP_LIMIT_PER_IP: '100000', FORGOT_LIMIT_PER_IP: '100000', RESET_LIMIT_PER_IP: '100000', GROUP_ADD_LIMIT_PER_USER: '100000', JOB_QUEUE_PER_USER: '1000' });
     people.unverified = await createPerson(h, { tag: 'unverified', verified: false });
     people.siteAdmin = await createPerson(h, { tag: 'admin', siteAdmin: true });
     people.otherUser = await createPerson(h, { tag: 'other' });

@@ -14,17 +14,21 @@ describe('sign-up, sign-in, sign-out, current user', () => {
 
   const userCount = () => h.rungbook.services.dataSource.getRepository(User).count();
 
-  test('sign-up creates an unconfirmed account without a session; the e-mailed link confirms it and signs in with an HttpOnly SameSite=Lax cookie', async () => {
+  test('sign-up creates an unconfirmed account without a session; the e-mailed link and the password confirm it and sign in with an HttpOnly SameSite=Lax cookie', async () => {
     const client = h.browser();
     const reply = await client.post('/api/auth/sign-up').send(person(1)).expect(202);
     assert.deepEqual(Object.keys(reply.body), ['message']);
     assert.match(reply.body.message, /person1@test\.rungbook\.example/);
     assert.equal(reply.headers['set-cookie'], undefined);
     await client.get('/api/me').expect(401);
+    const mail = await mailTo(h, person(1).email, 'Confirm your Rungbook e-mail address');
     const stored = await h.rungbook.services.dataSource.getRepository(User).findOneByOrFail({ emailKey: person(1).email });
     assert.equal(stored.emailVerifiedAt, null);
-    const mail = await mailTo(h, person(1).email, 'Confirm your Rungbook e-mail address');
-    const verified = await client.post('/api/auth/verify').send({ token: verificationTokenFrom(mail.textBody) }).expect(200);
+    const token = verificationTokenFrom(mail.textBody);
+    const noPassword = await client.post('/api/auth/verify').send({ token }).expect(400);
+    assert.equal(noPassword.body.error.code, 'validation_failed');
+    assert.ok(noPassword.body.error.fields.password);
+    const verified = await client.post('/api/auth/verify').send({ token, password: person(1).password }).expect(200);
     assert.equal(verified.body.user.email, person(1).email);
     assert.equal(verified.body.user.siteRole, 'member');
     assert.equal(verified.body.user.emailVerified, true);
@@ -54,9 +58,13 @@ describe('sign-up, sign-in, sign-out, current user', () => {
     assert.deepEqual(Object.keys(reply.body), Object.keys(fresh.body));
     assert.equal(reply.body.message, fresh.body.message.replace(person(6).email, taken.email));
     assert.equal(reply.headers['set-cookie'], undefined);
+    // The account is written after the reply, with the mail.
+    await h.rungbook.services.mailer.idle();
     assert.equal(await userCount(), before + 1, 'only the new address made an account');
     const note = await mailTo(h, person(1).email, 'Someone tried to sign up with your address');
     assert.match(note.textBody, /\/forgot-password/);
+    // An owner who never finished a sign-up is told how to take the address back.
+    assert.match(note.textBody, /never finished it[\s\S]*forgot-password[\s\S]*signs everyone else out/);
     assert.doesNotMatch(note.textBody, /verify-email/);
   });
 
@@ -84,6 +92,7 @@ describe('sign-up, sign-in, sign-out, current user', () => {
 
   test('unconfirmed people can sign in, see emailVerified: false and keep their own notebooks', async () => {
     await h.browser().post('/api/auth/sign-up').send(person(7)).expect(202);
+    await h.rungbook.services.mailer.idle();
     const client = h.browser();
     const signIn = await client.post('/api/auth/sign-in').send({ email: person(7).email, password: person(7).password }).expect(200);
     assert.equal(signIn.body.user.emailVerified, false);
@@ -152,7 +161,7 @@ describe('session cookie over https', () => {
       await h.raw.post('/api/auth/sign-up').set('Origin', 'https://rungbook.example').send(person(3)).expect(202);
       const mail = await mailTo(h, person(3).email, 'Confirm your Rungbook e-mail address');
       assert.match(mail.textBody, /https:\/\/rungbook\.example\/verify-email\?token=/);
-      const reply = await h.raw.post('/api/auth/verify').set('Origin', 'https://rungbook.example').send({ token: verificationTokenFrom(mail.textBody) }).expect(200);
+      const reply = await h.raw.post('/api/auth/verify').set('Origin', 'https://rungbook.example').send({ token: verificationTokenFrom(mail.textBody), password: person(3).password }).expect(200);
       assert.match(String(reply.headers['set-cookie']), /rungbook_session=[^;]+;[^,]*; Secure/);
     } finally {
       await h.close();
@@ -168,6 +177,26 @@ describe('sign-in rate limit per network address', () => {
       await h.browser().post('/api/auth/sign-in').send({ email: 'b@test.rungbook.example', password: 'x' }).expect(401);
       const limited = await h.browser().post('/api/auth/sign-in').send({ email: 'c@test.rungbook.example', password: 'x' }).expect(429);
       assert.equal(limited.body.error.code, 'rate_limited');
+    } finally {
+      await h.close();
+    }
+  });
+
+  test('successes do not use up the allowance, and a known device of the named account passes an address a stranger spent', async () => {
+    const h = await startHarness({ SIGNIN_LIMIT_PER_IP: '2', SIGNIN_LIMIT_PER_ACCOUNT: '1000' });
+    try {
+      // Confirming the address with the password makes this browser a known device of person 1.
+      const { client: device } = await signUpVerified(h, 1);
+      const rightPassword = { email: person(1).email, password: person(1).password };
+      for (let i = 0; i < 3; i += 1) await h.browser().post('/api/auth/sign-in').send(rightPassword).expect(200);
+      // A stranger behind the same address (campus NAT) spends its allowance with failures.
+      await h.browser().post('/api/auth/sign-in').send({ email: 'a@test.rungbook.example', password: 'x' }).expect(401);
+      await h.browser().post('/api/auth/sign-in').send({ email: 'b@test.rungbook.example', password: 'x' }).expect(401);
+      await h.browser().post('/api/auth/sign-in').send({ email: 'c@test.rungbook.example', password: 'x' }).expect(429);
+      await device.post('/api/auth/sign-in').send(rightPassword).expect(200);
+      // The device is known for person 1 only; a new browser is counted by its address.
+      await device.post('/api/auth/sign-in').send({ email: 'd@test.rungbook.example', password: 'x' }).expect(429);
+      await h.browser().post('/api/auth/sign-in').send(rightPassword).expect(429);
     } finally {
       await h.close();
     }

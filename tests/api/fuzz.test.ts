@@ -28,6 +28,7 @@ function seedBody(spec: AnyRouteSpec): Record<string, unknown> {
     'POST /auth/sign-in': { email: 'fuzz@test.rungbook.example', password: 'long-enough-pass-fuzz' },
     'POST /auth/forgot': { email: 'fuzz@test.rungbook.example' },
     'POST /auth/reset': { token: 'x'.repeat(43), password: 'long-enough-pass-fuzz' },
+    'POST /auth/verify': { token: 'x'.repeat(43), password: 'long-enough-pass-fuzz' },
     'POST /groups': { name: 'Invented Fuzz Group', description: 'invented' },
     'POST /groups/:groupId/members': { email: 'fuzz@test.rungbook.example', role: 'member' },
     'PATCH /groups/:groupId/members/:userId': { role: 'member' },

@@ -1,7 +1,7 @@
 import assert from 'node:assert/strict';
 import { after, before, describe, test } from 'node:test';
 import { User } from '../../server/db/entities';
-import { mailTo, person, signUpVerified, startHarness, verificationTokenFrom, type Harness } from './harness';
+import { mailTo, ORIGIN, person, signUpVerified, startHarness, verificationTokenFrom, type Harness } from './harness';
 
 describe('research groups and roles, enforced on the server', () => {
   let h: Harness;
@@ -59,6 +59,18 @@ describe('research groups and roles, enforced on the server', () => {
     await admin.patch(`/api/groups/${groupId}/members/${memberId}`).send({ role: 'member' }).expect(200);
   });
 
+  test('a site admin cannot put themself into a group, nor raise their own role in one (403)', async () => {
+    const selfAdd = await admin.post(`/api/groups/${groupId}/members`).send({ email: person(4).email.toUpperCase(), role: 'lead' }).expect(403);
+    assert.equal(selfAdd.body.error.code, 'forbidden');
+    assert.match(selfAdd.body.error.message, /site admin cannot add themself/);
+    const detail = await lead.get(`/api/groups/${groupId}`).expect(200);
+    assert.ok(!detail.body.group.members.some((m: { email: string }) => m.email === person(4).email));
+    // Added by a lead as a plain member, the admin still cannot promote themself.
+    const adminId = (await lead.post(`/api/groups/${groupId}/members`).send({ email: person(4).email }).expect(201)).body.group.members.find((m: { email: string }) => m.email === person(4).email).userId;
+    assert.equal((await admin.patch(`/api/groups/${groupId}/members/${adminId}`).send({ role: 'lead' }).expect(403)).body.error.code, 'forbidden');
+    await admin.delete(`/api/groups/${groupId}/members/${adminId}`).expect(200);
+  });
+
   test('the last lead cannot be demoted or removed (409)', async () => {
     const demote = await lead.patch(`/api/groups/${groupId}/members/${leadId}`).send({ role: 'member' }).expect(409);
     assert.equal(demote.body.error.code, 'conflict');
@@ -88,14 +100,40 @@ describe('research groups and roles, enforced on the server', () => {
   test('an account whose address is not confirmed cannot be added, and the answer is the one an unknown address gets', async () => {
     const newcomer = h.browser();
     await newcomer.post('/api/auth/sign-up').send(person(5)).expect(202);
+    // The account is written after the reply; wait for it so the check below is about an existing account.
+    await h.rungbook.services.mailer.idle();
     const unverified = await lead.post(`/api/groups/${groupId}/members`).send({ email: person(5).email }).expect(403);
     const unknown = await lead.post(`/api/groups/${groupId}/members`).send({ email: 'nobody-here@test.rungbook.example' }).expect(403);
     assert.deepEqual(unverified.body, unknown.body, 'an unconfirmed account is indistinguishable from no account');
     assert.equal(unverified.body.error.code, 'email_not_verified');
+    await newcomer.post('/api/auth/sign-in').send({ email: person(5).email, password: person(5).password }).expect(200);
+    const ownGroup = await newcomer.post('/api/groups').send({ name: 'Invented Unconfirmed Group' }).expect(403);
+    assert.equal(ownGroup.body.error.code, 'email_not_verified');
     const link = await mailTo(h, person(5).email, 'Confirm your Rungbook e-mail address');
-    await newcomer.post('/api/auth/verify').send({ token: verificationTokenFrom(link.textBody) }).expect(200);
+    await newcomer.post('/api/auth/verify').send({ token: verificationTokenFrom(link.textBody), password: person(5).password }).expect(200);
     const added = await lead.post(`/api/groups/${groupId}/members`).send({ email: person(5).email }).expect(201);
     assert.ok(added.body.group.members.some((m: { email: string }) => m.email === person(5).email));
     assert.equal((await newcomer.get('/api/groups').expect(200)).body.groups.length, 1);
+  });
+});
+
+describe('adding people to groups is rate-limited per person', () => {
+  let h: Harness;
+  before(async () => {
+    h = await startHarness({ GROUP_ADD_LIMIT_PER_USER: '3' });
+  });
+  after(() => h.close());
+
+  test('past GROUP_ADD_LIMIT_PER_USER tries an hour a lead gets 429; malformed tries are not counted; another lead is unaffected', async () => {
+    const { client: lead } = await signUpVerified(h, 1);
+    const { client: otherLead } = await signUpVerified(h, 2);
+    const groupId = (await lead.post('/api/groups').send({ name: 'Invented Limited Group' }).expect(201)).body.group.id as string;
+    const otherGroupId = (await otherLead.post('/api/groups').send({ name: 'Invented Other Group' }).expect(201)).body.group.id as string;
+    for (let i = 0; i < 2; i += 1) await lead.post(`/api/groups/${groupId}/members`).send({ email: 'not-an-address' }).expect(400);
+    for (let i = 0; i < 3; i += 1) await lead.post(`/api/groups/${groupId}/members`).send({ email: `probe${i}@test.rungbook.example` }).expect(403);
+    const limited = await lead.post(`/api/groups/${groupId}/members`).send({ email: person(2).email }).expect(429);
+    assert.equal(limited.body.error.code, 'rate_limited');
+    await otherLead.post(`/api/groups/${otherGroupId}/members`).send({ email: person(1).email }).expect(201);
+    await h.raw.post(`/api/groups/${groupId}/members`).set('Origin', ORIGIN).send({ email: person(2).email }).expect(401);
   });
 });

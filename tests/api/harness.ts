@@ -84,8 +84,8 @@ export async function mailTo(harness: Harness, email: string, subject: string, t
 }
 
 /**
- * Sign up person `n` (or the given person) through the API and follow the e-mailed confirmation link,
- * which signs them in: returns the signed-in client and the account.
+ * Sign up person `n` (or the given person) through the API and follow the e-mailed confirmation link
+ * with their password, which signs them in: returns the signed-in client and the account.
  */
 export async function signUpVerified(
   harness: Harness,
@@ -95,6 +95,6 @@ export async function signUpVerified(
   const account = typeof who === 'number' ? person(who) : who;
   await client.post('/api/auth/sign-up').send(account).expect(202);
   const mail = await mailTo(harness, account.email, 'Confirm your Rungbook e-mail address');
-  const verified = await client.post('/api/auth/verify').send({ token: verificationTokenFrom(mail.textBody) }).expect(200);
+  const verified = await client.post('/api/auth/verify').send({ token: verificationTokenFrom(mail.textBody), password: account.password }).expect(200);
   return { client, user: verified.body.user as { id: string; name: string; email: string; siteRole: string; emailVerified: boolean } };
 }

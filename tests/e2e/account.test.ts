@@ -80,6 +80,9 @@ for (const viewport of viewports) {
       const link = await linkFromMail(viewport, person.email, 'Confirm your Rungbook e-mail address');
       assert.match(link, /\/verify-email\?token=/);
       await page.goto(link);
+      // Confirming takes the account's password: a link alone signs nobody in.
+      await page.getByTestId('verify-password').fill(person.password);
+      await page.getByTestId('verify-submit').click();
       await expectNotebooksScreen(page);
       await page.getByTestId(viewport.width >= 1024 ? 'side-rail' : 'bottom-bar').waitFor();
       await shot('03-notebooks');
