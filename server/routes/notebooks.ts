@@ -57,7 +57,7 @@ export function notebookRoutes({ notebooks, versions, documents }: Services) {
         if (label) await versions.save(user!, params.notebookId, `Before deleting cell "${label}"`, true);
         return { notebook: await notebooks.deleteCell(user!, params.notebookId, params.cellId) };
       } }),
-    route({ method: 'post', path: '/notebooks/:notebookId/cells/:cellId/run', access: 'signed-in', summary: 'Run a cell on the server', params: cellParams, status: 202,
+    route({ method: 'post', path: '/notebooks/:notebookId/cells/:cellId/run', access: 'signed-in', summary: 'Run a cell on the server (422 job_too_large over the cost limit or the notebook\'s result budget)', params: cellParams, status: 202,
       handler: async ({ user, params }) => ({ run: await notebooks.runCell(user!, params.notebookId, params.cellId) }) }),
     route({ method: 'post', path: '/notebooks/:notebookId/run-all', access: 'signed-in', summary: 'Run every cell that is not up to date, as far as your queue limit allows; the rest are listed in `waiting`', params: notebookParams, status: 202,
       handler: async ({ user, params }) => notebooks.runAll(user!, params.notebookId) }),
@@ -66,7 +66,7 @@ export function notebookRoutes({ notebooks, versions, documents }: Services) {
       handler: async ({ user, params }) => ({ versions: await versions.list(user!, params.notebookId) }) }),
     route({ method: 'post', path: '/notebooks/:notebookId/versions', access: 'signed-in', summary: 'Save a version', params: notebookParams, body: saveVersionInput, status: 201,
       handler: async ({ user, params, body }) => ({ version: await versions.save(user!, params.notebookId, body.message) }) }),
-    route({ method: 'get', path: '/notebooks/:notebookId/versions/compare', access: 'signed-in', summary: 'Compare two versions cell by cell', params: notebookParams, query: compareQuery,
+    route({ method: 'get', path: '/notebooks/:notebookId/versions/compare', access: 'signed-in', summary: 'Compare two versions cell by cell (429 queue_full while the document pool is busy)', params: notebookParams, query: compareQuery,
       handler: async ({ user, params, query }) => ({ comparison: await versions.compare(user!, params.notebookId, query.from, query.to) }) }),
     route({ method: 'get', path: '/notebooks/:notebookId/versions/:versionId', access: 'signed-in', summary: 'One version, read-only', params: versionParams,
       handler: async ({ user, params }) => ({ version: await versions.get(user!, params.notebookId, params.versionId) }) }),
@@ -78,7 +78,7 @@ export function notebookRoutes({ notebooks, versions, documents }: Services) {
         const document = await versions.exportDocument(user!, params.notebookId);
         return new FileReply('application/json', fileName(document.title, 'json'), JSON.stringify(document, null, 2));
       } }),
-    route({ method: 'get', path: '/notebooks/:notebookId/export.tex', access: 'signed-in', summary: 'The notebook as a LaTeX document', params: notebookParams,
+    route({ method: 'get', path: '/notebooks/:notebookId/export.tex', access: 'signed-in', summary: 'The notebook as a LaTeX document (429 queue_full while the document pool is busy)', params: notebookParams,
       handler: async ({ user, params }) => {
         const document = await versions.exportDocument(user!, params.notebookId);
         return new FileReply('application/x-tex', fileName(document.title, 'tex'), await documents.latex(document));

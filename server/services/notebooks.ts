@@ -7,10 +7,34 @@ import type { SignedInUser } from '../auth/sessions';
 import { Cell, GroupMembership, JobRun, Notebook, ResearchGroup, User } from '../db/entities';
 import { AppError } from '../http/errors';
 import { newId } from '../ids';
+import { estimatedResultBytes, megabytes } from '../../shared/jobs/cost';
+import { RESULT_LIMITS } from '../../shared/jobs/limits';
+import { WeightedLru } from './boundedCache';
 import { assertCellAccepted } from './cellChecks';
-import type { RunService } from './runs';
+import { resultHolderId, resultsOf, type RunService } from './runs';
 
 export const MAX_CELLS_PER_NOTEBOOK = 200;
+/** Characters of JSON the settled cell views of all notebooks may hold in memory together (results counted once per notebook). */
+export const SETTLED_VIEWS_BUDGET = 64_000_000;
+const SETTLED_SUMMARIES_BUDGET = 8_000_000;
+/** Weight of a cell's own text in a cached view, besides its result. */
+const CELL_VIEW_WEIGHT = 2_000;
+
+/** A cell about to run, with its input already parsed. */
+interface CellToRun {
+  id: string;
+  label: string;
+  input: CellInput;
+}
+
+/** What running cells needs to know of their notebook, read once per request. */
+interface NotebookAtRun {
+  notebookId: string;
+  setups: Map<string, SetupInput>;
+  byLabel: Map<string, { label: string; input: CellInput }>;
+  /** Characters of result JSON each cell's latest run holds, or will hold once it finishes (estimated). */
+  resultBytes: Map<string, number>;
+}
 
 export interface NotebookAccess {
   notebook: Notebook;
@@ -36,7 +60,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
   const notebooks = dataSource.getRepository(Notebook);
   const cells = dataSource.getRepository(Cell);
   // Cell views of notebooks with no run in flight; every write path below calls forget().
-  const settledViews = new Map<string, CellView[]>();
+  const settledViews = new WeightedLru<string, CellView[]>(SETTLED_VIEWS_BUDGET);
   const forget = (notebookId: string) => settledViews.delete(notebookId);
 
   async function groupIdsOf(userId: string): Promise<string[]> {
@@ -97,19 +121,18 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
   async function cellViews(notebookId: string): Promise<CellView[]> {
     const cached = settledViews.get(notebookId);
     if (cached) return cached;
-    const views = await freshCellViews(notebookId);
-    if (views.every((view) => view.state !== 'running')) {
-      if (settledViews.size > 2000) settledViews.clear();
-      settledViews.set(notebookId, views);
-    }
+    const { views, weight } = await freshCellViews(notebookId);
+    if (views.every((view) => view.state !== 'running')) settledViews.set(notebookId, views, weight);
     return views;
   }
 
-  async function freshCellViews(notebookId: string): Promise<CellView[]> {
+  async function freshCellViews(notebookId: string): Promise<{ views: CellView[]; weight: number }> {
     const rows = await orderedCells(notebookId);
     const runIds = rows.map((row) => row.lastRunId).filter((id): id is string => Boolean(id));
     const runRows = runIds.length ? await dataSource.getRepository(JobRun).createQueryBuilder('r').where('r.id IN (:...runIds)', { runIds }).getMany() : [];
     const runsById = new Map(runRows.map((run) => [run.id, run]));
+    const results = await resultsOf(dataSource, runRows);
+    const weight = rows.length * CELL_VIEW_WEIGHT + [...results.values()].reduce((sum, result) => sum + result.bytes, 0);
     const parsed = rows.map((row) => ({ row, input: parseCellInput(row.inputJson), run: row.lastRunId ? runsById.get(row.lastRunId) : undefined }));
     const staleness: CellForStaleness[] = parsed.map(({ row, input, run }) => ({
       id: row.id,
@@ -120,7 +143,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
     }));
     const states = cellStates(staleness);
     const labelled = parsed.map(({ row, input }) => ({ label: row.label, input }));
-    return parsed.map(({ row, input, run }) => ({
+    const views = parsed.map(({ row, input, run }) => ({
       id: row.id,
       position: row.position,
       label: row.label,
@@ -129,9 +152,10 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
       revision: row.revision,
       state: states.get(row.id)!,
       dependents: dependentsOf(row.label, labelled),
-      lastRun: run ? runs.view(run) : null,
+      lastRun: run ? runs.view(run, results.get(resultHolderId(run)) ?? null) : null,
       updatedAt: row.updatedAt.toISOString(),
     }));
+    return { views, weight };
   }
 
   async function summaries(rows: Notebook[], viewer: SignedInUser): Promise<NotebookSummary[]> {
@@ -160,15 +184,14 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
     }));
   }
 
-  const settledSummaries = new Map<string, Omit<NotebookSummary, 'canEdit'>>();
+  const settledSummaries = new WeightedLru<string, Omit<NotebookSummary, 'canEdit'>>(SETTLED_SUMMARIES_BUDGET);
 
   async function detail(viewer: SignedInUser, notebookId: string): Promise<NotebookDetail> {
     const { notebook, canEdit } = await access(viewer, notebookId);
     let summary = settledSummaries.get(notebookId);
     if (!summary || summary.updatedAt !== notebook.updatedAt.toISOString()) {
       [summary] = await summaries([notebook], viewer);
-      if (settledSummaries.size > 2000) settledSummaries.clear();
-      settledSummaries.set(notebookId, summary);
+      settledSummaries.set(notebookId, summary, 500 + summary.title.length + summary.summary.length);
     }
     return { ...summary, canEdit, cells: await cellViews(notebookId) };
   }
@@ -198,33 +221,65 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
     }
   }
 
-  async function setupsOf(notebookId: string): Promise<Map<string, SetupInput>> {
-    const setups = new Map<string, SetupInput>();
-    for (const row of await orderedCells(notebookId)) {
-      const input = parseCellInput(row.inputJson);
-      if (input.kind === 'setup') setups.set(row.label, input);
-    }
-    return setups;
+  /** Characters of result JSON each cell's latest run holds; queued and running ones by their estimate. */
+  async function resultBytesByCell(notebookId: string): Promise<Map<string, number>> {
+    const rows: { cellId: string; status: string; pendingJob: string | null; bytes: number | null }[] = await dataSource.query(
+      `SELECT c."id" AS cellId, r."status" AS status,
+              CASE WHEN r."status" IN ('queued', 'running') THEN r."jobJson" END AS pendingJob,
+              length(h."resultJson") AS bytes
+         FROM "cells" c
+         JOIN "job_runs" r ON r."id" = c."lastRunId"
+         LEFT JOIN "job_runs" h ON h."id" = COALESCE(r."resultRunId", r."id")
+        WHERE c."notebookId" = ?`,
+      [notebookId],
+    );
+    return new Map(rows.map((row) => [row.cellId, row.pendingJob ? estimatedResultBytes(JSON.parse(row.pendingJob)) : Number(row.bytes ?? 0)]));
   }
 
-  async function runCellRow(viewer: SignedInUser, row: Cell, all: Cell[]): Promise<RunView | null> {
-    const input = parseCellInput(row.inputJson);
+  async function notebookAtRun(notebookId: string, cellsWithInputs: CellToRun[]): Promise<NotebookAtRun> {
+    const setups = new Map<string, SetupInput>();
+    for (const cell of cellsWithInputs) if (cell.input.kind === 'setup') setups.set(cell.label, cell.input);
+    const byLabel = new Map(cellsWithInputs.map((cell) => [cell.label, { label: cell.label, input: cell.input }]));
+    return { notebookId, setups, byLabel, resultBytes: await resultBytesByCell(notebookId) };
+  }
+
+  /**
+   * Every cell's result travels in the notebook's reply, so a new result must keep the notebook's total
+   * within its budget (each cell counted, even where several show one cached result).
+   */
+  async function assertResultsFit(cell: CellToRun, job: Record<string, unknown>, notebook: NotebookAtRun): Promise<number> {
+    const expected = await runs.expectedResultBytes(job);
+    // a single result over its own limit is refused by the run service, with the inputs to reduce
+    if (expected > RESULT_LIMITS.maxResultBytes) return expected;
+    let total = expected;
+    for (const [cellId, bytes] of notebook.resultBytes) if (cellId !== cell.id) total += bytes;
+    if (total > RESULT_LIMITS.maxNotebookResultBytes) {
+      throw new AppError(
+        'job_too_large',
+        `Cell "${cell.label}": with its result this notebook's results would total ${megabytes(total)} (limit ${megabytes(RESULT_LIMITS.maxNotebookResultBytes)}); shrink or delete scan cells`,
+      );
+    }
+    return expected;
+  }
+
+  async function runCellRow(viewer: SignedInUser, cell: CellToRun, notebook: NotebookAtRun): Promise<RunView | null> {
     let job: Record<string, unknown> | null;
     try {
-      job = jobForCell(input, await setupsOf(row.notebookId));
+      job = jobForCell(cell.input, notebook.setups);
     } catch (error) {
-      if (error instanceof CellJobError) throw new AppError('validation_failed', `Cell "${row.label}": ${error.message}`, { [error.field]: error.message });
+      if (error instanceof CellJobError) throw new AppError('validation_failed', `Cell "${cell.label}": ${error.message}`, { [error.field]: error.message });
       throw error;
     }
     if (!job) return null;
-    const byLabel = new Map(all.map((c) => [c.label, { label: c.label, input: parseCellInput(c.inputJson) }]));
-    const run = await submitCellJob(viewer, row, job);
-    await cells.update({ id: row.id }, { lastRunId: run.id, lastRunFingerprint: fingerprintOf({ label: row.label, input }, byLabel) });
-    forget(row.notebookId);
+    const expectedBytes = await assertResultsFit(cell, job, notebook);
+    const run = await submitCellJob(viewer, cell, job);
+    notebook.resultBytes.set(cell.id, expectedBytes);
+    await cells.update({ id: cell.id }, { lastRunId: run.id, lastRunFingerprint: fingerprintOf({ label: cell.label, input: cell.input }, notebook.byLabel) });
+    forget(notebook.notebookId);
     return runs.view(run);
   }
 
-  async function submitCellJob(viewer: SignedInUser, row: Cell, job: Record<string, unknown>) {
+  async function submitCellJob(viewer: SignedInUser, row: CellToRun, job: Record<string, unknown>) {
     try {
       return await runs.submit({ job, userId: viewer.id, cellId: row.id });
     } catch (error) {
@@ -357,11 +412,11 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
 
     async runCell(viewer: SignedInUser, notebookId: string, cellId: string): Promise<RunView> {
       await editable(viewer, notebookId);
-      const all = await orderedCells(notebookId);
-      const row = all.find((c) => c.id === cellId);
-      if (!row) throw new AppError('not_found', 'No such cell.');
-      const run = await runCellRow(viewer, row, all);
-      if (!run) throw new AppError('validation_failed', `A ${parseCellInput(row.inputJson).kind} cell has nothing to run.`);
+      const all = (await orderedCells(notebookId)).map((row) => ({ id: row.id, label: row.label, input: parseCellInput(row.inputJson) }));
+      const cell = all.find((c) => c.id === cellId);
+      if (!cell) throw new AppError('not_found', 'No such cell.');
+      const run = await runCellRow(viewer, cell, await notebookAtRun(notebookId, all));
+      if (!run) throw new AppError('validation_failed', `A ${cell.input.kind} cell has nothing to run.`);
       return run;
     },
 
@@ -371,14 +426,15 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
      */
     async runAll(viewer: SignedInUser, notebookId: string): Promise<RunAllReply> {
       await editable(viewer, notebookId);
+      // the views carry every cell's parsed input: the notebook is read and parsed once for the whole request
       const views = await cellViews(notebookId);
-      const all = await orderedCells(notebookId);
+      const notebook = await notebookAtRun(notebookId, views);
       const started: RunView[] = [];
       const waiting: string[] = [];
       for (const view of views) {
         if (!['never-run', 'out-of-date', 'failed'].includes(view.state)) continue;
         try {
-          const run = await runCellRow(viewer, all.find((c) => c.id === view.id)!, all);
+          const run = await runCellRow(viewer, view, notebook);
           if (run) started.push(run);
         } catch (error) {
           // Later cells may still be answered from the cache, so keep going.

@@ -1,8 +1,9 @@
 import { createHash } from 'node:crypto';
-import type { DataSource } from 'typeorm';
+import { IsNull, type DataSource } from 'typeorm';
 import type { Logger } from 'pino';
 import { canonicalJson } from '../../shared/notebook/dependencies';
-import { jobCostProblem } from '../../shared/jobs/cost';
+import { estimatedResultBytes, jobCostProblem, megabytes } from '../../shared/jobs/cost';
+import { RESULT_LIMITS } from '../../shared/jobs/limits';
 import type { QueueStanding, RunView } from '../../shared/notebook/api';
 import type { JobQueueConfig } from '../config';
 import { JobRun } from '../db/entities';
@@ -29,8 +30,10 @@ export interface RunService {
   find(runId: string): Promise<JobRun>;
   /** Stops a running job, or takes a queued one out of the queue. */
   cancel(runId: string): Promise<JobRun>;
-  /** The reply shape of a run, with its place in the queue while it waits. */
-  view(run: JobRun): RunView;
+  /** The reply shape of a run, with its place in the queue while it waits; `result` when already parsed (see resultsOf). */
+  view(run: JobRun, result?: StoredResult | null): RunView;
+  /** Characters of result JSON the job will add: the cached result's size, else an estimate. */
+  expectedResultBytes(job: unknown): Promise<number>;
   close(): Promise<void>;
 }
 
@@ -44,7 +47,38 @@ function isEngineError(result: unknown): result is { error: { code: string; mess
   return typeof result === 'object' && result !== null && 'error' in result;
 }
 
-export function toRunView(run: JobRun, queue: QueueStanding | null = null): RunView {
+/** A finished result, parsed once however many cached runs show it. */
+export interface StoredResult {
+  value: unknown;
+  /** Characters of its JSON. */
+  bytes: number;
+}
+
+/** The run whose resultJson a run shows: itself, or on a cache hit the run that computed the result. */
+export const resultHolderId = (run: Pick<JobRun, 'id' | 'resultRunId'>): string => run.resultRunId ?? run.id;
+
+/**
+ * The results of these runs by holder id (resultHolderId), each read and parsed once: many cells answered
+ * from the cache share one result. Only runs' own resultJson and their holders' are read.
+ */
+export async function resultsOf(dataSource: DataSource, runs: JobRun[]): Promise<Map<string, StoredResult>> {
+  const json = new Map<string, string>();
+  for (const run of runs) if (run.resultJson) json.set(run.id, run.resultJson);
+  const missing = [...new Set(runs.filter((run) => run.resultRunId && !json.has(run.resultRunId)).map((run) => run.resultRunId!))];
+  if (missing.length) {
+    const holders: { id: string; resultJson: string | null }[] = await dataSource
+      .getRepository(JobRun)
+      .createQueryBuilder('r')
+      .select(['r.id', 'r.resultJson'])
+      .where('r.id IN (:...missing)', { missing })
+      .getMany();
+    for (const holder of holders) if (holder.resultJson) json.set(holder.id, holder.resultJson);
+  }
+  return new Map([...json].map(([id, text]) => [id, { value: JSON.parse(text), bytes: text.length }]));
+}
+
+export function toRunView(run: JobRun, queue: QueueStanding | null = null, result?: StoredResult | null): RunView {
+  const value = result !== undefined ? (result?.value ?? null) : run.resultJson ? JSON.parse(run.resultJson) : null;
   return {
     id: run.id,
     status: run.status,
@@ -52,7 +86,7 @@ export function toRunView(run: JobRun, queue: QueueStanding | null = null): RunV
     cached: run.cached,
     engineVersion: run.engineVersion,
     durationMs: run.durationMs,
-    result: run.resultJson ? JSON.parse(run.resultJson) : null,
+    result: value,
     error: run.errorJson ? JSON.parse(run.errorJson) : null,
     startedAt: run.startedAt?.toISOString() ?? null,
     finishedAt: run.finishedAt?.toISOString() ?? null,
@@ -78,6 +112,13 @@ function failureOf(error: unknown, abortReason: unknown): Partial<JobRun> {
 }
 
 const errorJson = (code: string, message: string) => JSON.stringify({ code, message });
+
+/** A finished result is stored unless it is too large to keep (and to send to the browser). */
+function finished(resultJson: string): Partial<JobRun> {
+  if (resultJson.length <= RESULT_LIMITS.maxResultBytes) return { status: 'done', progress: 1, resultJson };
+  const message = `The result took ${megabytes(resultJson.length)}, over the limit of ${megabytes(RESULT_LIMITS.maxResultBytes)} per result, so it was not kept; reduce the points, quantities or digits.`;
+  return { status: 'failed', errorJson: errorJson('result-too-large', message) };
+}
 
 interface InFlight {
   userId: string;
@@ -115,9 +156,7 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
     let patch: Partial<JobRun>;
     try {
       const result = await runner.run(job, { signal: abort.signal, onStarted, onProgress });
-      patch = isEngineError(result)
-        ? { status: 'failed', errorJson: JSON.stringify(result.error) }
-        : { status: 'done', progress: 1, resultJson: JSON.stringify(result) };
+      patch = isEngineError(result) ? { status: 'failed', errorJson: JSON.stringify(result.error) } : finished(JSON.stringify(result));
     } catch (error) {
       patch = failureOf(error, abort.signal.reason);
       if (!(error instanceof RunAborted)) logger.error({ err: error, runId: run.id }, 'engine worker failed');
@@ -191,10 +230,38 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
     dispatch();
   }
 
+  /** A run, with the result it shows (its own, or on a cache hit the computing run's) in resultJson. */
   async function find(runId: string) {
     const run = await runs.findOneBy({ id: runId });
     if (!run) throw new AppError('not_found', 'No such run.');
+    if (run.resultRunId) run.resultJson = (await runs.findOne({ select: { id: true, resultJson: true }, where: { id: run.resultRunId } }))?.resultJson ?? null;
     return run;
+  }
+
+  /** The newest run that computed this job's result itself (cache hits only point at such runs). */
+  async function resultHolder(inputHash: string): Promise<{ id: string; bytes: number } | undefined> {
+    const row: { id: string; bytes: number | null } | undefined = await runs
+      .createQueryBuilder('r')
+      .select('r.id', 'id')
+      .addSelect('length(r.resultJson)', 'bytes')
+      .where("r.inputHash = :inputHash AND r.status = 'done' AND r.cached = 0", { inputHash })
+      .orderBy('r.createdAt', 'DESC')
+      .limit(1)
+      .getRawOne();
+    return row ? { id: row.id, bytes: Number(row.bytes ?? 0) } : undefined;
+  }
+
+  /**
+   * A cache hit is a small row pointing at the computing run. The same person asking again for the same
+   * result in the same place (the calculator, or the same cell) gets their earlier row back, so repeating
+   * a cached request adds nothing to the database.
+   */
+  async function recordCacheHit(base: Pick<JobRun, 'id' | 'inputHash' | 'engineVersion' | 'jobJson' | 'cellId' | 'requestedBy'>, holderId: string): Promise<string> {
+    const earlier = await runs.findOne({ select: { id: true }, where: { resultRunId: holderId, requestedBy: base.requestedBy!, cellId: base.cellId ?? IsNull() } });
+    if (earlier) return earlier.id;
+    const now = new Date();
+    await runs.insert(runs.create({ ...base, status: 'done', progress: 1, cached: true, resultRunId: holderId, durationMs: 0, startedAt: now, finishedAt: now }));
+    return base.id;
   }
 
   function standing(run: JobRun): QueueStanding {
@@ -217,12 +284,8 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
       if (costProblem) throw new AppError('job_too_large', costProblem);
       const inputHash = jobHash(job);
       const base = { id: newId(), inputHash, engineVersion: ENGINE_VERSION, jobJson, cellId: cellId ?? null, requestedBy: userId };
-      const hit = await runs.findOne({ where: { inputHash, status: 'done' }, order: { createdAt: 'DESC' } });
-      if (hit) {
-        const cachedRun = runs.create({ ...base, status: 'done', progress: 1, cached: true, resultJson: hit.resultJson, durationMs: 0, startedAt: new Date(), finishedAt: new Date() });
-        await runs.insert(cachedRun);
-        return find(cachedRun.id);
-      }
+      const holder = await resultHolder(inputHash);
+      if (holder) return find(await recordCacheHit(base, holder.id));
       await enqueue(base, userId, job);
       return find(base.id);
     },
@@ -245,7 +308,11 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
       return find(runId);
     },
 
-    view: (run) => toRunView(run, run.status === 'queued' ? standing(run) : null),
+    view: (run, result) => toRunView(run, run.status === 'queued' ? standing(run) : null, result),
+
+    async expectedResultBytes(job) {
+      return (await resultHolder(jobHash(job)))?.bytes ?? estimatedResultBytes(job);
+    },
 
     async close() {
       closing = true;

@@ -12,7 +12,7 @@ import { AppError } from '../http/errors';
 import { newId } from '../ids';
 import { assertCellsAccepted } from './cellChecks';
 import { MAX_CELLS_PER_NOTEBOOK, type NotebookService } from './notebooks';
-import { jobHash } from './runs';
+import { jobHash, resultHolderId, resultsOf } from './runs';
 
 type Snapshot = VersionSnapshot;
 
@@ -39,12 +39,18 @@ async function cachedResults(manager: EntityManager, cells: { label: string; inp
       throw error;
     }
     if (!job) continue;
-    const run = await manager.getRepository(JobRun).findOne({ where: { inputHash: jobHash(job), status: 'done' }, order: { createdAt: 'DESC' } });
+    // only a run that computed the result holds it; its text is not read here
+    const run = await manager.getRepository(JobRun).findOne({
+      select: { id: true, inputHash: true, engineVersion: true, jobJson: true },
+      where: { inputHash: jobHash(job), status: 'done', cached: false },
+      order: { createdAt: 'DESC' },
+    });
     if (run) found.set(cell.label, { run, fingerprint: fingerprintOf(cell, byLabel) });
   }
   return found;
 }
 
+/** A cache hit for the restored cell: a row pointing at the run that holds the result, not a copy of it. */
 async function recordCachedRun(manager: EntityManager, hit: JobRun, cellId: string, userId: string): Promise<string> {
   const id = newId();
   const now = new Date();
@@ -58,7 +64,7 @@ async function recordCachedRun(manager: EntityManager, hit: JobRun, cellId: stri
     cached: true,
     cellId,
     requestedBy: userId,
-    resultJson: hit.resultJson,
+    resultRunId: hit.id,
     durationMs: 0,
     startedAt: now,
     finishedAt: now,
@@ -75,13 +81,14 @@ export function createVersionService(dataSource: DataSource, notebooks: Notebook
     const rows = await notebooks.orderedCells(notebookId);
     const runIds = rows.map((r) => r.lastRunId).filter((id): id is string => Boolean(id));
     const runs = runIds.length ? await dataSource.getRepository(JobRun).createQueryBuilder('r').where('r.id IN (:...runIds)', { runIds }).getMany() : [];
+    const results = await resultsOf(dataSource, runs);
     return {
       title: notebook.title,
       summary: notebook.summary,
       cells: rows.map((row) => {
         const input = notebooks.parseCellInput(row.inputJson);
         const run = runs.find((r) => r.id === row.lastRunId);
-        return { label: row.label, kind: input.kind, input, output: run?.resultJson ? JSON.parse(run.resultJson) : null };
+        return { label: row.label, kind: input.kind, input, output: run ? (results.get(resultHolderId(run))?.value ?? null) : null };
       }),
     };
   }

@@ -29,3 +29,13 @@ export const JOB_LIMITS = {
   /** |power| of one Γ factor after nested powers are multiplied out. */
   maxGammaPower: 50,
 } as const;
+
+/**
+ * Sizes of stored results, in characters of result JSON (results are ASCII, so also bytes). A finished
+ * result over `maxResultBytes` is not stored; a scan whose estimated result is over it is refused up front.
+ * A notebook's cells' results together stay under `maxNotebookResultBytes` (they travel in one reply).
+ */
+export const RESULT_LIMITS = {
+  maxResultBytes: 4_000_000,
+  maxNotebookResultBytes: 16_000_000,
+} as const;

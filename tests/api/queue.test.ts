@@ -8,6 +8,7 @@ type Client = ReturnType<Harness['browser']>;
 async function signedIn(h: Harness, n: number): Promise<Client> {
   const client = h.browser();
   await client.post('/api/auth/sign-up').send(person(n)).expect((reply) => assert.ok(reply.status < 300, JSON.stringify(reply.body)));
+  await h.rungbook.services.mailer.idle(); // sign-up writes the account after its reply
   await client.post('/api/auth/sign-in').send({ email: person(n).email, password: person(n).password }).expect(200);
   return client;
 }

@@ -43,8 +43,14 @@ export class JobRun {
   @Column({ type: 'integer', nullable: true })
   durationMs: number | null;
 
+  /** The result itself; null on a cache hit, which points at the run that computed it (resultRunId). */
   @Column({ type: 'text', nullable: true })
   resultJson: string | null;
+
+  /** On a cache hit: the run (never itself a cache hit) whose resultJson this run shows. */
+  @Index()
+  @Column({ type: 'varchar', length: 40, nullable: true })
+  resultRunId: string | null;
 
   @Column({ type: 'text', nullable: true })
   errorJson: string | null;

@@ -233,11 +233,47 @@ function operator(node: NodeLike, fields: number): Poly {
   }
 }
 
+/** Recently built models by (fields, potential): checking a notebook reads one setup for every cell that uses it. */
+const RECENT_MODELS_KEPT = 32;
+const recentModels = new Map<string, QuarticModel>();
+let expansions = 0;
+
+/** How many potentials have been expanded since start (models answered from the recent ones are not counted). */
+export function customModelExpansions(): number {
+  return expansions;
+}
+
 /**
  * Build the model from V = Σ (coupling × quartic monomial): λ_abcd = ∂⁴V/∂φ_a∂φ_b∂φ_c∂φ_d, split
  * by coupling. Only quartic monomials, each linear in exactly one coupling, are accepted.
+ * The same (fields, potential) gives the same frozen model object while it is among the recent ones.
  */
 export function customModel(fields: number, potential: string): QuarticModel {
+  const key = `${fields}\n${potential}`;
+  const recent = recentModels.get(key);
+  if (recent) {
+    recentModels.delete(key);
+    recentModels.set(key, recent);
+    return recent;
+  }
+  const model = frozen(expandCustomModel(fields, potential));
+  recentModels.set(key, model);
+  if (recentModels.size > RECENT_MODELS_KEPT) recentModels.delete(recentModels.keys().next().value as string);
+  return model;
+}
+
+/** Shared between callers, so nobody may change it (tensor data are typed arrays, read-only by type only). */
+function frozen(model: QuarticModel): QuarticModel {
+  Object.freeze(model.couplings);
+  Object.freeze(model.basis);
+  for (const tensor of model.basis) Object.freeze(tensor);
+  for (const scale of model.scales) Object.freeze(scale);
+  Object.freeze(model.scales);
+  return Object.freeze(model);
+}
+
+function expandCustomModel(fields: number, potential: string): QuarticModel {
+  expansions += 1;
   if (!Number.isInteger(fields) || fields < 1) fail('invalid', 'fields must be a positive integer');
   if (fields > MAX_FIELDS) fail('limit', `at most ${MAX_FIELDS} fields`);
   if (potential.length > MAX_POTENTIAL_LENGTH) fail('limit', 'potential too long');

@@ -10,6 +10,7 @@ import { FairQueue } from '../../../server/jobs/scheduler';
 import { AppError } from '../../../server/http/errors';
 import { createRunService, failInterruptedRuns, jobHash } from '../../../server/services/runs';
 import { JobRun } from '../../../server/db/entities';
+import { RESULT_LIMITS } from '../../../shared/jobs/limits';
 
 const queueLimits = (overrides: Partial<JobQueueConfig> = {}): JobQueueConfig => ({
   threads: 1, timeLimitMs: 10_000, perUserQueued: 3, perUserRunning: 1, queueWaitLimitMs: 60_000, ...overrides,
@@ -235,6 +236,49 @@ describe('runs service queue (limits, fairness, wait limit, cancel)', () => {
     assert.equal(given.status, 'failed');
     assert.equal(JSON.parse(given.errorJson!).code, 'queue-wait');
     assert.deepEqual(started, ['6.1']);
+    await runs.close();
+  });
+});
+
+describe('runs service: stored result sizes', () => {
+  let dataSource: DataSource;
+  before(async () => {
+    dataSource = await openDatabase(':memory:');
+  });
+  after(() => dataSource.destroy());
+  const silentLog = pino({ level: 'silent' });
+
+  test('a cache hit points at the run that computed the result instead of copying it; asking again adds no row', async () => {
+    const result = { value: '7.25', digits: 'x'.repeat(10_000) };
+    const runs = createRunService(dataSource, scriptedRunner(async () => result), silentLog, queueLimits());
+    const computed = await runs.settle((await runs.submit({ job: gammaAt('7.1'), userId: 'A' })).id, 5000);
+    const hit = await runs.submit({ job: gammaAt('7.1'), userId: 'B' });
+    assert.deepEqual([hit.cached, hit.status, JSON.parse(hit.resultJson!)], [true, 'done', result], 'the reply shows the computed result');
+    const stored = await dataSource.getRepository(JobRun).findOneByOrFail({ id: hit.id });
+    assert.deepEqual([stored.resultJson, stored.resultRunId], [null, computed.id], 'the row holds a pointer, not a copy');
+    // a second cache hit points at the computing run too, never at another cache hit
+    const other = await runs.submit({ job: gammaAt('7.1'), userId: 'C' });
+    assert.equal((await dataSource.getRepository(JobRun).findOneByOrFail({ id: other.id })).resultRunId, computed.id);
+    const rowsBefore = await dataSource.getRepository(JobRun).countBy({ inputHash: jobHash(gammaAt('7.1')) });
+    const again = await runs.submit({ job: gammaAt('7.1'), userId: 'B' });
+    assert.equal(again.id, hit.id, 'the same person asking again gets their earlier cache hit back');
+    assert.equal(await dataSource.getRepository(JobRun).countBy({ inputHash: jobHash(gammaAt('7.1')) }), rowsBefore);
+    const bytes = await dataSource.query(`SELECT SUM(length("resultJson")) AS total FROM "job_runs" WHERE "inputHash" = ?`, [jobHash(gammaAt('7.1'))]);
+    assert.equal(Number(bytes[0].total), JSON.stringify(result).length, 'the result is stored once');
+    assert.deepEqual(runs.view(await runs.find(other.id)).result, result, 'a cached run found later still shows the result');
+    await runs.close();
+  });
+
+  test('a finished result over the size limit is not kept: the run fails with a reason', async () => {
+    const huge = { value: 'x'.repeat(RESULT_LIMITS.maxResultBytes) };
+    const runs = createRunService(dataSource, scriptedRunner(async () => huge), silentLog, queueLimits());
+    const run = await runs.settle((await runs.submit({ job: gammaAt('7.2'), userId: 'A' })).id, 5000);
+    assert.deepEqual([run.status, run.resultJson], ['failed', null]);
+    const error = JSON.parse(run.errorJson!);
+    assert.equal(error.code, 'result-too-large');
+    assert.match(error.message, /over the limit of 4\.0 MB per result/);
+    // not cached: asking again runs the engine again
+    assert.equal((await runs.submit({ job: gammaAt('7.2'), userId: 'A' })).cached, false);
     await runs.close();
   });
 });

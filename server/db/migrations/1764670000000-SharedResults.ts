@@ -1,0 +1,30 @@
+import type { MigrationInterface, QueryRunner } from 'typeorm';
+
+/**
+ * A cache hit points at the run that computed its result instead of holding a copy. Existing copies are
+ * replaced by such a pointer where the computing run is still there, which gives their space back.
+ */
+export class SharedResults1764670000000 implements MigrationInterface {
+  name = 'SharedResults1764670000000';
+
+  async up(queryRunner: QueryRunner): Promise<void> {
+    await queryRunner.query(`ALTER TABLE "job_runs" ADD COLUMN "resultRunId" varchar(40)`);
+    await queryRunner.query(`CREATE INDEX "IDX_e41fb03d57cfdfc64d05cdcc27" ON "job_runs" ("resultRunId") `);
+    await queryRunner.query(
+      `UPDATE "job_runs" SET "resultRunId" = (
+         SELECT s."id" FROM "job_runs" s WHERE s."inputHash" = "job_runs"."inputHash" AND s."status" = 'done' AND s."cached" = 0 ORDER BY s."createdAt" DESC LIMIT 1
+       ), "resultJson" = NULL
+       WHERE "cached" = 1 AND "status" = 'done' AND EXISTS (
+         SELECT 1 FROM "job_runs" s WHERE s."inputHash" = "job_runs"."inputHash" AND s."status" = 'done' AND s."cached" = 0
+       )`,
+    );
+  }
+
+  async down(queryRunner: QueryRunner): Promise<void> {
+    await queryRunner.query(
+      `UPDATE "job_runs" SET "resultJson" = (SELECT s."resultJson" FROM "job_runs" s WHERE s."id" = "job_runs"."resultRunId") WHERE "resultRunId" IS NOT NULL`,
+    );
+    await queryRunner.query(`DROP INDEX "IDX_e41fb03d57cfdfc64d05cdcc27"`);
+    await queryRunner.query(`ALTER TABLE "job_runs" DROP COLUMN "resultRunId"`);
+  }
+}
