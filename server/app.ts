@@ -3,7 +3,7 @@ import path from 'node:path';
 import cors from 'cors';
 import express, { type Express } from 'express';
 import { pinoHttp } from 'pino-http';
-import { acceptedBodyEncodings, boundedBodyDepth, noStore, rejectMalformedPath, securityHeaders, webNotFound } from './http/hardening';
+import { acceptedBodyEncodings, boundedBodyDepth, loopbackHostOnly, noStore, rejectMalformedPath, securityHeaders, webNotFound } from './http/hardening';
 import { apiNotFound, errorHandler, sameOriginGuard, sessionLoader } from './http/middleware';
 import { authRequestLimiters, signInLimiters } from './http/rateLimits';
 import { mount, type AnyRouteSpec } from './http/route';
@@ -82,6 +82,7 @@ export function createApp(services: Services): Express {
   );
   app.use(securityHeaders(services.config.publicUrl));
   app.use(rejectMalformedPath);
+  if (services.config.localOnly) app.use(loopbackHostOnly);
   app.use('/api', apiRouter(services));
   app.use(webApp(services.config.webRoot));
   app.use(webNotFound);

@@ -15,8 +15,9 @@ export interface ServerConfig {
   mail: MailConfig;
   signInLimits: { perIpPer15Min: number; perAccountPer15Min: number };
   /**
-   * A start that only this machine can reach and that is not production: the demo site admin with its
-   * published password and the captured-mail reader exist only then.
+   * A start that only this machine can reach and that is not production (HOST and PUBLIC_URL on loopback,
+   * no proxy in front): the demo site admin with its published password and the captured-mail reader
+   * exist only then.
    */
   localOnly: boolean;
   /** Sign-up, forgot-password and reset requests per source per 15 minutes; people one person may add to groups per hour. */
@@ -78,7 +79,7 @@ function trustProxyFrom(value: string | undefined): boolean | number | string {
 export class ConfigError extends Error {}
 
 function isLoopback(host: string): boolean {
-  return host === 'localhost' || host === '::1' || /^127\.\d+\.\d+\.\d+$/.test(host);
+  return host === 'localhost' || host === '::1' || host === '[::1]' || /^127\.\d+\.\d+\.\d+$/.test(host);
 }
 
 export function loadConfig(env: Record<string, string | undefined> = process.env): ServerConfig {
@@ -89,7 +90,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
   const threads = Math.max(1, intFrom(env.JOB_THREADS, 2));
   const config: ServerConfig = {
     production,
-    localOnly: !production && isLoopback(host),
+    localOnly: !production && isLoopback(host) && isLoopback(new URL(publicUrl).hostname) && trustProxyFrom(env.TRUST_PROXY) === false,
     port,
     host,
     databasePath: env.DATABASE_PATH ?? path.resolve('data', 'rungbook.sqlite'),

@@ -93,3 +93,15 @@ export const boundedBodyDepth: RequestHandler = (req, _res, next) => {
 export const webNotFound: RequestHandler = (req, _res, next) => {
   next(new AppError('not_found', `Nothing at ${req.method} ${req.path}`));
 };
+
+const LOOPBACK_HOST = /^(localhost|127\.\d{1,3}\.\d{1,3}\.\d{1,3}|\[::1\])(:\d+)?$/i;
+
+/**
+ * On a local start (demo admin with a published password, captured sign-in links readable at /mail) only
+ * requests addressed to a loopback name are served: a web page elsewhere that points its own host name at
+ * 127.0.0.1 (DNS rebinding) gets nothing.
+ */
+export const loopbackHostOnly: RequestHandler = (req, _res, next) => {
+  if (LOOPBACK_HOST.test(req.headers.host ?? '')) return next();
+  next(new AppError('forbidden', 'This Rungbook runs for this machine only: open it at http://localhost or 127.0.0.1.'));
+};

@@ -36,8 +36,9 @@ export function sameOriginGuard(allowedOrigins: string[], sessionCookieName: str
       }
       return next();
     }
-    const selfOrigin = `${req.protocol}://${req.get('host')}`;
-    if (allowed.has(origin) || origin === selfOrigin) return next();
+    // Only the configured origins: an origin derived from the Host header would let a DNS-rebinding page
+    // (its own name pointed at this server) pass the check.
+    if (allowed.has(origin)) return next();
     next(new AppError('cross_site_request', 'Request refused: it came from another site.'));
   };
 }

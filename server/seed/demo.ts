@@ -1,6 +1,6 @@
 import { randomBytes } from 'node:crypto';
 import type { DataSource } from 'typeorm';
-import { hashPassword } from '../auth/passwords';
+import { hashPassword, verifyPassword } from '../auth/passwords';
 import { Cell, GroupMembership, Notebook, ResearchGroup, User } from '../db/entities';
 import type { CellInput } from '../../shared/notebook/cells';
 import { newId } from '../ids';
@@ -106,4 +106,26 @@ export async function seedDemoDataIfEmpty(dataSource: DataSource, options: DemoS
     }
   });
   return true;
+}
+
+/**
+ * A database first used by a local start keeps the demo people with their published passwords. When the
+ * same file is later served to others (production, or a HOST others can reach), every demo account whose
+ * password is still the published one gets a random password and loses site-admin rights. Returns the
+ * e-mails changed.
+ */
+export async function disarmPublishedDemoAccounts(dataSource: DataSource): Promise<string[]> {
+  const users = dataSource.getRepository(User);
+  const changed: string[] = [];
+  for (const person of demoPeople) {
+    const user = await users.findOneBy({ emailKey: person.email.toLowerCase() });
+    if (!user || !(await verifyPassword(user.passwordHash, person.password))) continue;
+    await users.update({ id: user.id }, { passwordHash: await hashPassword(randomBytes(24).toString('base64url')), siteRole: 'member' });
+    changed.push(person.email);
+  }
+  if (changed.length) {
+    // Sessions signed in with the published password end too.
+    await dataSource.query(`DELETE FROM sessions WHERE userId IN (SELECT id FROM users WHERE emailKey IN (${changed.map(() => '?').join(', ')}))`, changed.map((e) => e.toLowerCase()));
+  }
+  return changed;
 }

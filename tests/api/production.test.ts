@@ -73,6 +73,51 @@ describe('production defaults', () => {
     }
   });
 
+  test('local-only means HOST and PUBLIC_URL on loopback and no proxy in front', () => {
+    assert.equal(loadConfig({ PUBLIC_URL: 'http://localhost:8080' }).localOnly, true);
+    assert.equal(loadConfig({ PUBLIC_URL: 'https://rungbook.example.org' }).localOnly, false);
+    assert.equal(loadConfig({ TRUST_PROXY: '1' }).localOnly, false);
+    assert.equal(loadConfig({ NODE_ENV: 'production', MAIL_FAKE: 'true' }).localOnly, false);
+  });
+
+  test('a database first seeded locally, later served to others: the published demo passwords stop working', async () => {
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'rungbook-reseed-'));
+    const databasePath = path.join(dir, 'shared.sqlite');
+    const admin = demoPeople.find((p) => p.siteRole === 'admin')!;
+    try {
+      const local = await startHarness({ DATABASE_PATH: databasePath, SEED_DEMO_DATA: 'true' });
+      await local.browser().post('/api/auth/sign-in').send({ email: admin.email, password: admin.password }).expect(200);
+      await local.close();
+      const reachable = await startHarness({ DATABASE_PATH: databasePath, HOST: '0.0.0.0', SEED_DEMO_DATA: 'true' });
+      try {
+        await reachable.browser().post('/api/auth/sign-in').send({ email: admin.email, password: admin.password }).expect(401);
+        const users = await reachable.rungbook.services.dataSource.getRepository(User).find();
+        assert.equal(users.length, demoPeople.length, 'nobody deleted');
+        assert.deepEqual(users.filter((u) => u.siteRole === 'admin'), [], 'no site admin left');
+      } finally {
+        await reachable.close();
+      }
+    } finally {
+      fs.rmSync(dir, { recursive: true, force: true });
+    }
+  });
+
+  test('a local start answers only requests addressed to a loopback name (no DNS rebinding), and only its own origin may change state', async () => {
+    const h = await startHarness();
+    try {
+      const rebound = await h.raw.get('/api/health').set('Host', 'attacker.example:8080');
+      assert.equal(rebound.status, 403);
+      await h.raw.get('/api/health').set('Host', 'localhost:8080').expect(200);
+      // Origin equal to the request's own Host is no longer enough: only PUBLIC_URL and APP_ORIGINS.
+      const person = await createPerson(h);
+      const forged = await person.client.post('/api/notebooks').set('Origin', 'http://127.0.0.1:9999').set('Host', '127.0.0.1:9999').send({ title: 'x', summary: '' });
+      assert.equal(forged.status, 403);
+      assert.equal(forged.body.error.code, 'cross_site_request');
+    } finally {
+      await h.close();
+    }
+  });
+
   test('TRUST_PROXY=true is refused in production (clients could forge X-Forwarded-For)', () => {
     assert.throws(() => loadConfig({ NODE_ENV: 'production', SMTP_HOST: 'smtp.relay.example', TRUST_PROXY: 'true' }), (error: unknown) => error instanceof ConfigError && /TRUST_PROXY=1/.test(error.message));
     assert.equal(loadConfig({ NODE_ENV: 'production', SMTP_HOST: 'smtp.relay.example', TRUST_PROXY: '1' }).trustProxy, 1);
