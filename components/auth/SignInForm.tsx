@@ -31,6 +31,7 @@ export function SignInForm({ onSignedIn }: { onSignedIn: () => void }) {
       <View style={formStyles.links}>
         <AuthLink href="/forgot-password" label="Forgot your password?" testID="to-forgot" />
         <AuthLink href="/sign-up" label="New here? Create an account" testID="to-sign-up" />
+        <AuthLink href="/resend-confirmation" label="Not confirmed yet? Resend the confirmation e-mail" testID="to-resend" />
       </View>
     </View>
   );

@@ -29,6 +29,7 @@ export function SignUpForm() {
       <View style={formStyles.form}>
         <Notice tone="success" message={signUp.data.message} testID="sign-up-sent" />
         <View style={formStyles.links}>
+          <AuthLink href="/resend-confirmation" label="No message after a few minutes? Ask for a new one" testID="to-resend" />
           <AuthLink href="/sign-in" label="Go to sign in" testID="to-sign-in" />
         </View>
       </View>

@@ -43,7 +43,7 @@ export function VerifyEmailForm({ token, onVerified }: { token: string; onVerifi
       <Button label="Confirm and sign in" onPress={submit} busy={verify.isPending} testID="verify-submit" />
       <View style={formStyles.links}>
         <AuthLink href="/forgot-password" label="Forgot the password, or did not sign up yourself? Set your own" testID="to-forgot" />
-        <AuthLink href="/sign-in" label="Sign in to ask for a new link" testID="to-sign-in" />
+        <AuthLink href="/resend-confirmation" label="Link expired or already used? Ask for a new one" testID="to-resend" />
       </View>
     </View>
   );

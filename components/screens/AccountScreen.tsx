@@ -1,7 +1,7 @@
 import { StyleSheet, Text } from 'react-native';
 import { router } from 'expo-router';
 import { colors, fonts } from '../../constants/theme';
-import { useMeQuery, useResendVerificationMutation, useSignOutMutation } from '../../hooks/api/auth';
+import { useMeQuery, useSignOutMutation } from '../../hooks/api/auth';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
 import { Notice } from '../ui/Notice';
@@ -10,7 +10,6 @@ import { ScreenBody } from '../ui/ScreenBody';
 export function AccountScreen() {
   const me = useMeQuery();
   const signOut = useSignOutMutation();
-  const resend = useResendVerificationMutation();
   const user = me.data;
   return (
     <ScreenBody title="Account">
@@ -21,12 +20,7 @@ export function AccountScreen() {
           <Text style={styles.detail}>{user.email}</Text>
           <Text style={styles.detail}>Site role: {user.siteRole === 'admin' ? 'administrator' : 'member'}</Text>
           {user.emailVerified ? null : (
-            <>
-              <Notice tone="info" message="Your e-mail address is not confirmed yet: until it is, nobody can add you to a research group. Open the link we e-mailed you." testID="email-unverified" />
-              {resend.isSuccess ? <Notice tone="success" message={resend.data.message} testID="verification-resent" /> : null}
-              {resend.isError ? <Notice tone="error" message={resend.error.message} testID="verification-resend-error" /> : null}
-              <Button label="Send the link again" variant="quiet" busy={resend.isPending} onPress={() => resend.mutate()} testID="resend-verification" />
-            </>
+            <Notice tone="info" message="Your e-mail address is not confirmed yet: until it is, nobody can add you to a research group. Open the link we e-mailed you." testID="email-unverified" />
           )}
           <Button label="Sign out" variant="quiet" busy={signOut.isPending} onPress={() => signOut.mutate(undefined, { onSuccess: () => router.replace('/sign-in') })} testID="sign-out" />
         </Card>

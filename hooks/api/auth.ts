@@ -30,6 +30,7 @@ function useSessionMutation<Input>(path: string) {
   });
 }
 
+/** An account whose address is not confirmed yet is refused like a wrong password: it signs in through the e-mailed link. */
 export const useSignInMutation = () => useSessionMutation<{ email: string; password: string }>('/auth/sign-in');
 /** Verifying the address from the e-mailed link, with the account's password, signs its owner in. */
 export const useVerifyEmailMutation = () => useSessionMutation<{ token: string; password: string }>('/auth/verify');
@@ -41,8 +42,9 @@ export function useSignUpMutation() {
   });
 }
 
+/** A fresh confirmation link for an account waiting for confirmation; the reply is the same for any address. */
 export function useResendVerificationMutation() {
-  return useMutation({ mutationFn: () => apiRequest<{ message: string }>('POST', '/auth/verify/resend', {}) });
+  return useMutation({ mutationFn: (input: { email: string }) => apiRequest<{ message: string }>('POST', '/auth/verify/resend', input) });
 }
 
 export function useSignOutMutation() {

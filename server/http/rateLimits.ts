@@ -1,6 +1,6 @@
 import { rateLimit, ipKeyGenerator } from 'express-rate-limit';
 import type { Request, RequestHandler } from 'express';
-import { addMemberInput, signInInput, verifyEmailInput } from '../../shared/api/schemas';
+import { addMemberInput, resendVerificationInput, signInInput, verifyEmailInput } from '../../shared/api/schemas';
 import type { KnownDevices } from '../auth/knownDevices';
 import type { ServerConfig } from '../config';
 import { AppError } from './errors';
@@ -11,6 +11,14 @@ const ONE_HOUR = 60 * 60 * 1000;
 /** Failed sign-ins for one account from all unknown sources together, per hour (known devices are not counted nor stopped). */
 export const FAILED_SIGNINS_PER_ACCOUNT_PER_HOUR = 100;
 
+/** Past the cap across sources, every sign-in attempt for the account waits this long before its password is checked. */
+export const SIGN_IN_DELAY_AT_CAP_MS = 1000;
+
+/** Confirmation e-mails one address may be sent on request, per hour, whoever asks. */
+export const CONFIRMATION_MAILS_PER_ADDRESS_PER_HOUR = 5;
+
+const CAP_REACHED = 'signInCapReached';
+
 function refuse(message: string): RequestHandler {
   return (_req, _res, next) => next(new AppError('rate_limited', message));
 }
@@ -20,6 +28,17 @@ const sourceAddress = (req: Request) => ipKeyGenerator(req.ip ?? '');
 
 /** The signed-in person (set by the session loader), if any. */
 const signedInUserId = (req: Request) => (req.res?.locals.user as { id?: string } | null | undefined)?.id;
+
+/** Several middlewares as one: each must call next() for the following one to run. */
+function inSequence(...handlers: RequestHandler[]): RequestHandler {
+  return (req, res, next) => {
+    const run = (index: number): void => {
+      if (index === handlers.length) return next();
+      void handlers[index](req, res, (error?: unknown) => (error ? next(error) : run(index + 1)));
+    };
+    run(0);
+  };
+}
 
 function perSource(limit: number, message: string): RequestHandler {
   return rateLimit({
@@ -45,7 +64,7 @@ export function signInLimiters(limits: SignInLimits, knownDevices: KnownDevices)
     const parsed = signInInput.safeParse(req.body);
     return parsed.success ? parsed.data.email.toLowerCase() : null;
   };
-  const deviceOf = (req: Request) => {
+  const deviceOf = async (req: Request) => {
     const account = accountOf(req);
     return account ? knownDevices.deviceFor(req, account) : null;
   };
@@ -57,7 +76,7 @@ export function signInLimiters(limits: SignInLimits, knownDevices: KnownDevices)
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     skipSuccessfulRequests: true,
-    skip: (req) => deviceOf(req) !== null,
+    skip: async (req) => (await deviceOf(req)) !== null,
     keyGenerator: sourceAddress,
     handler: (req, res, next) => refuse('Too many sign-in attempts from this network. Wait a few minutes.')(req, res, next),
   });
@@ -69,25 +88,51 @@ export function signInLimiters(limits: SignInLimits, knownDevices: KnownDevices)
     legacyHeaders: false,
     skipSuccessfulRequests: true,
     skip: (req) => accountOf(req) === null,
-    keyGenerator: (req) => {
-      const device = deviceOf(req);
+    keyGenerator: async (req) => {
+      const device = await deviceOf(req);
       return `account:${accountOf(req)}|${device ? `device:${device}` : `ip:${sourceAddress(req)}`}`;
     },
     handler: (req, res, next) => refuse('Too many failed sign-ins for this account. Wait 15 minutes or reset the password.')(req, res, next),
   });
-  // Guessing spread over many addresses still meets a cap per account; its owner's known devices pass.
+  // Guessing spread over many addresses still meets a cap per account. Past it the password is still
+  // checked (so no stranger can lock the owner out), but slowly, and a wrong one is refused and counted:
+  // see checkAtAccountCap. The account's known devices are neither slowed nor counted.
   const perAccountFromAnywhere = rateLimit({
     windowMs: ONE_HOUR,
     limit: limits.failedPerAccountPerHour ?? FAILED_SIGNINS_PER_ACCOUNT_PER_HOUR,
     standardHeaders: false,
     legacyHeaders: false,
     skipSuccessfulRequests: true,
-    skip: (req) => accountOf(req) === null || deviceOf(req) !== null,
+    skip: async (req) => accountOf(req) === null || (await deviceOf(req)) !== null,
     keyGenerator: (req) => `account:${accountOf(req)}`,
-    handler: (req, res, next) =>
-      refuse('Too many failed sign-ins for this account from many places. Sign in from a device you used before, or wait an hour.')(req, res, next),
+    handler: (_req, res, next) => {
+      res.locals[CAP_REACHED] = true;
+      next();
+    },
   });
   return [perIp, perAccountAndSource, perAccountFromAnywhere];
+}
+
+/**
+ * Runs the credential check of a sign-in. When the account has reached its cap of failures across
+ * sources, the check waits SIGN_IN_DELAY_AT_CAP_MS first and a failure is refused as rate-limited
+ * (and counted); a correct password still signs in.
+ */
+export async function checkAtAccountCap<T>(req: Request, check: () => Promise<T>): Promise<T> {
+  if (req.res?.locals[CAP_REACHED] !== true) return check();
+  await new Promise((resolve) => setTimeout(resolve, SIGN_IN_DELAY_AT_CAP_MS));
+  try {
+    return await check();
+  } catch (error) {
+    if (error instanceof AppError && error.code === 'wrong_credentials') {
+      throw new AppError(
+        'rate_limited',
+        'E-mail or password is not correct, and this account has had many failed sign-ins from many places: each attempt now takes a moment. ' +
+          'Check the password, or reset it.',
+      );
+    }
+    throw error;
+  }
 }
 
 export interface AuthRequestLimiters {
@@ -96,7 +141,7 @@ export interface AuthRequestLimiters {
   reset: RequestHandler;
   /** Failed confirmations (wrong password or link) per source; each costs a password hash check. */
   verify: RequestHandler;
-  /** Mount after the session loader: counts per signed-in person. */
+  /** Confirmation-link requests per source, and per address asked for. */
   resendVerification: RequestHandler;
   /** Mount after the session loader: people one person tries to add to groups (each try tells whether an address has an account). */
   groupAdds: RequestHandler;
@@ -117,17 +162,19 @@ export function authRequestLimiters(limits: ServerConfig['authLimits']): AuthReq
       keyGenerator: sourceAddress,
       handler: (req, res, next) => refuse('Too many failed confirmations from this network. Wait a few minutes.')(req, res, next),
     }),
-    resendVerification: rateLimit({
-      windowMs: FIFTEEN_MINUTES,
-      limit: limits.forgotPerIpPer15Min,
-      standardHeaders: 'draft-8',
-      legacyHeaders: false,
-      keyGenerator: (req) => {
-        const userId = signedInUserId(req);
-        return userId ? `user:${userId}` : `ip:${sourceAddress(req)}`;
-      },
-      handler: (req, res, next) => refuse('Too many verification e-mails asked for. Wait a few minutes.')(req, res, next),
-    }),
+    resendVerification: inSequence(
+      perSource(limits.forgotPerIpPer15Min, 'Too many confirmation e-mails asked for from this network. Wait a few minutes.'),
+      rateLimit({
+        windowMs: ONE_HOUR,
+        limit: CONFIRMATION_MAILS_PER_ADDRESS_PER_HOUR,
+        standardHeaders: 'draft-8',
+        legacyHeaders: false,
+        // Counted per address asked for, whether or not it has an account: the answer tells nothing.
+        skip: (req) => !resendVerificationInput.safeParse(req.body).success,
+        keyGenerator: (req) => `email:${resendVerificationInput.parse(req.body).email.toLowerCase()}`,
+        handler: (req, res, next) => refuse('Several confirmation e-mails were sent to this address in the last hour. Check its inbox (and spam folder), or wait a while.')(req, res, next),
+      }),
+    ),
     groupAdds: rateLimit({
       windowMs: ONE_HOUR,
       limit: limits.groupAddsPerUserPerHour,

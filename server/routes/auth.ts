@@ -1,5 +1,6 @@
 import { z } from 'zod';
-import { forgotPasswordInput, resetPasswordInput, signInInput, signUpInput, verifyEmailInput } from '../../shared/api/schemas';
+import { forgotPasswordInput, resendVerificationInput, resetPasswordInput, signInInput, signUpInput, verifyEmailInput } from '../../shared/api/schemas';
+import { checkAtAccountCap } from '../http/rateLimits';
 import { route, type RouteContext } from '../http/route';
 import type { Services } from '../services';
 import { emailKey } from '../services/accounts';
@@ -16,7 +17,7 @@ export function authRoutes({ accounts, sessions, passwordReset, emailVerificatio
       method: 'post',
       path: '/auth/sign-up',
       access: 'public',
-      summary: 'Create an account; the reply is the same for a new and a taken address (the address owner is e-mailed either way)',
+      summary: 'Create an account; the reply is the same for a new and a taken address (the address owner is e-mailed either way). It signs in only once confirmed',
       body: signUpInput,
       status: 202,
       handler: async ({ body }) => accounts.signUp(body),
@@ -31,18 +32,18 @@ export function authRoutes({ accounts, sessions, passwordReset, emailVerificatio
         const user = await emailVerification.verify(ctx.body.token, ctx.body.password);
         await startSessionReplacing(ctx, user.id);
         // The password was just proven, as at sign-in: this browser becomes a known device.
-        ctx.setCookie(knownDevices.cookieFor(emailKey(user.email)));
+        ctx.setCookie(await knownDevices.cookieFor(emailKey(user.email)));
         return { user };
       },
     }),
     route({
       method: 'post',
       path: '/auth/verify/resend',
-      access: 'signed-in',
-      summary: 'E-mail a fresh confirmation link to the signed-in person',
-      body: z.unknown(),
+      access: 'public',
+      summary: 'E-mail a fresh confirmation link to an account waiting for confirmation; the reply is the same for every address',
+      body: resendVerificationInput,
       status: 202,
-      handler: async ({ user }) => emailVerification.resend(user!),
+      handler: async ({ body }) => emailVerification.resend(body.email),
     }),
     route({
       method: 'post',
@@ -50,9 +51,9 @@ export function authRoutes({ accounts, sessions, passwordReset, emailVerificatio
       access: 'public',
       body: signInInput,
       async handler(ctx) {
-        const user = await accounts.checkCredentials(ctx.body);
+        const user = await checkAtAccountCap(ctx.req, () => accounts.checkCredentials(ctx.body));
         await startSessionReplacing(ctx, user.id);
-        ctx.setCookie(knownDevices.cookieFor(emailKey(user.email)));
+        ctx.setCookie(await knownDevices.cookieFor(emailKey(user.email)));
         return { user };
       },
     }),

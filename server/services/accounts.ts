@@ -19,6 +19,7 @@ export interface AccountService {
    * to find out who has one: a new address gets a verification link, a taken one a note to its owner.
    */
   signUp(input: SignUpInput): Promise<{ message: string }>;
+  /** The account for these credentials; an unconfirmed account is refused exactly like a wrong password. */
   checkCredentials(input: SignInInput): Promise<PublicUser>;
   findByEmail(email: string): Promise<User | null>;
 }
@@ -82,7 +83,10 @@ export function createAccountService(dataSource: DataSource, mailer: Mailer, ver
     async checkCredentials({ email, password }) {
       const user = await findByEmail(email);
       const valid = user ? await verifyPassword(user.passwordHash, password) : await verifyAgainstDecoy(password);
-      if (!user || !valid) throw new AppError('wrong_credentials', 'E-mail or password is not correct.');
+      // An unconfirmed account answers like a wrong password: otherwise signing up an address and then
+      // signing in with the chosen password would tell whether the address was free. Its owner signs in
+      // through the confirmation link, which takes the password too.
+      if (!user || !valid || user.emailVerifiedAt === null) throw new AppError('wrong_credentials', 'E-mail or password is not correct.');
       return toPublicUser(user);
     },
   };

@@ -2,18 +2,18 @@ import { createHash, randomBytes } from 'node:crypto';
 import { IsNull, type DataSource, type EntityManager } from 'typeorm';
 import type { PublicUser } from '../../shared/api/schemas';
 import { verifyAgainstDecoy, verifyPassword } from '../auth/passwords';
-import type { SessionService, SignedInUser } from '../auth/sessions';
+import type { SessionService } from '../auth/sessions';
 import { EmailVerificationToken, User } from '../db/entities';
 import { AppError } from '../http/errors';
 import type { Mailer, OutgoingMessage } from '../mail/mailer';
-import { toPublicUser } from './accounts';
+import { emailKey, toPublicUser } from './accounts';
 
 export const VERIFICATION_TOKEN_LIFETIME_MS = 24 * 3600 * 1000;
 
 const sha256 = (text: string) => createHash('sha256').update(text).digest('hex');
 
 const invalidLink = () =>
-  new AppError('invalid_verification_token', 'This confirmation link is invalid, already used or expired. Sign in and ask for a new one.');
+  new AppError('invalid_verification_token', 'This confirmation link is invalid, already used or expired. Ask for a new one under "Resend the confirmation e-mail" on the sign-in page.');
 
 const PASSWORD_MISMATCH =
   'This link is for an account with a different password. If you mistyped, try again. If you did not create this account, or forgot its password, ' +
@@ -26,8 +26,11 @@ export interface EmailVerificationService {
   linkMessage(user: Pick<User, 'id' | 'name' | 'email'>): Promise<OutgoingMessage>;
   /** Create a link for this account and e-mail it, off the request path. */
   sendLinkLater(user: Pick<User, 'id' | 'name' | 'email'>): void;
-  /** Send a fresh link to a signed-in person whose address is not verified yet. */
-  resend(viewer: SignedInUser): Promise<{ message: string }>;
+  /**
+   * Send a fresh link to this address if it belongs to an account waiting for confirmation. The lookup
+   * and the mail happen after the reply, which is the same for every address.
+   */
+  resend(email: string): { message: string };
   /**
    * Consume a link, given the account's password: marks the address verified, spends every link of the
    * account and ends all its sessions; returns the account (whose owner may now be signed in).
@@ -89,10 +92,12 @@ export function createEmailVerificationService(
       mailer.sendLater(() => linkMessage(user));
     },
 
-    async resend(viewer) {
-      if (viewer.emailVerified) throw new AppError('conflict', 'Your e-mail address is already verified.');
-      mailer.sendLater(() => linkMessage(viewer));
-      return { message: `A new confirmation link is on its way to ${viewer.email}.` };
+    resend(email) {
+      mailer.sendLater(async () => {
+        const user = await users.findOneBy({ emailKey: emailKey(email) });
+        return user && user.emailVerifiedAt === null ? linkMessage(user) : null;
+      });
+      return { message: 'If an account with this e-mail is waiting for confirmation, a new link is on its way. It works for 24 hours.' };
     },
 
     async verify(token, password) {

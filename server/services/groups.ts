@@ -59,15 +59,16 @@ export function createGroupService(dataSource: DataSource): GroupService {
   }
 
   /**
-   * Leads manage membership of their group; site admins manage any group, but never their own place in
-   * one (that would let them join any group and read its notebooks).
+   * Leads manage membership of their group; site admins may remove members and change roles in any group,
+   * but never their own role (that would let them lead any group and read its notebooks). Adding people
+   * is for leads only (addMember).
    */
   async function manageable(viewer: SignedInUser, groupId: string, targetUserId?: string) {
     const group = await viewable(viewer, groupId);
     if (roleOf(group, viewer.id) === 'lead') return group;
     if (viewer.siteRole !== 'admin') throw new AppError('forbidden', 'Only a lead of this group can change its membership.');
     if (targetUserId === viewer.id) {
-      throw new AppError('forbidden', 'A site admin cannot add themself to a group or change their own role in it: ask a lead of the group.');
+      throw new AppError('forbidden', 'A site admin cannot change their own role in a group: ask a lead of the group.');
     }
     return group;
   }
@@ -109,8 +110,10 @@ export function createGroupService(dataSource: DataSource): GroupService {
     },
 
     async addMember(viewer, groupId, input) {
-      const addsSelf = emailKey(input.email) === emailKey(viewer.email);
-      const group = await manageable(viewer, groupId, addsSelf ? viewer.id : undefined);
+      // Site admins included: an admin who could add people anywhere could bring in a second account of
+      // their own and read the group's notebooks.
+      const group = await viewable(viewer, groupId);
+      if (roleOf(group, viewer.id) !== 'lead') throw new AppError('forbidden', 'Only a lead of this group can add people to it.');
       const user = await dataSource.getRepository(User).findOneBy({ emailKey: emailKey(input.email) });
       // Unknown and unverified addresses get the same answer: a lead learns nothing about who signed up.
       if (!user || user.emailVerifiedAt === null) {

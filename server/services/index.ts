@@ -1,6 +1,6 @@
 import type { DataSource } from 'typeorm';
 import type { Logger } from 'pino';
-import { createKnownDevices, type KnownDevices } from '../auth/knownDevices';
+import { createKnownDevices, deviceKeyIn, type KnownDevices } from '../auth/knownDevices';
 import { createSessionService, type SessionService } from '../auth/sessions';
 import type { ServerConfig } from '../config';
 import type { Mailer } from '../mail/mailer';
@@ -45,7 +45,7 @@ export function createServices(config: ServerConfig, logger: Logger, dataSource:
     dataSource,
     mailer,
     sessions,
-    knownDevices: createKnownDevices(secureCookies),
+    knownDevices: createKnownDevices(secureCookies, deviceKeyIn(dataSource)),
     emailVerification,
     accounts: createAccountService(dataSource, mailer, emailVerification, config.publicUrl),
     passwordReset: createPasswordResetService(dataSource, mailer, sessions, config.publicUrl),

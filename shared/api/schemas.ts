@@ -43,6 +43,9 @@ export const verifyEmailInput = z.strictObject({
   password: z.string({ error: 'Password is required' }).min(1, 'Password is required').max(200),
 });
 
+/** Asking for a fresh confirmation link: public, so it names the address (the reply is the same for any address). */
+export const resendVerificationInput = z.strictObject({ email: emailSchema });
+
 export const siteRoles = ['admin', 'member'] as const;
 export const groupRoles = ['lead', 'member'] as const;
 export type SiteRole = (typeof siteRoles)[number];

@@ -5,14 +5,18 @@ import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import { after, before, describe, test } from 'node:test';
+import type { Request } from 'express';
 import nodemailer from 'nodemailer';
+import { createKnownDevices, deviceKeyIn } from '../../server/auth/knownDevices';
 import { hashPassword, verifyPassword } from '../../server/auth/passwords';
 import { createDataSource, openDatabase } from '../../server/db/data-source';
-import { EmailVerificationToken, PasswordResetToken, Session, User } from '../../server/db/entities';
+import { EmailVerificationToken, PasswordResetToken, ServerSecret, Session, User } from '../../server/db/entities';
 import { migrations } from '../../server/db/migrations';
 import type { Mailer, OutgoingMessage } from '../../server/mail/mailer';
+import { CONFIRMATION_MAILS_PER_ADDRESS_PER_HOUR, SIGN_IN_DELAY_AT_CAP_MS } from '../../server/http/rateLimits';
 import { createAccountService } from '../../server/services/accounts';
 import { mailTo, person, resetTokenFrom, signUpVerified, startHarness, verificationTokenFrom, type Harness } from './harness';
+import { giveSession } from './people';
 
 const CONFIRM = 'Confirm your Rungbook e-mail address';
 const RESET = 'Reset your Rungbook password';
@@ -104,7 +108,7 @@ describe('the migration to hashed sessions and verified addresses', () => {
 describe('e-mail verification links', () => {
   let h: Harness;
   before(async () => {
-    h = await startHarness({ FORGOT_LIMIT_PER_IP: '2' });
+    h = await startHarness();
   });
   after(() => h.close());
 
@@ -133,7 +137,9 @@ describe('e-mail verification links', () => {
     const client = h.browser();
     await client.post('/api/auth/sign-up').send(person(3)).expect(202);
     const token = verificationTokenFrom((await mailTo(h, person(3).email, CONFIRM)).textBody);
-    await client.post('/api/auth/sign-in').send({ email: person(3).email, password: person(3).password }).expect(200);
+    // An unconfirmed account cannot sign in; a session of it can only date from before that rule.
+    const account = await h.rungbook.services.dataSource.getRepository(User).findOneByOrFail({ emailKey: person(3).email });
+    await giveSession(h, client, account.id);
     assert.equal((await client.get('/api/me').expect(200)).body.user.emailVerified, false);
     // Another browser follows the link; the first one's (cached) session must end with it.
     const confirming = h.browser();
@@ -169,22 +175,49 @@ describe('e-mail verification links', () => {
     assert.ok(unknownMs > verifyMs / 2, `4 unknown links took ${unknownMs.toFixed(0)} ms; 4 argon2id verifications take ${verifyMs.toFixed(0)} ms`);
   });
 
-  test('resend: signed-in and unconfirmed only, a fresh link each time, rate-limited', async () => {
-    await h.raw.post('/api/auth/verify/resend').send({}).expect(401);
-    const client = h.browser();
-    await client.post('/api/auth/sign-up').send(person(4)).expect(202);
+  test('resend is public and answers alike for an unconfirmed, a confirmed and an unknown address; only the unconfirmed one gets a fresh link', async () => {
+    await h.browser().post('/api/auth/sign-up').send(person(4)).expect(202);
     const first = verificationTokenFrom((await mailTo(h, person(4).email, CONFIRM)).textBody);
-    await client.post('/api/auth/sign-in').send({ email: person(4).email, password: person(4).password }).expect(200);
-    await client.post('/api/auth/verify/resend').send({}).expect(202);
-    const second = verificationTokenFrom((await mailTo(h, person(4).email, CONFIRM)).textBody);
+    const mailBefore = (await h.capturedMail()).length;
+    const ask = (email: string) => h.raw.post('/api/auth/verify/resend').send({ email });
+    const unconfirmed = await ask(person(4).email.toUpperCase()).expect(202);
+    const confirmed = await ask(person(1).email).expect(202);
+    const unknown = await ask('nobody-at-all@test.rungbook.example').expect(202);
+    assert.deepEqual(confirmed.body, unconfirmed.body);
+    assert.deepEqual(unknown.body, unconfirmed.body);
+    for (const reply of [confirmed, unknown]) assert.equal(reply.headers['set-cookie'], unconfirmed.headers['set-cookie']);
+    await h.rungbook.services.mailer.idle();
+    const sent = (await h.capturedMail()).slice(mailBefore);
+    assert.deepEqual(sent.map((m) => [m.recipients.toLowerCase().includes(person(4).email), m.subject]), [[true, CONFIRM]]);
+    const second = verificationTokenFrom(sent[0].textBody);
     assert.notEqual(second, first);
-    await client.post('/api/auth/verify/resend').send({}).expect(202);
-    // FORGOT_LIMIT_PER_IP=2 bounds resends per person per 15 minutes.
-    const limited = await client.post('/api/auth/verify/resend').send({}).expect(429);
+    // The fresh link confirms (and signs in) like the first one.
+    await h.browser().post('/api/auth/verify').send({ token: second, password: person(4).password }).expect(200);
+  });
+});
+
+describe('confirmation resends are rate-limited per network address and per address e-mailed', () => {
+  let h: Harness;
+  before(async () => {
+    h = await startHarness({ FORGOT_LIMIT_PER_IP: '2', TRUST_PROXY: 'true' });
+  });
+  after(() => h.close());
+  const ask = (email: string, from: string) => h.raw.post('/api/auth/verify/resend').set('X-Forwarded-For', from).send({ email });
+
+  test('FORGOT_LIMIT_PER_IP requests per source per 15 minutes, whatever the addresses', async () => {
+    // Documentation addresses (RFC 5737).
+    await ask('a@test.rungbook.example', '192.0.2.10').expect(202);
+    await ask('b@test.rungbook.example', '192.0.2.10').expect(202);
+    assert.equal((await ask('c@test.rungbook.example', '192.0.2.10').expect(429)).body.error.code, 'rate_limited');
+    await ask('c@test.rungbook.example', '192.0.2.11').expect(202);
+  });
+
+  test(`${CONFIRMATION_MAILS_PER_ADDRESS_PER_HOUR} requests per address e-mailed per hour, from any sources; malformed ones are not counted`, async () => {
+    for (let i = 0; i < 3; i += 1) await ask('not-an-address', `198.51.100.${i + 1}`).expect(400);
+    for (let i = 0; i < CONFIRMATION_MAILS_PER_ADDRESS_PER_HOUR; i += 1) await ask('target@test.rungbook.example', `198.51.100.${i + 10}`).expect(202);
+    const limited = await ask('TARGET@test.rungbook.example', '198.51.100.99').expect(429);
     assert.equal(limited.body.error.code, 'rate_limited');
-    const verifiedClient = h.browser();
-    await verifiedClient.post('/api/auth/sign-in').send({ email: person(1).email, password: person(1).password }).expect(200);
-    await verifiedClient.post('/api/auth/verify/resend').send({}).expect(409);
+    await ask('someone-else@test.rungbook.example', '198.51.100.99').expect(202);
   });
 });
 
@@ -285,6 +318,32 @@ describe('no account enumeration', () => {
   });
 });
 
+describe('sign-in to an unconfirmed account tells nothing', () => {
+  let h: Harness;
+  before(async () => {
+    h = await startHarness({ SIGNIN_LIMIT_PER_ACCOUNT: '1000', SIGNIN_LIMIT_PER_IP: '1000' });
+    await signUpVerified(h, 1);
+  });
+  after(() => h.close());
+
+  test('sign-up then sign-in with the chosen password: the reply of a wrong password, after a password check as long', async () => {
+    await h.browser().post('/api/auth/sign-up').send(person(2)).expect(202);
+    await h.rungbook.services.mailer.idle();
+    const unconfirmedTimes: number[] = [];
+    const wrongTimes: number[] = [];
+    for (let i = 0; i < 5; i += 1) {
+      const [unconfirmed, unconfirmedMs] = await timed(() => h.browser().post('/api/auth/sign-in').send({ email: person(2).email, password: person(2).password }).expect(401));
+      const [wrong, wrongMs] = await timed(() => h.browser().post('/api/auth/sign-in').send({ email: person(1).email, password: `not-the-password-${i}` }).expect(401));
+      assert.deepEqual(unconfirmed.body, wrong.body);
+      assert.equal(unconfirmed.headers['set-cookie'], wrong.headers['set-cookie']);
+      unconfirmedTimes.push(unconfirmedMs);
+      wrongTimes.push(wrongMs);
+    }
+    // Refused before the argon2id check, the unconfirmed account would answer in about a millisecond, against tens.
+    assert.ok(median(unconfirmedTimes) > median(wrongTimes) / 3, `medians: unconfirmed ${median(unconfirmedTimes).toFixed(1)} ms, wrong ${median(wrongTimes).toFixed(1)} ms`);
+  });
+});
+
 describe('a stranger cannot lock an account out', () => {
   let h: Harness;
   const owner = person(1);
@@ -379,8 +438,9 @@ describe('pre-registration takeover', () => {
     const attacker = { name: 'Invented Attacker', email: victim.email, password: 'attacker-knows-this-1' };
     await h.browser().post('/api/auth/sign-up').send(attacker).expect(202);
     const link = verificationTokenFrom((await mailTo(h, victim.email, CONFIRM)).textBody);
+    // The unconfirmed account does not let its creator in.
     const attackerBrowser = h.browser();
-    await attackerBrowser.post('/api/auth/sign-in').send({ email: victim.email, password: attacker.password }).expect(200);
+    await attackerBrowser.post('/api/auth/sign-in').send({ email: victim.email, password: attacker.password }).expect(401);
 
     // The victim signs up later, is told someone tried, and follows the earlier link with their own password.
     await h.browser().post('/api/auth/sign-up').send(victim).expect(202);
@@ -394,7 +454,6 @@ describe('pre-registration takeover', () => {
     await h.browser().post('/api/auth/forgot').send({ email: victim.email }).expect(202);
     const reset = resetTokenFrom((await mailTo(h, victim.email, RESET)).textBody);
     await h.browser().post('/api/auth/reset').send({ token: reset, password: 'victims-own-password' }).expect(200);
-    await attackerBrowser.get('/api/me').expect(401);
     await h.browser().post('/api/auth/sign-in').send({ email: victim.email, password: attacker.password }).expect(401);
     // The reset spent the earlier link too: the attacker's password opens nothing through it.
     assert.equal((await h.browser().post('/api/auth/verify').send({ token: link, password: attacker.password }).expect(400)).body.error.code, 'invalid_verification_token');
@@ -442,30 +501,84 @@ describe('sign-up does the same work before the reply for a new and a taken addr
 describe('a cap on failed sign-ins per account from all sources together', () => {
   let h: Harness;
   const owner = person(1);
+  const attempt = (client: ReturnType<Harness['browser']>, xff: string, password: string) =>
+    client.post('/api/auth/sign-in').set('X-Forwarded-For', xff).send({ email: owner.email, password });
   before(async () => {
     // Per-source limits out of the way, so only the cap across sources is at work.
     h = await startHarness({ TRUST_PROXY: 'true', SIGNIN_LIMIT_PER_ACCOUNT: '1000', SIGNIN_LIMIT_PER_IP: '1000' });
   });
   after(() => h.close());
 
-  test('100 failures an hour from many addresses close the account to unknown browsers; its known device still signs in', async () => {
+  test('past 100 failures an hour from many addresses, the owner still signs in from a new browser, slowly; wrong passwords are refused', async () => {
     const { client: device } = await signUpVerified(h, 1);
     // 100 failures per hour: the documented cap. Addresses from the RFC 2544 benchmarking range, one per attempt.
     for (let batch = 0; batch < 10; batch += 1) {
-      await Promise.all(
-        Array.from({ length: 10 }, (_, i) =>
-          h.browser().post('/api/auth/sign-in').set('X-Forwarded-For', `198.18.${batch}.${i + 1}`).send({ email: owner.email, password: 'not-the-password' }).expect(401),
-        ),
-      );
+      await Promise.all(Array.from({ length: 10 }, (_, i) => attempt(h.browser(), `198.18.${batch}.${i + 1}`, 'not-the-password').expect(401)));
     }
-    const capped = await h.browser().post('/api/auth/sign-in').set('X-Forwarded-For', '198.19.0.1').send({ email: owner.email, password: owner.password }).expect(429);
-    assert.equal(capped.body.error.code, 'rate_limited');
-    assert.match(capped.body.error.message, /device you used before/);
+    const [refused, refusedMs] = await timed(() => attempt(h.browser(), '198.19.0.1', 'not-the-password').expect(429));
+    assert.equal(refused.body.error.code, 'rate_limited');
+    assert.ok(refusedMs >= SIGN_IN_DELAY_AT_CAP_MS - 5, `refused after ${refusedMs.toFixed(0)} ms`);
+    // The owner, in a browser never used before, from a fresh address.
+    const newBrowser = h.browser();
+    const [signedIn, signedInMs] = await timed(() => attempt(newBrowser, '198.19.0.9', owner.password).expect(200));
+    assert.equal(signedIn.body.user.email, owner.email);
+    assert.ok(signedInMs >= SIGN_IN_DELAY_AT_CAP_MS - 5, `signed in after ${signedInMs.toFixed(0)} ms`);
+    assert.equal((await newBrowser.get('/api/me').expect(200)).body.user.email, owner.email);
     // Other accounts are not affected.
     await signUpVerified(h, 2);
     await h.browser().post('/api/auth/sign-in').set('X-Forwarded-For', '198.19.0.2').send({ email: person(2).email, password: person(2).password }).expect(200);
-    // The owner's known device is neither stopped nor counted by the cap.
-    await device.post('/api/auth/sign-in').set('X-Forwarded-For', '198.19.0.3').send({ email: owner.email, password: 'a-typo-of-the-owner' }).expect(401);
-    await device.post('/api/auth/sign-in').set('X-Forwarded-For', '198.19.0.3').send({ email: owner.email, password: owner.password }).expect(200);
+    // The owner's known device (the confirming browser) is neither refused nor counted by the cap.
+    await attempt(device, '198.19.0.3', 'a-typo-of-the-owner').expect(401);
+    await attempt(device, '198.19.0.3', owner.password).expect(200);
+  });
+});
+
+describe('known devices stay known across a restart', () => {
+  test('after stop and start on the same database, the owner’s device passes the address a stranger exhausted', async () => {
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'rungbook-restart-'));
+    const env = { DATABASE_PATH: path.join(dir, 'kept.sqlite'), TRUST_PROXY: 'true', SIGNIN_LIMIT_PER_ACCOUNT: '3', SIGNIN_LIMIT_PER_IP: '1000' };
+    const owner = person(1);
+    try {
+      const first = await startHarness(env);
+      let deviceCookie: string;
+      try {
+        await signUpVerified(first, 1);
+        const signedIn = await first.browser().post('/api/auth/sign-in').set('X-Forwarded-For', '192.0.2.77').send({ email: owner.email, password: owner.password }).expect(200);
+        deviceCookie = /rungbook_device=[^;]+/.exec(String(signedIn.headers['set-cookie']))![0];
+      } finally {
+        await first.close();
+      }
+      const second = await startHarness(env);
+      try {
+        // The browser keeps its cookie across the restart; the server it talks to is a new process.
+        const again = second.browser().set('Cookie', deviceCookie);
+        const fail = () => second.browser().post('/api/auth/sign-in').set('X-Forwarded-For', '192.0.2.77').send({ email: owner.email, password: 'not-the-password' });
+        for (let i = 0; i < 3; i += 1) await fail().expect(401);
+        await fail().expect(429);
+        await again.post('/api/auth/sign-in').set('X-Forwarded-For', '192.0.2.77').send({ email: owner.email, password: owner.password }).expect(200);
+        // The key is in the database, drawn once.
+        assert.equal(await second.rungbook.services.dataSource.getRepository(ServerSecret).count(), 1);
+      } finally {
+        await second.close();
+      }
+    } finally {
+      fs.rmSync(dir, { recursive: true, force: true });
+    }
+  });
+
+  test('two key loaders on one database agree: a cookie signed by one is recognised by the other', async () => {
+    const h = await startHarness();
+    try {
+      const { dataSource } = h.rungbook.services;
+      const [one, other] = [createKnownDevices(false, deviceKeyIn(dataSource)), createKnownDevices(false, deviceKeyIn(dataSource))];
+      const cookie = (await one.cookieFor('owner@test.rungbook.example')).split(';')[0];
+      const request = { headers: { cookie } } as Request;
+      assert.ok(await other.deviceFor(request, 'owner@test.rungbook.example'));
+      assert.equal(await other.deviceFor(request, 'someone-else@test.rungbook.example'), null);
+      // A loader with a key of its own (as before keys were kept) does not recognise it.
+      assert.equal(await createKnownDevices(false).deviceFor(request, 'owner@test.rungbook.example'), null);
+    } finally {
+      await h.close();
+    }
   });
 });

@@ -90,15 +90,20 @@ describe('sign-up, sign-in, sign-out, current user', () => {
     assert.equal(unknown.body.error.message, wrong.body.error.message, 'unknown account and wrong password look the same');
   });
 
-  test('unconfirmed people can sign in, see emailVerified: false and keep their own notebooks', async () => {
+  test('an unconfirmed account cannot sign in: sign-up then sign-in with the same password answers exactly like a wrong password', async () => {
+    // Without this, signing up an address and signing in with the chosen password would tell whether it was free.
     await h.browser().post('/api/auth/sign-up').send(person(7)).expect(202);
     await h.rungbook.services.mailer.idle();
+    const unconfirmed = await h.browser().post('/api/auth/sign-in').send({ email: person(7).email, password: person(7).password }).expect(401);
+    const wrong = await h.browser().post('/api/auth/sign-in').send({ email: person(1).email, password: 'not-the-password-7' }).expect(401);
+    assert.deepEqual(unconfirmed.body, wrong.body);
+    assert.equal(unconfirmed.headers['set-cookie'], undefined);
+    // The confirmation link with the password signs its owner in.
+    const link = verificationTokenFrom((await mailTo(h, person(7).email, 'Confirm your Rungbook e-mail address')).textBody);
     const client = h.browser();
-    const signIn = await client.post('/api/auth/sign-in').send({ email: person(7).email, password: person(7).password }).expect(200);
-    assert.equal(signIn.body.user.emailVerified, false);
-    assert.equal((await client.get('/api/me').expect(200)).body.user.emailVerified, false);
-    await client.post('/api/notebooks').send({ title: 'Invented unconfirmed notebook' }).expect(201);
-    assert.equal((await client.get('/api/notebooks').expect(200)).body.notebooks.length, 1);
+    await client.post('/api/auth/verify').send({ token: link, password: person(7).password }).expect(200);
+    assert.equal((await client.get('/api/me').expect(200)).body.user.emailVerified, true);
+    await h.browser().post('/api/auth/sign-in').send({ email: person(7).email, password: person(7).password }).expect(200);
   });
 
   test('repeated failures for one account from one source are rate-limited with 429, even from a fresh client', async () => {

@@ -29,6 +29,7 @@ function seedBody(spec: AnyRouteSpec): Record<string, unknown> {
     'POST /auth/forgot': { email: 'fuzz@test.rungbook.example' },
     'POST /auth/reset': { token: 'x'.repeat(43), password: 'long-enough-pass-fuzz' },
     'POST /auth/verify': { token: 'x'.repeat(43), password: 'long-enough-pass-fuzz' },
+    'POST /auth/verify/resend': { email: 'fuzz@test.rungbook.example' },
     'POST /groups': { name: 'Invented Fuzz Group', description: 'invented' },
     'POST /groups/:groupId/members': { email: 'fuzz@test.rungbook.example', role: 'member' },
     'PATCH /groups/:groupId/members/:userId': { role: 'member' },

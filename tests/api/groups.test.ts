@@ -2,6 +2,7 @@ import assert from 'node:assert/strict';
 import { after, before, describe, test } from 'node:test';
 import { User } from '../../server/db/entities';
 import { mailTo, ORIGIN, person, signUpVerified, startHarness, verificationTokenFrom, type Harness } from './harness';
+import { createPerson } from './people';
 
 describe('research groups and roles, enforced on the server', () => {
   let h: Harness;
@@ -59,16 +60,31 @@ describe('research groups and roles, enforced on the server', () => {
     await admin.patch(`/api/groups/${groupId}/members/${memberId}`).send({ role: 'member' }).expect(200);
   });
 
-  test('a site admin cannot put themself into a group, nor raise their own role in one (403)', async () => {
+  test('a site admin cannot add anyone to a group they do not lead: not themself, not a second account of their own (403)', async () => {
     const selfAdd = await admin.post(`/api/groups/${groupId}/members`).send({ email: person(4).email.toUpperCase(), role: 'lead' }).expect(403);
     assert.equal(selfAdd.body.error.code, 'forbidden');
-    assert.match(selfAdd.body.error.message, /site admin cannot add themself/);
+    assert.match(selfAdd.body.error.message, /Only a lead of this group can add people/);
+    // Person 3 stands for a second account the admin controls: verified, and not in the group.
+    const secondAccount = await admin.post(`/api/groups/${groupId}/members`).send({ email: person(3).email, role: 'member' }).expect(403);
+    assert.equal(secondAccount.body.error.code, 'forbidden');
     const detail = await lead.get(`/api/groups/${groupId}`).expect(200);
-    assert.ok(!detail.body.group.members.some((m: { email: string }) => m.email === person(4).email));
-    // Added by a lead as a plain member, the admin still cannot promote themself.
+    assert.deepEqual(
+      detail.body.group.members.map((m: { email: string }) => m.email).sort(),
+      [person(1).email, person(2).email].sort(),
+      'only the lead and the member the lead added',
+    );
+    // Added by a lead as a plain member, the admin still cannot promote themself, nor add anyone as a mere member.
     const adminId = (await lead.post(`/api/groups/${groupId}/members`).send({ email: person(4).email }).expect(201)).body.group.members.find((m: { email: string }) => m.email === person(4).email).userId;
     assert.equal((await admin.patch(`/api/groups/${groupId}/members/${adminId}`).send({ role: 'lead' }).expect(403)).body.error.code, 'forbidden');
+    assert.equal((await admin.post(`/api/groups/${groupId}/members`).send({ email: person(3).email }).expect(403)).body.error.code, 'forbidden');
     await admin.delete(`/api/groups/${groupId}/members/${adminId}`).expect(200);
+  });
+
+  test('a site admin removes a member of a group they do not belong to', async () => {
+    await lead.post(`/api/groups/${groupId}/members`).send({ email: person(3).email }).expect(201);
+    const outsiderId = (await lead.get(`/api/groups/${groupId}`).expect(200)).body.group.members.find((m: { email: string }) => m.email === person(3).email).userId;
+    const after = await admin.delete(`/api/groups/${groupId}/members/${outsiderId}`).expect(200);
+    assert.ok(!after.body.group.members.some((m: { email: string }) => m.email === person(3).email));
   });
 
   test('the last lead cannot be demoted or removed (409)', async () => {
@@ -106,8 +122,9 @@ describe('research groups and roles, enforced on the server', () => {
     const unknown = await lead.post(`/api/groups/${groupId}/members`).send({ email: 'nobody-here@test.rungbook.example' }).expect(403);
     assert.deepEqual(unverified.body, unknown.body, 'an unconfirmed account is indistinguishable from no account');
     assert.equal(unverified.body.error.code, 'email_not_verified');
-    await newcomer.post('/api/auth/sign-in').send({ email: person(5).email, password: person(5).password }).expect(200);
-    const ownGroup = await newcomer.post('/api/groups').send({ name: 'Invented Unconfirmed Group' }).expect(403);
+    // A session from before confirmations were required: its account still cannot start a group.
+    const stillUnconfirmed = await createPerson(h, { verified: false });
+    const ownGroup = await stillUnconfirmed.client.post('/api/groups').send({ name: 'Invented Unconfirmed Group' }).expect(403);
     assert.equal(ownGroup.body.error.code, 'email_not_verified');
     const link = await mailTo(h, person(5).email, 'Confirm your Rungbook e-mail address');
     await newcomer.post('/api/auth/verify').send({ token: verificationTokenFrom(link.textBody), password: person(5).password }).expect(200);

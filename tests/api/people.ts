@@ -1,5 +1,7 @@
 // Test identities created straight in the database (one argon2 hash each), then signed in through the
-// API like a browser: fast, and independent of how sign-up and address verification work.
+// API like a browser: fast, and independent of how sign-up and address verification work. An unconfirmed
+// account cannot sign in; it gets a session straight from the session service instead, standing for a
+// session opened before sign-in required a confirmed address.
 import { hashPassword } from '../../server/auth/passwords';
 import { GroupMembership, User } from '../../server/db/entities';
 import { newId } from '../../server/ids';
@@ -11,6 +13,7 @@ export interface TestPerson {
   id: string;
   email: string;
   password: string;
+  verified: boolean;
   client: Client;
 }
 
@@ -34,9 +37,22 @@ export async function createPerson(
     siteRole: options.siteAdmin ? 'admin' : 'member',
     emailVerifiedAt: options.verified === false ? null : new Date(),
   });
-  const client = h.browser();
-  if (options.signIn !== false) await client.post('/api/auth/sign-in').send({ email, password }).expect(200);
-  return { id, email, password, client };
+  const created: TestPerson = { id, email, password, verified: options.verified !== false, client: h.browser() };
+  if (options.signIn !== false) await signInAgain(h, created);
+  return created;
+}
+
+/** Sign the person in in their own client: through the API, or, for an unconfirmed account, with a session made directly. */
+export async function signInAgain(h: Harness, who: TestPerson): Promise<void> {
+  if (who.verified) await who.client.post('/api/auth/sign-in').send({ email: who.email, password: who.password }).expect(200);
+  else await giveSession(h, who.client, who.id);
+}
+
+/** Put a fresh session of this account into the client's cookie jar, as a reply's Set-Cookie would. */
+export async function giveSession(h: Harness, client: Client, userId: string): Promise<void> {
+  const setCookie = await h.rungbook.services.sessions.start(userId);
+  // supertest serves the app on 127.0.0.1; the session cookie has Path=/.
+  client.jar.setCookie(setCookie, '127.0.0.1', '/');
 }
 
 export async function joinGroup(h: Harness, groupId: string, userId: string, role: 'lead' | 'member'): Promise<void> {

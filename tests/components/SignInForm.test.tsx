@@ -2,7 +2,12 @@ import { fireEvent, screen, waitFor } from '@testing-library/react-native';
 import { SignInForm } from '../../components/auth/SignInForm';
 import { mockFetchOnce, renderWithQueryClient } from './testUtils';
 
-jest.mock('expo-router', () => ({ Link: ({ children }: { children: unknown }) => children }));
+// Links render as a View carrying their target, so a test can see where they lead.
+jest.mock('expo-router', () => {
+  const { createElement } = require('react');
+  const { View } = require('react-native');
+  return { Link: ({ children, href, testID }: { children: unknown; href: string; testID?: string }) => createElement(View, { testID, accessibilityHint: href }, children) };
+});
 
 beforeEach(() => {
   global.fetch = jest.fn();
@@ -40,5 +45,12 @@ describe('SignInForm', () => {
     fireEvent.changeText(screen.getByTestId('sign-in-password'), 'right-password');
     fireEvent.press(screen.getByTestId('sign-in-submit'));
     await waitFor(() => expect(onSignedIn).toHaveBeenCalledTimes(1));
+  });
+
+  it('offers a new confirmation e-mail to people whose account is not confirmed yet (they cannot sign in until it is)', () => {
+    renderWithQueryClient(<SignInForm onSignedIn={jest.fn()} />);
+    const link = screen.getByTestId('to-resend');
+    expect(link.props.accessibilityHint).toBe('/resend-confirmation');
+    expect(link).toHaveTextContent('Not confirmed yet? Resend the confirmation e-mail');
   });
 });

@@ -77,6 +77,16 @@ for (const viewport of viewports) {
       await page.getByTestId('sign-up-submit').click();
       await page.getByTestId('sign-up-sent').waitFor();
       assert.match(await page.getByTestId('sign-up-sent').innerText(), /sent a message to/);
+      // Not confirmed yet: signing in answers like a wrong password; the sign-in page offers a new link.
+      await signIn(page, person.email, person.password);
+      await page.getByTestId('sign-in-error').waitFor();
+      assert.match(await page.getByTestId('sign-in-error').innerText(), /E-mail or password is not correct/);
+      await page.getByTestId('to-resend').click();
+      await page.getByTestId('resend-email').fill(person.email);
+      await page.getByTestId('resend-submit').click();
+      await page.getByTestId('resend-sent').waitFor();
+      await shot('02b-resend-confirmation');
+      // Either link works: asking for a new one does not spend the first.
       const link = await linkFromMail(viewport, person.email, 'Confirm your Rungbook e-mail address');
       assert.match(link, /\/verify-email\?token=/);
       await page.goto(link);

@@ -7,8 +7,9 @@ import { Notebook } from './Notebook';
 import { NotebookVersion } from './NotebookVersion';
 import { PasswordResetToken } from './PasswordResetToken';
 import { ResearchGroup } from './ResearchGroup';
+import { ServerSecret } from './ServerSecret';
 import { Session } from './Session';
 import { User } from './User';
 
-export { CapturedMail, Cell, EmailVerificationToken, GroupMembership, JobRun, Notebook, NotebookVersion, PasswordResetToken, ResearchGroup, Session, User };
-export const entities = [User, Session, ResearchGroup, GroupMembership, PasswordResetToken, CapturedMail, Notebook, Cell, JobRun, NotebookVersion, EmailVerificationToken];
+export { CapturedMail, Cell, EmailVerificationToken, GroupMembership, JobRun, Notebook, NotebookVersion, PasswordResetToken, ResearchGroup, ServerSecret, Session, User };
+export const entities = [User, Session, ResearchGroup, GroupMembership, PasswordResetToken, CapturedMail, Notebook, Cell, JobRun, NotebookVersion, EmailVerificationToken, ServerSecret];

@@ -1,0 +1,14 @@
+import type { MigrationInterface, QueryRunner } from 'typeorm';
+
+/** Random values the server keeps across restarts, such as the key that signs known-device cookies. */
+export class ServerSecrets1764680000000 implements MigrationInterface {
+  name = 'ServerSecrets1764680000000';
+
+  async up(queryRunner: QueryRunner): Promise<void> {
+    await queryRunner.query(`CREATE TABLE "server_secrets" ("name" varchar(64) PRIMARY KEY NOT NULL, "value" varchar(200) NOT NULL)`);
+  }
+
+  async down(queryRunner: QueryRunner): Promise<void> {
+    await queryRunner.query(`DROP TABLE "server_secrets"`);
+  }
+}
