@@ -7,6 +7,7 @@ import { acceptedBodyEncodings, boundedBodyDepth, loopbackHostOnly, noStore, rej
 import { apiNotFound, errorHandler, sameOriginGuard, sessionLoader } from './http/middleware';
 import { authRequestLimiters, signInLimiters } from './http/rateLimits';
 import { mount, type AnyRouteSpec } from './http/route';
+import { versionSaveLimiter } from './http/versionSaveLimit';
 import { adminRoutes } from './routes/admin';
 import { authRoutes } from './routes/auth';
 import { groupRoutes } from './routes/groups';
@@ -47,6 +48,7 @@ function apiRouter(services: Services) {
   router.use(sessionLoader(services.sessions));
   router.post('/auth/verify/resend', authLimits.resendVerification);
   router.post('/groups/:groupId/members', authLimits.groupAdds);
+  router.post('/notebooks/:notebookId/versions', versionSaveLimiter(services.config.authLimits.versionSavesPerUserPerHour));
   mount(router, apiRouteTable(services));
   router.use(apiNotFound);
   return router;

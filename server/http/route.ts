@@ -15,6 +15,11 @@ export class FileReply {
   ) {}
 }
 
+/** A JSON reply already serialised (spliced from stored JSON text without parsing it). */
+export class RawJsonReply {
+  constructor(readonly json: string) {}
+}
+
 export interface RouteContext<Body, Params, Query = unknown> {
   body: Body;
   params: Params;
@@ -66,6 +71,8 @@ export function mount(router: Router, specs: AnyRouteSpec[]): void {
       if (cookies.length) res.append('Set-Cookie', cookies);
       if (result instanceof FileReply) {
         res.status(200).type(result.contentType).attachment(result.fileName).send(result.content);
+      } else if (result instanceof RawJsonReply) {
+        res.status(spec.status ?? 200).type('application/json').send(result.json);
       } else if (result === undefined) res.status(spec.status ?? 204).end();
       else res.status(spec.status ?? 200).json(result);
     });

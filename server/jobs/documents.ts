@@ -1,23 +1,40 @@
 import path from 'node:path';
 import { Piscina } from 'piscina';
 import type { CellComparison } from '../../shared/notebook/api';
-import type { NotebookDocument } from '../../shared/notebook/exports';
+import type { RestorableSnapshot } from './documentWorker';
 import { AppError } from '../http/errors';
 
-/** Document work off the request thread (exports, version comparisons): one small pool, separate from the engine's job queue. */
+export type { RestorableSnapshot } from './documentWorker';
+
+/**
+ * Document work off the request thread (exports, version comparisons, reading a version to restore): one
+ * small pool, separate from the engine's job queue. `person` is whoever asked: each may have only a few
+ * documents outstanding.
+ */
 export interface DocumentRenderer {
-  latex(document: NotebookDocument): Promise<string>;
-  compare(fromJson: string, toJson: string): Promise<CellComparison[]>;
+  /** The LaTeX file of a notebook document given as JSON text (see shared/notebook/exports.ts). */
+  latex(documentJson: string, person: string): Promise<string>;
+  compare(fromJson: string, toJson: string, person: string): Promise<CellComparison[]>;
+  /** A version snapshot's title, summary and cell inputs, without its outputs. */
+  restorable(snapshotJson: string, person: string): Promise<RestorableSnapshot>;
   close(): Promise<void>;
 }
-
-const RENDER_TIME_LIMIT_MS = 60_000;
 
 export interface DocumentPoolOptions {
   threads?: number;
   /** Documents waiting for a thread; more are refused with queue_full (429). */
   maxQueue?: number;
+  /** Documents one person may have waiting or in work at once; more are refused with queue_full (429). */
+  perPerson?: number;
+  /** Time a document may spend in a worker, counted from the moment a thread takes it. */
+  timeLimitMs?: number;
+  /** Time a document may wait for a thread. */
+  queueWaitLimitMs?: number;
 }
+
+export const DOCUMENT_POOL_DEFAULTS = { threads: 2, maxQueue: 16, perPerson: 2, timeLimitMs: 60_000, queueWaitLimitMs: 60_000 } as const;
+
+const BUSY = 'The server is busy preparing other exports; try again in a moment.';
 
 /** DOCUMENT_QUEUE_LIMIT: documents that may wait for a thread (default 16). */
 export function documentPoolOptionsFrom(env: Record<string, string | undefined> = process.env): DocumentPoolOptions {
@@ -25,9 +42,21 @@ export function documentPoolOptionsFrom(env: Record<string, string | undefined> 
   return Number.isInteger(limit) && limit >= 0 ? { maxQueue: limit } : {};
 }
 
+interface Waiting {
+  start(): void;
+  refuse(error: AppError): void;
+  timer: NodeJS.Timeout;
+}
+
+/** What a failed task tells the person who asked, by task. */
+const FAILURE: Record<string, string> = {
+  latex: 'This notebook could not be exported',
+  compareVersions: 'These versions could not be compared',
+  restorable: 'This version could not be read',
+};
+
 export function createDocumentRenderer(options: DocumentPoolOptions = documentPoolOptionsFrom()): DocumentRenderer {
-  const threads = options.threads ?? 2;
-  const maxQueue = options.maxQueue ?? 16;
+  const { threads, maxQueue, perPerson, timeLimitMs, queueWaitLimitMs } = { ...DOCUMENT_POOL_DEFAULTS, ...options };
   const pool = new Piscina({
     filename: path.join(__dirname, 'documentWorker.ts'),
     // One thread is started (and its modules loaded) at boot, so the first comparison does not pay for it.
@@ -35,21 +64,81 @@ export function createDocumentRenderer(options: DocumentPoolOptions = documentPo
     maxThreads: threads,
     idleTimeout: 30_000,
   });
-  // Counted here rather than with piscina's maxQueue: piscina keeps tasks that carry an abort signal
-  // (our time limit) in a separate queue that its maxQueue does not bound.
-  let outstanding = 0;
-  async function run<T>(task: unknown, name?: string): Promise<T> {
-    if (outstanding >= threads + maxQueue) throw new AppError('queue_full', 'The server is busy preparing other exports; try again in a moment.');
-    outstanding += 1;
-    try {
-      return (await pool.run(task, { name, signal: AbortSignal.timeout(RENDER_TIME_LIMIT_MS) })) as T;
-    } finally {
-      outstanding -= 1;
+  // The queue is kept here and piscina is given a task only when a thread is free, so the time limit
+  // (an abort signal, which piscina starts counting at submission) measures work, not waiting.
+  let working = 0;
+  const queue: Waiting[] = [];
+  const outstandingOf = new Map<string, number>();
+
+  function startNext() {
+    while (working < threads && queue.length) {
+      const next = queue.shift()!;
+      clearTimeout(next.timer);
+      working += 1;
+      next.start();
     }
   }
+
+  /** Resolves once a thread is reserved for the caller (counted in `working` from that moment). */
+  function reserveThread(): Promise<void> {
+    if (working < threads) {
+      working += 1;
+      return Promise.resolve();
+    }
+    if (queue.length >= maxQueue) return Promise.reject(new AppError('queue_full', BUSY));
+    return new Promise<void>((resolve, reject) => {
+      const entry: Waiting = {
+        start: resolve,
+        refuse: reject,
+        timer: setTimeout(() => {
+          queue.splice(queue.indexOf(entry), 1);
+          reject(new AppError('queue_full', BUSY));
+        }, queueWaitLimitMs),
+      };
+      queue.push(entry);
+    });
+  }
+
+  async function work<T>(task: unknown, name: string): Promise<T> {
+    const signal = AbortSignal.timeout(timeLimitMs);
+    try {
+      return (await pool.run(task, { name, signal })) as T;
+    } catch (error) {
+      if (signal.aborted) throw new AppError('queue_full', `This took longer than the ${Math.round(timeLimitMs / 1000)} s allowed for one document and was stopped; try again when the server is less busy, or make the notebook smaller.`);
+      const reason = error instanceof Error ? error.message : String(error);
+      throw new AppError('validation_failed', `${FAILURE[name] ?? 'This document could not be prepared'}: ${reason.slice(0, 300)}`);
+    }
+  }
+
+  async function run<T>(task: unknown, name: string, person: string): Promise<T> {
+    const mine = outstandingOf.get(person) ?? 0;
+    if (mine >= perPerson) throw new AppError('queue_full', `You already have ${mine} exports or comparisons in preparation; wait for them to finish.`);
+    outstandingOf.set(person, mine + 1);
+    try {
+      await reserveThread();
+      try {
+        return await work<T>(task, name);
+      } finally {
+        working -= 1;
+        startNext();
+      }
+    } finally {
+      const left = (outstandingOf.get(person) ?? 1) - 1;
+      if (left > 0) outstandingOf.set(person, left);
+      else outstandingOf.delete(person);
+    }
+  }
+
   return {
-    latex: (document) => run<string>(document),
-    compare: (fromJson, toJson) => run<CellComparison[]>({ fromJson, toJson }, 'compareVersions'),
-    close: () => pool.destroy(),
+    latex: (documentJson, person) => run<string>(documentJson, 'latex', person),
+    compare: (fromJson, toJson, person) => run<CellComparison[]>({ fromJson, toJson }, 'compareVersions', person),
+    restorable: (snapshotJson, person) => run<RestorableSnapshot>(snapshotJson, 'restorable', person),
+    async close() {
+      for (const waiting of queue.splice(0)) {
+        clearTimeout(waiting.timer);
+        waiting.refuse(new AppError('queue_full', BUSY));
+      }
+      await pool.destroy();
+    },
   };
 }

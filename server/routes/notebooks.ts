@@ -10,7 +10,7 @@ import {
   updateNotebookInput,
 } from '../../shared/notebook/api';
 import { notebookDocument } from '../../shared/notebook/exports';
-import { FileReply, route } from '../http/route';
+import { FileReply, RawJsonReply, route } from '../http/route';
 import type { Services } from '../services';
 
 const notebookParams = z.object({ notebookId: idParam });
@@ -64,24 +64,24 @@ export function notebookRoutes({ notebooks, versions, documents }: Services) {
 
     route({ method: 'get', path: '/notebooks/:notebookId/versions', access: 'signed-in', summary: 'Saved versions, newest first', params: notebookParams,
       handler: async ({ user, params }) => ({ versions: await versions.list(user!, params.notebookId) }) }),
-    route({ method: 'post', path: '/notebooks/:notebookId/versions', access: 'signed-in', summary: 'Save a version', params: notebookParams, body: saveVersionInput, status: 201,
+    route({ method: 'post', path: '/notebooks/:notebookId/versions', access: 'signed-in', summary: 'Save a version (409 when the notebook already keeps 200 versions saved by hand; 429 beyond 60 saves per person per hour)', params: notebookParams, body: saveVersionInput, status: 201,
       handler: async ({ user, params, body }) => ({ version: await versions.save(user!, params.notebookId, body.message) }) }),
     route({ method: 'get', path: '/notebooks/:notebookId/versions/compare', access: 'signed-in', summary: 'Compare two versions cell by cell (429 queue_full while the document pool is busy)', params: notebookParams, query: compareQuery,
       handler: async ({ user, params, query }) => ({ comparison: await versions.compare(user!, params.notebookId, query.from, query.to) }) }),
     route({ method: 'get', path: '/notebooks/:notebookId/versions/:versionId', access: 'signed-in', summary: 'One version, read-only', params: versionParams,
-      handler: async ({ user, params }) => ({ version: await versions.get(user!, params.notebookId, params.versionId) }) }),
-    route({ method: 'post', path: '/notebooks/:notebookId/versions/:versionId/restore', access: 'signed-in', summary: 'Restore a version (recorded as a new version)', params: versionParams,
+      handler: async ({ user, params }) => new RawJsonReply(await versions.getJson(user!, params.notebookId, params.versionId)) }),
+    route({ method: 'post', path: '/notebooks/:notebookId/versions/:versionId/restore', access: 'signed-in', summary: 'Restore a version (recorded as a new version; results beyond the notebook\'s result budget are left to run again)', params: versionParams,
       handler: async ({ user, params }) => ({ notebook: await versions.restore(user!, params.notebookId, params.versionId) }) }),
 
     route({ method: 'get', path: '/notebooks/:notebookId/export.json', access: 'signed-in', summary: 'The notebook as a Rungbook JSON file', params: notebookParams,
       handler: async ({ user, params }) => {
         const document = await versions.exportDocument(user!, params.notebookId);
-        return new FileReply('application/json', fileName(document.title, 'json'), JSON.stringify(document, null, 2));
+        return new FileReply('application/json', fileName(document.title, 'json'), document.json);
       } }),
     route({ method: 'get', path: '/notebooks/:notebookId/export.tex', access: 'signed-in', summary: 'The notebook as a LaTeX document (429 queue_full while the document pool is busy)', params: notebookParams,
       handler: async ({ user, params }) => {
         const document = await versions.exportDocument(user!, params.notebookId);
-        return new FileReply('application/x-tex', fileName(document.title, 'tex'), await documents.latex(document));
+        return new FileReply('application/x-tex', fileName(document.title, 'tex'), await documents.latex(document.json, user!.id));
       } }),
   ];
 }

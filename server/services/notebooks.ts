@@ -7,7 +7,7 @@ import type { SignedInUser } from '../auth/sessions';
 import { Cell, GroupMembership, JobRun, Notebook, ResearchGroup, User } from '../db/entities';
 import { AppError } from '../http/errors';
 import { newId } from '../ids';
-import { estimatedResultBytes, megabytes } from '../../shared/jobs/cost';
+import { estimatedResultBytes, jobCostProblem, megabytes } from '../../shared/jobs/cost';
 import { RESULT_LIMITS } from '../../shared/jobs/limits';
 import { WeightedLru } from './boundedCache';
 import { assertCellAccepted } from './cellChecks';
@@ -121,12 +121,13 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
   async function cellViews(notebookId: string): Promise<CellView[]> {
     const cached = settledViews.get(notebookId);
     if (cached) return cached;
-    const { views, weight } = await freshCellViews(notebookId);
-    if (views.every((view) => view.state !== 'running')) settledViews.set(notebookId, views, weight);
+    const { views, weight, inFlight } = await freshCellViews(notebookId);
+    // decided from the runs, not the cells' states: a run in flight can show as a broken reference
+    if (!inFlight) settledViews.set(notebookId, views, weight);
     return views;
   }
 
-  async function freshCellViews(notebookId: string): Promise<{ views: CellView[]; weight: number }> {
+  async function freshCellViews(notebookId: string): Promise<{ views: CellView[]; weight: number; inFlight: boolean }> {
     const rows = await orderedCells(notebookId);
     const runIds = rows.map((row) => row.lastRunId).filter((id): id is string => Boolean(id));
     const runRows = runIds.length ? await dataSource.getRepository(JobRun).createQueryBuilder('r').where('r.id IN (:...runIds)', { runIds }).getMany() : [];
@@ -155,7 +156,8 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
       lastRun: run ? runs.view(run, results.get(resultHolderId(run)) ?? null) : null,
       updatedAt: row.updatedAt.toISOString(),
     }));
-    return { views, weight };
+    const inFlight = runRows.some((run) => run.status === 'queued' || run.status === 'running');
+    return { views, weight, inFlight };
   }
 
   async function summaries(rows: Notebook[], viewer: SignedInUser): Promise<NotebookSummary[]> {
@@ -248,9 +250,16 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
    * within its budget (each cell counted, even where several show one cached result).
    */
   async function assertResultsFit(cell: CellToRun, job: Record<string, unknown>, notebook: NotebookAtRun): Promise<number> {
+    // a job over the cost limit is refused by the run service, with the inputs to reduce
+    if (jobCostProblem(job)) return 0;
     const expected = await runs.expectedResultBytes(job);
-    // a single result over its own limit is refused by the run service, with the inputs to reduce
-    if (expected > RESULT_LIMITS.maxResultBytes) return expected;
+    // a stored result kept from before the per-result limit would otherwise be served as a cache hit
+    if (expected > RESULT_LIMITS.maxResultBytes) {
+      throw new AppError(
+        'job_too_large',
+        `Cell "${cell.label}": its result takes ${megabytes(expected)}, over the limit of ${megabytes(RESULT_LIMITS.maxResultBytes)} per result; reduce the points, quantities or digits`,
+      );
+    }
     let total = expected;
     for (const [cellId, bytes] of notebook.resultBytes) if (cellId !== cell.id) total += bytes;
     if (total > RESULT_LIMITS.maxNotebookResultBytes) {

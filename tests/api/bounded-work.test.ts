@@ -216,3 +216,95 @@ describe('no request does unbounded work on the request thread', () => {
     assert.ok(slowestHealthMs < 200, `slowest health reply ${slowestHealthMs.toFixed(0)} ms`);
   });
 });
+
+/** supertest reads the reply as text without parsing it: the test shares the server's event loop. */
+const asText = ((res: NodeJS.ReadableStream, callback: (error: Error | null, body: string) => void) => {
+  let text = '';
+  res.setEncoding('utf8');
+  res.on('data', (chunk: string) => (text += chunk));
+  res.on('end', () => callback(null, text));
+}) as unknown as Parameters<supertest.Test['parse']>[0];
+
+describe('versions and exports of a notebook with large results are spliced, not parsed, on the request thread', () => {
+  let h: Awaited<ReturnType<typeof startListening>>;
+  let owner: ReturnType<Harness['browser']>;
+  let notebook: NotebookDetail;
+  const labels = ['a', 'b', 'c', 'd'];
+  const results = new Map<string, string>();
+
+  /** About 3.4 MB of many small values: a scan result's shape at 100 digits, 2500 points. */
+  const heavyResult = (seed: number) => {
+    const scan = bigScanResult(100);
+    return JSON.stringify({ ...scan, seed, points: [...scan.points, ...scan.points, ...scan.points.slice(0, 500)] });
+  };
+
+  before(async () => {
+    h = await startListening();
+    owner = h.browser();
+    const { user } = await signUpVerified(h, 1, owner);
+    notebook = (await owner.post('/api/notebooks').send({ title: 'Invented four large scans', summary: '' }).expect(201)).body.notebook;
+    await owner.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'setup', input: { kind: 'setup', model: { preset: 'on', N: 1 }, d: '3', loops: 2, digits: 30 } }).expect(201);
+    const { dataSource } = h.rungbook.services;
+    for (const [i, label] of labels.entries()) {
+      notebook = (await owner.post(`/api/notebooks/${notebook.id}/cells`).send({ label, input: { kind: 'scan', uses: 'setup', from: `1.5${i + 1}`, to: '1.95', points: 1000, quantities: [...SIX] } }).expect(201)).body.notebook;
+      const resultJson = heavyResult(i);
+      results.set(label, resultJson);
+      const run = { id: newId(), inputHash: newId(), engineVersion: 'test', jobJson: '{}', status: 'done' as const, progress: 1, cached: false, cellId: notebook.cells.find((c) => c.label === label)!.id, requestedBy: user.id, resultJson, durationMs: 1, startedAt: new Date(), finishedAt: new Date() };
+      await dataSource.getRepository(JobRun).insert(run);
+      await dataSource.getRepository(Cell).update({ id: run.cellId }, { lastRunId: run.id });
+    }
+    h.rungbook.services.notebooks.forget(notebook.id);
+  });
+  after(() => h.close());
+
+  /**
+   * The longest text JSON.parse read and JSON.stringify wrote while `request` ran. The server shares this
+   * process, so a parse or print of a result on the request thread shows up here; the reply is read as
+   * text (asText) so the client adds none.
+   */
+  async function longestJsonWork<T>(request: () => Promise<T>): Promise<{ reply: T; longest: number }> {
+    const { parse, stringify } = JSON;
+    let longest = 0;
+    JSON.parse = ((text: string, ...rest: unknown[]) => {
+      longest = Math.max(longest, String(text).length);
+      return (parse as (...args: unknown[]) => unknown)(text, ...rest);
+    }) as typeof JSON.parse;
+    JSON.stringify = ((...args: unknown[]) => {
+      const text = (stringify as (...a: unknown[]) => string | undefined)(...args);
+      longest = Math.max(longest, text?.length ?? 0);
+      return text;
+    }) as typeof JSON.stringify;
+    try {
+      return { reply: await request(), longest };
+    } finally {
+      JSON.parse = parse;
+      JSON.stringify = stringify;
+    }
+  }
+
+  test('saving and reading a version, and both exports, neither parse nor print a result on the request thread', async () => {
+    const total = [...results.values()].reduce((sum, json) => sum + json.length, 0);
+    assert.ok(total > 13_000_000 && total < 16_000_000, `${total} characters of results, within the notebook budget`);
+    // the notebook's title, a version's summary fields, one cell's input: all far below one result
+    const small = 10_000;
+    const saved = await longestJsonWork(() => owner.post(`/api/notebooks/${notebook.id}/versions`).send({ message: 'four scans' }).buffer(true).parse(asText));
+    assert.equal(saved.reply.status, 201);
+    assert.ok(saved.longest < small, `saving a version: ${saved.longest} characters of JSON handled`);
+    const version = JSON.parse(saved.reply.body as string).version as { id: string };
+
+    for (const [what, path] of [
+      ['reading the version', `/api/notebooks/${notebook.id}/versions/${version.id}`],
+      ['the JSON export', `/api/notebooks/${notebook.id}/export.json`],
+      ['the LaTeX export', `/api/notebooks/${notebook.id}/export.tex`],
+    ]) {
+      const { reply, longest } = await longestJsonWork(() => owner.get(path).buffer(true).parse(asText));
+      assert.equal(reply.status, 200, what);
+      assert.ok(longest < small, `${what}: ${longest} characters of JSON handled on the request thread`);
+      if (what === 'the LaTeX export') continue;
+      // the reply is valid JSON holding every result exactly as stored
+      const body = JSON.parse(reply.body as string) as { version?: { cells: { label: string; output: unknown }[] }; cells?: { label: string; output: unknown }[] };
+      const cells = body.version?.cells ?? body.cells!;
+      for (const label of labels) assert.equal(JSON.stringify(cells.find((c) => c.label === label)!.output), results.get(label), `${what}: ${label}`);
+    }
+  });
+});

@@ -9,7 +9,10 @@ import { migrations } from '../../server/db/migrations';
 import { newId } from '../../server/ids';
 import type { NotebookDetail, RunView } from '../../shared/notebook/api';
 import { cellInput } from '../../shared/notebook/cells';
+import { jobForCell, type SetupInput } from '../../shared/notebook/jobs';
+import { jobHash } from '../../server/services/runs';
 import { signUpVerified, startHarness, type Harness } from './harness';
+import { createPerson } from './people';
 
 type Client = ReturnType<Harness['browser']>;
 
@@ -122,6 +125,36 @@ describe('stored results: shared by cache hits, bounded per result and per noteb
     await owner.post(`/api/runs/${accepted.id}/cancel`).expect(200);
   });
 
+  test('a stored result over the per-result limit (kept from before the limit) is not served to a cell: 422', async () => {
+    const notebook = await notebookWith('Invented oversized old result', [setupCell, bubble('big')]);
+    const job = jobForCell(bubble('big').input as never, new Map([['setup', setupCell.input as SetupInput]]))!;
+    const now = new Date();
+    // 4.5 MB, over the 4 MB per result (RESULT_LIMITS.maxResultBytes)
+    await h.rungbook.services.dataSource.getRepository(JobRun).insert({ id: newId(), inputHash: jobHash(job), engineVersion: 'test', jobJson: JSON.stringify(job), status: 'done', progress: 1, cached: false, cellId: null, requestedBy: userId, resultJson: JSON.stringify({ coeffs: ['x'.repeat(4_500_000)] }), durationMs: 1, startedAt: now, finishedAt: now });
+    const refused = await owner.post(`/api/notebooks/${notebook.id}/cells/${cellId(notebook, 'big')}/run`).expect(422);
+    assert.equal(refused.body.error.code, 'job_too_large');
+    assert.match(refused.body.error.message, /^Cell "big": its result takes 4\.5 MB, over the limit of 4(\.0)? MB per result/);
+  });
+
+  test('a notebook with a run in flight is not cached as settled, even when the run shows as a broken reference', async () => {
+    const notebook = await notebookWith('Invented orphaned run', [setupCell, { label: 'fp', input: { kind: 'fixedpoints', uses: 'setup' } }]);
+    const { dataSource } = h.rungbook.services;
+    const runId = newId();
+    const now = new Date();
+    // a run still going, written directly (the engine is not what is tested here)
+    await dataSource.getRepository(JobRun).insert({ id: runId, inputHash: newId(), engineVersion: 'test', jobJson: '{}', status: 'running', progress: 0.5, cached: false, cellId: cellId(notebook, 'fp'), requestedBy: userId, durationMs: null, startedAt: now, finishedAt: null });
+    await dataSource.getRepository(Cell).update({ id: cellId(notebook, 'fp') }, { lastRunId: runId });
+    h.rungbook.services.notebooks.forget(notebook.id);
+    const withoutSetup = (await owner.delete(`/api/notebooks/${notebook.id}/cells/${cellId(notebook, 'setup')}`).expect(200)).body.notebook as NotebookDetail;
+    const orphan = withoutSetup.cells.find((c) => c.label === 'fp')!;
+    assert.equal(orphan.lastRun?.status, 'running');
+    assert.notEqual(orphan.state, 'running', 'its state comes from the missing reference');
+    // the run finishes (written directly, so no cache is told): the next read must see it
+    await dataSource.getRepository(JobRun).update({ id: runId }, { status: 'done', progress: 1, resultJson: '{"fixedPoints":[]}', finishedAt: new Date() });
+    const reread = (await owner.get(`/api/notebooks/${notebook.id}`).expect(200)).body.notebook as NotebookDetail;
+    assert.equal(reread.cells.find((c) => c.label === 'fp')!.lastRun?.status, 'done');
+  });
+
   test('run-all reads and parses the notebook once, not once per cell', async () => {
     const cells = [setupCell, ...Array.from({ length: 20 }, (_, i) => ({ label: `fp${i}`, input: { kind: 'fixedpoints', uses: 'setup' } }))];
     const notebook = await notebookWith('Invented many dependents', cells);
@@ -146,7 +179,6 @@ describe('stored results: shared by cache hits, bounded per result and per noteb
 
 describe('document pool: a full queue answers 429', () => {
   let h: Harness;
-  let owner: Client;
 
   before(async () => {
     // no waiting room: a document that finds no free thread is refused at once
@@ -156,17 +188,22 @@ describe('document pool: a full queue answers 429', () => {
     } finally {
       delete process.env.DOCUMENT_QUEUE_LIMIT;
     }
-    owner = h.browser();
-    await signUpVerified(h, 1, owner);
   });
   after(() => h.close());
 
+  const formula = '$\\frac{\\Gamma(a)}{\\Gamma(b)} + x_{1}^{2}$ ';
+  const text = formula.repeat(Math.floor(20_000 / formula.length));
+  const formulaNotebook = async (client: Client) => {
+    const notebook = (await client.post('/api/notebooks').send({ title: 'Invented formula-heavy notebook', summary: '' }).expect(201)).body.notebook as NotebookDetail;
+    for (let i = 0; i < 40; i += 1) await client.post(`/api/notebooks/${notebook.id}/cells`).send({ label: `n${i}`, input: { kind: 'note', text } }).expect(201);
+    return notebook;
+  };
+
   test('LaTeX exports beyond the pool\'s threads and queue get queue_full (429); the server still answers', async () => {
-    const formula = '$\\frac{\\Gamma(a)}{\\Gamma(b)} + x_{1}^{2}$ ';
-    const text = formula.repeat(Math.floor(20_000 / formula.length));
-    const notebook = (await owner.post('/api/notebooks').send({ title: 'Invented formula-heavy notebook', summary: '' }).expect(201)).body.notebook as NotebookDetail;
-    for (let i = 0; i < 40; i += 1) await owner.post(`/api/notebooks/${notebook.id}/cells`).send({ label: `n${i}`, input: { kind: 'note', text } }).expect(201);
-    const replies = await Promise.all(Array.from({ length: 8 }, () => owner.get(`/api/notebooks/${notebook.id}/export.tex`)));
+    // three people, two exports each: within each person's limit of two, beyond the pool's two threads
+    const people = await Promise.all([1, 2, 3].map(() => createPerson(h)));
+    const notebooks = await Promise.all(people.map((p) => formulaNotebook(p.client)));
+    const replies = await Promise.all(people.flatMap((p, i) => [0, 1].map(() => p.client.get(`/api/notebooks/${notebooks[i].id}/export.tex`))));
     const statuses = replies.map((r) => r.status);
     assert.ok(statuses.every((s) => s === 200 || s === 429), statuses.join(','));
     const busy = replies.filter((r) => r.status === 429);
@@ -174,7 +211,16 @@ describe('document pool: a full queue answers 429', () => {
     assert.ok(statuses.includes(200), `some served: ${statuses.join(',')}`);
     assert.deepEqual(busy[0].body.error, { code: 'queue_full', message: 'The server is busy preparing other exports; try again in a moment.' });
     await h.raw.get('/api/health').expect(200);
-    await owner.get(`/api/notebooks/${notebook.id}/export.tex`).expect(200);
+    await people[0].client.get(`/api/notebooks/${notebooks[0].id}/export.tex`).expect(200);
+  });
+
+  test('one person gets at most two exports in preparation at once; the rest 429 with the reason', async () => {
+    const person = await createPerson(h);
+    const notebook = await formulaNotebook(person.client);
+    const replies = await Promise.all(Array.from({ length: 4 }, () => person.client.get(`/api/notebooks/${notebook.id}/export.tex`)));
+    const mine = replies.filter((r) => r.status === 429 && /You already have 2 exports or comparisons in preparation/.test(r.body.error.message));
+    assert.ok(mine.length >= 1, replies.map((r) => r.status).join(','));
+    assert.equal(mine[0].body.error.code, 'queue_full');
   });
 });
 

@@ -1,8 +1,16 @@
 import assert from 'node:assert/strict';
 import { after, before, describe, test } from 'node:test';
 import type { CellView, NotebookDetail, RunView, VersionComparison } from '../../shared/notebook/api';
-import { JobRun } from '../../server/db/entities';
+import { JobRun, NotebookVersion } from '../../server/db/entities';
+import { newId } from '../../server/ids';
+import { jobHash } from '../../server/services/runs';
+import { MAX_VERSIONS_PER_NOTEBOOK } from '../../server/services/versions';
+// The documented default of VERSION_SAVE_LIMIT_PER_USER (README configuration table).
+const VERSION_SAVES_PER_USER_PER_HOUR = 60;
+import { RESULT_LIMITS } from '../../shared/jobs/limits';
+import { jobForCell, type SetupInput } from '../../shared/notebook/jobs';
 import { signUpVerified, startHarness, type Harness } from './harness';
+import { createPerson } from './people';
 
 type Client = ReturnType<Harness['browser']>;
 
@@ -84,6 +92,103 @@ describe('restoring a version keeps the results whose inputs are unchanged', () 
     assert.equal(bubble.outputValues.sizeBefore, bubble.outputValues.sizeAfter);
     assert.ok(!bubble.output.some((p) => p.added || p.removed));
     assert.equal(comparison.cells.find((c) => c.label === 'setup')?.change, 'unchanged');
+  });
+});
+
+const SIX = ['nuInv', 'nu', 'eta', 'gamma', 'omega', 'Delta_phi2'];
+const scanInput = { kind: 'scan', uses: 'setup', from: '1.55', to: '1.95', points: 1000, quantities: SIX };
+
+describe('restore keeps the notebook within its result budget; versions are bounded', () => {
+  let h: Harness;
+  before(async () => {
+    h = await startHarness();
+  });
+  after(() => h.close());
+
+  const newNotebook = async (client: Client, title: string, cells: { label: string; input: unknown }[]) => {
+    let notebook = (await client.post('/api/notebooks').send({ title, summary: '' }).expect(201)).body.notebook as NotebookDetail;
+    for (const cell of cells) notebook = (await client.post(`/api/notebooks/${notebook.id}/cells`).send(cell).expect(201)).body.notebook;
+    return notebook;
+  };
+
+  test('restoring many cells that share one large result brings back only as many as the notebook budget holds', async () => {
+    const owner = await createPerson(h);
+    const labels = ['s1', 's2', 's3', 's4', 's5', 's6'];
+    const notebook = await newNotebook(owner.client, 'Invented six equal scans', [setupCell, ...labels.map((label) => ({ label, input: scanInput }))]);
+    // one computed result of 3.5 MB for the scans' job, written directly (the engine is not what is tested here)
+    const job = jobForCell(scanInput as never, new Map([['setup', setupCell.input as SetupInput]]))!;
+    const resultJson = JSON.stringify({ points: 'x'.repeat(3_500_000) });
+    const now = new Date();
+    await h.rungbook.services.dataSource.getRepository(JobRun).insert({ id: newId(), inputHash: jobHash(job), engineVersion: 'test', jobJson: JSON.stringify(job), status: 'done', progress: 1, cached: false, cellId: null, requestedBy: owner.id, resultJson, durationMs: 1, startedAt: now, finishedAt: now });
+    const saved = (await owner.client.post(`/api/notebooks/${notebook.id}/versions`).send({ message: 'six scans' }).expect(201)).body.version;
+
+    const restored = (await owner.client.post(`/api/notebooks/${notebook.id}/versions/${saved.id}/restore`).expect(200)).body.notebook as NotebookDetail;
+    // 16 MB / 3.5 MB: four results fit (14 MB), a fifth would make 17.5 MB
+    const fitting = Math.floor(RESULT_LIMITS.maxNotebookResultBytes / resultJson.length);
+    assert.equal(fitting, 4);
+    const states = labels.map((label) => restored.cells.find((c) => c.label === label)!.state);
+    assert.deepEqual(states, [...Array(fitting).fill('up-to-date'), ...Array(labels.length - fitting).fill('never-run')]);
+    const reply = await owner.client.get(`/api/notebooks/${notebook.id}`).expect(200);
+    assert.ok(reply.text.length <= RESULT_LIMITS.maxNotebookResultBytes + 100_000, `notebook reply of ${reply.text.length} characters`);
+    const [newest] = (await owner.client.get(`/api/notebooks/${notebook.id}/versions`).expect(200)).body.versions as { message: string; automatic: boolean }[];
+    assert.equal(newest.automatic, true);
+    assert.equal(newest.message, `Restored version ${saved.number}: six scans (2 cells left to run again, over the notebook's 16 MB of results: s5, s6)`);
+  });
+
+  test('a version reads back as saved: summary fields, title, summary and cells', async () => {
+    const owner = await createPerson(h);
+    const notebook = await newNotebook(owner.client, 'Invented "quoted" title', [setupCell, { label: 'note', input: { kind: 'note', text: 'Ünïcode \\ and "quotes"' } }]);
+    const saved = (await owner.client.post(`/api/notebooks/${notebook.id}/versions`).send({ message: 'as it is' }).expect(201)).body.version;
+    const reply = await owner.client.get(`/api/notebooks/${notebook.id}/versions/${saved.id}`).expect(200).expect('Content-Type', /application\/json/);
+    assert.deepEqual(reply.body.version, {
+      ...saved,
+      title: 'Invented "quoted" title',
+      summary: '',
+      cells: notebook.cells.map((c) => ({ label: c.label, kind: c.kind, input: c.input, output: null })),
+    });
+  });
+
+  test(`a notebook keeps at most ${MAX_VERSIONS_PER_NOTEBOOK} versions: the oldest automatic ones make room; saves by hand beyond that are refused`, async () => {
+    const owner = await createPerson(h);
+    const notebook = await newNotebook(owner.client, 'Invented many versions', [setupCell, { label: 'note', input: { kind: 'note', text: 'x' } }]);
+    const repo = h.rungbook.services.dataSource.getRepository(NotebookVersion);
+    // written directly: numbers 1..200, the first three automatic
+    for (let number = 1; number <= MAX_VERSIONS_PER_NOTEBOOK; number += 1) {
+      await repo.insert({ id: newId(), notebookId: notebook.id, number, message: `v${number}`, automatic: number <= 3, authorId: owner.id, authorName: 'Invented', snapshotJson: '{"title":"t","summary":"","cells":[]}' });
+    }
+    await owner.client.post(`/api/notebooks/${notebook.id}/versions`).send({ message: 'by hand' }).expect(201);
+    const numbers = async () => (await repo.find({ select: { number: true }, where: { notebookId: notebook.id }, order: { number: 'ASC' } })).map((v) => v.number);
+    let kept = await numbers();
+    assert.equal(kept.length, MAX_VERSIONS_PER_NOTEBOOK);
+    assert.deepEqual(kept.slice(0, 2), [2, 3], 'the oldest automatic version (1) made room');
+    assert.equal(kept.at(-1), MAX_VERSIONS_PER_NOTEBOOK + 1);
+
+    // only versions saved by hand left: a save by hand is refused, nothing is deleted
+    await repo.delete({ notebookId: notebook.id, automatic: true });
+    await repo.insert({ id: newId(), notebookId: notebook.id, number: 500, message: 'filler', automatic: false, authorId: owner.id, authorName: 'Invented', snapshotJson: '{"title":"t","summary":"","cells":[]}' });
+    await repo.insert({ id: newId(), notebookId: notebook.id, number: 501, message: 'filler', automatic: false, authorId: owner.id, authorName: 'Invented', snapshotJson: '{"title":"t","summary":"","cells":[]}' });
+    kept = await numbers();
+    assert.equal(kept.length, MAX_VERSIONS_PER_NOTEBOOK);
+    const refused = await owner.client.post(`/api/notebooks/${notebook.id}/versions`).send({ message: 'one more' }).expect(409);
+    assert.equal(refused.body.error.code, 'conflict');
+    assert.match(refused.body.error.message, /at most 200 versions/);
+    assert.deepEqual(await numbers(), kept);
+    // an automatic version (before deleting a cell) is still written, and is the first to go
+    await owner.client.delete(`/api/notebooks/${notebook.id}/cells/${notebook.cells.find((c) => c.label === 'note')!.id}`).expect(200);
+    assert.equal((await numbers()).length, MAX_VERSIONS_PER_NOTEBOOK + 1);
+    await owner.client.delete(`/api/notebooks/${notebook.id}/cells/${notebook.cells.find((c) => c.label === 'setup')!.id}`).expect(200);
+    assert.equal((await numbers()).length, MAX_VERSIONS_PER_NOTEBOOK + 1, 'the earlier automatic version made room');
+  });
+
+  test(`one person saves at most ${VERSION_SAVES_PER_USER_PER_HOUR} versions per hour; someone else is not held back`, async () => {
+    const owner = await createPerson(h);
+    const other = await createPerson(h);
+    const mine = await newNotebook(owner.client, 'Invented busy saver', []);
+    const theirs = await newNotebook(other.client, 'Invented calm saver', []);
+    for (let i = 0; i < VERSION_SAVES_PER_USER_PER_HOUR; i += 1) await owner.client.post(`/api/notebooks/${mine.id}/versions`).send({ message: `save ${i}` }).expect(201);
+    const limited = await owner.client.post(`/api/notebooks/${mine.id}/versions`).send({ message: 'one too many' }).expect(429);
+    assert.equal(limited.body.error.code, 'rate_limited');
+    await other.client.post(`/api/notebooks/${theirs.id}/versions`).send({ message: 'mine' }).expect(201);
   });
 });
 
