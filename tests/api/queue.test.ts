@@ -1,16 +1,13 @@
 import assert from 'node:assert/strict';
 import { after, before, describe, test } from 'node:test';
 import type { NotebookDetail, RunAllReply, RunView } from '../../shared/notebook/api';
-import { person, startHarness, type Harness } from './harness';
+import { startHarness, type Harness } from './harness';
+import { createPerson } from './people';
 
 type Client = ReturnType<Harness['browser']>;
 
 async function signedIn(h: Harness, n: number): Promise<Client> {
-  const client = h.browser();
-  await client.post('/api/auth/sign-up').send(person(n)).expect((reply) => assert.ok(reply.status < 300, JSON.stringify(reply.body)));
-  await h.rungbook.services.mailer.idle(); // sign-up writes the account after its reply
-  await client.post('/api/auth/sign-in').send({ email: person(n).email, password: person(n).password }).expect(200);
-  return client;
+  return (await createPerson(h, { tag: `queue${n}` })).client;
 }
 
 const isOpen = (run: RunView) => run.status === 'queued' || run.status === 'running';
