@@ -60,7 +60,7 @@ function bodies(seed: Record<string, unknown>): fc.Arbitrary<unknown> {
   const replaced = keys.length
     ? fc.tuple(fc.constantFrom(...keys), anyJson).map(([key, value]) => ({ ...seed, [key]: value }))
     : fc.constant(seed);
-  const extra = fc.tuple(hostileKey, anyJson).map(([key, value]) => JSON.parse(JSON.stringify({ ...seed }).replace(/^\{/, `{${JSON.stringify(key)}:${JSON.stringify(value)}${keys.length ? ',' : ''}`)));
+  const extra = fc.tuple(hostileKey, anyJson).map(([key, value]) => JSON.parse(JSON.stringify({ ...seed }).replace(/^\{/, () => `{${JSON.stringify(key)}:${JSON.stringify(value)}${keys.length ? ',' : ''}`)));
   const dropped = keys.length ? fc.constantFrom(...keys).map((key) => Object.fromEntries(Object.entries(seed).filter(([k]) => k !== key))) : fc.constant({});
   return fc.oneof(replaced, extra, dropped, anyJson, fc.dictionary(hostileKey, anyJson, { maxKeys: 4 }));
 }
