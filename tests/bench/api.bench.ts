@@ -35,7 +35,7 @@ function cellInputFor(index: number): CellInput {
 async function seed(databasePath: string): Promise<string[]> {
   const dataSource = await openDatabase(databasePath);
   const userId = newId();
-  await dataSource.getRepository(User).insert({ id: userId, name: 'Bench Person (invented)', email: PERSON.email, emailKey: PERSON.email, passwordHash: await hashPassword(PERSON.password), siteRole: 'member' });
+  await dataSource.getRepository(User).insert({ id: userId, name: 'Bench Person (invented)', email: PERSON.email, emailKey: PERSON.email, passwordHash: await hashPassword(PERSON.password), siteRole: 'member', emailVerifiedAt: new Date() });
   const ids: string[] = [];
   await dataSource.transaction(async (manager) => {
     for (let n = 0; n < NOTEBOOKS; n += 1) {
