@@ -4,26 +4,15 @@
 // Prints figures; exits non-zero on any lost write or integrity problem.
 import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import Database from 'better-sqlite3';
+import { freePort } from './freePort';
 
 const ROOT = path.resolve(__dirname, '..');
 const ROUNDS = Number(process.env.DURABILITY_ROUNDS ?? 5);
 const WRITERS = Number(process.env.DURABILITY_WRITERS ?? 4);
 const DEMO_LEAD = { email: 'lead@demo.rungbook.example', password: 'demo-lead-pass' };
-
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const probe = net.createServer();
-    probe.once('error', reject);
-    probe.listen(0, '127.0.0.1', () => {
-      const { port } = probe.address() as net.AddressInfo;
-      probe.close(() => resolve(port));
-    });
-  });
-}
 
 async function startServer(port: number, databasePath: string, webRoot: string): Promise<{ child: ChildProcess; startMs: number }> {
   const started = Date.now();

@@ -2,17 +2,9 @@ import assert from 'node:assert/strict';
 import { after, before, describe, test } from 'node:test';
 import type { NotebookDetail, RunView } from '../../shared/notebook/api';
 import { signUpVerified, startHarness, type Harness } from './harness';
+import { settleRun as settle } from './people';
 
 type Client = ReturnType<Harness['browser']>;
-
-async function settle(client: Client, run: RunView): Promise<RunView> {
-  let current = run;
-  for (let i = 0; i < 200 && (current.status === 'queued' || current.status === 'running'); i += 1) {
-    await new Promise((resolve) => setTimeout(resolve, 50));
-    current = (await client.get(`/api/runs/${run.id}`).expect(200)).body.run;
-  }
-  return current;
-}
 
 const setupCell = { label: 'setup', input: { kind: 'setup', model: { preset: 'on', N: 1 }, d: '3', s: '1.5', loops: 2, digits: 30 } };
 const bubbleCell = { label: 'bubble', input: { kind: 'integral', uses: 'setup', form: 'bubble', a: 's/2', b: 's/2', d: '2*s-eps', order: 1 } };

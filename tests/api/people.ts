@@ -5,6 +5,7 @@
 import { hashPassword } from '../../server/auth/passwords';
 import { GroupMembership, User } from '../../server/db/entities';
 import { newId } from '../../server/ids';
+import type { RunView } from '../../shared/notebook/api';
 import type { Harness } from './harness';
 
 export type Client = ReturnType<Harness['browser']>;
@@ -57,4 +58,14 @@ export async function giveSession(h: Harness, client: Client, userId: string): P
 
 export async function joinGroup(h: Harness, groupId: string, userId: string, role: 'lead' | 'member'): Promise<void> {
   await h.rungbook.services.dataSource.getRepository(GroupMembership).insert({ groupId, userId, role });
+}
+
+/** Poll a run until it is neither queued nor running (at most about 20 s). */
+export async function settleRun(client: Client, run: RunView): Promise<RunView> {
+  let current = run;
+  for (let i = 0; i < 400 && (current.status === 'queued' || current.status === 'running'); i += 1) {
+    await new Promise((resolve) => setTimeout(resolve, 50));
+    current = (await client.get(`/api/runs/${run.id}`).expect(200)).body.run;
+  }
+  return current;
 }

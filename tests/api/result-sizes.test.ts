@@ -12,18 +12,9 @@ import { cellInput } from '../../shared/notebook/cells';
 import { jobForCell, type SetupInput } from '../../shared/notebook/jobs';
 import { jobHash } from '../../server/services/runs';
 import { signUpVerified, startHarness, type Harness } from './harness';
-import { createPerson } from './people';
+import { createPerson, settleRun as settle } from './people';
 
 type Client = ReturnType<Harness['browser']>;
-
-async function settle(client: Client, run: RunView): Promise<RunView> {
-  let current = run;
-  for (let i = 0; i < 400 && (current.status === 'queued' || current.status === 'running'); i += 1) {
-    await new Promise((resolve) => setTimeout(resolve, 50));
-    current = (await client.get(`/api/runs/${run.id}`).expect(200)).body.run;
-  }
-  return current;
-}
 
 const SIX = ['nuInv', 'nu', 'eta', 'gamma', 'omega', 'Delta_phi2'];
 const ALL_TWELVE = ['nuInv', 'omega', 'eta', 'Delta_phi', 'Delta_phi2', 'Delta_phi3', 'Delta_phi4', 'nu', 'gamma', 'alpha', 'beta', 'delta'];

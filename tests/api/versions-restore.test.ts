@@ -10,18 +10,9 @@ const VERSION_SAVES_PER_USER_PER_HOUR = 60;
 import { RESULT_LIMITS } from '../../shared/jobs/limits';
 import { jobForCell, type SetupInput } from '../../shared/notebook/jobs';
 import { signUpVerified, startHarness, type Harness } from './harness';
-import { createPerson } from './people';
+import { createPerson, settleRun as settle } from './people';
 
 type Client = ReturnType<Harness['browser']>;
-
-async function settle(client: Client, run: RunView): Promise<RunView> {
-  let current = run;
-  for (let i = 0; i < 400 && (current.status === 'queued' || current.status === 'running'); i += 1) {
-    await new Promise((resolve) => setTimeout(resolve, 50));
-    current = (await client.get(`/api/runs/${run.id}`).expect(200)).body.run;
-  }
-  return current;
-}
 
 const setupCell = { label: 'setup', input: { kind: 'setup', model: { preset: 'on', N: 1 }, d: '3', s: '1.5', loops: 2, digits: 30 } };
 const bubbleInput = { kind: 'integral', uses: 'setup', form: 'bubble', a: 's/2', b: 's/2', d: '2*s-eps', order: 1 };

@@ -4,7 +4,6 @@
 import 'reflect-metadata';
 import { spawn } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import autocannon from 'autocannon';
@@ -13,6 +12,7 @@ import { openDatabase } from '../../server/db/data-source';
 import { Cell, Notebook, User } from '../../server/db/entities';
 import { newId } from '../../server/ids';
 import type { CellInput } from '../../shared/notebook/cells';
+import { freePort } from '../../scripts/freePort';
 
 const ROOT = path.resolve(__dirname, '..', '..');
 const argument = (name: string, fallback: number) => {
@@ -52,14 +52,6 @@ async function seed(databasePath: string): Promise<string[]> {
   await dataSource.destroy();
   return ids;
 }
-
-const freePort = () =>
-  new Promise<number>((resolve) => {
-    const probe = net.createServer().listen(0, '127.0.0.1', () => {
-      const { port } = probe.address() as net.AddressInfo;
-      probe.close(() => resolve(port));
-    });
-  });
 
 async function main() {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'rungbook-bench-'));

@@ -2,9 +2,9 @@
 // fresh database with its mail capture, runs the browser flows against it, then stops it gracefully.
 import { execFileSync, spawn, spawnSync } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
+import { freePort } from '../../scripts/freePort';
 
 const ROOT = path.resolve(__dirname, '..', '..');
 const CHROMIUM = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
@@ -35,17 +35,6 @@ function ensureWebExport() {
   const started = Date.now();
   execFileSync('npm', ['run', '--silent', 'build:web'], { cwd: ROOT, stdio: 'inherit' });
   console.log(`e2e: web export took ${((Date.now() - started) / 1000).toFixed(1)} s`);
-}
-
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const probe = net.createServer();
-    probe.once('error', reject);
-    probe.listen(0, '127.0.0.1', () => {
-      const { port } = probe.address() as net.AddressInfo;
-      probe.close(() => resolve(port));
-    });
-  });
 }
 
 async function waitForHealth(url: string, server: ReturnType<typeof spawn>) {
