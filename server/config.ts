@@ -28,6 +28,8 @@ export interface ServerConfig {
   /** Production demo seed only: the password every demo person gets (unset = random, unknown to anyone). */
   demoPassword?: string;
   jobs: JobQueueConfig;
+  /** LaTeX exports and version comparisons that may wait for a document thread; more are refused (429). */
+  documentQueueLimit: number;
   bodyLimit: string;
 }
 
@@ -131,6 +133,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
       perUserRunning: Math.max(1, intFrom(env.JOB_RUNNING_PER_USER, threads)),
       queueWaitLimitMs: intFrom(env.JOB_QUEUE_WAIT_LIMIT_MS, 600_000),
     },
+    documentQueueLimit: Math.max(0, intFrom(env.DOCUMENT_QUEUE_LIMIT, 16)),
     bodyLimit: env.BODY_LIMIT ?? '100kb',
   };
   if (production && config.trustProxy === true) {

@@ -36,12 +36,6 @@ export const DOCUMENT_POOL_DEFAULTS = { threads: 2, maxQueue: 16, perPerson: 2, 
 
 const BUSY = 'The server is busy preparing other exports; try again in a moment.';
 
-/** DOCUMENT_QUEUE_LIMIT: documents that may wait for a thread (default 16). */
-export function documentPoolOptionsFrom(env: Record<string, string | undefined> = process.env): DocumentPoolOptions {
-  const limit = Number.parseInt(env.DOCUMENT_QUEUE_LIMIT ?? '', 10);
-  return Number.isInteger(limit) && limit >= 0 ? { maxQueue: limit } : {};
-}
-
 interface Waiting {
   start(): void;
   refuse(error: AppError): void;
@@ -55,7 +49,7 @@ const FAILURE: Record<string, string> = {
   restorable: 'This version could not be read',
 };
 
-export function createDocumentRenderer(options: DocumentPoolOptions = documentPoolOptionsFrom()): DocumentRenderer {
+export function createDocumentRenderer(options: DocumentPoolOptions = {}): DocumentRenderer {
   const { threads, maxQueue, perPerson, timeLimitMs, queueWaitLimitMs } = { ...DOCUMENT_POOL_DEFAULTS, ...options };
   const pool = new Piscina({
     filename: path.join(__dirname, 'documentWorker.ts'),

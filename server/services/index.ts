@@ -38,7 +38,7 @@ export function createServices(config: ServerConfig, logger: Logger, dataSource:
   const emailVerification = createEmailVerificationService(dataSource, mailer, sessions, config.publicUrl);
   const runs = createRunService(dataSource, runner, logger, config.jobs);
   const notebooks = createNotebookService(dataSource, runs);
-  const documents = createDocumentRenderer();
+  const documents = createDocumentRenderer({ maxQueue: config.documentQueueLimit });
   return {
     config,
     logger,

@@ -173,12 +173,7 @@ describe('document pool: a full queue answers 429', () => {
 
   before(async () => {
     // no waiting room: a document that finds no free thread is refused at once
-    process.env.DOCUMENT_QUEUE_LIMIT = '0';
-    try {
-      h = await startHarness();
-    } finally {
-      delete process.env.DOCUMENT_QUEUE_LIMIT;
-    }
+    h = await startHarness({ DOCUMENT_QUEUE_LIMIT: '0' });
   });
   after(() => h.close());
 

@@ -1,6 +1,7 @@
 import assert from 'node:assert/strict';
 import { test } from 'node:test';
-import { createDocumentRenderer, documentPoolOptionsFrom, type DocumentRenderer } from '../../../server/jobs/documents';
+import { createDocumentRenderer, type DocumentRenderer } from '../../../server/jobs/documents';
+import { loadConfig } from '../../../server/config';
 import { AppError } from '../../../server/http/errors';
 import { NOTEBOOK_FORMAT, NOTEBOOK_FORMAT_VERSION } from '../../../shared/notebook/exports';
 
@@ -119,9 +120,9 @@ test('the time limit counts work, not the wait for a thread', async () => {
   });
 });
 
-test('DOCUMENT_QUEUE_LIMIT sets the queue limit; anything else keeps the default', () => {
-  assert.deepEqual(documentPoolOptionsFrom({ DOCUMENT_QUEUE_LIMIT: '0' }), { maxQueue: 0 });
-  assert.deepEqual(documentPoolOptionsFrom({ DOCUMENT_QUEUE_LIMIT: '40' }), { maxQueue: 40 });
-  assert.deepEqual(documentPoolOptionsFrom({}), {});
-  assert.deepEqual(documentPoolOptionsFrom({ DOCUMENT_QUEUE_LIMIT: 'many' }), {});
+test('DOCUMENT_QUEUE_LIMIT sets the queue limit (documented default 16, README configuration table)', () => {
+  assert.equal(loadConfig({ DOCUMENT_QUEUE_LIMIT: '0' }).documentQueueLimit, 0);
+  assert.equal(loadConfig({ DOCUMENT_QUEUE_LIMIT: '40' }).documentQueueLimit, 40);
+  assert.equal(loadConfig({}).documentQueueLimit, 16);
+  assert.throws(() => loadConfig({ DOCUMENT_QUEUE_LIMIT: 'many' }), /Expected an integer/);
 });
