@@ -1,6 +1,6 @@
 // The only module that knows about lucia: the rest of the server asks for sessions through these
 // functions, so the session library can be replaced without touching routes or services.
-import { createHash } from 'node:crypto';
+import { sha256Hex } from './linkTokens';
 import { Lucia, type Adapter, type DatabaseSession, type DatabaseUser } from 'lucia';
 import { LessThan, type DataSource } from 'typeorm';
 import { Session, User } from '../db/entities';
@@ -21,7 +21,7 @@ declare module 'lucia' {
 }
 
 /** The database key of a session: SHA-256 (hex) of the token that only the cookie carries. */
-export const sessionKey = (sessionId: string) => createHash('sha256').update(sessionId).digest('hex');
+export const sessionKey = (sessionId: string) => sha256Hex(sessionId);
 
 /**
  * lucia 3 hands its adapter the session token itself as `id`. This adapter stores and looks up only

@@ -1,4 +1,4 @@
-import { createHash, randomBytes } from 'node:crypto';
+import { isUsableLink, newLinkToken, sha256Hex as sha256 } from '../auth/linkTokens';
 import { IsNull, type DataSource, type EntityManager } from 'typeorm';
 import type { PublicUser } from '../../shared/api/schemas';
 import { verifyAgainstDecoy, verifyPassword } from '../auth/passwords';
@@ -10,7 +10,6 @@ import { emailKey, toPublicUser } from './accounts';
 
 export const VERIFICATION_TOKEN_LIFETIME_MS = 24 * 3600 * 1000;
 
-const sha256 = (text: string) => createHash('sha256').update(text).digest('hex');
 
 const invalidLink = () =>
   new AppError('invalid_verification_token', 'This confirmation link is invalid, already used or expired. Ask for a new one under "Resend the confirmation e-mail" on the sign-in page.');
@@ -53,12 +52,10 @@ export function createEmailVerificationService(
   const tokens = dataSource.getRepository(EmailVerificationToken);
   const users = dataSource.getRepository(User);
 
-  function isUsable(row: EmailVerificationToken | null): row is EmailVerificationToken {
-    return Boolean(row && !row.usedAt && row.expiresAt.getTime() > now().getTime());
-  }
+  const isUsable = (row: EmailVerificationToken | null): row is EmailVerificationToken => isUsableLink(row, now());
 
   async function linkMessage(user: Pick<User, 'id' | 'name' | 'email'>): Promise<OutgoingMessage> {
-    const token = randomBytes(32).toString('base64url');
+    const token = newLinkToken();
     await tokens.insert({
       tokenHash: sha256(token),
       userId: user.id,

@@ -1,4 +1,4 @@
-import { createHash, randomBytes } from 'node:crypto';
+import { isUsableLink, newLinkToken, sha256Hex as sha256 } from '../auth/linkTokens';
 import { IsNull, type DataSource } from 'typeorm';
 import { hashPassword } from '../auth/passwords';
 import type { SessionService } from '../auth/sessions';
@@ -10,7 +10,6 @@ import { spendVerificationLinks } from './emailVerification';
 
 export const RESET_TOKEN_LIFETIME_MS = 30 * 60 * 1000;
 
-const sha256 = (text: string) => createHash('sha256').update(text).digest('hex');
 
 const invalidToken = () => new AppError('invalid_reset_token', 'This reset link is invalid, already used or expired. Ask for a new one.');
 
@@ -33,13 +32,11 @@ export function createPasswordResetService(
   const tokens = dataSource.getRepository(PasswordResetToken);
   const users = dataSource.getRepository(User);
 
-  function isUsable(row: PasswordResetToken | null): row is PasswordResetToken {
-    return Boolean(row && !row.usedAt && row.expiresAt.getTime() > now().getTime());
-  }
+  const isUsable = (row: PasswordResetToken | null): row is PasswordResetToken => isUsableLink(row, now());
 
   return {
     requestReset(email) {
-      const token = randomBytes(32).toString('base64url');
+      const token = newLinkToken();
       mailer.sendLater(
         async () => {
           const user = await users.findOneBy({ emailKey: emailKey(email) });
