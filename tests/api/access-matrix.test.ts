@@ -6,21 +6,11 @@ import { apiRouteTable } from '../../server/app';
 import { ResearchGroup } from '../../server/db/entities';
 import { newId } from '../../server/ids';
 import { startHarness, type Harness } from './harness';
-import { createPerson, joinGroup, signInAgain, type TestPerson } from './people';
+import { createPerson, joinGroup, notebookWithRun, signInAgain, type RouteFixture as Fixture, type TestPerson } from './people';
 
 const identities = ['signedOut', 'unverified', 'siteAdmin', 'otherUser', 'groupMember', 'groupLead', 'owner'] as const;
 type Identity = (typeof identities)[number];
 type Expected = Record<Identity, number>;
-
-interface Fixture {
-  notebookId: string;
-  cellId: string;
-  versionId: string;
-  runId: string;
-  groupId: string;
-  /** A group member other than the caller (for membership routes). */
-  userId: string;
-}
 
 interface Row {
   body?: (f: Fixture) => unknown;
@@ -34,9 +24,6 @@ const signedIn = (status: number): Expected => ({ ...all(status), signedOut: 401
 const notebookRole = (status: number): Expected => ({ signedOut: 401, unverified: 404, siteAdmin: 404, otherUser: 404, groupMember: status, groupLead: status, owner: status });
 /** Group managers: the lead and site admins; plain members (the owner is one) are refused; strangers see nothing. */
 const groupManager = (status: number): Expected => ({ signedOut: 401, unverified: 404, siteAdmin: status, otherUser: 404, groupMember: 403, groupLead: status, owner: 403 });
-
-const setupInput = { kind: 'setup', model: { preset: 'on', N: 1 }, d: '3', s: '1.5', loops: 2, digits: 20 };
-const bubbleInput = { kind: 'integral', uses: 'setup', form: 'bubble', a: 's/2', b: 's/2', d: '2*s-eps', order: 1 };
 
 const matrix: Record<string, Row> = {
   'GET /health': { expect: all(200) },
@@ -108,21 +95,13 @@ describe('access matrix: every route × every kind of caller', () => {
   after(() => h.close());
 
   /** A fresh group (lead, member, and the owner as a member) with the owner's notebook, two cells, a run and a version. */
-  async function freshFixture(caller: Identity): Promise<Fixture> {
+  async function freshFixture(): Promise<Fixture> {
     const groupId = newId();
     await h.rungbook.services.dataSource.getRepository(ResearchGroup).insert({ id: groupId, name: 'Invented Matrix Group', description: 'invented' });
     await joinGroup(h, groupId, people.groupLead.id, 'lead');
     await joinGroup(h, groupId, people.groupMember.id, 'member');
     await joinGroup(h, groupId, people.owner.id, 'member');
-    const owner = people.owner.client;
-    const notebook = (await owner.post('/api/notebooks').send({ title: 'Invented matrix notebook', summary: '', groupId }).expect(201)).body.notebook;
-    await owner.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'setup', input: setupInput }).expect(201);
-    const cells = (await owner.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'bubble', input: bubbleInput }).expect(201)).body.notebook.cells;
-    const cellId = cells.find((c: { label: string }) => c.label === 'bubble').id;
-    const runId = (await owner.post(`/api/notebooks/${notebook.id}/cells/${cellId}/run`).expect(202)).body.run.id;
-    const versionId = (await owner.post(`/api/notebooks/${notebook.id}/versions`).send({ message: 'Matrix base' }).expect(201)).body.version.id;
-    const userId = caller === 'groupMember' ? people.groupMember.id : people.groupMember.id;
-    return { notebookId: notebook.id, cellId, versionId, runId, groupId, userId };
+    return { ...(await notebookWithRun(people.owner.client, groupId)), groupId, userId: people.groupMember.id };
   }
 
   test('the matrix names every route of the route table, and nothing else', () => {
@@ -136,7 +115,7 @@ describe('access matrix: every route × every kind of caller', () => {
       const [method, path] = key.split(' ') as [string, string];
       const outcomes: string[] = [];
       for (const identity of identities) {
-        const fixture = await freshFixture(identity);
+        const fixture = await freshFixture();
         const url = `/api${path.replace(/:(\w+)/g, (_m, name: keyof Fixture) => fixture[name])}`;
         const client = identity === 'signedOut' ? h.browser() : people[identity].client;
         let request = client[method.toLowerCase() as 'get' | 'post' | 'patch' | 'delete'](url);

@@ -7,18 +7,9 @@ import fc from 'fast-check';
 import { apiRouteTable } from '../../server/app';
 import type { AnyRouteSpec } from '../../server/http/route';
 import { startHarness, type Harness } from './harness';
-import { createPerson, type TestPerson } from './people';
+import { createPerson, notebookWithRun, type RouteFixture as Fixture, type TestPerson } from './people';
 
 const RUNS_PER_ROUTE = Number(process.env.FUZZ_RUNS ?? 25);
-
-interface Fixture {
-  notebookId: string;
-  cellId: string;
-  versionId: string;
-  runId: string;
-  groupId: string;
-  userId: string;
-}
 
 /** A plausible valid body per route, as the seed that mutations start from (unknown routes start from {}). */
 function seedBody(spec: AnyRouteSpec): Record<string, unknown> {
@@ -87,7 +78,7 @@ describe('fuzzing every request schema: only 4xx, never 500', () => {
     h = await startHarness({ SIGNIN_LIMIT_PER_IP: '100000', SIGNIN_LIMIT_PER_ACCOUNT: '100000' });
     owner = await createPerson(h, { tag: 'owner' });
     const member = await createPerson(h, { tag: 'member', signIn: false });
-    fixture = await buildFixture(h, owner, member.id);
+    fixture = await buildFixture(owner, member.id);
   });
   after(async () => {
     const counts = [...statusCounts.entries()].sort(([a], [b]) => a - b).map(([status, n]) => `${status}×${n}`).join(' ');
@@ -131,14 +122,7 @@ describe('fuzzing every request schema: only 4xx, never 500', () => {
   });
 });
 
-async function buildFixture(h: Harness, owner: TestPerson, userId: string): Promise<Fixture> {
-  const client = owner.client;
-  const groupId = (await client.post('/api/groups').send({ name: 'Invented Fuzz Group', description: 'invented' }).expect(201)).body.group.id as string;
-  const notebook = (await client.post('/api/notebooks').send({ title: 'Invented fuzz target', summary: 'invented', groupId }).expect(201)).body.notebook;
-  await client.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'setup', input: { kind: 'setup', model: { preset: 'on', N: 1 }, d: '3', s: '1.5', loops: 2, digits: 20 } }).expect(201);
-  const withCell = (await client.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'bubble', input: { kind: 'integral', uses: 'setup', form: 'bubble', a: 's/2', b: 's/2', d: '2*s-eps', order: 1 } }).expect(201)).body.notebook;
-  const cellId = withCell.cells.find((c: { label: string }) => c.label === 'bubble').id as string;
-  const runId = (await client.post(`/api/notebooks/${notebook.id}/cells/${cellId}/run`).expect(202)).body.run.id as string;
-  const versionId = (await client.post(`/api/notebooks/${notebook.id}/versions`).send({ message: 'fuzz base' }).expect(201)).body.version.id as string;
-  return { notebookId: notebook.id, cellId, versionId, runId, groupId, userId };
+async function buildFixture(owner: TestPerson, userId: string): Promise<Fixture> {
+  const groupId = (await owner.client.post('/api/groups').send({ name: 'Invented Fuzz Group', description: 'invented' }).expect(201)).body.group.id as string;
+  return { ...(await notebookWithRun(owner.client, groupId)), groupId, userId };
 }

@@ -69,3 +69,25 @@ export async function settleRun(client: Client, run: RunView): Promise<RunView> 
   }
   return current;
 }
+
+/** The ids a route path may name, for tests that call every route of the route table. */
+export interface RouteFixture {
+  notebookId: string;
+  cellId: string;
+  versionId: string;
+  runId: string;
+  groupId: string;
+  /** A group member (for membership routes). */
+  userId: string;
+}
+
+/** A notebook in `groupId` with a setup cell, a run loop-integral cell and a saved version, made through the API. */
+export async function notebookWithRun(client: Client, groupId: string): Promise<Pick<RouteFixture, 'notebookId' | 'cellId' | 'runId' | 'versionId'>> {
+  const notebookId = (await client.post('/api/notebooks').send({ title: 'Invented route-test notebook', summary: '', groupId }).expect(201)).body.notebook.id as string;
+  await client.post(`/api/notebooks/${notebookId}/cells`).send({ label: 'setup', input: { kind: 'setup', model: { preset: 'on', N: 1 }, d: '3', s: '1.5', loops: 2, digits: 20 } }).expect(201);
+  const cells = (await client.post(`/api/notebooks/${notebookId}/cells`).send({ label: 'bubble', input: { kind: 'integral', uses: 'setup', form: 'bubble', a: 's/2', b: 's/2', d: '2*s-eps', order: 1 } }).expect(201)).body.notebook.cells;
+  const cellId = cells.find((c: { label: string }) => c.label === 'bubble').id as string;
+  const runId = (await client.post(`/api/notebooks/${notebookId}/cells/${cellId}/run`).expect(202)).body.run.id as string;
+  const versionId = (await client.post(`/api/notebooks/${notebookId}/versions`).send({ message: 'Route-test base' }).expect(201)).body.version.id as string;
+  return { notebookId, cellId, runId, versionId };
+}
