@@ -1,5 +1,5 @@
 // Node 20's test runner takes no glob patterns, so this finds the *.test.ts files under the given
-// folders and hands them to `node --test` with tsx loaded.
+// folders (or takes the files named) and hands them to `node --test` with tsx loaded.
 import { spawnSync } from 'node:child_process';
 import { readdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
@@ -9,6 +9,7 @@ const options = args.filter((arg) => arg.startsWith('--'));
 const folders = args.filter((arg) => !arg.startsWith('--'));
 
 function testFiles(folder) {
+  if (!statSync(folder).isDirectory()) return [folder];
   return readdirSync(folder)
     .flatMap((entry) => {
       const path = join(folder, entry);

@@ -23,7 +23,7 @@ const fileName = (title: string, extension: string) => `${title.replace(/[^A-Za-
 export function notebookRoutes({ notebooks, versions, documents }: Services) {
   return [
     route({ method: 'get', path: '/notebooks', access: 'signed-in', summary: 'Notebooks you can open, newest first', query: listNotebooksQuery,
-      handler: async ({ user, query }) => ({ notebooks: await notebooks.list(user!, query.q) }) }),
+      handler: async ({ user, query }) => ({ notebooks: await notebooks.list(user!, query) }) }),
     route({ method: 'post', path: '/notebooks', access: 'signed-in', summary: 'Create a notebook', body: createNotebookInput, status: 201,
       handler: async ({ user, body }) => ({ notebook: await notebooks.create(user!, body) }) }),
     route({ method: 'post', path: '/notebooks/import', access: 'signed-in', summary: 'Create a notebook from an exported JSON file', body: notebookDocument, status: 201,

@@ -1,7 +1,7 @@
 import { randomBytes } from 'node:crypto';
 import type { DataSource } from 'typeorm';
 import { hashPassword, verifyPassword } from '../auth/passwords';
-import { Cell, GroupMembership, Notebook, ResearchGroup, User } from '../db/entities';
+import { Cell, GroupMembership, Notebook, NotebookMember, ResearchGroup, User } from '../db/entities';
 import type { CellInput } from '../../shared/notebook/cells';
 import { newId } from '../ids';
 import type { GroupRole, SiteRole } from '../../shared/api/schemas';
@@ -101,6 +101,7 @@ export async function seedDemoDataIfEmpty(dataSource: DataSource, options: DemoS
     const leadId = userIds[people.findIndex((p) => p.groupRole === 'lead')];
     const notebookId = newId();
     await manager.insert(Notebook, { id: notebookId, title: demoNotebook.title, summary: demoNotebook.summary, ownerId: leadId, groupId });
+    await manager.insert(NotebookMember, { id: newId(), notebookId, groupId, role: 'editor', grantedById: leadId });
     for (const [position, cell] of demoNotebook.cells.entries()) {
       await manager.insert(Cell, { id: newId(), notebookId, position, kind: cell.input.kind, label: cell.label, inputJson: JSON.stringify(cell.input), revision: 1 });
     }

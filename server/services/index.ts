@@ -7,6 +7,7 @@ import type { Mailer } from '../mail/mailer';
 import { createAccountService, type AccountService } from './accounts';
 import { createEmailVerificationService, type EmailVerificationService } from './emailVerification';
 import { createGroupService, type GroupService } from './groups';
+import { createNotebookEventBus, type NotebookEventBus } from './notebookEvents';
 import { createNotebookService, type NotebookService } from './notebooks';
 import { createPasswordResetService, type PasswordResetService } from './passwordReset';
 import { createRunService, type RunService } from './runs';
@@ -27,6 +28,8 @@ export interface Services {
   groups: GroupService;
   runs: RunService;
   notebooks: NotebookService;
+  /** Notebook changes and access changes, fanned out to live streams. */
+  events: NotebookEventBus;
   versions: VersionService;
   /** Renders exports (LaTeX) in a worker thread. */
   documents: DocumentRenderer;
@@ -37,6 +40,7 @@ export function createServices(config: ServerConfig, logger: Logger, dataSource:
   const sessions = createSessionService(dataSource, secureCookies);
   const emailVerification = createEmailVerificationService(dataSource, mailer, sessions, config.publicUrl);
   const runs = createRunService(dataSource, runner, logger, config.jobs);
+  const events = createNotebookEventBus();
   const notebooks = createNotebookService(dataSource, runs);
   const documents = createDocumentRenderer({ maxQueue: config.documentQueueLimit });
   return {
@@ -52,6 +56,7 @@ export function createServices(config: ServerConfig, logger: Logger, dataSource:
     groups: createGroupService(dataSource),
     runs,
     notebooks,
+    events,
     versions: createVersionService(dataSource, notebooks, documents),
     documents,
   };

@@ -4,7 +4,8 @@ import { cellStates, dependentsOf, fingerprintOf, type CellForStaleness } from '
 import { CellJobError, jobForCell, type SetupInput } from '../../shared/notebook/jobs';
 import type { CellView, NotebookDetail, NotebookSummary, RunAllReply, RunView } from '../../shared/notebook/api';
 import type { SignedInUser } from '../auth/sessions';
-import { Cell, GroupMembership, JobRun, Notebook, ResearchGroup, User } from '../db/entities';
+import { can, ROLE_NEEDED, strongerRole, type NotebookAction, type NotebookRole } from '../../shared/notebook/sharing';
+import { Cell, GroupMembership, JobRun, Notebook, NotebookMember, ResearchGroup, User } from '../db/entities';
 import { AppError } from '../http/errors';
 import { newId } from '../ids';
 import { estimatedResultBytes, jobCostProblem, megabytes } from '../../shared/jobs/cost';
@@ -38,7 +39,33 @@ interface NotebookAtRun {
 
 export interface NotebookAccess {
   notebook: Notebook;
+  role: NotebookRole;
   canEdit: boolean;
+}
+
+/** The strongest of a personal grant and a comma-separated list of group grants (as group_concat returns them). */
+export function roleFromGrants(personal: string | null | undefined, groupRoles: string | null | undefined): NotebookRole | null {
+  let role = (personal as NotebookRole | null | undefined) ?? null;
+  for (const groupRole of groupRoles ? groupRoles.split(',') : []) role = strongerRole(role, groupRole as NotebookRole);
+  return role;
+}
+
+const ACTION_WORDS: Record<NotebookAction, string> = {
+  read: 'open this notebook',
+  export: 'export this notebook',
+  comment: 'comment on this notebook',
+  edit: 'change this notebook',
+  run: 'run cells of this notebook',
+  saveVersion: 'save versions of this notebook',
+  restoreVersion: 'restore versions of this notebook',
+  present: 'present this notebook',
+  manageSharing: 'change who this notebook is shared with',
+  delete: 'delete this notebook',
+  transferOwnership: 'hand this notebook to someone else',
+};
+
+export function refusal(action: NotebookAction, role: NotebookRole): string {
+  return `As ${role === 'editor' ? 'an' : 'a'} ${role} you cannot ${ACTION_WORDS[action]}; it needs the ${ROLE_NEEDED[action]} role.`;
 }
 
 /** The better-sqlite3 database under the data source, for the few hot queries written by hand. */
@@ -69,18 +96,21 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
   }
 
   /**
-   * Owners and members of the notebook's group may view and edit. Site admins have no special access to
-   * notebooks: they manage accounts and read captured mail, not other people's research.
+   * A person's role on a notebook: owner, or the stronger of their own grant and the grants of their
+   * groups. Site admins have no special access to notebooks: they manage accounts and read captured mail,
+   * not other people's research. No role at all is answered exactly like a missing notebook (404).
    */
-  // Every notebook request starts here, so it is one prepared statement rather than two ORM queries.
+  // Every notebook request starts here, so it is one prepared statement rather than several ORM queries.
   const accessQuery = sqliteHandle(dataSource).prepare(
     `SELECT n.id, n.title, n.summary, n.ownerId, n.groupId, n.createdAt, n.updatedAt,
-            EXISTS (SELECT 1 FROM group_memberships m WHERE m.groupId = n.groupId AND m.userId = ?) AS inGroup
+            (SELECT m.role FROM notebook_members m WHERE m.notebookId = n.id AND m.userId = ?) AS personalRole,
+            (SELECT group_concat(m.role) FROM notebook_members m JOIN group_memberships g ON g.groupId = m.groupId
+              WHERE m.notebookId = n.id AND g.userId = ?) AS groupRoles
        FROM notebooks n WHERE n.id = ?`,
   );
 
   async function access(viewer: SignedInUser, notebookId: string): Promise<NotebookAccess> {
-    const row = accessQuery.get(viewer.id, notebookId) as (Record<string, string | null> & { inGroup: number }) | undefined;
+    const row = accessQuery.get(viewer.id, viewer.id, notebookId) as Record<string, string | null> | undefined;
     if (!row) throw new AppError('not_found', 'No such notebook.');
     const notebook = notebooks.create({
       id: row.id!,
@@ -91,15 +121,20 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
       createdAt: sqliteDate(row.createdAt!),
       updatedAt: sqliteDate(row.updatedAt!),
     });
-    const canEdit = notebook.ownerId === viewer.id || row.inGroup === 1;
-    if (!canEdit) throw new AppError('not_found', 'No such notebook.');
-    return { notebook, canEdit };
+    const role = notebook.ownerId === viewer.id ? 'owner' : roleFromGrants(row.personalRole, row.groupRoles);
+    if (!role) throw new AppError('not_found', 'No such notebook.');
+    return { notebook, role, canEdit: can(role, 'edit') };
+  }
+
+  /** The notebook, when the viewer's role allows the action: 404 without any role, 403 with too weak a role. */
+  async function requireRole(viewer: SignedInUser, notebookId: string, action: NotebookAction): Promise<NotebookAccess> {
+    const granted = await access(viewer, notebookId);
+    if (!can(granted.role, action)) throw new AppError('forbidden', refusal(action, granted.role));
+    return granted;
   }
 
   async function editable(viewer: SignedInUser, notebookId: string): Promise<Notebook> {
-    const { notebook, canEdit } = await access(viewer, notebookId);
-    if (!canEdit) throw new AppError('forbidden', 'You can read this notebook but not change it.');
-    return notebook;
+    return (await requireRole(viewer, notebookId, 'edit')).notebook;
   }
 
   async function assertGroupMember(viewer: SignedInUser, groupId: string | null | undefined) {
@@ -160,9 +195,31 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
     return { views, weight, inFlight };
   }
 
-  async function summaries(rows: Notebook[], viewer: SignedInUser): Promise<NotebookSummary[]> {
+  /** For each notebook, the strongest grant reaching the viewer (personal or through a group) and who made it. */
+  async function grantsReaching(viewer: SignedInUser, notebookIds: string[]): Promise<Map<string, { role: NotebookRole; personName: string | null; groupName: string | null }>> {
+    const found = new Map<string, { role: NotebookRole; personName: string | null; groupName: string | null }>();
+    if (!notebookIds.length) return found;
+    const rows: { notebookId: string; role: NotebookRole; groupName: string | null; grantedByName: string | null }[] = await dataSource
+      .getRepository(NotebookMember)
+      .createQueryBuilder('m')
+      .leftJoin(ResearchGroup, 'g', 'g.id = m.groupId')
+      .leftJoin(User, 'u', 'u.id = m.grantedById')
+      .select(['m.notebookId AS "notebookId"', 'm.role AS "role"', 'g.name AS "groupName"', 'u.name AS "grantedByName"'])
+      .where('m.notebookId IN (:...notebookIds)', { notebookIds })
+      .andWhere('(m.userId = :me OR m.groupId IN (SELECT gm.groupId FROM group_memberships gm WHERE gm.userId = :me))', { me: viewer.id })
+      .getRawMany();
+    for (const row of rows) {
+      const known = found.get(row.notebookId);
+      if (!known || strongerRole(known.role, row.role) !== known.role) found.set(row.notebookId, { role: row.role, personName: row.grantedByName, groupName: row.groupName });
+    }
+    return found;
+  }
+
+  /** The parts of a summary that are the same for everyone who may see the notebook. */
+  type SharedSummary = Omit<NotebookSummary, 'role' | 'sharedBy' | 'canEdit'>;
+
+  async function sharedSummaries(rows: Notebook[]): Promise<SharedSummary[]> {
     if (!rows.length) return [];
-    const myGroups = new Set(await groupIdsOf(viewer.id));
     const owners = await dataSource.getRepository(User).createQueryBuilder('u').where('u.id IN (:...ids)', { ids: [...new Set(rows.map((r) => r.ownerId))] }).getMany();
     const groupIds = [...new Set(rows.map((r) => r.groupId).filter((id): id is string => Boolean(id)))];
     const groups = groupIds.length ? await dataSource.getRepository(ResearchGroup).createQueryBuilder('g').where('g.id IN (:...groupIds)', { groupIds }).getMany() : [];
@@ -177,25 +234,39 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
       id: row.id,
       title: row.title,
       summary: row.summary,
+      ownerId: row.ownerId,
       ownerName: owners.find((o) => o.id === row.ownerId)?.name ?? '',
       groupId: row.groupId,
       groupName: groups.find((g) => g.id === row.groupId)?.name ?? null,
       cellCount: Number(counts.find((c) => c.notebookId === row.id)?.count ?? 0),
       updatedAt: row.updatedAt.toISOString(),
-      canEdit: row.ownerId === viewer.id || (row.groupId !== null && myGroups.has(row.groupId)),
     }));
   }
 
-  const settledSummaries = new WeightedLru<string, Omit<NotebookSummary, 'canEdit'>>(SETTLED_SUMMARIES_BUDGET);
+  /** Summaries as the viewer sees them: their role and how each notebook reached them. */
+  async function summaries(rows: Notebook[], viewer: SignedInUser): Promise<NotebookSummary[]> {
+    const shared = await sharedSummaries(rows);
+    const grants = await grantsReaching(viewer, rows.filter((row) => row.ownerId !== viewer.id).map((row) => row.id));
+    return shared.map((summary) => personalised(summary, viewer, grants.get(summary.id)));
+  }
+
+  function personalised(summary: SharedSummary, viewer: SignedInUser, grant: { role: NotebookRole; personName: string | null; groupName: string | null } | undefined): NotebookSummary {
+    const role: NotebookRole = summary.ownerId === viewer.id ? 'owner' : (grant?.role ?? 'viewer');
+    const sharedBy = role === 'owner' ? null : { personName: grant?.personName ?? summary.ownerName, groupName: grant?.groupName ?? null };
+    return { ...summary, role, sharedBy, canEdit: can(role, 'edit') };
+  }
+
+  const settledSummaries = new WeightedLru<string, SharedSummary>(SETTLED_SUMMARIES_BUDGET);
 
   async function detail(viewer: SignedInUser, notebookId: string): Promise<NotebookDetail> {
-    const { notebook, canEdit } = await access(viewer, notebookId);
+    const { notebook, role } = await access(viewer, notebookId);
     let summary = settledSummaries.get(notebookId);
     if (!summary || summary.updatedAt !== notebook.updatedAt.toISOString()) {
-      [summary] = await summaries([notebook], viewer);
+      [summary] = await sharedSummaries([notebook]);
       settledSummaries.set(notebookId, summary, 500 + summary.title.length + summary.summary.length);
     }
-    return { ...summary, canEdit, cells: await cellViews(notebookId) };
+    const grant = role === 'owner' ? undefined : (await grantsReaching(viewer, [notebookId])).get(notebookId);
+    return { ...personalised(summary, viewer, grant && { ...grant, role }), cells: await cellViews(notebookId) };
   }
 
   /**
@@ -299,6 +370,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
 
   return {
     access,
+    requireRole,
     editable,
     forget,
     async cellNotebookId(cellId: string): Promise<string | null> {
@@ -308,37 +380,57 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
     orderedCells,
     parseCellInput,
 
-    async list(viewer: SignedInUser, search?: string): Promise<NotebookSummary[]> {
-      const groupIds = await groupIdsOf(viewer.id);
+    async list(viewer: SignedInUser, options: { q?: string; filter?: 'all' | 'mine' | 'shared' | 'group'; groupId?: string } = {}): Promise<NotebookSummary[]> {
+      const reaching = `n.id IN (SELECT m.notebookId FROM notebook_members m WHERE m.userId = :me OR m.groupId IN (SELECT gm.groupId FROM group_memberships gm WHERE gm.userId = :me))`;
+      const throughGroup = `n.id IN (SELECT m.notebookId FROM notebook_members m WHERE m.groupId IN (SELECT gm.groupId FROM group_memberships gm WHERE gm.userId = :me)${options.groupId ? ' AND m.groupId = :groupId' : ''})`;
+      const where = {
+        all: `(n.ownerId = :me OR ${reaching})`,
+        mine: 'n.ownerId = :me',
+        shared: `(n.ownerId <> :me AND ${reaching})`,
+        group: throughGroup,
+      }[options.filter ?? 'all'];
       const query = notebooks.createQueryBuilder('n').orderBy('n.updatedAt', 'DESC').addOrderBy('n.title', 'ASC').take(500);
-      query.where('(n.ownerId = :me' + (groupIds.length ? ' OR n.groupId IN (:...groupIds))' : ')'), { me: viewer.id, groupIds });
-      if (search) query.andWhere('(n.title LIKE :q ESCAPE \'\\\' OR n.summary LIKE :q ESCAPE \'\\\')', { q: `%${search.replace(/[\\%_]/g, (c) => `\\${c}`)}%` });
+      query.where(where, { me: viewer.id, groupId: options.groupId });
+      if (options.q) query.andWhere('(n.title LIKE :q ESCAPE \'\\\' OR n.summary LIKE :q ESCAPE \'\\\')', { q: `%${options.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%` });
       return summaries(await query.getMany(), viewer);
     },
 
     async create(viewer: SignedInUser, input: { title: string; summary: string; groupId: string | null }) {
       await assertGroupMember(viewer, input.groupId);
       const id = newId();
-      await notebooks.insert({ id, title: input.title, summary: input.summary, groupId: input.groupId, ownerId: viewer.id });
+      await dataSource.transaction(async (manager) => {
+        await manager.insert(Notebook, { id, title: input.title, summary: input.summary, groupId: input.groupId, ownerId: viewer.id });
+        if (input.groupId) await manager.insert(NotebookMember, { id: newId(), notebookId: id, groupId: input.groupId, role: 'editor', grantedById: viewer.id });
+      });
       return detail(viewer, id);
     },
 
+    /** Rename or describe (editors); filing under another group (owner only) moves the group's editor grant along. */
     async update(viewer: SignedInUser, notebookId: string, patch: { title?: string; summary?: string; groupId?: string | null }) {
       const notebook = await editable(viewer, notebookId);
-      if (patch.groupId !== undefined && patch.groupId !== notebook.groupId) {
+      const moving = patch.groupId !== undefined && patch.groupId !== notebook.groupId;
+      if (moving) {
         // Moving a notebook into or out of a group changes who can reach it: the owner's decision alone.
         if (notebook.ownerId !== viewer.id) {
           throw new AppError('forbidden', 'Only the notebook\'s owner can move it into or out of a group.', { groupId: 'Only the owner can change this' });
         }
         await assertGroupMember(viewer, patch.groupId);
       }
-      await notebooks.update({ id: notebook.id }, { ...patch, updatedAt: new Date() });
+      await dataSource.transaction(async (manager) => {
+        await manager.update(Notebook, { id: notebook.id }, { ...patch, updatedAt: new Date() });
+        if (!moving) return;
+        if (notebook.groupId) await manager.delete(NotebookMember, { notebookId, groupId: notebook.groupId });
+        if (patch.groupId) {
+          await manager.delete(NotebookMember, { notebookId, groupId: patch.groupId });
+          await manager.insert(NotebookMember, { id: newId(), notebookId, groupId: patch.groupId, role: 'editor', grantedById: viewer.id });
+        }
+      });
+      forget(notebookId);
       return detail(viewer, notebookId);
     },
 
     async remove(viewer: SignedInUser, notebookId: string) {
-      const notebook = await editable(viewer, notebookId);
-      if (notebook.ownerId !== viewer.id) throw new AppError('forbidden', 'Only the owner can delete a notebook.');
+      await requireRole(viewer, notebookId, 'delete');
       forget(notebookId);
       await notebooks.delete({ id: notebookId });
     },

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { cellInput, cellLabel, type CellInput, type CellKind } from './cells';
 import type { CellState } from './dependencies';
+import { listFilter, type NotebookRole } from './sharing';
 
 /** Request bodies of the notebook API. */
 export const createNotebookInput = z.strictObject({
@@ -31,7 +32,13 @@ export const updateCellInput = z.strictObject({
 
 export const moveCellInput = z.strictObject({ position: z.number().int().min(0).max(500) });
 export const saveVersionInput = z.strictObject({ message: z.string().trim().min(1, 'Say what this version is').max(500) });
-export const listNotebooksQuery = z.strictObject({ q: z.string().trim().max(200).optional() });
+export const listNotebooksQuery = z.strictObject({
+  q: z.string().trim().max(200).optional(),
+  /** mine = I own it; shared = someone else owns it and it reaches me; group = it reaches me through a group. */
+  filter: listFilter.optional(),
+  /** With filter=group: only notebooks shared with this one of my groups. */
+  groupId: z.string().regex(/^[a-z0-9]{10,40}$/).optional(),
+});
 
 /** Reply shapes. */
 export interface RunView {
@@ -82,11 +89,18 @@ export interface NotebookSummary {
   id: string;
   title: string;
   summary: string;
+  ownerId: string;
   ownerName: string;
+  /** The group the notebook is filed under (its owner's choice); that group holds at least an editor grant. */
   groupId: string | null;
   groupName: string | null;
   cellCount: number;
   updatedAt: string;
+  /** The caller's role: the stronger of their own grant and their groups' grants (owner for the owner). */
+  role: NotebookRole;
+  /** How the notebook reaches the caller when they do not own it: who granted it, and through which group if any. */
+  sharedBy: { personName: string | null; groupName: string | null } | null;
+  /** role is editor or owner. */
   canEdit: boolean;
 }
 

@@ -3,6 +3,7 @@ import { Notebooks1764650000000 } from './1764650000000-Notebooks';
 import { AccountSecurity1764660000000 } from './1764660000000-AccountSecurity';
 import { SharedResults1764670000000 } from './1764670000000-SharedResults';
 import { ServerSecrets1764680000000 } from './1764680000000-ServerSecrets';
+import { Collaboration1764690000000 } from './1764690000000-Collaboration';
 
 /** Every migration, oldest first. Add new ones at the end. */
 export const migrations = [
@@ -11,4 +12,5 @@ export const migrations = [
   AccountSecurity1764660000000,
   SharedResults1764670000000,
   ServerSecrets1764680000000,
+  Collaboration1764690000000,
 ];

@@ -1,0 +1,51 @@
+import { EventEmitter } from 'node:events';
+import type { EntityManager } from 'typeorm';
+import type { NotebookEventKind } from '../../shared/notebook/sharing';
+import { NotebookEvent } from '../db/entities';
+import { newId } from '../ids';
+
+/** Something that happened in a notebook: a line of its activity log and a live update for whoever is looking. */
+export interface NotebookChange {
+  notebookId: string;
+  kind: NotebookEventKind;
+  actorId: string | null;
+  actorName: string | null;
+  cellId: string | null;
+  /** One line for the log, e.g. `edited cell "bubble"`. */
+  text: string;
+}
+
+/** Whose access may have changed: everyone on one notebook, or one person everywhere (e.g. left a group). */
+export type AccessChange = { notebookId: string } | { userId: string };
+
+/**
+ * In-process fan-out of notebook changes and access changes to the live streams. Writers record the
+ * change in their transaction (recordNotebookChange) and publish it after commit.
+ */
+export function createNotebookEventBus() {
+  const emitter = new EventEmitter();
+  emitter.setMaxListeners(0);
+  return {
+    publish(change: NotebookChange): void {
+      emitter.emit('change', change);
+    },
+    accessChanged(change: AccessChange): void {
+      emitter.emit('access', change);
+    },
+    onChange(listener: (change: NotebookChange) => void): () => void {
+      emitter.on('change', listener);
+      return () => emitter.off('change', listener);
+    },
+    onAccessChange(listener: (change: AccessChange) => void): () => void {
+      emitter.on('access', listener);
+      return () => emitter.off('access', listener);
+    },
+  };
+}
+
+export type NotebookEventBus = ReturnType<typeof createNotebookEventBus>;
+
+/** Write the change to the notebook's activity log, inside the writer's transaction. */
+export async function recordNotebookChange(manager: EntityManager, change: NotebookChange): Promise<void> {
+  await manager.insert(NotebookEvent, { id: newId(), ...change, text: change.text.slice(0, 500) });
+}
