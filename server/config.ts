@@ -21,7 +21,7 @@ export interface ServerConfig {
    */
   localOnly: boolean;
   /** Sign-up, forgot-password and reset requests per source per 15 minutes; people one person may add to groups per hour. */
-  authLimits: { signUpPerIpPer15Min: number; forgotPerIpPer15Min: number; resetPerIpPer15Min: number; groupAddsPerUserPerHour: number; versionSavesPerUserPerHour: number };
+  authLimits: { signUpPerIpPer15Min: number; forgotPerIpPer15Min: number; resetPerIpPer15Min: number; groupAddsPerUserPerHour: number; versionSavesPerUserPerHour: number; invitationsPerSenderPerHour: number; mentionMailsPerSenderPerHour: number };
   /** Express 'trust proxy' setting: false (default) ignores X-Forwarded-* headers. */
   trustProxy: boolean | number | string;
   seedDemoData: boolean;
@@ -121,6 +121,9 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
       groupAddsPerUserPerHour: intFrom(env.GROUP_ADD_LIMIT_PER_USER, 30),
       // each version may hold megabytes of results
       versionSavesPerUserPerHour: Math.max(1, intFrom(env.VERSION_SAVE_LIMIT_PER_USER, 60)),
+      // sharing and invitation e-mails a person may cause per hour (to accounts and to new addresses alike)
+      invitationsPerSenderPerHour: Math.max(1, intFrom(env.INVITE_LIMIT_PER_USER, 30)),
+      mentionMailsPerSenderPerHour: Math.max(1, intFrom(env.MENTION_MAIL_LIMIT_PER_USER, 60)),
     },
     trustProxy: trustProxyFrom(env.TRUST_PROXY),
     seedDemoData: boolFrom(env.SEED_DEMO_DATA, !production),

@@ -378,6 +378,24 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
     },
     detail,
     orderedCells,
+
+    /** Everyone who can open the notebook, with their effective role (owner first, then by name). */
+    async peopleWithAccess(notebookId: string): Promise<{ id: string; name: string; email: string; role: NotebookRole }[]> {
+      const rows: { id: string; name: string; email: string; role: NotebookRole }[] = await dataSource.query(
+        `SELECT u.id AS id, u.name AS name, u.email AS email, 'owner' AS role FROM notebooks n JOIN users u ON u.id = n.ownerId WHERE n.id = ?
+         UNION ALL
+         SELECT u.id, u.name, u.email, m.role FROM notebook_members m JOIN users u ON u.id = m.userId WHERE m.notebookId = ?
+         UNION ALL
+         SELECT u.id, u.name, u.email, m.role FROM notebook_members m JOIN group_memberships g ON g.groupId = m.groupId JOIN users u ON u.id = g.userId WHERE m.notebookId = ?`,
+        [notebookId, notebookId, notebookId],
+      );
+      const strongest = new Map<string, { id: string; name: string; email: string; role: NotebookRole }>();
+      for (const row of rows) {
+        const known = strongest.get(row.id);
+        if (!known || strongerRole(known.role, row.role) !== known.role) strongest.set(row.id, row);
+      }
+      return [...strongest.values()].sort((a, b) => (a.role === 'owner' ? -1 : b.role === 'owner' ? 1 : a.name.localeCompare(b.name)));
+    },
     parseCellInput,
 
     async list(viewer: SignedInUser, options: { q?: string; filter?: 'all' | 'mine' | 'shared' | 'group'; groupId?: string } = {}): Promise<NotebookSummary[]> {
