@@ -8,13 +8,18 @@ import { apiNotFound, errorHandler, sameOriginGuard, sessionLoader } from './htt
 import { authRequestLimiters, signInLimiters } from './http/rateLimits';
 import { mount, type AnyRouteSpec } from './http/route';
 import { versionSaveLimiter } from './http/versionSaveLimit';
+import { activityRoutes } from './routes/activity';
 import { adminRoutes } from './routes/admin';
 import { authRoutes } from './routes/auth';
+import { commentRoutes } from './routes/comments';
 import { groupRoutes } from './routes/groups';
 import { healthRoutes } from './routes/health';
+import { liveRoutes } from './routes/live';
 import { notebookRoutes } from './routes/notebooks';
 import { openApiRoutes } from './routes/openapi';
 import { runRoutes } from './routes/runs';
+import { sharingRoutes } from './routes/sharing';
+import { sharedLinkOpenLimiter } from './http/senderLimits';
 import type { Services } from './services';
 
 /** Every API route, in mounting order: the single table the router, the OpenAPI document and the access-matrix test read. */
@@ -25,6 +30,10 @@ export function apiRouteTable(services: Services): AnyRouteSpec[] {
     ...groupRoutes(services),
     ...notebookRoutes(services),
     ...runRoutes(services),
+    ...liveRoutes(services),
+    ...sharingRoutes(services),
+    ...commentRoutes(services),
+    ...activityRoutes(services),
     ...adminRoutes(services),
   ];
   return [...specs, ...openApiRoutes(() => specs)];
@@ -45,6 +54,7 @@ function apiRouter(services: Services) {
   router.post('/auth/forgot', authLimits.forgot);
   router.post('/auth/reset', authLimits.reset);
   router.post('/auth/verify', authLimits.verify);
+  router.use('/shared', sharedLinkOpenLimiter(services.config.authLimits.sharedLinkOpensPerIpPer15Min));
   router.use(sessionLoader(services.sessions));
   router.post('/auth/verify/resend', authLimits.resendVerification);
   router.post('/groups/:groupId/members', authLimits.groupAdds);

@@ -60,6 +60,8 @@ export async function startRungbook(config: ServerConfig, logger: Logger, option
     smtpFake,
     demoDataCreated,
     async stop() {
+      // live streams never end by themselves: close them first so the server can close
+      services.live.closeAll();
       if (server) {
         const closed = new Promise<void>((resolve) => server!.close(() => resolve()));
         server.closeAllConnections();

@@ -9,10 +9,17 @@ import { AuthLink } from './AuthLink';
 import { checkLocally, errorsFromServer, type FormErrors } from './formErrors';
 import { formStyles } from './formStyles';
 
+interface SignUpFormProps {
+  /** Filled in from an invitation link. */
+  initialEmail?: string;
+  /** Opened from an invitation to a notebook. */
+  invited?: boolean;
+}
+
 /** Sign-up answers "check your inbox" whether or not the address is new; the e-mailed link finishes it. */
-export function SignUpForm() {
+export function SignUpForm({ initialEmail = '', invited = false }: SignUpFormProps = {}) {
   const [name, setName] = useState('');
-  const [email, setEmail] = useState('');
+  const [email, setEmail] = useState(initialEmail);
   const [password, setPassword] = useState('');
   const [errors, setErrors] = useState<FormErrors>({ fields: {} });
   const signUp = useSignUpMutation();
@@ -37,6 +44,7 @@ export function SignUpForm() {
   }
   return (
     <View style={formStyles.form}>
+      {invited ? <Notice tone="info" message="You were invited to a notebook; it opens for you once you confirm this address" testID="sign-up-invited" /> : null}
       {errors.message ? <Notice tone="error" message={errors.message} testID="sign-up-error" /> : null}
       <TextField label="Name" value={name} onChangeText={setName} autoComplete="name" error={errors.fields.name} testID="sign-up-name" />
       <TextField label="E-mail" value={email} onChangeText={setEmail} autoComplete="email" keyboardType="email-address" error={errors.fields.email} testID="sign-up-email" />

@@ -1,8 +1,9 @@
-import type { ReactNode } from 'react';
+import { useEffect, useRef, type ReactNode } from 'react';
 import { Pressable, StyleSheet, Text, View } from 'react-native';
 import { router, usePathname } from 'expo-router';
 import { useSafeAreaInsets } from 'react-native-safe-area-context';
 import { colors, fonts, spacing } from '../../constants/theme';
+import { useActivityQuery } from '../../hooks/api/activity';
 import { useWideLayout } from '../../hooks/useWideLayout';
 import type { PublicUser } from '../../shared/api/schemas';
 import { destinationsFor, type Destination } from './destinations';
@@ -37,6 +38,7 @@ export function AppShell({ user, children }: { user: PublicUser; children: React
             >
               <Text style={styles.railGlyph}>{item.glyph}</Text>
               <Text style={[styles.railLabel, isActive(item) && styles.railLabelActive]}>{item.label}</Text>
+              {item.unreadBadge ? <UnreadBadge style={styles.railBadge} /> : null}
             </Pressable>
           ))}
           <View style={styles.railFooter}>
@@ -72,11 +74,32 @@ function PhoneShell({ items, isActive, children }: { items: Destination[]; isAct
             style={styles.tab}
           >
             <View style={[styles.tabMarker, isActive(item) && styles.tabMarkerActive]} />
-            <Text style={[styles.tabGlyph, isActive(item) && styles.tabActiveText]}>{item.glyph}</Text>
+            <View>
+              <Text style={[styles.tabGlyph, isActive(item) && styles.tabActiveText]}>{item.glyph}</Text>
+              {item.unreadBadge ? <UnreadBadge style={styles.tabBadge} /> : null}
+            </View>
             <Text style={[styles.tabLabel, isActive(item) && styles.tabActiveText]}>{item.label}</Text>
           </Pressable>
         ))}
       </View>
+    </View>
+  );
+}
+
+/** Unread activity items, polled and asked for again on every move between screens. */
+function UnreadBadge({ style }: { style: object }) {
+  const activity = useActivityQuery();
+  const pathname = usePathname();
+  const firstPath = useRef(pathname);
+  const { refetch } = activity;
+  useEffect(() => {
+    if (pathname !== firstPath.current) void refetch();
+  }, [pathname, refetch]);
+  const unread = activity.data?.unread ?? 0;
+  if (!unread) return null;
+  return (
+    <View style={[styles.badge, style]} accessibilityLabel={`${unread} unread`} testID="nav-activity-badge">
+      <Text style={styles.badgeText}>{unread > 99 ? '99+' : unread}</Text>
     </View>
   );
 }
@@ -104,4 +127,8 @@ const styles = StyleSheet.create({
   tabGlyph: { fontSize: 18, color: colors.inkFaint },
   tabLabel: { fontFamily: fonts.medium, fontSize: 12, color: colors.inkFaint },
   tabActiveText: { color: colors.ink },
+  badge: { minWidth: 18, height: 18, borderRadius: 9, paddingHorizontal: 5, backgroundColor: colors.amber, alignItems: 'center', justifyContent: 'center' },
+  badgeText: { fontFamily: fonts.semibold, fontSize: 11, color: colors.surface },
+  railBadge: { marginLeft: 'auto' },
+  tabBadge: { position: 'absolute', top: -4, left: 12 },
 });

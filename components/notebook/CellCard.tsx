@@ -1,8 +1,12 @@
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import { StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, spacing } from '../../constants/theme';
+import { useCommentsQuery } from '../../hooks/api/comments';
 import { isConflict, useDeleteCellMutation, useMoveCellMutation, useReloadNotebook, useRunCellMutation, useUpdateCellMutation } from '../../hooks/api/notebooks';
 import { cellKindTitles, type CellView, type NotebookDetail, type RunView } from '../../shared/notebook';
+import { can } from '../../shared/notebook/sharing';
+import { CellComments } from '../comments/CellComments';
+import { groupThreads, visibleCount } from '../comments/threads';
 import { TextField } from '../ui/TextField';
 import { Notice } from '../ui/Notice';
 import { errorsFromServer } from '../auth/formErrors';
@@ -27,6 +31,10 @@ export interface CellCardProps {
   startEditing?: boolean;
   /** Hands the screen this cell's run (save first if edited), for the keyboard shortcut. */
   registerRunner?: (run: () => void) => void;
+  /** Open the cell's comment threads (a link to the cell from a comment or the activity list). */
+  openComments?: boolean;
+  /** The notebook was opened through a share link: comments go through the link's routes. */
+  shareToken?: string;
 }
 
 export const runsJob = (cell: Pick<CellView, 'kind'>) => cell.kind !== 'note' && cell.kind !== 'setup';
@@ -46,8 +54,26 @@ export function queueNote(run: RunView, now = Date.now()): string | null {
   return `${lead}; waiting ${duration(waited)} so far, given up after ${duration(waitLimitMs)}.`;
 }
 
-export function CellCard({ notebook, cell, index, wide, selected, onSelect, startEditing = false, registerRunner }: CellCardProps) {
+/**
+ * The cell's threads behind a count. The count reads comments the notebook's comment panel already fetched
+ * (no request per cell); opening the threads fetches them.
+ */
+function useCellComments(notebook: NotebookDetail, cell: CellView, openFromLink: boolean, shareToken?: string) {
+  const [open, setOpen] = useState(openFromLink);
+  useEffect(() => {
+    if (openFromLink) setOpen(true);
+  }, [openFromLink]);
+  const comments = useCommentsQuery({ notebookId: notebook.id, shareToken }, { enabled: open });
+  const count = visibleCount(groupThreads((comments.data ?? []).filter((comment) => comment.cellId === cell.id)));
+  const mayComment = can(notebook.role, 'comment');
+  const hidden = !open && !mayComment && comments.data !== undefined && count === 0;
+  const label = count ? `${count} comment${count === 1 ? '' : 's'}` : mayComment ? 'Comment' : 'Comments';
+  return { open, toggle: () => setOpen(!open), hidden, label };
+}
+
+export function CellCard({ notebook, cell, index, wide, selected, onSelect, startEditing = false, registerRunner, openComments = false, shareToken }: CellCardProps) {
   const [editing, setEditing] = useState(startEditing);
+  const comments = useCellComments(notebook, cell, openComments, shareToken);
   const { draft, dirty, errors, valid, setInput, setLabel, reset } = useCellDraft(cell);
   const reloadNotebook = useReloadNotebook(notebook.id);
   const update = useUpdateCellMutation(notebook.id);
@@ -99,22 +125,27 @@ export function CellCard({ notebook, cell, index, wide, selected, onSelect, star
           <Text style={styles.label} testID={`${testPrefix}-label`}>{cell.label}</Text>
           {runsJob(cell) ? <CellStateBadge state={cell.state} run={cell.lastRun} testID={`${testPrefix}-state`} /> : null}
         </View>
-        {notebook.canEdit ? (
-          <CellActions
-            wide={wide}
-            testPrefix={testPrefix}
-            canRun={runsJob(cell)}
-            running={cell.state === 'running' || run.isPending}
-            waiting={cell.lastRun?.status === 'queued'}
-            editing={editing}
-            isFirst={index === 0}
-            isLast={index === notebook.cells.length - 1}
-            onRun={() => void runNow()}
-            onToggleEdit={() => setEditing(!editing)}
-            onMove={(offset) => move.mutate({ cellId: cell.id, position: index + offset })}
-            onDelete={() => remove.mutate(cell.id)}
-          />
-        ) : null}
+        <View style={styles.headActions}>
+          {comments.hidden ? null : (
+            <ChipButton label={comments.label} selected={comments.open} accessibilityLabel={comments.open ? 'Hide comments' : `${comments.label} on ${cell.label}`} onPress={comments.toggle} testID={`cell-comments-${cell.label}`} />
+          )}
+          {notebook.canEdit ? (
+            <CellActions
+              wide={wide}
+              testPrefix={testPrefix}
+              canRun={runsJob(cell)}
+              running={cell.state === 'running' || run.isPending}
+              waiting={cell.lastRun?.status === 'queued'}
+              editing={editing}
+              isFirst={index === 0}
+              isLast={index === notebook.cells.length - 1}
+              onRun={() => void runNow()}
+              onToggleEdit={() => setEditing(!editing)}
+              onMove={(offset) => move.mutate({ cellId: cell.id, position: index + offset })}
+              onDelete={() => remove.mutate(cell.id)}
+            />
+          ) : null}
+        </View>
       </View>
 
       {waitingNote ? <Text style={styles.meta} testID={`${testPrefix}-queue`}>{waitingNote}</Text> : null}
@@ -155,6 +186,7 @@ export function CellCard({ notebook, cell, index, wide, selected, onSelect, star
       {move.error || remove.error ? <Notice tone="error" message={(move.error ?? remove.error)!.message} /> : null}
 
       <CellOutput notebook={notebook} cell={cell} />
+      {comments.open ? <CellComments notebookId={notebook.id} role={notebook.role} cellId={cell.id} cellLabel={cell.label} shareToken={shareToken} /> : null}
     </View>
   );
 }
@@ -164,6 +196,7 @@ const styles = StyleSheet.create({
   stale: { borderLeftColor: colors.amber, backgroundColor: '#FFFCF6' },
   selected: { borderColor: colors.slate, borderLeftColor: colors.slate },
   head: { flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between', flexWrap: 'wrap', gap: spacing.sm },
+  headActions: { flexDirection: 'row', alignItems: 'flex-start', flexWrap: 'wrap', gap: spacing.sm, marginLeft: 'auto' },
   headText: { flexDirection: 'row', alignItems: 'center', flexWrap: 'wrap', gap: spacing.sm, flexShrink: 1 },
   kind: { fontFamily: fonts.semibold, fontSize: 15, color: colors.ink },
   label: { fontFamily: monoFont, fontSize: 13, color: colors.inkSoft, backgroundColor: colors.paper, paddingHorizontal: 6, borderRadius: 4 },

@@ -3,8 +3,16 @@ import { colors, fonts, spacing } from '../../constants/theme';
 import { cellKindTitles, type CellView } from '../../shared/notebook';
 import { stateColor, stateWords } from './CellStateBadge';
 
+interface NotebookOutlineProps {
+  cells: CellView[];
+  selectedId: string | null;
+  onPick: (cell: CellView) => void;
+  /** The cell someone presents now, marked in the list. */
+  presenterCellId?: string | null;
+}
+
 /** Wide screens: every cell in a column beside the notebook, with its state; a tap jumps to it. */
-export function NotebookOutline({ cells, selectedId, onPick }: { cells: CellView[]; selectedId: string | null; onPick: (cell: CellView) => void }) {
+export function NotebookOutline({ cells, selectedId, onPick, presenterCellId = null }: NotebookOutlineProps) {
   return (
     <View style={styles.outline} testID="notebook-outline" role="navigation" aria-label="Cells of this notebook">
       <Text style={styles.heading}>Cells</Text>
@@ -16,6 +24,7 @@ export function NotebookOutline({ cells, selectedId, onPick }: { cells: CellView
               <Text style={styles.label} numberOfLines={1}>{cell.label}</Text>
               <Text style={styles.kind} numberOfLines={1}>{cellKindTitles[cell.kind]}</Text>
             </View>
+            {cell.id === presenterCellId ? <Text style={styles.presenting} testID={`outline-${cell.label}-presenting`}>presenting</Text> : null}
             {cell.state !== 'text' && cell.kind !== 'setup' ? <View style={[styles.dot, { backgroundColor: stateColor[cell.state] }]} accessibilityLabel={stateWords[cell.state]} /> : null}
           </Pressable>
         ))}
@@ -34,5 +43,6 @@ const styles = StyleSheet.create({
   itemText: { flex: 1, minWidth: 0 },
   label: { fontFamily: fonts.medium, fontSize: 14, color: colors.ink },
   kind: { fontFamily: fonts.regular, fontSize: 12, color: colors.inkFaint },
+  presenting: { fontFamily: fonts.semibold, fontSize: 10, letterSpacing: 0.6, textTransform: 'uppercase', color: colors.amberDeep },
   dot: { width: 8, height: 8, borderRadius: 4 },
 });

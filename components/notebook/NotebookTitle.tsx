@@ -6,7 +6,15 @@ import { updateNotebookInput, type NotebookDetail } from '../../shared/notebook'
 import { checkLocally, errorsFromServer, type FormErrors } from '../auth/formErrors';
 import { Notice } from '../ui/Notice';
 import { TextField } from '../ui/TextField';
+import { RoleBadge } from '../live/RoleBadge';
 import { ChipButton } from './ChipButton';
+
+function sharedByWords(sharedBy: NotebookDetail['sharedBy']): string | null {
+  if (!sharedBy) return null;
+  const via = sharedBy.groupName ? `through ${sharedBy.groupName}` : null;
+  const by = sharedBy.personName ? `shared with you by ${sharedBy.personName}` : 'shared with you';
+  return [by, via].filter(Boolean).join(' ');
+}
 
 /** The notebook's title and summary, editable in place by those who may edit. */
 export function NotebookTitle({ notebook }: { notebook: NotebookDetail }) {
@@ -15,7 +23,7 @@ export function NotebookTitle({ notebook }: { notebook: NotebookDetail }) {
   const [summary, setSummary] = useState(notebook.summary);
   const [errors, setErrors] = useState<FormErrors>({ fields: {} });
   const update = useUpdateNotebookMutation(notebook.id);
-  const owner = [notebook.ownerName, notebook.groupName].filter(Boolean).join(' · ');
+  const owner = [notebook.ownerName, notebook.groupName, sharedByWords(notebook.sharedBy)].filter(Boolean).join(' · ');
   const save = () => {
     const { data, errors: local } = checkLocally(updateNotebookInput, { title, summary });
     setErrors(local);
@@ -38,7 +46,10 @@ export function NotebookTitle({ notebook }: { notebook: NotebookDetail }) {
   return (
     <View style={styles.header}>
       <View style={styles.text}>
-        <Text style={styles.title} accessibilityRole="header" testID="notebook-title">{notebook.title}</Text>
+        <View style={styles.titleRow}>
+          <Text style={styles.title} accessibilityRole="header" testID="notebook-title">{notebook.title}</Text>
+          <RoleBadge role={notebook.role} />
+        </View>
         {notebook.summary ? <Text style={styles.summary}>{notebook.summary}</Text> : null}
         <Text style={styles.meta}>{owner}</Text>
       </View>
@@ -52,6 +63,7 @@ export function NotebookTitle({ notebook }: { notebook: NotebookDetail }) {
 const styles = StyleSheet.create({
   header: { flexDirection: 'row', alignItems: 'flex-start', justifyContent: 'space-between', gap: spacing.md },
   text: { flexShrink: 1, gap: spacing.xs },
+  titleRow: { flexDirection: 'row', alignItems: 'center', flexWrap: 'wrap', columnGap: spacing.sm, rowGap: spacing.xs },
   title: { fontFamily: fonts.semibold, fontSize: 26, color: colors.ink },
   summary: { fontFamily: fonts.regular, fontSize: 15, color: colors.inkSoft, lineHeight: 22 },
   meta: { fontFamily: fonts.regular, fontSize: 13, color: colors.inkFaint },

@@ -2,8 +2,10 @@ import { useState } from 'react';
 import { StyleSheet, Text, View } from 'react-native';
 import { router } from 'expo-router';
 import { colors, fonts, spacing } from '../../constants/theme';
+import { useNotebookLive } from '../../hooks/api/live';
 import { useNotebookQuery, useRestoreVersionMutation, useVersionsQuery } from '../../hooks/api/notebooks';
 import type { VersionSummary } from '../../shared/notebook';
+import { AccessRemoved } from '../live/AccessRemoved';
 import { ChipButton } from '../notebook/ChipButton';
 import { SaveVersionForm } from '../notebook/SaveVersionForm';
 import { VersionComparisonView, VersionReader } from '../notebook/VersionPanels';
@@ -15,6 +17,8 @@ type Panel = { kind: 'read'; versionId: string } | { kind: 'compare'; from: stri
 
 export function NotebookVersionsScreen({ notebookId }: { notebookId: string }) {
   const notebook = useNotebookQuery(notebookId);
+  // Keeps the role (restore and save appear or vanish at once) and the list current while others save versions.
+  const live = useNotebookLive(notebookId);
   const versions = useVersionsQuery(notebookId);
   const restore = useRestoreVersionMutation(notebookId);
   const [picked, setPicked] = useState<string[]>([]);
@@ -30,8 +34,15 @@ export function NotebookVersionsScreen({ notebookId }: { notebookId: string }) {
     restore.mutate(version.id, { onSuccess: () => { setConfirmRestore(null); router.push(`/notebooks/${notebookId}`); } });
 
   const actions = <ChipButton label="Back to the notebook" onPress={() => router.push(`/notebooks/${notebookId}`)} testID="back-to-notebook" />;
+  if (live.connection === 'revoked') {
+    return (
+      <ScreenBody title="Versions">
+        <AccessRemoved />
+      </ScreenBody>
+    );
+  }
   return (
-    <ScreenBody title="History" subtitle={notebook.data ? `${notebook.data.title} — every saved version; restoring one adds a new version, nothing is lost.` : undefined} actions={actions}>
+    <ScreenBody title="Versions" subtitle={notebook.data ? `${notebook.data.title} — every saved version; restoring one adds a new version, nothing is lost.` : undefined} actions={actions}>
       {notebook.data?.canEdit ? (
         <Card>
           <Text style={styles.heading}>Save the notebook as it is now</Text>

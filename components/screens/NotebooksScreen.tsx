@@ -2,12 +2,16 @@ import { useState } from 'react';
 import { Pressable, StyleSheet, Text, View } from 'react-native';
 import { router } from 'expo-router';
 import { colors, fonts, spacing } from '../../constants/theme';
-import { useCreateNotebookMutation, useNotebooksQuery } from '../../hooks/api/notebooks';
+import { useGroupsQuery } from '../../hooks/api/groups';
+import { useCreateNotebookMutation, useNotebooksQuery, type NotebookListFilter } from '../../hooks/api/notebooks';
 import { createNotebookInput, type NotebookSummary } from '../../shared/notebook';
 import { checkLocally, errorsFromServer, type FormErrors } from '../auth/formErrors';
 import { Formula } from '../formula';
 import { ChipButton } from '../notebook/ChipButton';
+import { ChoiceRow } from '../notebook/ChoiceRow';
 import { ImportNotebookCard } from '../notebook/ImportNotebookCard';
+import { RoleBadge } from '../sharing/RoleBadge';
+import { sharedByLine } from '../sharing/roles';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
 import { Notice } from '../ui/Notice';
@@ -16,10 +20,13 @@ import { TextField } from '../ui/TextField';
 
 export function NotebooksScreen() {
   const [search, setSearch] = useState('');
+  const [filter, setFilter] = useState<NotebookListFilter>('all');
+  const [groupId, setGroupId] = useState<string | null>(null);
   const [creating, setCreating] = useState(false);
   const [importing, setImporting] = useState(false);
-  const notebooks = useNotebooksQuery(search);
+  const notebooks = useNotebooksQuery(search, filter, groupId);
   const searching = search.trim() !== '';
+  const narrowed = searching || filter !== 'all';
   const actions = (
     <View style={styles.actions}>
       <Button label="New notebook" onPress={() => setCreating(!creating)} testID="new-notebook" />
@@ -30,24 +37,69 @@ export function NotebooksScreen() {
     <ScreenBody title="Notebooks" subtitle="Your calculations, cell by cell." actions={actions}>
       {creating ? <NewNotebookCard onClose={() => setCreating(false)} /> : null}
       {importing ? <ImportNotebookCard onImported={(id) => router.push(`/notebooks/${id}`)} /> : null}
-      {notebooks.data && (notebooks.data.length > 0 || searching) ? (
-        <TextField label="Search titles and summaries" value={search} onChangeText={setSearch} testID="notebook-search" />
+      {notebooks.data && (notebooks.data.length > 0 || narrowed) ? (
+        <>
+          <TextField label="Search titles and summaries" value={search} onChangeText={setSearch} testID="notebook-search" />
+          <ListFilters filter={filter} groupId={groupId} onFilter={setFilter} onGroup={setGroupId} />
+        </>
       ) : null}
       {notebooks.isError ? <Notice tone="error" message={notebooks.error.message} /> : null}
-      {notebooks.data?.length === 0 && searching ? <Notice tone="info" message={`No notebook matches “${search.trim()}”.`} testID="notebooks-no-match" /> : null}
-      {notebooks.data?.length === 0 && !searching ? <EmptyNotebooks /> : null}
+      {notebooks.data?.length === 0 && narrowed ? <Notice tone="info" message={noMatchMessage(search, filter)} testID="notebooks-no-match" /> : null}
+      {notebooks.data?.length === 0 && !narrowed ? <EmptyNotebooks /> : null}
       {notebooks.data?.length ? <Text style={styles.sortNote}>Most recently changed first</Text> : null}
       {notebooks.data?.map((notebook) => <NotebookRow key={notebook.id} notebook={notebook} />)}
     </ScreenBody>
   );
 }
 
+const filterOptions: { value: NotebookListFilter; label: string }[] = [
+  { value: 'all', label: 'All' },
+  { value: 'mine', label: 'Mine' },
+  { value: 'shared', label: 'Shared with me' },
+  { value: 'group', label: 'Through a group' },
+];
+
+interface ListFiltersProps {
+  filter: NotebookListFilter;
+  groupId: string | null;
+  onFilter: (filter: NotebookListFilter) => void;
+  onGroup: (groupId: string | null) => void;
+}
+
+/** Mine / shared with me / through a group; with "group", optionally one of my groups. */
+function ListFilters({ filter, groupId, onFilter, onGroup }: ListFiltersProps) {
+  const groups = useGroupsQuery();
+  return (
+    <View style={styles.filters}>
+      <ChoiceRow label="Show" options={filterOptions} value={filter} onChange={onFilter} testID="notebook-filter" />
+      {filter === 'group' && groups.data ? (
+        <View style={styles.actions} accessibilityRole="radiogroup" accessibilityLabel="Group">
+          <ChipButton label="Any of my groups" selected={groupId === null} onPress={() => onGroup(null)} testID="notebook-filter-group-any" />
+          {groups.data.map((group) => (
+            <ChipButton key={group.id} label={group.name} selected={groupId === group.id} onPress={() => onGroup(group.id)} testID={`notebook-filter-group-${group.id}`} />
+          ))}
+        </View>
+      ) : null}
+    </View>
+  );
+}
+
+function noMatchMessage(search: string, filter: NotebookListFilter): string {
+  const where = { all: 'No notebook', mine: 'None of your own notebooks', shared: 'No notebook shared with you', group: 'No notebook shared with your groups' }[filter];
+  return search.trim() ? `${where} matches “${search.trim()}”.` : `${where} yet.`;
+}
+
 function NotebookRow({ notebook }: { notebook: NotebookSummary }) {
+  const sharedBy = sharedByLine(notebook);
   return (
     <Pressable accessibilityRole="link" onPress={() => router.push(`/notebooks/${notebook.id}`)} testID={`notebook-${notebook.id}`}>
       <Card>
-        <Text style={styles.title}>{notebook.title}</Text>
+        <View style={styles.titleRow}>
+          <Text style={styles.title}>{notebook.title}</Text>
+          <RoleBadge role={notebook.role} testID={`notebook-${notebook.id}-role`} />
+        </View>
         {notebook.summary ? <Text style={styles.body}>{notebook.summary}</Text> : null}
+        {sharedBy ? <Text style={styles.sharedBy} testID={`notebook-${notebook.id}-shared-by`}>{sharedBy}</Text> : null}
         <Text style={styles.meta}>
           {[notebook.ownerName, notebook.groupName, `${notebook.cellCount} ${notebook.cellCount === 1 ? 'cell' : 'cells'}`, `changed ${new Date(notebook.updatedAt).toLocaleString()}`].filter(Boolean).join(' · ')}
         </Text>
@@ -111,7 +163,10 @@ function EmptyNotebooks() {
 const styles = StyleSheet.create({
   actions: { flexDirection: 'row', gap: spacing.sm, alignItems: 'center', flexWrap: 'wrap' },
   heading: { fontFamily: fonts.semibold, fontSize: 18, color: colors.ink },
-  title: { fontFamily: fonts.semibold, fontSize: 17, color: colors.ink },
+  title: { fontFamily: fonts.semibold, fontSize: 17, color: colors.ink, flexShrink: 1 },
+  titleRow: { flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between', gap: spacing.sm },
+  sharedBy: { fontFamily: fonts.medium, fontSize: 13, color: colors.amberDeep },
+  filters: { gap: spacing.sm },
   body: { fontFamily: fonts.regular, fontSize: 15, lineHeight: 23, color: colors.inkSoft },
   meta: { fontFamily: fonts.regular, fontSize: 13, color: colors.inkFaint },
   sortNote: { fontFamily: fonts.regular, fontSize: 13, color: colors.inkFaint },

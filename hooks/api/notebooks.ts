@@ -1,4 +1,6 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { z } from 'zod';
+import type { listFilter } from '../../shared/notebook/sharing';
 import type { CellInput, NotebookDetail, NotebookSummary, RunAllReply, RunView, VersionComparison, VersionDetail, VersionSummary } from '../../shared/notebook';
 import { ApiError, apiRequest } from './client';
 import { queryKeys } from './keys';
@@ -8,13 +10,21 @@ const RUN_POLL_MS = 700;
 
 export const isRunActive = (run: RunView | null | undefined) => run?.status === 'queued' || run?.status === 'running';
 
-export function useNotebooksQuery(search: string) {
+export type NotebookListFilter = z.infer<typeof listFilter>;
+
+/** The list query's parameters: q when searching, filter unless it is "all", groupId only with filter=group. */
+export function notebookListQuery(search: string, filter: NotebookListFilter = 'all', groupId?: string | null): string {
+  const params: [string, string][] = [];
+  if (search.trim()) params.push(['q', search.trim()]);
+  if (filter !== 'all') params.push(['filter', filter]);
+  if (filter === 'group' && groupId) params.push(['groupId', groupId]);
+  return params.length ? `?${params.map(([key, value]) => `${key}=${encodeURIComponent(value)}`).join('&')}` : '';
+}
+
+export function useNotebooksQuery(search: string, filter: NotebookListFilter = 'all', groupId?: string | null) {
   return useQuery({
-    queryKey: queryKeys.notebookList(search),
-    queryFn: async () => {
-      const query = search.trim() ? `?q=${encodeURIComponent(search.trim())}` : '';
-      return (await apiRequest<{ notebooks: NotebookSummary[] }>('GET', `/notebooks${query}`)).notebooks;
-    },
+    queryKey: queryKeys.notebookList(search, filter, filter === 'group' ? (groupId ?? '') : ''),
+    queryFn: async () => (await apiRequest<{ notebooks: NotebookSummary[] }>('GET', `/notebooks${notebookListQuery(search, filter, groupId)}`)).notebooks,
     placeholderData: (previous) => previous,
   });
 }

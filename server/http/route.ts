@@ -20,6 +20,79 @@ export class RawJsonReply {
   constructor(readonly json: string) {}
 }
 
+/** An open server-sent-events stream, as the service that feeds it sees it. */
+export interface EventStream {
+  /** A named event; `data` is sent as one line of JSON. */
+  send(event: string, data: unknown): void;
+  /** A comment line (keeps proxies from closing an idle connection). */
+  comment(text: string): void;
+  /** End the stream from the server side. */
+  close(): void;
+  /** Called once when the stream ends, from either side. */
+  onClose(listener: () => void): void;
+  readonly closed: boolean;
+}
+
+/** A reply that stays open: server-sent events (text/event-stream) fed by `open`. */
+export class EventStreamReply {
+  constructor(
+    readonly open: (stream: EventStream) => void,
+    /** Milliseconds the client waits before reconnecting. */
+    readonly retryMs = 3000,
+  ) {}
+}
+
+/** A client that reads too slowly is dropped (it reconnects) rather than buffered without bound. */
+const MAX_STREAM_BACKLOG_BYTES = 1_000_000;
+
+function openEventStream(req: Request, res: Response, reply: EventStreamReply): void {
+  res.status(200);
+  res.set({
+    'Content-Type': 'text/event-stream; charset=utf-8',
+    'Cache-Control': 'no-store',
+    Connection: 'keep-alive',
+    // proxies (nginx) must pass events through as they come
+    'X-Accel-Buffering': 'no',
+  });
+  req.socket.setNoDelay(true);
+  req.socket.setKeepAlive(true);
+  res.flushHeaders();
+  const listeners: (() => void)[] = [];
+  let closed = false;
+  const finish = () => {
+    if (closed) return;
+    closed = true;
+    for (const listener of listeners.splice(0)) listener();
+  };
+  res.on('close', finish);
+  const write = (text: string) => {
+    if (closed) return;
+    res.write(text);
+    if (res.writableLength > MAX_STREAM_BACKLOG_BYTES) stream.close();
+  };
+  const stream: EventStream = {
+    send: (event, data) => write(`event: ${event}\ndata: ${JSON.stringify(data)}\n\n`),
+    comment: (text) => write(`: ${text.replace(/[\r\n]/g, ' ')}\n\n`),
+    close: () => {
+      if (closed) return;
+      res.end();
+      finish();
+    },
+    onClose: (listener) => {
+      if (closed) listener();
+      else listeners.push(listener);
+    },
+    get closed() {
+      return closed;
+    },
+  };
+  // a HEAD request learns the status and headers; it has no body to keep open
+  if (req.method === 'HEAD' || res.destroyed) finish();
+  write(`retry: ${reply.retryMs}\n\n`);
+  reply.open(stream);
+  if (req.method === 'HEAD') res.end();
+}
+
 export interface RouteContext<Body, Params, Query = unknown> {
   body: Body;
   params: Params;
@@ -42,6 +115,8 @@ export interface RouteSpec<BodySchema extends z.ZodType, ParamsSchema extends z.
   params?: ParamsSchema;
   query?: QuerySchema;
   status?: number;
+  /** The reply is a text/event-stream that stays open (EventStreamReply); clients and tests read its status, then events. */
+  eventStream?: boolean;
   handler(ctx: RouteContext<z.output<BodySchema>, z.output<ParamsSchema>, z.output<QuerySchema>>): Promise<unknown>;
 }
 
@@ -69,7 +144,9 @@ export function mount(router: Router, specs: AnyRouteSpec[]): void {
       const cookies: string[] = [];
       const result = await spec.handler({ body, params, query, user, sessionId: (res.locals.sessionId as string | null) ?? null, req, setCookie: (c) => cookies.push(c) });
       if (cookies.length) res.append('Set-Cookie', cookies);
-      if (result instanceof FileReply) {
+      if (result instanceof EventStreamReply) {
+        openEventStream(req, res, result);
+      } else if (result instanceof FileReply) {
         res.status(200).type(result.contentType).attachment(result.fileName).send(result.content);
       } else if (result instanceof RawJsonReply) {
         res.status(spec.status ?? 200).type('application/json').send(result.json);

@@ -37,26 +37,12 @@ export function notebookRoutes({ notebooks, versions, documents }: Services) {
 
     route({ method: 'post', path: '/notebooks/:notebookId/cells', access: 'signed-in', summary: 'Add a cell', params: notebookParams, body: createCellInput, status: 201,
       handler: async ({ user, params, body }) => ({ notebook: await notebooks.addCell(user!, params.notebookId, body) }) }),
-    route({ method: 'patch', path: '/notebooks/:notebookId/cells/:cellId', access: 'signed-in', summary: 'Edit a cell (409 when the revision is stale)', params: cellParams, body: updateCellInput,
-      handler: async ({ user, params, body }) => {
-        // Changing a model & parameters cell re-bases every dependent: keep the state before it.
-        if (body.input?.kind === 'setup') {
-          const before = (await notebooks.detail(user!, params.notebookId)).cells.find((c) => c.id === params.cellId);
-          if (before && before.revision === body.revision && JSON.stringify(before.input) !== JSON.stringify(body.input)) {
-            await versions.save(user!, params.notebookId, `Before changing "${before.label}"`, true);
-          }
-        }
-        return { notebook: await notebooks.updateCell(user!, params.notebookId, params.cellId, body) };
-      } }),
+    route({ method: 'patch', path: '/notebooks/:notebookId/cells/:cellId', access: 'signed-in', summary: 'Edit a cell (409 when the revision is stale; changing a model & parameters cell keeps a version first)', params: cellParams, body: updateCellInput,
+      handler: async ({ user, params, body }) => ({ notebook: await notebooks.updateCell(user!, params.notebookId, params.cellId, body) }) }),
     route({ method: 'post', path: '/notebooks/:notebookId/cells/:cellId/move', access: 'signed-in', summary: 'Move a cell', params: cellParams, body: moveCellInput,
       handler: async ({ user, params, body }) => ({ notebook: await notebooks.moveCell(user!, params.notebookId, params.cellId, body.position) }) }),
     route({ method: 'delete', path: '/notebooks/:notebookId/cells/:cellId', access: 'signed-in', summary: 'Delete a cell (a version is saved first)', params: cellParams,
-      handler: async ({ user, params }) => {
-        const detail = await notebooks.detail(user!, params.notebookId);
-        const label = detail.cells.find((c) => c.id === params.cellId)?.label;
-        if (label) await versions.save(user!, params.notebookId, `Before deleting cell "${label}"`, true);
-        return { notebook: await notebooks.deleteCell(user!, params.notebookId, params.cellId) };
-      } }),
+      handler: async ({ user, params }) => ({ notebook: await notebooks.deleteCell(user!, params.notebookId, params.cellId) }) }),
     route({ method: 'post', path: '/notebooks/:notebookId/cells/:cellId/run', access: 'signed-in', summary: 'Run a cell on the server (422 job_too_large over the cost limit or the notebook\'s result budget)', params: cellParams, status: 202,
       handler: async ({ user, params }) => ({ run: await notebooks.runCell(user!, params.notebookId, params.cellId) }) }),
     route({ method: 'post', path: '/notebooks/:notebookId/run-all', access: 'signed-in', summary: 'Run every cell that is not up to date, as far as your queue limit allows; the rest are listed in `waiting`', params: notebookParams, status: 202,

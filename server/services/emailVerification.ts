@@ -7,6 +7,8 @@ import { EmailVerificationToken, User } from '../db/entities';
 import { AppError } from '../http/errors';
 import type { Mailer, OutgoingMessage } from '../mail/mailer';
 import { emailKey, toPublicUser } from './accounts';
+import type { NotebookEventBus } from './notebookEvents';
+import { acceptInvitations } from './sharing';
 
 export const VERIFICATION_TOKEN_LIFETIME_MS = 24 * 3600 * 1000;
 
@@ -48,6 +50,8 @@ export function createEmailVerificationService(
   sessions: SessionService,
   publicUrl: string,
   now: () => Date = () => new Date(),
+  /** Told about notebooks whose invitations a confirmation accepted. */
+  events?: Pick<NotebookEventBus, 'publish' | 'accessChanged'>,
 ): EmailVerificationService {
   const tokens = dataSource.getRepository(EmailVerificationToken);
   const users = dataSource.getRepository(User);
@@ -102,12 +106,18 @@ export function createEmailVerificationService(
       const { user, passwordMatches } = await accountMatching(token, password);
       if (!user) throw invalidLink();
       if (!passwordMatches) throw wrongPassword();
-      const verified = await dataSource.transaction(async (manager) => {
+      const { verified, accepted } = await dataSource.transaction(async (manager) => {
         if (!isUsable(await manager.findOneBy(EmailVerificationToken, { tokenHash: sha256(token) }))) throw invalidLink();
         await spendVerificationLinks(manager, user.id, now());
         await manager.update(User, { id: user.id, emailVerifiedAt: IsNull() }, { emailVerifiedAt: now() });
-        return manager.findOneByOrFail(User, { id: user.id });
+        // The confirmed address now proves who was invited: notebooks shared with it before sign-up open.
+        const accepted = await acceptInvitations(manager, user, now());
+        return { verified: await manager.findOneByOrFail(User, { id: user.id }), accepted };
       });
+      for (const change of accepted) {
+        events?.publish(change);
+        events?.accessChanged({ notebookId: change.notebookId });
+      }
       // Whoever was signed in to this account before it was confirmed is signed out.
       await sessions.endAllFor(user.id);
       return toPublicUser(verified);

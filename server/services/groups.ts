@@ -11,6 +11,7 @@ import { GroupMembership, ResearchGroup, User } from '../db/entities';
 import { AppError } from '../http/errors';
 import { newId } from '../ids';
 import { emailKey } from './accounts';
+import type { NotebookEventBus } from './notebookEvents';
 
 export interface GroupService {
   listFor(viewer: SignedInUser): Promise<GroupSummary[]>;
@@ -21,7 +22,8 @@ export interface GroupService {
   removeMember(viewer: SignedInUser, groupId: string, userId: string): Promise<GroupDetail>;
 }
 
-export function createGroupService(dataSource: DataSource): GroupService {
+/** `events` hears of every membership change: grants to the group change its members' notebook roles. */
+export function createGroupService(dataSource: DataSource, events?: Pick<NotebookEventBus, 'accessChanged'>): GroupService {
   const groups = dataSource.getRepository(ResearchGroup);
   const memberships = dataSource.getRepository(GroupMembership);
 
@@ -123,6 +125,7 @@ export function createGroupService(dataSource: DataSource): GroupService {
       }
       if (roleOf(group, user.id)) throw new AppError('conflict', `${user.name} is already in this group.`);
       await memberships.insert({ groupId, userId: user.id, role: input.role });
+      events?.accessChanged({ userId: user.id });
       return toDetail(await loadGroup(groupId), viewer);
     },
 
@@ -140,6 +143,7 @@ export function createGroupService(dataSource: DataSource): GroupService {
       if (!roleOf(group, userId)) throw new AppError('not_found', 'This person is not in the group.');
       assertKeepsALead(group, userId, null);
       await memberships.delete({ groupId, userId });
+      events?.accessChanged({ userId });
       return toDetail(await loadGroup(groupId), viewer);
     },
   };

@@ -5,12 +5,17 @@ import { createSessionService, type SessionService } from '../auth/sessions';
 import type { ServerConfig } from '../config';
 import type { Mailer } from '../mail/mailer';
 import { createAccountService, type AccountService } from './accounts';
+import { createActivityService, type ActivityService } from './activity';
+import { createCommentService, type CommentService } from './comments';
 import { createEmailVerificationService, type EmailVerificationService } from './emailVerification';
 import { createGroupService, type GroupService } from './groups';
+import { createLiveHub, type LiveHub } from './live';
 import { createNotebookEventBus, type NotebookEventBus } from './notebookEvents';
 import { createNotebookService, type NotebookService } from './notebooks';
 import { createPasswordResetService, type PasswordResetService } from './passwordReset';
 import { createRunService, type RunService } from './runs';
+import { createSharingService, type SharingService } from './sharing';
+import { senderLimit } from '../http/senderLimits';
 import { createVersionService, type VersionService } from './versions';
 import type { JobRunner } from '../jobs/runner';
 import { createDocumentRenderer, type DocumentRenderer } from '../jobs/documents';
@@ -31,19 +36,27 @@ export interface Services {
   /** Notebook changes and access changes, fanned out to live streams. */
   events: NotebookEventBus;
   versions: VersionService;
+  /** Grants, invitations, share links and ownership of notebooks. */
+  sharing: SharingService;
   /** Renders exports (LaTeX) in a worker thread. */
   documents: DocumentRenderer;
+  /** Comment threads, mentions and the notifications they cause. */
+  comments: CommentService;
+  /** Per-person activity lists, following notebooks, per-notebook logs. */
+  activity: ActivityService;
+  /** Live streams of notebooks: changes, presence, presenters, role changes. */
+  live: LiveHub;
 }
 
 export function createServices(config: ServerConfig, logger: Logger, dataSource: DataSource, mailer: Mailer, runner: JobRunner): Services {
   const secureCookies = config.publicUrl.startsWith('https://');
   const sessions = createSessionService(dataSource, secureCookies);
-  const emailVerification = createEmailVerificationService(dataSource, mailer, sessions, config.publicUrl);
-  const runs = createRunService(dataSource, runner, logger, config.jobs);
   const events = createNotebookEventBus();
-  const notebooks = createNotebookService(dataSource, runs);
+  const emailVerification = createEmailVerificationService(dataSource, mailer, sessions, config.publicUrl, undefined, events);
+  const runs = createRunService(dataSource, runner, logger, config.jobs);
+  const notebooks = createNotebookService(dataSource, runs, events);
   const documents = createDocumentRenderer({ maxQueue: config.documentQueueLimit });
-  return {
+  const services: Services = {
     config,
     logger,
     dataSource,
@@ -52,12 +65,24 @@ export function createServices(config: ServerConfig, logger: Logger, dataSource:
     knownDevices: createKnownDevices(secureCookies, deviceKeyIn(dataSource)),
     emailVerification,
     accounts: createAccountService(dataSource, mailer, emailVerification, config.publicUrl),
-    passwordReset: createPasswordResetService(dataSource, mailer, sessions, config.publicUrl),
-    groups: createGroupService(dataSource),
+    passwordReset: createPasswordResetService(dataSource, mailer, sessions, config.publicUrl, undefined, events),
+    groups: createGroupService(dataSource, events),
     runs,
     notebooks,
     events,
     versions: createVersionService(dataSource, notebooks, documents),
+    sharing: createSharingService({
+      dataSource, notebooks, events, mailer, publicUrl: config.publicUrl,
+      invitationLimit: senderLimit(config.authLimits.invitationsPerSenderPerHour, 'invitation and sharing e-mails'),
+    }),
     documents,
+    comments: createCommentService({
+      dataSource, notebooks, events, mailer, logger, publicUrl: config.publicUrl,
+      mentionMailsPerSenderPerHour: config.authLimits.mentionMailsPerSenderPerHour,
+      resolveLink: (token) => services.sharing.resolveLink(token),
+    }),
+    activity: createActivityService(dataSource, notebooks, events, logger),
+    live: createLiveHub({ notebooks, events, logger, resolveLink: (token) => services.sharing.resolveLink(token) }),
   };
+  return services;
 }

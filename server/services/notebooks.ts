@@ -13,6 +13,8 @@ import { RESULT_LIMITS } from '../../shared/jobs/limits';
 import { WeightedLru } from './boundedCache';
 import { assertCellAccepted } from './cellChecks';
 import { resultHolderId, resultsOf, type RunService } from './runs';
+import type { NotebookEventBus } from './notebookEvents';
+import { createNotebookWriter, type WrittenChange } from './notebookWriter';
 
 export const MAX_CELLS_PER_NOTEBOOK = 200;
 /** Characters of JSON the settled cell views of all notebooks may hold in memory together (results counted once per notebook). */
@@ -83,7 +85,7 @@ export function parseCellInput(json: string): CellInput {
 }
 
 /** Notebooks and their cells: who may see and edit them, and what state every cell is in. */
-export function createNotebookService(dataSource: DataSource, runs: RunService) {
+export function createNotebookService(dataSource: DataSource, runs: RunService, events: NotebookEventBus) {
   const notebooks = dataSource.getRepository(Notebook);
   const cells = dataSource.getRepository(Cell);
   // Cell views of notebooks with no run in flight; every write path below calls forget().
@@ -146,11 +148,6 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
 
   async function orderedCells(notebookId: string, manager: EntityManager = dataSource.manager) {
     return manager.getRepository(Cell).find({ where: { notebookId }, order: { position: 'ASC' } });
-  }
-
-  async function touch(notebookId: string, manager: EntityManager = dataSource.manager) {
-    forget(notebookId);
-    await manager.getRepository(Notebook).update({ id: notebookId }, { updatedAt: new Date() });
   }
 
   async function cellViews(notebookId: string): Promise<CellView[]> {
@@ -342,7 +339,16 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
     return expected;
   }
 
-  async function runCellRow(viewer: SignedInUser, cell: CellToRun, notebook: NotebookAtRun): Promise<RunView | null> {
+  /** A cell's job queued (or answered from the cache), with what the cell will record of it. */
+  interface StartedRun {
+    cellId: string;
+    label: string;
+    run: JobRun;
+    fingerprint: string;
+  }
+
+  /** Queue the cell's job within the notebook's result budget; null when the cell has nothing to run. */
+  async function startCellRun(viewer: SignedInUser, cell: CellToRun, notebook: NotebookAtRun): Promise<StartedRun | null> {
     let job: Record<string, unknown> | null;
     try {
       job = jobForCell(cell.input, notebook.setups);
@@ -354,9 +360,17 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
     const expectedBytes = await assertResultsFit(cell, job, notebook);
     const run = await submitCellJob(viewer, cell, job);
     notebook.resultBytes.set(cell.id, expectedBytes);
-    await cells.update({ id: cell.id }, { lastRunId: run.id, lastRunFingerprint: fingerprintOf({ label: cell.label, input: cell.input }, notebook.byLabel) });
-    forget(notebook.notebookId);
-    return runs.view(run);
+    return { cellId: cell.id, label: cell.label, run, fingerprint: fingerprintOf({ label: cell.label, input: cell.input }, notebook.byLabel) };
+  }
+
+  async function recordRuns(manager: EntityManager, started: StartedRun[]) {
+    for (const { cellId, run, fingerprint } of started) await manager.update(Cell, { id: cellId }, { lastRunId: run.id, lastRunFingerprint: fingerprint });
+  }
+
+  function runChange(started: StartedRun[]): WrittenChange | null {
+    if (!started.length) return null;
+    if (started.length === 1) return { kind: 'cell-run', cellId: started[0].cellId, text: `ran cell "${started[0].label}"` };
+    return { kind: 'cell-run', cellId: null, text: `ran ${started.length} cells: ${started.map((s) => s.label).join(', ')}` };
   }
 
   async function submitCellJob(viewer: SignedInUser, row: CellToRun, job: Record<string, unknown>) {
@@ -368,14 +382,37 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
     }
   }
 
+  async function cellNotebookId(cellId: string): Promise<string | null> {
+    return (await cells.findOneBy({ id: cellId }))?.notebookId ?? null;
+  }
+
+  async function runOf(viewer: SignedInUser, runId: string): Promise<JobRun> {
+    const run = await runs.find(runId);
+    if (run.requestedBy === viewer.id) return run;
+    // Runs of a shared notebook's cells are visible to everyone who can open the notebook (site admins included: no more).
+    const notebookId = run.cellId ? await cellNotebookId(run.cellId) : null;
+    if (!notebookId) throw new AppError('not_found', 'No such run.');
+    await requireRole(viewer, notebookId, 'read');
+    return run;
+  }
+
+  const writer = createNotebookWriter(dataSource, { requireRole, forget, events });
+
+  // Whoever looks at the notebook refreshes when a run of one of its cells ends.
+  runs.onFinished(async ({ cellId }) => {
+    const notebookId = cellId ? await cellNotebookId(cellId) : null;
+    if (!notebookId) return;
+    forget(notebookId);
+    events.publish({ notebookId, kind: 'cell-run', actorId: null, actorName: null, cellId, text: 'a run finished' });
+  });
+
   return {
     access,
+    writer,
     requireRole,
     editable,
     forget,
-    async cellNotebookId(cellId: string): Promise<string | null> {
-      return (await cells.findOneBy({ id: cellId }))?.notebookId ?? null;
-    },
+    cellNotebookId,
     detail,
     orderedCells,
 
@@ -415,128 +452,164 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
 
     async create(viewer: SignedInUser, input: { title: string; summary: string; groupId: string | null }) {
       await assertGroupMember(viewer, input.groupId);
-      const id = newId();
-      await dataSource.transaction(async (manager) => {
-        await manager.insert(Notebook, { id, title: input.title, summary: input.summary, groupId: input.groupId, ownerId: viewer.id });
-        if (input.groupId) await manager.insert(NotebookMember, { id: newId(), notebookId: id, groupId: input.groupId, role: 'editor', grantedById: viewer.id });
-      });
-      return detail(viewer, id);
+      return detail(viewer, await writer.create(viewer, input));
     },
 
     /** Rename or describe (editors); filing under another group (owner only) moves the group's editor grant along. */
     async update(viewer: SignedInUser, notebookId: string, patch: { title?: string; summary?: string; groupId?: string | null }) {
-      const notebook = await editable(viewer, notebookId);
-      const moving = patch.groupId !== undefined && patch.groupId !== notebook.groupId;
-      if (moving) {
-        // Moving a notebook into or out of a group changes who can reach it: the owner's decision alone.
-        if (notebook.ownerId !== viewer.id) {
-          throw new AppError('forbidden', 'Only the notebook\'s owner can move it into or out of a group.', { groupId: 'Only the owner can change this' });
-        }
-        await assertGroupMember(viewer, patch.groupId);
-      }
-      await dataSource.transaction(async (manager) => {
-        await manager.update(Notebook, { id: notebook.id }, { ...patch, updatedAt: new Date() });
-        if (!moving) return;
-        if (notebook.groupId) await manager.delete(NotebookMember, { notebookId, groupId: notebook.groupId });
-        if (patch.groupId) {
-          await manager.delete(NotebookMember, { notebookId, groupId: patch.groupId });
-          await manager.insert(NotebookMember, { id: newId(), notebookId, groupId: patch.groupId, role: 'editor', grantedById: viewer.id });
-        }
+      let moved = false;
+      await writer.write(viewer, notebookId, {
+        action: 'edit',
+        prepare: async ({ notebook }) => {
+          const moving = patch.groupId !== undefined && patch.groupId !== notebook.groupId;
+          if (moving) {
+            // Moving a notebook into or out of a group changes who can reach it: the owner's decision alone.
+            if (notebook.ownerId !== viewer.id) {
+              throw new AppError('forbidden', 'Only the notebook\'s owner can move it into or out of a group.', { groupId: 'Only the owner can change this' });
+            }
+            await assertGroupMember(viewer, patch.groupId);
+          }
+          return { moving, formerGroupId: notebook.groupId };
+        },
+        apply: async ({ manager }, { moving, formerGroupId }) => {
+          await manager.update(Notebook, { id: notebookId }, { ...patch, updatedAt: new Date() });
+          if (moving) {
+            if (formerGroupId) await manager.delete(NotebookMember, { notebookId, groupId: formerGroupId });
+            if (patch.groupId) {
+              await manager.delete(NotebookMember, { notebookId, groupId: patch.groupId });
+              await manager.insert(NotebookMember, { id: newId(), notebookId, groupId: patch.groupId, role: 'editor', grantedById: viewer.id });
+            }
+          }
+          moved = moving;
+          return { value: undefined, change: { kind: 'notebook-edited', text: notebookEditText(patch, moving) } };
+        },
       });
-      forget(notebookId);
+      if (moved) events.accessChanged({ notebookId });
       return detail(viewer, notebookId);
     },
 
     async remove(viewer: SignedInUser, notebookId: string) {
       await requireRole(viewer, notebookId, 'delete');
-      forget(notebookId);
       await notebooks.delete({ id: notebookId });
+      forget(notebookId);
+      events.accessChanged({ notebookId });
     },
 
     async addCell(viewer: SignedInUser, notebookId: string, input: { label: string; input: CellInput; position?: number }) {
-      await editable(viewer, notebookId);
-      await assertSavable(notebookId, null, input.label, input.input);
-      await dataSource.transaction(async (manager) => {
-        const existing = await orderedCells(notebookId, manager);
-        if (existing.length >= MAX_CELLS_PER_NOTEBOOK) throw new AppError('conflict', `A notebook holds at most ${MAX_CELLS_PER_NOTEBOOK} cells.`);
-        if (existing.some((c) => c.label === input.label)) {
-          throw new AppError('conflict', `A cell labelled "${input.label}" already exists in this notebook.`, { label: 'Label already used' });
-        }
-        const position = Math.min(input.position ?? existing.length, existing.length);
-        for (const cell of existing.filter((c) => c.position >= position)) await manager.update(Cell, { id: cell.id }, { position: cell.position + 1 });
-        await manager.insert(Cell, { id: newId(), notebookId, position, kind: input.input.kind, label: input.label, inputJson: JSON.stringify(input.input), revision: 1 });
-        await touch(notebookId, manager);
+      await writer.write(viewer, notebookId, {
+        action: 'edit',
+        prepare: () => assertSavable(notebookId, null, input.label, input.input),
+        apply: async ({ manager }) => {
+          const existing = await orderedCells(notebookId, manager);
+          if (existing.length >= MAX_CELLS_PER_NOTEBOOK) throw new AppError('conflict', `A notebook holds at most ${MAX_CELLS_PER_NOTEBOOK} cells.`);
+          if (existing.some((c) => c.label === input.label)) {
+            throw new AppError('conflict', `A cell labelled "${input.label}" already exists in this notebook.`, { label: 'Label already used' });
+          }
+          const position = Math.min(input.position ?? existing.length, existing.length);
+          for (const cell of existing.filter((c) => c.position >= position)) await manager.update(Cell, { id: cell.id }, { position: cell.position + 1 });
+          const cellId = newId();
+          await manager.insert(Cell, { id: cellId, notebookId, position, kind: input.input.kind, label: input.label, inputJson: JSON.stringify(input.input), revision: 1 });
+          return { value: undefined, change: { kind: 'cell-added', cellId, text: `added cell "${input.label}"` } };
+        },
       });
-      forget(notebookId);
       return detail(viewer, notebookId);
     },
 
+    /** Edit a cell at the revision the editor saw (409 when stale); changing a model & parameters cell keeps the state before it as a version. */
     async updateCell(viewer: SignedInUser, notebookId: string, cellId: string, patch: { label?: string; input?: CellInput; revision: number }) {
-      await editable(viewer, notebookId);
-      if (patch.input) await assertSavable(notebookId, cellId, patch.label, patch.input);
-      await dataSource.transaction(async (manager) => {
-        const cell = await manager.findOneBy(Cell, { id: cellId, notebookId });
-        if (!cell) throw new AppError('not_found', 'No such cell.');
-        if (cell.revision !== patch.revision) {
-          throw new AppError('conflict', `This cell was changed elsewhere (now at revision ${cell.revision}, you edited revision ${patch.revision}). Reload it, or keep your version.`);
-        }
-        if (patch.label && patch.label !== cell.label) {
-          const all = await orderedCells(notebookId, manager);
-          if (all.some((c) => c.label === patch.label)) throw new AppError('conflict', `A cell labelled "${patch.label}" already exists.`, { label: 'Label already used' });
-        }
-        // Compare-and-set on the revision, so two simultaneous saves cannot both win.
-        const result = await manager.update(
-          Cell,
-          { id: cellId, revision: patch.revision },
-          {
-            revision: patch.revision + 1,
-            ...(patch.label ? { label: patch.label } : {}),
-            ...(patch.input ? { inputJson: JSON.stringify(patch.input), kind: patch.input.kind } : {}),
-          },
-        );
-        if (!result.affected) throw new AppError('conflict', 'This cell was changed elsewhere just now. Reload it, or keep your version.');
-        await touch(notebookId, manager);
+      await writer.write(viewer, notebookId, {
+        action: 'edit',
+        prepare: async () => {
+          if (patch.input) await assertSavable(notebookId, cellId, patch.label, patch.input);
+        },
+        versionBefore: async (manager) => {
+          // Changing a model & parameters cell re-bases every dependent: keep the state before it.
+          if (patch.input?.kind !== 'setup') return null;
+          const before = await manager.findOneBy(Cell, { id: cellId, notebookId });
+          if (!before || before.revision !== patch.revision) return null;
+          if (JSON.stringify(parseCellInput(before.inputJson)) === JSON.stringify(patch.input)) return null;
+          return `Before changing "${before.label}"`;
+        },
+        apply: async ({ manager }) => {
+          const cell = await manager.findOneBy(Cell, { id: cellId, notebookId });
+          if (!cell) throw new AppError('not_found', 'No such cell.');
+          if (cell.revision !== patch.revision) {
+            throw new AppError('conflict', `This cell was changed elsewhere (now at revision ${cell.revision}, you edited revision ${patch.revision}). Reload it, or keep your version.`);
+          }
+          if (patch.label && patch.label !== cell.label) {
+            const all = await orderedCells(notebookId, manager);
+            if (all.some((c) => c.label === patch.label)) throw new AppError('conflict', `A cell labelled "${patch.label}" already exists.`, { label: 'Label already used' });
+          }
+          // Compare-and-set on the revision, so two simultaneous saves cannot both win.
+          const result = await manager.update(
+            Cell,
+            { id: cellId, revision: patch.revision },
+            {
+              revision: patch.revision + 1,
+              ...(patch.label ? { label: patch.label } : {}),
+              ...(patch.input ? { inputJson: JSON.stringify(patch.input), kind: patch.input.kind } : {}),
+            },
+          );
+          if (!result.affected) throw new AppError('conflict', 'This cell was changed elsewhere just now. Reload it, or keep your version.');
+          const label = patch.label ?? cell.label;
+          return { value: undefined, change: { kind: 'cell-edited', cellId, text: label === cell.label ? `edited cell "${label}"` : `renamed cell "${cell.label}" to "${label}"` } };
+        },
       });
-      forget(notebookId);
       return detail(viewer, notebookId);
     },
 
     async moveCell(viewer: SignedInUser, notebookId: string, cellId: string, position: number) {
-      await editable(viewer, notebookId);
-      await dataSource.transaction(async (manager) => {
-        const all = await orderedCells(notebookId, manager);
-        const index = all.findIndex((c) => c.id === cellId);
-        if (index < 0) throw new AppError('not_found', 'No such cell.');
-        const [moved] = all.splice(index, 1);
-        all.splice(Math.min(position, all.length), 0, moved);
-        for (const [i, cell] of all.entries()) if (cell.position !== i) await manager.update(Cell, { id: cell.id }, { position: i });
-        await touch(notebookId, manager);
+      await writer.write(viewer, notebookId, {
+        action: 'edit',
+        apply: async ({ manager }) => {
+          const all = await orderedCells(notebookId, manager);
+          const index = all.findIndex((c) => c.id === cellId);
+          if (index < 0) throw new AppError('not_found', 'No such cell.');
+          const [moved] = all.splice(index, 1);
+          all.splice(Math.min(position, all.length), 0, moved);
+          for (const [i, cell] of all.entries()) if (cell.position !== i) await manager.update(Cell, { id: cell.id }, { position: i });
+          return { value: undefined, change: { kind: 'cell-moved', cellId, text: `moved cell "${moved.label}" to place ${all.indexOf(moved) + 1}` } };
+        },
       });
-      forget(notebookId);
       return detail(viewer, notebookId);
     },
 
+    /** Delete a cell; the notebook as it was is kept as an automatic version first. */
     async deleteCell(viewer: SignedInUser, notebookId: string, cellId: string) {
-      await editable(viewer, notebookId);
-      await dataSource.transaction(async (manager) => {
-        const all = await orderedCells(notebookId, manager);
-        if (!all.some((c) => c.id === cellId)) throw new AppError('not_found', 'No such cell.');
-        await manager.delete(Cell, { id: cellId });
-        for (const [i, cell] of all.filter((c) => c.id !== cellId).entries()) if (cell.position !== i) await manager.update(Cell, { id: cell.id }, { position: i });
-        await touch(notebookId, manager);
+      await writer.write(viewer, notebookId, {
+        action: 'edit',
+        versionBefore: async (manager) => {
+          const cell = await manager.findOneBy(Cell, { id: cellId, notebookId });
+          return cell ? `Before deleting cell "${cell.label}"` : null;
+        },
+        apply: async ({ manager }) => {
+          const all = await orderedCells(notebookId, manager);
+          const cell = all.find((c) => c.id === cellId);
+          if (!cell) throw new AppError('not_found', 'No such cell.');
+          await manager.delete(Cell, { id: cellId });
+          for (const [i, other] of all.filter((c) => c.id !== cellId).entries()) if (other.position !== i) await manager.update(Cell, { id: other.id }, { position: i });
+          return { value: undefined, change: { kind: 'cell-deleted', cellId, text: `deleted cell "${cell.label}"` } };
+        },
       });
-      forget(notebookId);
       return detail(viewer, notebookId);
     },
 
     async runCell(viewer: SignedInUser, notebookId: string, cellId: string): Promise<RunView> {
-      await editable(viewer, notebookId);
-      const all = (await orderedCells(notebookId)).map((row) => ({ id: row.id, label: row.label, input: parseCellInput(row.inputJson) }));
-      const cell = all.find((c) => c.id === cellId);
-      if (!cell) throw new AppError('not_found', 'No such cell.');
-      const run = await runCellRow(viewer, cell, await notebookAtRun(notebookId, all));
-      if (!run) throw new AppError('validation_failed', `A ${cell.input.kind} cell has nothing to run.`);
-      return run;
+      return writer.write(viewer, notebookId, {
+        action: 'run',
+        prepare: async () => {
+          const all = (await orderedCells(notebookId)).map((row) => ({ id: row.id, label: row.label, input: parseCellInput(row.inputJson) }));
+          const cell = all.find((c) => c.id === cellId);
+          if (!cell) throw new AppError('not_found', 'No such cell.');
+          const started = await startCellRun(viewer, cell, await notebookAtRun(notebookId, all));
+          if (!started) throw new AppError('validation_failed', `A ${cell.input.kind} cell has nothing to run.`);
+          return started;
+        },
+        apply: async ({ manager }, started) => {
+          await recordRuns(manager, [started]);
+          return { value: runs.view(started.run), change: runChange([started]), touch: false };
+        },
+      });
     },
 
     /**
@@ -544,26 +617,63 @@ export function createNotebookService(dataSource: DataSource, runs: RunService) 
      * the cells beyond it are reported as waiting (run all again once some have started).
      */
     async runAll(viewer: SignedInUser, notebookId: string): Promise<RunAllReply> {
-      await editable(viewer, notebookId);
-      // the views carry every cell's parsed input: the notebook is read and parsed once for the whole request
-      const views = await cellViews(notebookId);
-      const notebook = await notebookAtRun(notebookId, views);
-      const started: RunView[] = [];
-      const waiting: string[] = [];
-      for (const view of views) {
-        if (!['never-run', 'out-of-date', 'failed'].includes(view.state)) continue;
-        try {
-          const run = await runCellRow(viewer, view, notebook);
-          if (run) started.push(run);
-        } catch (error) {
-          // Later cells may still be answered from the cache, so keep going.
-          if (!(error instanceof AppError && error.code === 'queue_full')) throw error;
-          waiting.push(view.label);
-        }
+      const outcome: { error?: unknown } = {};
+      const reply = await writer.write(viewer, notebookId, {
+        action: 'run',
+        prepare: async () => {
+          // the views carry every cell's parsed input: the notebook is read and parsed once for the whole request
+          const views = await cellViews(notebookId);
+          const notebook = await notebookAtRun(notebookId, views);
+          const started: StartedRun[] = [];
+          const waiting: string[] = [];
+          for (const view of views) {
+            if (!['never-run', 'out-of-date', 'failed'].includes(view.state)) continue;
+            try {
+              const run = await startCellRun(viewer, view, notebook);
+              if (run) started.push(run);
+            } catch (error) {
+              // Later cells may still be answered from the cache, so keep going.
+              if (error instanceof AppError && error.code === 'queue_full') {
+                waiting.push(view.label);
+                continue;
+              }
+              // the jobs already queued are still recorded on their cells before the error is answered
+              outcome.error = error;
+              break;
+            }
+          }
+          return { started, waiting };
+        },
+        apply: async ({ manager }, { started, waiting }) => {
+          await recordRuns(manager, started);
+          return { value: { runs: started.map((s) => runs.view(s.run)), waiting }, change: runChange(started), touch: false };
+        },
+      });
+      if (outcome.error) throw outcome.error;
+      return reply;
+    },
+
+    /** A run, when the viewer started it or may read the notebook of its cell. */
+    runOf,
+
+    /** Cancel a queued or running job: whoever started it, or someone who may run the cells of its notebook. */
+    async cancelRun(viewer: SignedInUser, runId: string) {
+      const run = await runOf(viewer, runId);
+      if (run.requestedBy !== viewer.id) {
+        const notebookId = run.cellId ? await cellNotebookId(run.cellId) : null;
+        if (!notebookId) throw new AppError('forbidden', 'Only whoever started this run can cancel it.');
+        await requireRole(viewer, notebookId, 'run');
       }
-      return { runs: started, waiting };
+      return runs.cancel(runId);
     },
   };
+}
+
+/** One line for the log of a notebook's title, summary or group change. */
+function notebookEditText(patch: { title?: string; summary?: string; groupId?: string | null }, moving: boolean): string {
+  if (moving) return patch.groupId ? 'filed the notebook under a group' : 'took the notebook out of its group';
+  if (patch.title !== undefined) return `renamed the notebook to "${patch.title.slice(0, 200)}"`;
+  return 'edited the notebook\'s description';
 }
 
 export type NotebookService = ReturnType<typeof createNotebookService>;

@@ -7,6 +7,8 @@ import { AppError } from '../http/errors';
 import type { Mailer } from '../mail/mailer';
 import { emailKey } from './accounts';
 import { spendVerificationLinks } from './emailVerification';
+import type { NotebookEventBus } from './notebookEvents';
+import { acceptInvitations } from './sharing';
 
 export const RESET_TOKEN_LIFETIME_MS = 30 * 60 * 1000;
 
@@ -28,6 +30,7 @@ export function createPasswordResetService(
   sessions: SessionService,
   publicUrl: string,
   now: () => Date = () => new Date(),
+  events?: Pick<NotebookEventBus, 'publish' | 'accessChanged'>,
 ): PasswordResetService {
   const tokens = dataSource.getRepository(PasswordResetToken);
   const users = dataSource.getRepository(User);
@@ -65,17 +68,23 @@ export function createPasswordResetService(
       // Check the token before paying for a password hash, so junk requests cost nothing.
       if (!isUsable(await tokens.findOneBy({ tokenHash: sha256(token) }))) throw invalidToken();
       const passwordHash = await hashPassword(newPassword);
-      const userId = await dataSource.transaction(async (manager) => {
+      const { userId, accepted } = await dataSource.transaction(async (manager) => {
         const row = await manager.findOneBy(PasswordResetToken, { tokenHash: sha256(token) });
         if (!isUsable(row)) throw invalidToken();
         // Using one link spends every other outstanding link of the account.
         await manager.update(PasswordResetToken, { userId: row.userId, usedAt: IsNull() }, { usedAt: now() });
         await manager.update(User, { id: row.userId }, { passwordHash });
         // Following the e-mailed link proves the address as well as a verification link does.
-        await manager.update(User, { id: row.userId, emailVerifiedAt: IsNull() }, { emailVerifiedAt: now() });
+        const confirmed = await manager.update(User, { id: row.userId, emailVerifiedAt: IsNull() }, { emailVerifiedAt: now() });
         await spendVerificationLinks(manager, row.userId, now());
-        return row.userId;
+        // As with a verification link: notebooks shared with the address before it was confirmed open now.
+        const accepted = confirmed.affected ? await acceptInvitations(manager, await manager.findOneByOrFail(User, { id: row.userId }), now()) : [];
+        return { userId: row.userId, accepted };
       });
+      for (const change of accepted) {
+        events?.publish(change);
+        events?.accessChanged({ notebookId: change.notebookId });
+      }
       await sessions.endAllFor(userId);
     },
   };

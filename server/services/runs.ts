@@ -34,7 +34,15 @@ export interface RunService {
   view(run: JobRun, result?: StoredResult | null): RunView;
   /** Characters of result JSON the job will add: the cached result's size, else an estimate. */
   expectedResultBytes(job: unknown): Promise<number>;
+  /** Called once a run is recorded as done, failed or cancelled (not for answers from the cache). */
+  onFinished(listener: (run: FinishedRun) => void | Promise<void>): () => void;
   close(): Promise<void>;
+}
+
+export interface FinishedRun {
+  id: string;
+  cellId: string | null;
+  status: JobRun['status'];
 }
 
 const MAX_JOB_JSON_LENGTH = 20_000;
@@ -137,6 +145,19 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
   // Jobs accepted but not yet in the queue (their row is being written): they count against the queue limit.
   const admitting = new Map<string, number>();
   let closing = false;
+  const finishedListeners = new Set<(run: FinishedRun) => void | Promise<void>>();
+
+  function announceFinished(id: string, status: JobRun['status']) {
+    const cellId = cellOf.get(id) ?? null;
+    cellOf.delete(id);
+    for (const listener of finishedListeners) {
+      Promise.resolve()
+        .then(() => listener({ id, cellId, status }))
+        .catch((error) => logger.error({ err: error, runId: id }, 'a listener of finished runs failed'));
+    }
+  }
+  // The cell of each run in flight, so listeners learn it without another query.
+  const cellOf = new Map<string, string | null>();
 
   async function execute(run: { id: string }, job: unknown, abort: AbortController) {
     let timer: NodeJS.Timeout | undefined;
@@ -164,6 +185,7 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
       clearTimeout(timer);
     }
     await runs.update({ id: run.id }, { ...patch, finishedAt: new Date(), durationMs: Date.now() - started });
+    announceFinished(run.id, patch.status!);
   }
 
   /** Hands free workers to waiting jobs, fairly across people. */
@@ -190,6 +212,7 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
     clearTimeout(waiting.item.waitTimer);
     try {
       await runs.update({ id, status: 'queued' }, { ...patch, finishedAt: new Date() });
+      announceFinished(id, patch.status!);
     } catch (error) {
       logger.error({ err: error, runId: id }, 'recording a run failed');
     } finally {
@@ -221,11 +244,15 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
       else admitting.delete(userId);
     }
     let end = () => {};
-    const done = new Promise<void>((resolve) => (end = resolve)).finally(() => inFlight.delete(base.id));
+    const done = new Promise<void>((resolve) => (end = resolve)).finally(() => {
+      inFlight.delete(base.id);
+      cellOf.delete(base.id);
+    });
     const entry: InFlight = { userId, job, abort: new AbortController(), done, end };
     entry.waitTimer = setTimeout(() => giveUpWaiting(base.id), limits.queueWaitLimitMs);
     entry.waitTimer.unref();
     inFlight.set(base.id, entry);
+    cellOf.set(base.id, base.cellId);
     queue.enqueue({ id: base.id, userId, queuedAt: Date.now(), item: entry });
     dispatch();
   }
@@ -312,6 +339,11 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
 
     async expectedResultBytes(job) {
       return (await resultHolder(jobHash(job)))?.bytes ?? estimatedResultBytes(job);
+    },
+
+    onFinished(listener) {
+      finishedListeners.add(listener);
+      return () => finishedListeners.delete(listener);
     },
 
     async close() {

@@ -14,77 +14,11 @@ import { newId } from '../ids';
 import { assertCellsAccepted } from './cellChecks';
 import { MAX_CELLS_PER_NOTEBOOK, type NotebookService } from './notebooks';
 import { jobHash } from './runs';
+import { cellText, resultBudget, storedCells, toSummary, SUMMARY_COLUMNS, type StoredCell } from './notebookWriter';
 
-/** At most this many versions per notebook: beyond it the oldest automatic ones make room. */
-export const MAX_VERSIONS_PER_NOTEBOOK = 200;
+export { MAX_VERSIONS_PER_NOTEBOOK } from './notebookWriter';
 
 export { COMPARISON_LIMITS, valueDifferences } from '../../shared/notebook/comparison';
-
-/** Every column of a version but its snapshot, which may be megabytes. */
-const SUMMARY_COLUMNS = { id: true, number: true, message: true, authorName: true, createdAt: true, automatic: true } as const;
-
-function toSummary(row: Pick<NotebookVersion, keyof typeof SUMMARY_COLUMNS>): VersionSummary {
-  return { id: row.id, number: row.number, message: row.message, authorName: row.authorName, createdAt: row.createdAt.toISOString(), automatic: row.automatic };
-}
-
-/** A cell as stored: its input and its shown result as the JSON text they are kept in. */
-interface StoredCell {
-  label: string;
-  kind: string;
-  inputJson: string;
-  outputJson: string | null;
-}
-
-/**
- * Takes results in order while their total stays within the notebook's result budget (each cell counted,
- * even where several show one result), as running them would; returns whether this one fits.
- */
-function resultBudget() {
-  let total = 0;
-  return (bytes: number): boolean => {
-    if (bytes > RESULT_LIMITS.maxResultBytes || total + bytes > RESULT_LIMITS.maxNotebookResultBytes) return false;
-    total += bytes;
-    return true;
-  };
-}
-
-/**
- * The notebook's cells with the JSON text of their inputs and results, read without parsing any of it; a
- * result beyond the notebook's result budget is left out (null), so the text stays bounded.
- */
-async function storedCells(dataSource: DataSource, notebookId: string): Promise<StoredCell[]> {
-  const rows: { label: string; kind: string; inputJson: string; holderId: string | null; bytes: number | null }[] = await dataSource.query(
-    `SELECT c."label" AS label, c."kind" AS kind, c."inputJson" AS inputJson, h."id" AS holderId, length(h."resultJson") AS bytes
-       FROM "cells" c
-       LEFT JOIN "job_runs" r ON r."id" = c."lastRunId"
-       LEFT JOIN "job_runs" h ON h."id" = COALESCE(r."resultRunId", r."id")
-      WHERE c."notebookId" = ?
-      ORDER BY c."position" ASC`,
-    [notebookId],
-  );
-  const fits = resultBudget();
-  const shown = rows.map((row) => (row.holderId && row.bytes && fits(Number(row.bytes)) ? row.holderId : null));
-  const holderIds = [...new Set(shown.filter((id): id is string => id !== null))];
-  const texts = new Map<string, string>();
-  if (holderIds.length) {
-    const holders: { id: string; resultJson: string }[] = await dataSource.query(
-      `SELECT "id" AS id, "resultJson" AS resultJson FROM "job_runs" WHERE "id" IN (${holderIds.map(() => '?').join(', ')})`,
-      holderIds,
-    );
-    for (const holder of holders) texts.set(holder.id, holder.resultJson);
-  }
-  return rows.map((row, i) => ({ label: row.label, kind: row.kind, inputJson: row.inputJson, outputJson: shown[i] ? (texts.get(shown[i]!) ?? null) : null }));
-}
-
-// Stored inputs and results are JSON text already: splicing them, rather than parsing and printing them
-// again, keeps work that grows with the results off the request thread.
-const cellText = (cell: StoredCell, withKind: boolean) =>
-  `{"label":${JSON.stringify(cell.label)},${withKind ? `"kind":${JSON.stringify(cell.kind)},` : ''}"input":${cell.inputJson},"output":${cell.outputJson ?? 'null'}}`;
-
-/** A version snapshot's text: {"title", "summary", "cells": [{label, kind, input, output}]} (the VersionSnapshot shape). */
-function snapshotText(title: string, summary: string, cells: StoredCell[]): string {
-  return `{"title":${JSON.stringify(title)},"summary":${JSON.stringify(summary)},"cells":[${cells.map((cell) => cellText(cell, true)).join(',')}]}`;
-}
 
 /** The exchange file's text, in the shape of toNotebookDocument (shared/notebook/exports.ts), compact. */
 function documentText(title: string, summary: string, cells: StoredCell[], exportedAt: Date): string {
@@ -159,36 +93,7 @@ export function createVersionService(dataSource: DataSource, notebooks: Notebook
 
   async function notebookText(notebookId: string) {
     const notebook = await dataSource.getRepository(Notebook).findOneByOrFail({ id: notebookId });
-    return { notebook, cells: await storedCells(dataSource, notebookId) };
-  }
-
-  /**
-   * Keeps the notebook within MAX_VERSIONS_PER_NOTEBOOK before one more is written: the oldest automatic
-   * versions go first; versions saved by hand are never deleted, so a save by hand beyond the limit is
-   * refused (an automatic one is still written, and is the first to go at the next save).
-   */
-  async function makeRoom(manager: EntityManager, notebookId: string, automatic: boolean) {
-    const repo = manager.getRepository(NotebookVersion);
-    const excess = (await repo.countBy({ notebookId })) - MAX_VERSIONS_PER_NOTEBOOK + 1;
-    if (excess <= 0) return;
-    const oldest = await repo.find({ select: { id: true }, where: { notebookId, automatic: true }, order: { number: 'ASC' }, take: excess });
-    if (oldest.length) await repo.delete(oldest.map((row) => row.id));
-    if (oldest.length < excess && !automatic) {
-      throw new AppError('conflict', `This notebook keeps at most ${MAX_VERSIONS_PER_NOTEBOOK} versions and all of them were saved by hand; a version cannot be deleted, so no more can be saved.`);
-    }
-  }
-
-  async function record(viewer: SignedInUser, notebookId: string, message: string, automatic: boolean): Promise<VersionSummary> {
-    const { notebook, cells } = await notebookText(notebookId);
-    const snapshotJson = snapshotText(notebook.title, notebook.summary, cells);
-    return dataSource.transaction(async (manager) => {
-      await makeRoom(manager, notebookId, automatic);
-      const repo = manager.getRepository(NotebookVersion);
-      const last = await repo.findOne({ select: { number: true }, where: { notebookId }, order: { number: 'DESC' } });
-      const id = newId();
-      await manager.insert(NotebookVersion, { id, notebookId, number: (last?.number ?? 0) + 1, message, automatic, authorId: viewer.id, authorName: viewer.name, snapshotJson });
-      return toSummary(await repo.findOneOrFail({ select: SUMMARY_COLUMNS, where: { id } }));
-    });
+    return { notebook, cells: await storedCells(dataSource.manager, notebookId) };
   }
 
   async function load(notebookId: string, versionId: string) {
@@ -198,13 +103,18 @@ export function createVersionService(dataSource: DataSource, notebooks: Notebook
   }
 
   return {
-    async save(viewer: SignedInUser, notebookId: string, message: string, automatic = false) {
-      await notebooks.editable(viewer, notebookId);
-      return record(viewer, notebookId, message, automatic);
+    async save(viewer: SignedInUser, notebookId: string, message: string): Promise<VersionSummary> {
+      return notebooks.writer.write(viewer, notebookId, {
+        action: 'saveVersion',
+        apply: async ({ saveVersion }) => {
+          const version = await saveVersion(message, false);
+          return { value: version, change: { kind: 'version-saved', text: `saved version ${version.number}: ${message}` }, touch: false };
+        },
+      });
     },
 
     async list(viewer: SignedInUser, notebookId: string): Promise<VersionSummary[]> {
-      await notebooks.access(viewer, notebookId);
+      await notebooks.requireRole(viewer, notebookId, 'read');
       return (await versions.find({ select: SUMMARY_COLUMNS, where: { notebookId }, order: { number: 'DESC' } })).map(toSummary);
     },
 
@@ -213,13 +123,13 @@ export function createVersionService(dataSource: DataSource, notebooks: Notebook
      * with exactly title, summary and cells) is spliced in, never parsed.
      */
     async getJson(viewer: SignedInUser, notebookId: string, versionId: string): Promise<string> {
-      await notebooks.access(viewer, notebookId);
+      await notebooks.requireRole(viewer, notebookId, 'read');
       const row = await load(notebookId, versionId);
       return `{"version":${JSON.stringify(toSummary(row)).slice(0, -1)},${row.snapshotJson.slice(1)}}`;
     },
 
     async compare(viewer: SignedInUser, notebookId: string, fromId: string, toId: string): Promise<VersionComparison> {
-      await notebooks.access(viewer, notebookId);
+      await notebooks.requireRole(viewer, notebookId, 'read');
       const rows = await Promise.all([fromId, toId].map((id) => versions.findOneBy({ id, notebookId })));
       const [from, to] = rows;
       if (!from || !to) throw new AppError('not_found', 'No such version of this notebook.');
@@ -228,43 +138,48 @@ export function createVersionService(dataSource: DataSource, notebooks: Notebook
       return { from: toSummary(from), to: toSummary(to), cells };
     },
 
+    /** Write a version's cells back (results whose inputs are unchanged come back too); the states before and after are kept as versions. */
     async restore(viewer: SignedInUser, notebookId: string, versionId: string) {
-      await notebooks.editable(viewer, notebookId);
-      const row = await load(notebookId, versionId);
-      const snapshot = await documents.restorable(row.snapshotJson, viewer.id);
-      assertCellsAccepted(snapshot.cells);
-      await record(viewer, notebookId, `Before restoring version ${row.number}`, true);
-      const leftToRun = await dataSource.transaction(async (manager) => {
-        await manager.delete(Cell, { notebookId });
-        const results = await cachedResults(manager, snapshot.cells);
-        for (const [position, cell] of snapshot.cells.entries()) {
-          const cellId = newId();
-          const result = results.found.get(cell.label);
-          // the cell gets its own cached run, as a cache hit on running it would give (no engine work)
-          const runId = result ? await recordCachedRun(manager, result.run, cellId, viewer.id) : null;
-          await manager.insert(Cell, {
-            id: cellId,
-            notebookId,
-            position,
-            kind: cell.kind,
-            label: cell.label,
-            inputJson: JSON.stringify(cell.input),
-            revision: 1,
-            lastRunId: runId,
-            lastRunFingerprint: result?.fingerprint ?? null,
-          });
-        }
-        await manager.update(Notebook, { id: notebookId }, { title: snapshot.title, summary: snapshot.summary, updatedAt: new Date() });
-        return results.leftToRun;
+      await notebooks.writer.write(viewer, notebookId, {
+        action: 'restoreVersion',
+        prepare: async () => {
+          const row = await load(notebookId, versionId);
+          const snapshot = await documents.restorable(row.snapshotJson, viewer.id);
+          assertCellsAccepted(snapshot.cells);
+          return { row, snapshot };
+        },
+        apply: async ({ manager, saveVersion }, { row, snapshot }) => {
+          await saveVersion(`Before restoring version ${row.number}`);
+          await manager.delete(Cell, { notebookId });
+          const results = await cachedResults(manager, snapshot.cells);
+          for (const [position, cell] of snapshot.cells.entries()) {
+            const cellId = newId();
+            const result = results.found.get(cell.label);
+            // the cell gets its own cached run, as a cache hit on running it would give (no engine work)
+            const runId = result ? await recordCachedRun(manager, result.run, cellId, viewer.id) : null;
+            await manager.insert(Cell, {
+              id: cellId,
+              notebookId,
+              position,
+              kind: cell.kind,
+              label: cell.label,
+              inputJson: JSON.stringify(cell.input),
+              revision: 1,
+              lastRunId: runId,
+              lastRunFingerprint: result?.fingerprint ?? null,
+            });
+          }
+          await manager.update(Notebook, { id: notebookId }, { title: snapshot.title, summary: snapshot.summary, updatedAt: new Date() });
+          await saveVersion(restoredMessage(row, results.leftToRun));
+          return { value: undefined, change: { kind: 'restored', text: `restored version ${row.number}` } };
+        },
       });
-      notebooks.forget(notebookId);
-      await record(viewer, notebookId, restoredMessage(row, leftToRun), true);
       return notebooks.detail(viewer, notebookId);
     },
 
     /** The exchange file as JSON text (compact), and the title for its file name. */
     async exportDocument(viewer: SignedInUser, notebookId: string): Promise<{ title: string; json: string }> {
-      await notebooks.access(viewer, notebookId);
+      await notebooks.requireRole(viewer, notebookId, 'export');
       const { notebook, cells } = await notebookText(notebookId);
       return { title: notebook.title, json: documentText(notebook.title, notebook.summary, cells, new Date()) };
     },
@@ -272,14 +187,8 @@ export function createVersionService(dataSource: DataSource, notebooks: Notebook
     async importDocument(viewer: SignedInUser, document: NotebookDocument) {
       if (document.cells.length > MAX_CELLS_PER_NOTEBOOK) throw new AppError('conflict', `A notebook holds at most ${MAX_CELLS_PER_NOTEBOOK} cells.`);
       assertCellsAccepted(document.cells);
-      const created = await notebooks.create(viewer, { title: document.title, summary: document.summary, groupId: null });
-      await dataSource.transaction(async (manager) => {
-        for (const [position, cell] of document.cells.entries()) {
-          await manager.insert(Cell, { id: newId(), notebookId: created.id, position, kind: cell.input.kind, label: cell.label, inputJson: JSON.stringify(cell.input), revision: 1 });
-        }
-      });
-      notebooks.forget(created.id);
-      return notebooks.detail(viewer, created.id);
+      const notebookId = await notebooks.writer.create(viewer, { title: document.title, summary: document.summary, groupId: null }, document.cells, 'imported');
+      return notebooks.detail(viewer, notebookId);
     },
   };
 }

@@ -7,7 +7,7 @@ import fc from 'fast-check';
 import { apiRouteTable } from '../../server/app';
 import type { AnyRouteSpec } from '../../server/http/route';
 import { startHarness, type Harness } from './harness';
-import { createPerson, notebookWithRun, type RouteFixture as Fixture, type TestPerson } from './people';
+import { collaborationFixture, createPerson, notebookWithRun, type RouteFixture as Fixture, type TestPerson } from './people';
 
 const RUNS_PER_ROUTE = Number(process.env.FUZZ_RUNS ?? 25);
 
@@ -32,6 +32,15 @@ function seedBody(spec: AnyRouteSpec): Record<string, unknown> {
     'POST /notebooks/:notebookId/versions': { message: 'fuzz' },
     'POST /notebooks/import': { format: 'rungbook-notebook', formatVersion: 1, title: 'Invented import', summary: '', cells: [] },
     'POST /calc': { job: { job: 'special', fn: 'gamma', x: '0.5', digits: 20 } },
+    'POST /notebooks/:notebookId/members': { email: 'fuzz@test.rungbook.example', role: 'viewer' },
+    'PATCH /notebooks/:notebookId/members/:memberId': { role: 'commenter' },
+    'POST /notebooks/:notebookId/owner': { userId: 'zzzzzzzzzzzz' },
+    'POST /notebooks/:notebookId/links': { role: 'viewer', expiresAt: '2030-01-01T00:00:00Z' },
+    'POST /notebooks/:notebookId/comments': { body: 'Invented $\\varepsilon^2$ comment @owner', parentId: 'zzzzzzzzzzzz' },
+    'PATCH /comments/:commentId': { resolved: true },
+    'POST /shared/:token/comments': { body: 'Invented comment through a link' },
+    'POST /activity/read': { ids: [] },
+    'POST /notebooks/:notebookId/presentation': { cellId: null },
   };
   return seeds[key] ?? {};
 }
@@ -75,10 +84,10 @@ describe('fuzzing every request schema: only 4xx, never 500', () => {
   const statusCounts = new Map<number, number>();
 
   before(async () => {
-    h = await startHarness({ SIGNIN_LIMIT_PER_IP: '100000', SIGNIN_LIMIT_PER_ACCOUNT: '100000' });
+    h = await startHarness({ SIGNIN_LIMIT_PER_IP: '100000', SIGNIN_LIMIT_PER_ACCOUNT: '100000', INVITE_LIMIT_PER_USER: '100000', SHARED_LINK_LIMIT_PER_IP: '100000' });
     owner = await createPerson(h, { tag: 'owner' });
     const member = await createPerson(h, { tag: 'member', signIn: false });
-    fixture = await buildFixture(owner, member.id);
+    fixture = await buildFixture(h, owner, member.id);
   });
   after(async () => {
     const counts = [...statusCounts.entries()].sort(([a], [b]) => a - b).map(([status, n]) => `${status}×${n}`).join(' ');
@@ -122,7 +131,9 @@ describe('fuzzing every request schema: only 4xx, never 500', () => {
   });
 });
 
-async function buildFixture(owner: TestPerson, userId: string): Promise<Fixture> {
+async function buildFixture(h: Harness, owner: TestPerson, userId: string): Promise<Fixture> {
   const groupId = (await owner.client.post('/api/groups').send({ name: 'Invented Fuzz Group', description: 'invented' }).expect(201)).body.group.id as string;
-  return { ...(await notebookWithRun(owner.client, groupId)), groupId, userId };
+  const notebook = await notebookWithRun(owner.client, groupId);
+  const extra = await collaborationFixture(h, { ...notebook, ownerId: owner.id }, [{ userId, role: 'viewer' }]);
+  return { ...notebook, groupId, userId, memberId: extra.memberId, invitationId: extra.invitationId, linkId: extra.linkId, token: extra.commenterToken, commentId: extra.commentId };
 }

@@ -3,9 +3,11 @@
 // account cannot sign in; it gets a session straight from the session service instead, standing for a
 // session opened before sign-in required a confirmed address.
 import { hashPassword } from '../../server/auth/passwords';
-import { GroupMembership, User } from '../../server/db/entities';
+import { newLinkToken, sha256Hex } from '../../server/auth/linkTokens';
+import { Comment, GroupMembership, NotebookInvitation, NotebookMember, ShareLink, User } from '../../server/db/entities';
 import { newId } from '../../server/ids';
 import type { RunView } from '../../shared/notebook/api';
+import type { GrantableRole } from '../../shared/notebook/sharing';
 import type { Harness } from './harness';
 
 export type Client = ReturnType<Harness['browser']>;
@@ -79,6 +81,55 @@ export interface RouteFixture {
   groupId: string;
   /** A group member (for membership routes). */
   userId: string;
+  /** A personal grant on the notebook (viewer, to an account outside the test identities). */
+  memberId: string;
+  /** A pending invitation to the notebook. */
+  invitationId: string;
+  /** The viewer share link's id. */
+  linkId: string;
+  /** A share-link token (which link depends on the caller; see collaborationFixture). */
+  token: string;
+  /** A thread on the fixture's cell, started by the owner. */
+  commentId: string;
+}
+
+export interface CollaborationFixture {
+  memberId: string;
+  invitationId: string;
+  linkId: string;
+  viewerToken: string;
+  commenterToken: string;
+  commentId: string;
+}
+
+/**
+ * Grants, links, a pending invitation and a comment on a notebook, written straight into the database
+ * (the sharing routes have tests of their own): `grants` maps user or group ids to their roles.
+ */
+export async function collaborationFixture(
+  h: Harness,
+  notebook: { notebookId: string; cellId: string; ownerId: string },
+  grants: { userId?: string; groupId?: string; role: GrantableRole }[],
+): Promise<CollaborationFixture> {
+  const ds = h.rungbook.services.dataSource;
+  const members = grants.map((grant) => ({ id: newId(), notebookId: notebook.notebookId, userId: grant.userId ?? null, groupId: grant.groupId ?? null, role: grant.role, grantedById: notebook.ownerId }));
+  if (members.length) await ds.getRepository(NotebookMember).insert(members);
+  const invitationId = newId();
+  await ds.getRepository(NotebookInvitation).insert({
+    id: invitationId, notebookId: notebook.notebookId, email: `invited-${invitationId}@test.rungbook.example`, emailKey: `invited-${invitationId}@test.rungbook.example`,
+    role: 'viewer', invitedById: notebook.ownerId, expiresAt: new Date(Date.now() + 86_400_000),
+  });
+  const viewerToken = newLinkToken();
+  const commenterToken = newLinkToken();
+  const linkId = newId();
+  await ds.getRepository(ShareLink).insert([
+    { id: linkId, notebookId: notebook.notebookId, tokenHash: sha256Hex(viewerToken), role: 'viewer', createdById: notebook.ownerId, expiresAt: null, revokedAt: null },
+    { id: newId(), notebookId: notebook.notebookId, tokenHash: sha256Hex(commenterToken), role: 'commenter', createdById: notebook.ownerId, expiresAt: null, revokedAt: null },
+  ]);
+  const commentId = newId();
+  await ds.getRepository(Comment).insert({ id: commentId, notebookId: notebook.notebookId, cellId: notebook.cellId, cellLabel: 'bubble', cellRevision: 1, parentId: null, authorId: notebook.ownerId, body: 'Invented fixture thread' });
+  h.rungbook.services.notebooks.forget(notebook.notebookId);
+  return { memberId: members[0]?.id ?? 'zzzzzzzzzzzz', invitationId, linkId, viewerToken, commenterToken, commentId };
 }
 
 /** A notebook in `groupId` with a setup cell, a run loop-integral cell and a saved version, made through the API. */

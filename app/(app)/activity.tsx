@@ -1,0 +1,5 @@
+import { ActivityScreen } from '../../components/screens/ActivityScreen';
+
+export default function ActivityRoute() {
+  return <ActivityScreen />;
+}

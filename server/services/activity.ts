@@ -1,0 +1,141 @@
+import type { DataSource } from 'typeorm';
+import type { Logger } from 'pino';
+import type { ActivityReply, NotebookEventKind, NotebookEventView, NotificationView } from '../../shared/notebook/sharing';
+import type { SignedInUser } from '../auth/sessions';
+import { Notebook, NotebookEvent, NotebookFollow, Notification } from '../db/entities';
+import type { NotebookChange, NotebookEventBus } from './notebookEvents';
+import type { NotebookService } from './notebooks';
+import { addNotification } from './notifications';
+
+export const ACTIVITY_PAGE = 100;
+
+export interface NotebookActivityFilter {
+  kind?: NotebookEventKind;
+  actorId?: string;
+  before?: string;
+}
+
+/** SQLite datetime text as TypeORM writes it, for comparisons inside queries. */
+const sqliteTime = (date: Date) => date.toISOString().replace('T', ' ').replace('Z', '');
+
+/** Entries the person may still see: those of notebooks they can open (owner, own grant or a group's). */
+const VISIBLE = `(a.notebookId IS NULL
+  OR a.notebookId IN (SELECT n.id FROM notebooks n WHERE n.ownerId = :me)
+  OR a.notebookId IN (SELECT m.notebookId FROM notebook_members m
+       WHERE m.userId = :me OR m.groupId IN (SELECT gm.groupId FROM group_memberships gm WHERE gm.userId = :me)))`;
+
+/** One person's activity list, following notebooks, and each notebook's log of who did what. */
+export function createActivityService(dataSource: DataSource, notebooks: NotebookService, events: NotebookEventBus, logger: Logger) {
+  const notifications = dataSource.getRepository(Notification);
+  const follows = dataSource.getRepository(NotebookFollow);
+  // Changes are handled one at a time, so coalescing sees the entry written for the previous change.
+  let handling: Promise<void> = Promise.resolve();
+
+  const visibleTo = (viewer: SignedInUser) => notifications.createQueryBuilder('a').where('a.userId = :me', { me: viewer.id }).andWhere(VISIBLE, { me: viewer.id });
+
+  async function followers(notebook: Notebook): Promise<string[]> {
+    const rows = await follows.find({ where: { notebookId: notebook.id }, select: { userId: true } });
+    return [...new Set([notebook.ownerId, ...rows.map((row) => row.userId)])];
+  }
+
+  async function notifyFollowers(change: NotebookChange): Promise<void> {
+    const notebook = await dataSource.getRepository(Notebook).findOneBy({ id: change.notebookId });
+    if (!notebook) return;
+    const withAccess = new Set((await notebooks.peopleWithAccess(notebook.id)).map((p) => p.id));
+    const told = (await followers(notebook)).filter((userId) => userId !== change.actorId && withAccess.has(userId));
+    if (!told.length) return;
+    const alreadyUnread = new Set(
+      (await notifications.createQueryBuilder('a').select('a.userId', 'userId')
+        .where('a.notebookId = :notebookId AND a.kind = :kind AND a.readAt IS NULL', { notebookId: notebook.id, kind: 'notebook-change' })
+        .getRawMany<{ userId: string }>()).map((row) => row.userId),
+    );
+    const text = `${change.actorName ?? 'Someone'} ${change.text} in "${notebook.title}"`;
+    await dataSource.transaction(async (manager) => {
+      for (const userId of told.filter((id) => !alreadyUnread.has(id))) {
+        await addNotification(manager, { userId, kind: 'notebook-change', notebookId: notebook.id, actorName: change.actorName, text, cellId: change.cellId });
+      }
+    });
+  }
+
+  events.onChange((change) => {
+    handling = handling.then(() => notifyFollowers(change)).catch((error) => logger.error({ err: error, notebookId: change.notebookId }, 'telling followers about a change failed'));
+  });
+
+  function notificationView(row: Notification): NotificationView {
+    return {
+      id: row.id,
+      kind: row.kind,
+      notebookId: row.notebookId,
+      notebookTitle: row.notebook?.title ?? null,
+      actorName: row.actorName,
+      text: row.text,
+      commentId: row.commentId,
+      cellId: row.cellId,
+      createdAt: row.createdAt.toISOString(),
+      read: row.readAt !== null,
+    };
+  }
+
+  return {
+    /** Resolves once every change published so far has reached its followers (for tests and shutdown). */
+    idle(): Promise<void> {
+      return handling;
+    },
+
+    async list(viewer: SignedInUser, options: { unreadOnly?: boolean } = {}): Promise<ActivityReply> {
+      const query = visibleTo(viewer).leftJoinAndSelect('a.notebook', 'notebook').orderBy('a.createdAt', 'DESC').addOrderBy('a.rowid', 'DESC').limit(ACTIVITY_PAGE);
+      if (options.unreadOnly) query.andWhere('a.readAt IS NULL');
+      const [rows, unread] = await Promise.all([query.getMany(), visibleTo(viewer).andWhere('a.readAt IS NULL').getCount()]);
+      return { items: rows.map(notificationView), unread };
+    },
+
+    /** Marks the given entries (all when none are named) as read; returns what is still unread. */
+    async markRead(viewer: SignedInUser, ids?: string[]): Promise<{ unread: number }> {
+      if (!ids || ids.length) {
+        const update = notifications.createQueryBuilder().update().set({ readAt: new Date() }).where('userId = :me AND readAt IS NULL', { me: viewer.id });
+        if (ids) update.andWhere('id IN (:...ids)', { ids });
+        await update.execute();
+      }
+      return { unread: await visibleTo(viewer).andWhere('a.readAt IS NULL').getCount() };
+    },
+
+    async following(viewer: SignedInUser, notebookId: string): Promise<{ following: boolean }> {
+      const { notebook } = await notebooks.requireRole(viewer, notebookId, 'read');
+      return { following: notebook.ownerId === viewer.id || (await follows.existsBy({ notebookId, userId: viewer.id })) };
+    },
+
+    async follow(viewer: SignedInUser, notebookId: string): Promise<{ following: boolean }> {
+      await notebooks.requireRole(viewer, notebookId, 'read');
+      await follows.createQueryBuilder().insert().values({ notebookId, userId: viewer.id }).orIgnore().execute();
+      return { following: true };
+    },
+
+    /** The owner keeps following their own notebooks. */
+    async unfollow(viewer: SignedInUser, notebookId: string): Promise<{ following: boolean }> {
+      const { notebook } = await notebooks.requireRole(viewer, notebookId, 'read');
+      await follows.delete({ notebookId, userId: viewer.id });
+      return { following: notebook.ownerId === viewer.id };
+    },
+
+    /** The notebook's log, newest first, a page at a time (`before` = createdAt of the last entry seen). */
+    async notebookEvents(viewer: SignedInUser, notebookId: string, filter: NotebookActivityFilter = {}): Promise<NotebookEventView[]> {
+      await notebooks.requireRole(viewer, notebookId, 'read');
+      const query = dataSource.getRepository(NotebookEvent).createQueryBuilder('e').where('e.notebookId = :notebookId', { notebookId });
+      if (filter.kind) query.andWhere('e.kind = :kind', { kind: filter.kind });
+      if (filter.actorId) query.andWhere('e.actorId = :actorId', { actorId: filter.actorId });
+      if (filter.before) query.andWhere('e.createdAt < :before', { before: sqliteTime(new Date(filter.before)) });
+      const rows = await query.orderBy('e.createdAt', 'DESC').addOrderBy('e.rowid', 'DESC').limit(ACTIVITY_PAGE).getMany();
+      return rows.map((row) => ({
+        id: row.id,
+        kind: row.kind,
+        actorId: row.actorId,
+        actorName: row.actorName,
+        text: row.text,
+        cellId: row.cellId,
+        createdAt: row.createdAt.toISOString(),
+      }));
+    },
+  };
+}
+
+export type ActivityService = ReturnType<typeof createActivityService>;

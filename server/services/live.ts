@@ -1,0 +1,257 @@
+import type { Logger } from 'pino';
+import { can, type LinkRole, type LiveEvent, type NotebookRole, type PresenterState, type ViewerPresence } from '../../shared/notebook/sharing';
+import type { SignedInUser } from '../auth/sessions';
+import { AppError } from '../http/errors';
+import type { AccessChange, NotebookChange, NotebookEventBus } from './notebookEvents';
+import type { NotebookService } from './notebooks';
+
+/** An open event stream as the hub feeds it (the HTTP layer provides it). */
+export interface LiveStream {
+  send(event: string, data: unknown): void;
+  comment(text: string): void;
+  close(): void;
+  onClose(listener: () => void): void;
+  readonly closed: boolean;
+}
+
+export interface LiveLimits {
+  /** Open streams one person may hold (tabs, devices). */
+  perPerson: number;
+  /** Open streams one share link may hold. */
+  perLink: number;
+  /** Open streams of the whole server. */
+  total: number;
+  /** A comment line this often keeps idle connections open through proxies. */
+  heartbeatMs: number;
+}
+
+export const DEFAULT_LIVE_LIMITS: LiveLimits = { perPerson: 10, perLink: 50, total: 2000, heartbeatMs: 20_000 };
+
+/** Someone watching one notebook through one stream: a person, or a share-link holder. */
+interface Watcher {
+  notebookId: string;
+  viewer: SignedInUser | null;
+  link: { token: string; linkId: string } | null;
+  role: NotebookRole;
+  stream: LiveStream | null;
+}
+
+export interface LiveDeps {
+  notebooks: Pick<NotebookService, 'access' | 'requireRole' | 'cellNotebookId'>;
+  events: NotebookEventBus;
+  logger: Logger;
+  resolveLink(token: string): Promise<{ notebookId: string; role: LinkRole; linkId: string }>;
+  limits?: Partial<LiveLimits>;
+}
+
+const COMMENT_KINDS = new Set(['comment-added', 'comment-edited', 'comment-deleted', 'comment-resolved', 'comment-reopened']);
+
+/**
+ * Live streams of notebooks: changes as they are committed, who is looking, who presents which cell,
+ * and role changes of the people watching (a stream whose access is gone is told so and closed).
+ */
+export function createLiveHub(deps: LiveDeps) {
+  const limits = { ...DEFAULT_LIVE_LIMITS, ...deps.limits };
+  const watching = new Map<string, Set<Watcher>>();
+  const presenters = new Map<string, PresenterState>();
+  const perPerson = new Map<string, number>();
+  const perLink = new Map<string, number>();
+  let total = 0;
+  let heartbeat: NodeJS.Timeout | null = null;
+
+  const watchersOf = (notebookId: string) => [...(watching.get(notebookId) ?? [])].filter((w) => w.stream && !w.stream.closed);
+  const send = (watcher: Watcher, event: LiveEvent) => watcher.stream?.send(event.type, event);
+  const broadcast = (notebookId: string, event: LiveEvent) => watchersOf(notebookId).forEach((w) => send(w, event));
+
+  function viewersOf(notebookId: string): ViewerPresence[] {
+    const people = new Map<string, ViewerPresence>();
+    const presenter = presenters.get(notebookId);
+    for (const { viewer } of watchersOf(notebookId)) {
+      if (viewer && !people.has(viewer.id)) people.set(viewer.id, { userId: viewer.id, name: viewer.name, presenting: presenter?.userId === viewer.id });
+    }
+    return [...people.values()];
+  }
+
+  const isWatching = (notebookId: string, userId: string) => watchersOf(notebookId).some((w) => w.viewer?.id === userId);
+
+  function count(map: Map<string, number>, key: string, step: number) {
+    const next = (map.get(key) ?? 0) + step;
+    if (next > 0) map.set(key, next);
+    else map.delete(key);
+  }
+
+  function reserve(kind: 'person' | 'link', key: string) {
+    if (total >= limits.total) throw new AppError('rate_limited', 'Too many live pages are open on this server right now; the page will reconnect shortly.');
+    const [map, limit] = kind === 'person' ? [perPerson, limits.perPerson] : [perLink, limits.perLink];
+    if ((map.get(key) ?? 0) >= limit) {
+      throw new AppError('rate_limited', kind === 'person' ? `At most ${limit} live pages per person are open at once; close another tab.` : `At most ${limit} live pages per share link are open at once.`);
+    }
+    count(map, key, 1);
+    total += 1;
+  }
+
+  function release(watcher: Watcher) {
+    if (watcher.viewer) count(perPerson, watcher.viewer.id, -1);
+    if (watcher.link) count(perLink, watcher.link.linkId, -1);
+    total -= 1;
+  }
+
+  function startHeartbeat() {
+    if (heartbeat) return;
+    heartbeat = setInterval(() => {
+      for (const set of watching.values()) for (const watcher of set) watcher.stream?.comment('ping');
+    }, limits.heartbeatMs);
+    heartbeat.unref();
+  }
+
+  function stopHeartbeatWhenIdle() {
+    if (total > 0 || !heartbeat) return;
+    clearInterval(heartbeat);
+    heartbeat = null;
+  }
+
+  function attach(watcher: Watcher, stream: LiveStream) {
+    watcher.stream = stream;
+    const wasWatching = watcher.viewer ? isWatching(watcher.notebookId, watcher.viewer.id) : true;
+    let set = watching.get(watcher.notebookId);
+    if (!set) watching.set(watcher.notebookId, (set = new Set()));
+    set.add(watcher);
+    stream.onClose(() => detach(watcher));
+    if (stream.closed) return;
+    startHeartbeat();
+    // link holders may follow a presenter but are not told who else is looking
+    const viewers = watcher.viewer ? viewersOf(watcher.notebookId) : [];
+    send(watcher, { type: 'hello', role: watcher.role, viewers, presenter: presenters.get(watcher.notebookId) ?? null });
+    if (!wasWatching) broadcastPresence(watcher.notebookId, watcher);
+  }
+
+  function broadcastPresence(notebookId: string, except?: Watcher) {
+    const event: LiveEvent = { type: 'presence', viewers: viewersOf(notebookId) };
+    for (const watcher of watchersOf(notebookId)) if (watcher !== except && watcher.viewer) send(watcher, event);
+  }
+
+  function detach(watcher: Watcher) {
+    const set = watching.get(watcher.notebookId);
+    if (!set?.delete(watcher)) return;
+    if (!set.size) watching.delete(watcher.notebookId);
+    release(watcher);
+    stopHeartbeatWhenIdle();
+    const userId = watcher.viewer?.id;
+    if (!userId || isWatching(watcher.notebookId, userId)) return;
+    // the presenter's state lives as long as one of their pages on the notebook is open
+    if (presenters.get(watcher.notebookId)?.userId === userId) endPresentation(watcher.notebookId);
+    broadcastPresence(watcher.notebookId);
+  }
+
+  function endPresentation(notebookId: string) {
+    if (!presenters.delete(notebookId)) return;
+    broadcast(notebookId, { type: 'presenter', presenter: null });
+  }
+
+  function onChange(change: NotebookChange) {
+    const comments = COMMENT_KINDS.has(change.kind);
+    for (const watcher of watchersOf(change.notebookId)) {
+      // link holders learn that something changed, not who changed it
+      const who = watcher.viewer ? { actorId: change.actorId, actorName: change.actorName } : { actorId: null, actorName: null };
+      send(watcher, { type: 'changed', kind: change.kind, ...who, cellId: change.cellId, comments });
+    }
+  }
+
+  /** The watcher's role now, or null when its access is gone. */
+  async function currentRole(watcher: Watcher): Promise<NotebookRole | null> {
+    try {
+      if (watcher.viewer) return (await deps.notebooks.access(watcher.viewer, watcher.notebookId)).role;
+      const link = await deps.resolveLink(watcher.link!.token);
+      return link.notebookId === watcher.notebookId ? link.role : null;
+    } catch (error) {
+      if (error instanceof AppError && error.code === 'not_found') return null;
+      throw error;
+    }
+  }
+
+  async function recheck(watcher: Watcher) {
+    const role = await currentRole(watcher);
+    if (!watcher.stream || watcher.stream.closed) return;
+    if (role === null) {
+      send(watcher, { type: 'revoked' });
+      watcher.stream.close();
+      return;
+    }
+    if (role === watcher.role) return;
+    watcher.role = role;
+    send(watcher, { type: 'role', role });
+    const presenter = presenters.get(watcher.notebookId);
+    if (presenter && presenter.userId === watcher.viewer?.id && !can(role, 'present')) endPresentation(watcher.notebookId);
+  }
+
+  function onAccessChange(change: AccessChange) {
+    const affected =
+      'notebookId' in change
+        ? watchersOf(change.notebookId)
+        : [...watching.values()].flatMap((set) => [...set]).filter((w) => w.viewer?.id === change.userId && w.stream && !w.stream.closed);
+    for (const watcher of affected) {
+      recheck(watcher).catch((error) => deps.logger.error({ err: error, notebookId: watcher.notebookId }, 'checking a live stream\'s access failed'));
+    }
+  }
+
+  deps.events.onChange(onChange);
+  deps.events.onAccessChange(onAccessChange);
+
+  return {
+    /** Admit a person to a notebook's stream (viewer and up); the returned function feeds the opened stream. */
+    async watch(viewer: SignedInUser, notebookId: string): Promise<(stream: LiveStream) => void> {
+      const { role } = await deps.notebooks.requireRole(viewer, notebookId, 'read');
+      reserve('person', viewer.id);
+      const watcher: Watcher = { notebookId, viewer, link: null, role, stream: null };
+      return (stream) => attach(watcher, stream);
+    },
+
+    /** Admit a share-link holder to the read-only stream of the link's notebook. */
+    async watchShared(token: string): Promise<(stream: LiveStream) => void> {
+      const link = await deps.resolveLink(token);
+      reserve('link', link.linkId);
+      const watcher: Watcher = { notebookId: link.notebookId, viewer: null, link: { token, linkId: link.linkId }, role: link.role, stream: null };
+      return (stream) => attach(watcher, stream);
+    },
+
+    /** Make the caller the notebook's presenter at `cellId` (editors; they need the notebook open). */
+    async present(viewer: SignedInUser, notebookId: string, cellId: string | null): Promise<PresenterState> {
+      await deps.notebooks.requireRole(viewer, notebookId, 'present');
+      if (cellId && (await deps.notebooks.cellNotebookId(cellId)) !== notebookId) throw new AppError('not_found', 'No such cell.', { cellId: 'Not a cell of this notebook' });
+      if (!isWatching(notebookId, viewer.id)) {
+        throw new AppError('conflict', 'Open the notebook to present it: others follow the page you have open.');
+      }
+      const current = presenters.get(notebookId);
+      const takesOver = current?.userId !== viewer.id;
+      const state: PresenterState = { userId: viewer.id, name: viewer.name, cellId, since: takesOver ? new Date().toISOString() : current!.since };
+      presenters.set(notebookId, state);
+      broadcast(notebookId, { type: 'presenter', presenter: state });
+      if (takesOver) broadcastPresence(notebookId);
+      return state;
+    },
+
+    /** Stop the presentation: the presenter themselves, or anyone who may present. */
+    async stopPresenting(viewer: SignedInUser, notebookId: string): Promise<void> {
+      await deps.notebooks.access(viewer, notebookId);
+      const current = presenters.get(notebookId);
+      if (current?.userId !== viewer.id) await deps.notebooks.requireRole(viewer, notebookId, 'present');
+      if (!current) return;
+      endPresentation(notebookId);
+      broadcastPresence(notebookId);
+    },
+
+    presenter: (notebookId: string): PresenterState | null => presenters.get(notebookId) ?? null,
+    /** Streams open now (for health and tests). */
+    openStreams: () => total,
+
+    /** End every stream (server shutdown); clients reconnect to the next server. */
+    closeAll() {
+      const all = [...watching.values()].flatMap((set) => [...set]);
+      for (const watcher of all) watcher.stream?.close();
+      presenters.clear();
+      stopHeartbeatWhenIdle();
+    },
+  };
+}
+
+export type LiveHub = ReturnType<typeof createLiveHub>;
