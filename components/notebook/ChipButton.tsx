@@ -29,7 +29,8 @@ export function ChipButton({ label, onPress, selected = false, disabled = false,
 }
 
 const styles = StyleSheet.create({
-  chip: { minHeight: 32, paddingHorizontal: spacing.md, borderRadius: 16, borderWidth: 1, borderColor: colors.rule, backgroundColor: colors.surface, alignItems: 'center', justifyContent: 'center' },
+  // maxWidth: a long label (a research group's name) wraps inside its row instead of running off a phone screen.
+  chip: { minHeight: 32, maxWidth: '100%', paddingHorizontal: spacing.md, paddingVertical: 2, borderRadius: 16, borderWidth: 1, borderColor: colors.rule, backgroundColor: colors.surface, alignItems: 'center', justifyContent: 'center' },
   accent: { backgroundColor: colors.amber, borderColor: colors.amber },
   danger: { borderColor: colors.danger },
   selected: { backgroundColor: colors.slate, borderColor: colors.slate },

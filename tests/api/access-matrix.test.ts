@@ -7,7 +7,6 @@ import { after, before, describe, test } from 'node:test';
 import { apiRouteTable } from '../../server/app';
 import { ResearchGroup } from '../../server/db/entities';
 import { newId } from '../../server/ids';
-import { CookieAccessInfo } from 'cookiejar';
 import { ORIGIN, startHarness, type Harness } from './harness';
 import { collaborationFixture, createPerson, joinGroup, notebookWithRun, signInAgain, type Client, type RouteFixture as Fixture, type TestPerson } from './people';
 
@@ -165,7 +164,6 @@ async function withStreamOpen<T>(port: number, url: string, cookie: string | nul
   }
 }
 
-const cookieHeader = (client: Client) => client.jar.getCookies(new CookieAccessInfo('127.0.0.1', '/', false, true)).toValueString() || null;
 
 describe('access matrix: every route × every kind of caller', () => {
   let h: Harness;
@@ -198,6 +196,13 @@ describe('access matrix: every route × every kind of caller', () => {
     await new Promise((resolve) => server.close(resolve));
     await h.close();
   });
+
+  const streamCookies = new Map<Identity, string>();
+  /** A session cookie for requests made outside the supertest agent (live streams over a real socket). */
+  async function streamCookie(identity: Exclude<Identity, 'signedOut'>): Promise<string> {
+    if (!streamCookies.has(identity)) streamCookies.set(identity, (await h.rungbook.services.sessions.start(people[identity].id)).split(';')[0]);
+    return streamCookies.get(identity)!;
+  }
 
   async function newGroup(members: [TestPerson, 'lead' | 'member'][]): Promise<string> {
     const groupId = newId();
@@ -253,7 +258,7 @@ describe('access matrix: every route × every kind of caller', () => {
         const fixture = forCaller(readOnly ?? (await freshFixture()), identity);
         const url = `/api${path.replace(/:(\w+)/g, (_m, name: keyof Fixture) => fixture[name])}`;
         const client = identity === 'signedOut' ? h.browser() : people[identity].client;
-        const cookie = identity === 'signedOut' ? null : cookieHeader(client);
+        const cookie = identity === 'signedOut' ? null : await streamCookie(identity);
         let status: number;
         let text = '';
         if (key.endsWith('/events')) {

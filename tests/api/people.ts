@@ -113,7 +113,9 @@ export async function collaborationFixture(
 ): Promise<CollaborationFixture> {
   const ds = h.rungbook.services.dataSource;
   const members = grants.map((grant) => ({ id: newId(), notebookId: notebook.notebookId, userId: grant.userId ?? null, groupId: grant.groupId ?? null, role: grant.role, grantedById: notebook.ownerId }));
-  if (members.length) await ds.getRepository(NotebookMember).insert(members);
+  // read before inserting: TypeORM's multi-row insert writes generated values back into the objects, not always in order
+  const firstMemberId = members[0]?.id ?? 'zzzzzzzzzzzz';
+  for (const member of members) await ds.getRepository(NotebookMember).insert(member);
   const invitationId = newId();
   await ds.getRepository(NotebookInvitation).insert({
     id: invitationId, notebookId: notebook.notebookId, email: `invited-${invitationId}@test.rungbook.example`, emailKey: `invited-${invitationId}@test.rungbook.example`,
@@ -129,7 +131,7 @@ export async function collaborationFixture(
   const commentId = newId();
   await ds.getRepository(Comment).insert({ id: commentId, notebookId: notebook.notebookId, cellId: notebook.cellId, cellLabel: 'bubble', cellRevision: 1, parentId: null, authorId: notebook.ownerId, body: 'Invented fixture thread' });
   h.rungbook.services.notebooks.forget(notebook.notebookId);
-  return { memberId: members[0]?.id ?? 'zzzzzzzzzzzz', invitationId, linkId, viewerToken, commenterToken, commentId };
+  return { memberId: firstMemberId, invitationId, linkId, viewerToken, commenterToken, commentId };
 }
 
 /** A notebook in `groupId` with a setup cell, a run loop-integral cell and a saved version, made through the API. */

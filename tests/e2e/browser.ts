@@ -1,7 +1,7 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { chromium, type BrowserContext } from 'playwright-core';
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 
 export const BASE_URL = process.env.E2E_BASE_URL ?? 'http://127.0.0.1:8080';
 export const ARTIFACTS = path.resolve(__dirname, '..', '..', 'test-artifacts', 'e2e');
@@ -21,4 +21,30 @@ export async function openBrowser(viewport: { width: number; height: number }): 
     acceptDownloads: true,
     args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
   });
+}
+
+/**
+ * One Chromium for several people: each context (`personContext`) has its own cookies and storage,
+ * like separate browsers, at a fraction of the memory.
+ */
+export async function launchBrowser(): Promise<Browser> {
+  fs.mkdirSync(ARTIFACTS, { recursive: true });
+  return chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    headless: true,
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+}
+
+export async function personPage(browser: Browser, viewport: { width: number; height: number }): Promise<Page> {
+  const context = await browser.newContext({ viewport, acceptDownloads: true });
+  return context.newPage();
+}
+
+export async function signIn(page: Page, email: string, password: string) {
+  await page.goto(`${BASE_URL}/sign-in`);
+  await page.getByTestId('sign-in-email').fill(email);
+  await page.getByTestId('sign-in-password').fill(password);
+  await page.getByTestId('sign-in-submit').click();
+  await page.waitForURL(`${BASE_URL}/notebooks`);
 }
