@@ -43,6 +43,8 @@ export function CommentThread({ notebookId, role, thread, shareToken, showCell =
   const now = useEditClock([root, ...replies]);
   const resolved = isResolved(thread);
   const mayComment = can(role, 'comment');
+  // Resolving, editing and deleting need a role of one's own on the notebook: a share link only lets one read and post.
+  const throughLink = Boolean(shareToken);
 
   return (
     <View style={[styles.thread, resolved && styles.resolvedThread]} testID={`comment-thread-${root.id}`}>
@@ -53,7 +55,7 @@ export function CommentThread({ notebookId, role, thread, shareToken, showCell =
       ) : null}
       {resolved ? <Text style={styles.resolvedNote} testID={`comment-resolved-${root.id}`}>Resolved{root.resolvedByName ? ` by ${root.resolvedByName}` : ''}</Text> : null}
       {[root, ...replies].map((comment) => (
-        <CommentItem key={comment.id} notebookId={notebookId} comment={comment} now={now} mayComment={mayComment} mentions={!shareToken} />
+        <CommentItem key={comment.id} notebookId={notebookId} comment={comment} now={now} mayEdit={mayComment && !throughLink} throughLink={throughLink} />
       ))}
       {replying ? (
         <CommentComposer
@@ -73,12 +75,14 @@ export function CommentThread({ notebookId, role, thread, shareToken, showCell =
       {mayComment ? (
         <View style={styles.actions}>
           {replying ? null : <ChipButton label="Reply" onPress={() => setReplying(true)} testID={`comment-reply-${root.id}`} />}
-          <ChipButton
-            label={resolved ? 'Reopen' : 'Resolve'}
-            disabled={resolve.isPending}
-            onPress={() => resolve.mutate({ commentId: root.id, resolved: !resolved })}
-            testID={`comment-resolve-${root.id}`}
-          />
+          {throughLink ? null : (
+            <ChipButton
+              label={resolved ? 'Reopen' : 'Resolve'}
+              disabled={resolve.isPending}
+              onPress={() => resolve.mutate({ commentId: root.id, resolved: !resolved })}
+              testID={`comment-resolve-${root.id}`}
+            />
+          )}
         </View>
       ) : null}
       {resolve.error ? <Notice tone="error" message={resolve.error.message} /> : null}
@@ -86,12 +90,13 @@ export function CommentThread({ notebookId, role, thread, shareToken, showCell =
   );
 }
 
-function CommentItem({ notebookId, comment, now, mayComment, mentions }: { notebookId: string; comment: CommentView; now: number; mayComment: boolean; mentions: boolean }) {
+function CommentItem({ notebookId, comment, now, mayEdit, throughLink }: { notebookId: string; comment: CommentView; now: number; mayEdit: boolean; throughLink: boolean }) {
   const [editing, setEditing] = useState(false);
   const [confirmDelete, setConfirmDelete] = useState(false);
   const edit = useEditCommentMutation(notebookId);
   const remove = useDeleteCommentMutation(notebookId);
-  const editable = mayComment && canStillEdit(comment, now);
+  const editable = mayEdit && canStillEdit(comment, now);
+  const deletable = !throughLink && comment.canDelete;
 
   if (comment.deleted) {
     return (
@@ -117,7 +122,7 @@ function CommentItem({ notebookId, comment, now, mayComment, mentions }: { noteb
       {editing && editable ? (
         <CommentComposer
           notebookId={notebookId}
-          mentions={mentions}
+          mentions
           placeholder="Edit the comment"
           submitLabel="Save"
           initialText={comment.body}
@@ -132,10 +137,10 @@ function CommentItem({ notebookId, comment, now, mayComment, mentions }: { noteb
       ) : (
         <CommentBody text={comment.body} testID={`comment-body-${comment.id}`} />
       )}
-      {(editable && !editing) || comment.canDelete ? (
+      {(editable && !editing) || deletable ? (
         <View style={styles.actions}>
           {editable && !editing ? <ChipButton label="Edit" onPress={() => setEditing(true)} testID={`comment-edit-${comment.id}`} /> : null}
-          {comment.canDelete ? (
+          {deletable ? (
             confirmDelete ? (
               <>
                 <ChipButton label="Really delete" tone="danger" disabled={remove.isPending} onPress={() => remove.mutate(comment.id)} testID={`comment-delete-confirm-${comment.id}`} />

@@ -9,11 +9,23 @@ const COMMENT_RULES = ['emphasis', 'backticks', 'escape', 'newline', 'link', 'au
 
 const DOLLAR = 0x24;
 const BACKSLASH = 0x5c;
-/** A handle is the part of an address before @; a trailing dot ends the sentence, not the handle. */
-export const MENTION_PATTERN = /@([A-Za-z0-9_+-]+(?:\.[A-Za-z0-9_+-]+)*)/y;
+/**
+ * The server's mention grammar: a handle is a letter or digit followed by letters, digits, `.`, `_` or `-`;
+ * trailing `.`, `_`, `-` end the sentence, not the handle; an @ right after an address character is not a mention.
+ */
+const MENTION_PATTERN = /@([A-Za-z0-9][A-Za-z0-9._-]*)/y;
+const ADDRESS_CHAR = /[A-Za-z0-9._%+-]/;
+
+/** The handle mentioned by the `@` at `at`, or null when that @ is no mention. */
+export function mentionAt(text: string, at: number): string | null {
+  if (text[at] !== '@' || (at > 0 && ADDRESS_CHAR.test(text[at - 1]))) return null;
+  MENTION_PATTERN.lastIndex = at;
+  const match = MENTION_PATTERN.exec(text);
+  const handle = match ? match[1].replace(/[._-]+$/, '') : '';
+  return handle || null;
+}
 
 const isSpace = (code: number) => code === 0x20 || code === 0x09 || code === 0x0a;
-const isWordChar = (char: string | undefined) => char !== undefined && /[A-Za-z0-9_.+-]/.test(char);
 
 /** `$$…$$` (display) or `$…$` (inline) inside a paragraph; a `$ ` opening or a `\$` is a plain dollar. */
 function inlineTex(state: StateInline, silent: boolean): boolean {
@@ -73,12 +85,10 @@ function blockTex(state: StateBlock, startLine: number, endLine: number, silent:
 
 /** `@handle`, not inside an address (`a@b.org` stays text). */
 function mention(state: StateInline, silent: boolean): boolean {
-  if (state.src[state.pos] !== '@' || isWordChar(state.src[state.pos - 1])) return false;
-  MENTION_PATTERN.lastIndex = state.pos;
-  const match = MENTION_PATTERN.exec(state.src);
-  if (!match || state.pos + match[0].length > state.posMax) return false;
-  if (!silent) state.push('mention', 'span', 0).content = match[1];
-  state.pos += match[0].length;
+  const handle = mentionAt(state.src, state.pos);
+  if (!handle || state.pos + 1 + handle.length > state.posMax) return false;
+  if (!silent) state.push('mention', 'span', 0).content = handle;
+  state.pos += 1 + handle.length;
   return true;
 }
 
@@ -118,13 +128,11 @@ export function commentTextParts(text: string): CommentTextPart[] {
   const parts: CommentTextPart[] = [];
   let plainFrom = 0;
   for (let at = text.indexOf('@'); at >= 0; at = text.indexOf('@', at + 1)) {
-    if (isWordChar(text[at - 1])) continue;
-    MENTION_PATTERN.lastIndex = at;
-    const match = MENTION_PATTERN.exec(text);
-    if (!match) continue;
+    const handle = mentionAt(text, at);
+    if (!handle) continue;
     if (at > plainFrom) parts.push({ text: text.slice(plainFrom, at), mention: false });
-    parts.push({ text: match[0], mention: true });
-    plainFrom = at + match[0].length;
+    parts.push({ text: `@${handle}`, mention: true });
+    plainFrom = at + 1 + handle.length;
     at = plainFrom - 1;
   }
   if (plainFrom < text.length) parts.push({ text: text.slice(plainFrom), mention: false });

@@ -4,7 +4,8 @@ export interface MentionQuery {
   search: string;
 }
 
-const TYPING_MENTION = /(^|[^A-Za-z0-9_.+-])@([A-Za-z0-9_.+-]{0,40})$/;
+/** The same characters as a mention in a saved comment (see mentionAt); an @ after an address character starts none. */
+const TYPING_MENTION = /(^|[^A-Za-z0-9._%+-])@([A-Za-z0-9._-]{0,40})$/;
 
 export function mentionQueryAt(text: string, caret = text.length): MentionQuery | null {
   const match = TYPING_MENTION.exec(text.slice(0, caret));

@@ -10,9 +10,16 @@ export interface FormulaProps {
   testID?: string;
 }
 
+/**
+ * Text typed by other people (notes, comments) is typeset too: a rule or box may be at most this many em
+ * (KaTeX's maxSize) and macros may expand at most this many times (maxExpand), so nobody can paint a
+ * page-sized block or stall a reader's browser with one formula.
+ */
+export const TEX_LIMITS = { maxSize: 20, maxExpand: 200 } as const;
+
 /** KaTeX markup for `tex`; malformed TeX shows in red in place instead of throwing. */
 export function renderTex(tex: string, display = false): string {
-  return katex.renderToString(tex, { displayMode: display, throwOnError: false, output: 'htmlAndMathml', strict: 'ignore' });
+  return katex.renderToString(tex, { displayMode: display, throwOnError: false, output: 'htmlAndMathml', strict: 'ignore', ...TEX_LIMITS });
 }
 
 /** Where the shipped KaTeX stylesheet lives (copied into public/ at install). */

@@ -6,7 +6,7 @@ import { updateNotebookInput, type NotebookDetail } from '../../shared/notebook'
 import { checkLocally, errorsFromServer, type FormErrors } from '../auth/formErrors';
 import { Notice } from '../ui/Notice';
 import { TextField } from '../ui/TextField';
-import { RoleBadge } from '../live/RoleBadge';
+import { RoleBadge } from '../sharing/RoleBadge';
 import { ChipButton } from './ChipButton';
 
 function sharedByWords(sharedBy: NotebookDetail['sharedBy']): string | null {
@@ -48,7 +48,7 @@ export function NotebookTitle({ notebook }: { notebook: NotebookDetail }) {
       <View style={styles.text}>
         <View style={styles.titleRow}>
           <Text style={styles.title} accessibilityRole="header" testID="notebook-title">{notebook.title}</Text>
-          <RoleBadge role={notebook.role} />
+          <RoleBadge role={notebook.role} testID="role-badge" />
         </View>
         {notebook.summary ? <Text style={styles.summary}>{notebook.summary}</Text> : null}
         <Text style={styles.meta}>{owner}</Text>

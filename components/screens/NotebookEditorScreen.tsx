@@ -15,6 +15,7 @@ import { LiveStatus } from '../live/LiveStatus';
 import { otherViewers, PresenceList } from '../live/PresenceList';
 import { PresenterBar } from '../live/PresenterBar';
 import { useFollowPresenter } from '../live/useFollowPresenter';
+import { sharingHref } from '../sharing/paths';
 import { Notice } from '../ui/Notice';
 import { AddCellBar } from '../notebook/AddCellBar';
 import { CellCard } from '../notebook/CellCard';
@@ -167,7 +168,11 @@ function NotebookEditor({ notebook, live, focusCellId }: { notebook: NotebookDet
         <View style={styles.toolbar}>
           {notebook.canEdit ? <ChipButton label={runAll.isPending ? 'Starting…' : 'Run all'} tone="accent" onPress={() => runAll.mutate()} testID="run-all" /> : null}
           {notebook.canEdit ? <ChipButton label="Save version" selected={versionFormOpen} onPress={() => setVersionFormOpen(!versionFormOpen)} testID="save-version" /> : null}
-          {can(notebook.role, 'manageSharing') ? <ChipButton label="Share" onPress={() => router.push(`/notebooks/${notebook.id}/sharing`)} testID="share-button" /> : null}
+          {can(notebook.role, 'manageSharing') ? (
+            <ChipButton label="Share" onPress={() => router.push(sharingHref(notebook.id))} testID="share-button" />
+          ) : (
+            <ChipButton label="People" onPress={() => router.push(sharingHref(notebook.id))} testID="people-button" accessibilityLabel="Who has access to this notebook" />
+          )}
           <ChipButton label="Versions" onPress={() => router.push(`/notebooks/${notebook.id}/versions`)} testID="open-history" />
           <ChipButton label="Present" onPress={() => router.push(`/notebooks/${notebook.id}/present`)} testID="open-present" />
           <ChipButton label="LaTeX" onPress={() => void exportAs('tex')} testID="export-tex" accessibilityLabel="Export as LaTeX" />

@@ -1,15 +1,20 @@
-import type { ReactNode } from 'react';
+import { useRef, useState, type ReactNode, type RefObject } from 'react';
 import { Link } from 'expo-router';
 import { ScrollView, StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, spacing } from '../../constants/theme';
 import { useMeQuery } from '../../hooks/api/auth';
+import { useNotebookLive } from '../../hooks/api/live';
 import { isUnknownLink, useSharedNotebookQuery } from '../../hooks/api/sharing';
 import { useWideLayout } from '../../hooks/useWideLayout';
 import type { NotebookDetail } from '../../shared/notebook';
-import { shareTokenParam } from '../../shared/notebook/sharing';
+import { shareTokenParam, type NotebookRole } from '../../shared/notebook/sharing';
 import { AuthLink } from '../auth/AuthLink';
 import { NotebookComments } from '../comments';
+import { LiveStatus } from '../live/LiveStatus';
+import { PresenterBar } from '../live/PresenterBar';
+import { useFollowPresenter } from '../live/useFollowPresenter';
 import { RungMark } from '../navigation/RungMark';
+import { signInHref, sharedPagePath } from '../sharing/paths';
 import { ReadOnlyCell } from '../sharing/ReadOnlyCell';
 import { RoleBadge } from '../sharing/RoleBadge';
 import { Card } from '../ui/Card';
@@ -24,19 +29,67 @@ export function SharedNotebookScreen({ token }: { token: string }) {
   const me = useMeQuery();
   const signedIn = Boolean(me.data);
   const wide = useWideLayout();
-  const body = !wellFormed || isUnknownLink(shared.error) ? (
-    <Notice tone="info" message={UNKNOWN_LINK_MESSAGE} testID="shared-unknown" />
-  ) : shared.isError ? (
-    <Notice tone="error" message={shared.error.message} testID="shared-error" />
-  ) : shared.data ? (
-    <SharedNotebook notebook={shared.data} signedIn={signedIn} wide={wide} token={token} />
-  ) : (
-    <Text style={styles.muted}>Opening the notebook…</Text>
-  );
-  return <SharedFrame signedIn={signedIn}>{body}</SharedFrame>;
+  const scroll = useRef<ScrollView>(null);
+  const column = useRef<View>(null);
+  if (!wellFormed || isUnknownLink(shared.error)) return <SharedFrame signedIn={signedIn} token={token}><UnknownLink /></SharedFrame>;
+  if (shared.isError) return <SharedFrame signedIn={signedIn} token={token}><Notice tone="error" message={shared.error.message} testID="shared-error" /></SharedFrame>;
+  if (!shared.data) return <SharedFrame signedIn={signedIn} token={token}><Text style={styles.muted}>Opening the notebook…</Text></SharedFrame>;
+  return <LiveSharedNotebook notebook={shared.data} signedIn={signedIn} myId={me.data?.id} wide={wide} token={token} scroll={scroll} column={column} />;
 }
 
-function SharedFrame({ signedIn, children }: { signedIn: boolean; children: ReactNode }) {
+const UnknownLink = () => <Notice tone="info" message={UNKNOWN_LINK_MESSAGE} testID="shared-unknown" />;
+
+interface LiveSharedNotebookProps {
+  notebook: NotebookDetail;
+  signedIn: boolean;
+  myId: string | undefined;
+  wide: boolean;
+  token: string;
+  scroll: RefObject<ScrollView | null>;
+  column: RefObject<View | null>;
+}
+
+/** The notebook kept current by the link's event stream; a presenter can be followed from here too. */
+function LiveSharedNotebook({ notebook, signedIn, myId, wide, token, scroll, column }: LiveSharedNotebookProps) {
+  const live = useNotebookLive(notebook.id, { shareToken: token });
+  const cells = useRef(new Map<string, View>());
+  const [highlightedId, setHighlightedId] = useState<string | null>(null);
+  const reveal = (cellId: string) => {
+    setHighlightedId(cellId);
+    const target = cells.current.get(cellId);
+    if (!target || !column.current) return;
+    target.measureLayout(column.current, (_x, y) => scroll.current?.scrollTo({ y: Math.max(0, y - spacing.lg), animated: true }), () => undefined);
+  };
+  const follow = useFollowPresenter(live.presenter, myId, reveal);
+  if (live.connection === 'revoked') return <SharedFrame signedIn={signedIn} token={token}><UnknownLink /></SharedFrame>;
+  const presenterCell = follow.presenter ? notebook.cells.find((cell) => cell.id === follow.presenter?.cellId) ?? null : null;
+  const following = follow.following ? { cellId: presenterCell?.id ?? null, name: follow.presenter?.name ?? '' } : null;
+  return (
+    <SharedFrame signedIn={signedIn} token={token} scroll={scroll} column={column} bar={<PresenterBar follow={follow} cellLabel={presenterCell?.label ?? null} />}>
+      <SharedNotebook
+        notebook={notebook}
+        signedIn={signedIn}
+        wide={wide}
+        token={token}
+        status={<LiveStatus connection={live.connection} />}
+        highlightedId={following ? highlightedId : null}
+        following={following}
+        registerCell={(cellId, view) => (view ? cells.current.set(cellId, view) : cells.current.delete(cellId))}
+      />
+    </SharedFrame>
+  );
+}
+
+interface SharedFrameProps {
+  signedIn: boolean;
+  token: string;
+  children: ReactNode;
+  bar?: ReactNode;
+  scroll?: RefObject<ScrollView | null>;
+  column?: RefObject<View | null>;
+}
+
+function SharedFrame({ signedIn, token, children, bar, scroll, column }: SharedFrameProps) {
   return (
     <View style={styles.page}>
       <View style={styles.band}>
@@ -44,35 +97,56 @@ function SharedFrame({ signedIn, children }: { signedIn: boolean; children: Reac
           <RungMark size={24} />
           <Text style={styles.brandName}>Rungbook</Text>
         </View>
-        <Link href={signedIn ? '/notebooks' : '/sign-in'} testID="shared-nav">
+        <Link href={signedIn ? '/notebooks' : signInHref(sharedPagePath(token))} testID="shared-nav">
           <Text style={styles.navText}>{signedIn ? 'Your notebooks' : 'Sign in'}</Text>
         </Link>
       </View>
-      <ScrollView style={styles.scroll} contentContainerStyle={styles.content}>
-        <View style={styles.column}>{children}</View>
+      {bar}
+      <ScrollView ref={scroll} style={styles.scroll} contentContainerStyle={styles.content}>
+        <View ref={column} style={styles.column}>{children}</View>
       </ScrollView>
     </View>
   );
 }
 
-function SharedNotebook({ notebook, signedIn, wide, token }: { notebook: NotebookDetail; signedIn: boolean; wide: boolean; token: string }) {
+interface SharedNotebookProps {
+  notebook: NotebookDetail;
+  signedIn: boolean;
+  wide: boolean;
+  token: string;
+  status: ReactNode;
+  highlightedId: string | null;
+  /** Set while following a presenter: the cell they are at. */
+  following: { cellId: string | null; name: string } | null;
+  registerCell: (cellId: string, view: View | null) => void;
+}
+
+function SharedNotebook({ notebook, signedIn, wide, token, status, highlightedId, following, registerCell }: SharedNotebookProps) {
+  // Through a commenter link, posting needs a signed-in person: until then the threads are read-only.
+  const commentRole = signedIn ? notebook.role : 'viewer';
   const about = (
     <View style={styles.side}>
       <Notice tone="info" message="Read-only view through a shared link" testID="shared-banner" />
       <View style={styles.facts}>
         <Text style={styles.muted}>Your access:</Text>
         <RoleBadge role={notebook.role} testID="shared-role" />
+        {status}
       </View>
       <Text style={styles.muted}>
         {[`by ${notebook.ownerName}`, `${notebook.cellCount} ${notebook.cellCount === 1 ? 'cell' : 'cells'}`, `changed ${new Date(notebook.updatedAt).toLocaleString()}`].join(' · ')}
       </Text>
-      <CommentsPlace notebook={notebook} signedIn={signedIn} token={token} />
+      <CommentsPlace notebook={notebook} signedIn={signedIn} commentRole={commentRole} token={token} />
     </View>
   );
   const cells = (
     <View style={styles.cells}>
       {notebook.cells.length === 0 ? <Text style={styles.muted}>This notebook has no cells yet.</Text> : null}
-      {notebook.cells.map((cell) => <ReadOnlyCell key={cell.id} notebook={notebook} cell={cell} />)}
+      {notebook.cells.map((cell) => (
+        <View key={cell.id} ref={(view) => registerCell(cell.id, view)} style={cell.id === highlightedId && styles.highlighted} testID={cell.id === highlightedId ? 'highlighted-cell' : undefined}>
+          {following && cell.id === following.cellId ? <Text style={styles.presenterHere} testID={`cell-${cell.label}-presenter`}>{following.name} is here</Text> : null}
+          <ReadOnlyCell notebook={notebook} cell={cell} shareToken={token} commentRole={commentRole} />
+        </View>
+      ))}
     </View>
   );
   return (
@@ -94,15 +168,14 @@ function SharedNotebook({ notebook, signedIn, wide, token }: { notebook: Noteboo
   );
 }
 
-function CommentsPlace({ notebook, signedIn, token }: { notebook: NotebookDetail; signedIn: boolean; token: string }) {
+function CommentsPlace({ notebook, signedIn, commentRole, token }: { notebook: NotebookDetail; signedIn: boolean; commentRole: NotebookRole; token: string }) {
   return (
     <View testID="shared-comments-place">
-      {/* Through a commenter link, posting needs a signed-in person: until then the threads are read-only. */}
-      <NotebookComments notebookId={notebook.id} role={signedIn ? notebook.role : 'viewer'} shareToken={token} />
+      <NotebookComments notebookId={notebook.id} role={commentRole} shareToken={token} />
       {notebook.role === 'commenter' && !signedIn ? (
         <Card testID="shared-comment-sign-in">
           <Text style={styles.body}>This link lets you comment on the notebook once you sign in.</Text>
-          <AuthLink href="/sign-in" label="Sign in to comment" testID="shared-sign-in" />
+          <AuthLink href={signInHref(sharedPagePath(token))} label="Sign in to comment" testID="shared-sign-in" />
         </Card>
       ) : null}
     </View>
@@ -126,7 +199,9 @@ const styles = StyleSheet.create({
   aside: { width: 320 },
   side: { gap: spacing.md },
   cells: { gap: spacing.lg },
-  facts: { flexDirection: 'row', alignItems: 'center', gap: spacing.sm },
+  facts: { flexDirection: 'row', alignItems: 'center', flexWrap: 'wrap', gap: spacing.sm },
+  highlighted: { borderRadius: 10, borderWidth: 2, borderColor: colors.amber, padding: 2, gap: spacing.xs },
+  presenterHere: { fontFamily: fonts.semibold, fontSize: 12, color: colors.amberDeep, paddingHorizontal: spacing.sm },
   body: { fontFamily: fonts.regular, fontSize: 15, lineHeight: 22, color: colors.ink },
   muted: { fontFamily: fonts.regular, fontSize: 13, color: colors.inkFaint },
 });

@@ -1,7 +1,13 @@
+import { useState } from 'react';
 import { StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, spacing } from '../../constants/theme';
+import { useCommentsQuery } from '../../hooks/api/comments';
 import { isRunActive } from '../../hooks/api/notebooks';
 import { cellKindTitles, type CellView, type NotebookDetail } from '../../shared/notebook';
+import { can, type NotebookRole } from '../../shared/notebook/sharing';
+import { CellComments } from '../comments/CellComments';
+import { groupThreads, visibleCount } from '../comments/threads';
+import { ChipButton } from '../notebook/ChipButton';
 import { runsJob } from '../notebook/CellCard';
 import { CellOutput } from '../notebook/CellOutput';
 import { CellStateBadge } from '../notebook/CellStateBadge';
@@ -9,18 +15,31 @@ import { cellSummary } from '../notebook/cellSummary';
 import { monoFont } from '../notebook/monoFont';
 import { NoteView } from '../notebook/NoteView';
 
+interface ReadOnlyCellProps {
+  notebook: NotebookDetail;
+  cell: CellView;
+  /** The link the notebook was opened through: the cell's threads are read (and posted) through it. */
+  shareToken: string;
+  /** What the reader may do with comments here (a commenter link only comments once signed in). */
+  commentRole: NotebookRole;
+}
+
 /**
- * One cell as a reader sees it: inputs and the last result, nothing to press. A running cell is not
- * followed (its run belongs to someone with access); its result shows when the page is opened again.
+ * One cell as a reader sees it: inputs, the last result and the cell's comments; nothing else to press.
+ * A running cell's result shows when the link's live updates say it changed.
  */
-export function ReadOnlyCell({ notebook, cell }: { notebook: NotebookDetail; cell: CellView }) {
+export function ReadOnlyCell({ notebook, cell, shareToken, commentRole }: ReadOnlyCellProps) {
   const prefix = `cell-${cell.label}`;
+  const comments = useReadOnlyCellComments(notebook.id, cell.id, shareToken, commentRole);
   return (
     <View style={[styles.card, cell.state === 'out-of-date' && styles.stale]} testID={prefix}>
       <View style={styles.head}>
         <Text style={styles.kind}>{cellKindTitles[cell.kind]}</Text>
         <Text style={styles.label} testID={`${prefix}-label`}>{cell.label}</Text>
         {runsJob(cell) ? <CellStateBadge state={cell.state} run={cell.lastRun} testID={`${prefix}-state`} /> : null}
+        {comments.hidden ? null : (
+          <ChipButton label={comments.label} selected={comments.open} accessibilityLabel={comments.open ? 'Hide comments' : `${comments.label} on ${cell.label}`} onPress={comments.toggle} testID={`cell-comments-${cell.label}`} />
+        )}
       </View>
       {cell.state === 'out-of-date' ? <Text style={styles.staleText} testID={`${prefix}-stale`}>Inputs changed since this was computed.</Text> : null}
       {cell.input.kind === 'note' ? (
@@ -29,8 +48,20 @@ export function ReadOnlyCell({ notebook, cell }: { notebook: NotebookDetail; cel
         <Text style={styles.summary}>{cellSummary(cell.input)}</Text>
       )}
       <ReadOnlyOutput notebook={notebook} cell={cell} />
+      {comments.open ? <CellComments notebookId={notebook.id} role={commentRole} cellId={cell.id} cellLabel={cell.label} shareToken={shareToken} /> : null}
     </View>
   );
+}
+
+/** The cell's threads behind a count read from the page's comment list (no request per cell). */
+function useReadOnlyCellComments(notebookId: string, cellId: string, shareToken: string, role: NotebookRole) {
+  const [open, setOpen] = useState(false);
+  const comments = useCommentsQuery({ notebookId, shareToken }, { enabled: open });
+  const count = visibleCount(groupThreads((comments.data ?? []).filter((comment) => comment.cellId === cellId)));
+  const mayComment = can(role, 'comment');
+  const hidden = !open && !mayComment && count === 0;
+  const label = count ? `${count} comment${count === 1 ? '' : 's'}` : mayComment ? 'Comment' : 'Comments';
+  return { open, toggle: () => setOpen(!open), hidden, label };
 }
 
 function ReadOnlyOutput({ notebook, cell }: { notebook: NotebookDetail; cell: CellView }) {

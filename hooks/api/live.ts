@@ -33,7 +33,17 @@ export interface NotebookLive {
 
 const initialLive: NotebookLive = { viewers: [], presenter: null, connection: 'connecting', role: null, session: 0 };
 
-export const liveEventsUrl = (notebookId: string) => `${API_BASE}/api/notebooks/${notebookId}/events`;
+/** The notebook's own stream, or (with a share token) the read-only stream of the link. */
+export const liveEventsUrl = (notebookId: string, shareToken?: string) =>
+  shareToken ? `${API_BASE}/api/shared/${encodeURIComponent(shareToken)}/events` : `${API_BASE}/api/notebooks/${notebookId}/events`;
+
+/** Where the page reads the notebook from: its own route, or the share link's. */
+interface LiveTarget {
+  notebookId: string;
+  shareToken?: string;
+}
+
+const notebookKeyOf = ({ notebookId, shareToken }: LiveTarget) => (shareToken ? queryKeys.sharedNotebook(shareToken) : queryKeys.notebook(notebookId));
 
 /** Every filter of the notebook's own log (keys: 'notebook-activity', id, kind, actor). */
 const notebookLogKey = (notebookId: string) => activityKeys.notebook(notebookId, null, null).slice(0, 2);
@@ -46,16 +56,18 @@ function refreshComments(client: QueryClient, notebookId: string) {
 
 const SHARING_KINDS: ReadonlySet<NotebookEventKind> = new Set(['sharing-changed', 'owner-changed', 'link-created', 'link-revoked']);
 
-function refreshAfterChange(client: QueryClient, notebookId: string, event: Extract<LiveEvent, { type: 'changed' }>) {
-  void client.invalidateQueries({ queryKey: queryKeys.notebook(notebookId) });
+function refreshAfterChange(client: QueryClient, target: LiveTarget, event: Extract<LiveEvent, { type: 'changed' }>) {
+  const { notebookId } = target;
+  void client.invalidateQueries({ queryKey: notebookKeyOf(target) });
   void client.invalidateQueries({ queryKey: notebookLogKey(notebookId) });
   if (event.comments) refreshComments(client, notebookId);
   if (event.kind === 'version-saved' || event.kind === 'restored') void client.invalidateQueries({ queryKey: queryKeys.versions(notebookId) });
   if (SHARING_KINDS.has(event.kind)) void client.invalidateQueries({ queryKey: queryKeys.sharing(notebookId) });
 }
 
-function refreshEverything(client: QueryClient, notebookId: string) {
-  void client.invalidateQueries({ queryKey: queryKeys.notebook(notebookId) });
+function refreshEverything(client: QueryClient, target: LiveTarget) {
+  const { notebookId } = target;
+  void client.invalidateQueries({ queryKey: notebookKeyOf(target) });
   void client.invalidateQueries({ queryKey: notebookLogKey(notebookId) });
   refreshComments(client, notebookId);
 }
@@ -88,8 +100,8 @@ interface StreamHandlers {
   onError: (closed: boolean) => void;
 }
 
-function openStream(notebookId: string, handlers: StreamHandlers): EventSource {
-  const source = new EventSource(liveEventsUrl(notebookId), { withCredentials: true });
+function openStream(target: LiveTarget, handlers: StreamHandlers): EventSource {
+  const source = new EventSource(liveEventsUrl(target.notebookId, target.shareToken), { withCredentials: true });
   for (const type of LIVE_EVENT_TYPES) {
     source.addEventListener(type, (message) => {
       const event = parseEvent((message as MessageEvent).data);
@@ -105,18 +117,21 @@ function openStream(notebookId: string, handlers: StreamHandlers): EventSource {
  * Who else is looking at the notebook, who presents it, and the caller's role — kept current by the
  * notebook's event stream, which also refetches the notebook (and its comments) when someone changes it.
  * The browser's EventSource reconnects by itself (the server asks for 3 s); after a reconnect everything
- * is refetched, since events may have been missed.
+ * is refetched, since events may have been missed. With `shareToken` the page follows the share link's
+ * read-only stream (no presence list, no role changes; `revoked` = the link stopped opening anything).
  */
-export function useNotebookLive(notebookId: string): NotebookLive {
+export function useNotebookLive(notebookId: string, { shareToken }: { shareToken?: string } = {}): NotebookLive {
   const client = useQueryClient();
   const [live, setLive] = useState<NotebookLive>(initialLive);
 
   useEffect(() => {
+    const target: LiveTarget = { notebookId, shareToken };
+    const ownRole = !shareToken;
     setLive(initialLive);
     // React Native has no EventSource: poll the notebook instead (no presence or presenter there).
     if (typeof globalThis.EventSource !== 'function') {
       setLive({ ...initialLive, connection: 'polling' });
-      const timer = setInterval(() => refreshEverything(client, notebookId), LIVE_POLL_MS);
+      const timer = setInterval(() => refreshEverything(client, target), LIVE_POLL_MS);
       return () => clearInterval(timer);
     }
 
@@ -134,14 +149,14 @@ export function useNotebookLive(notebookId: string): NotebookLive {
       if (stopped) return;
       switch (event.type) {
         case 'hello':
-          if (interrupted) refreshEverything(client, notebookId);
+          if (interrupted) refreshEverything(client, target);
           interrupted = false;
           refusals = 0;
-          if (roleChanged(client, notebookId, event.role)) applyRole(client, notebookId, event.role);
+          if (ownRole && roleChanged(client, notebookId, event.role)) applyRole(client, notebookId, event.role);
           setLive((current) => ({ viewers: event.viewers, presenter: event.presenter, role: event.role, connection: 'live', session: current.session + 1 }));
           return;
         case 'changed':
-          refreshAfterChange(client, notebookId, event);
+          refreshAfterChange(client, target, event);
           return;
         case 'presence':
           setLive((current) => ({ ...current, viewers: event.viewers }));
@@ -150,12 +165,12 @@ export function useNotebookLive(notebookId: string): NotebookLive {
           setLive((current) => ({ ...current, presenter: event.presenter }));
           return;
         case 'role':
-          applyRole(client, notebookId, event.role);
+          if (ownRole) applyRole(client, notebookId, event.role);
           setLive((current) => ({ ...current, role: event.role }));
           return;
         case 'revoked':
           stop();
-          void client.cancelQueries({ queryKey: queryKeys.notebook(notebookId) });
+          void client.cancelQueries({ queryKey: notebookKeyOf(target) });
           void client.invalidateQueries({ queryKey: queryKeys.notebooks, refetchType: 'none' });
           setLive((current) => ({ ...initialLive, connection: 'revoked', session: current.session }));
       }
@@ -163,7 +178,7 @@ export function useNotebookLive(notebookId: string): NotebookLive {
     // The stream counts as live from its greeting (hello), which says who presents.
     const onOpen = () => {
       if (stopped) return;
-      if (interrupted) refreshEverything(client, notebookId);
+      if (interrupted) refreshEverything(client, target);
       interrupted = false;
     };
     const onError = (closed: boolean) => {
@@ -173,16 +188,16 @@ export function useNotebookLive(notebookId: string): NotebookLive {
       if (!closed) return;
       // A refused reply (signed out, access gone) ends the stream for good; the refetch shows why, and a later try may succeed.
       source?.close();
-      refreshEverything(client, notebookId);
+      refreshEverything(client, target);
       reopenTimer = setTimeout(connect, Math.min(REOPEN_AFTER_MAX_MS, REOPEN_AFTER_MS * 2 ** refusals));
       refusals += 1;
     };
     const connect = () => {
-      if (!stopped) source = openStream(notebookId, { onEvent, onOpen, onError });
+      if (!stopped) source = openStream(target, { onEvent, onOpen, onError });
     };
     connect();
     return stop;
-  }, [client, notebookId]);
+  }, [client, notebookId, shareToken]);
 
   return live;
 }

@@ -42,6 +42,22 @@ export const useChangeMemberRoleMutation = (notebookId: string) =>
 export const useRemoveMemberMutation = (notebookId: string) =>
   useSharingMutation(notebookId, (memberId: string) => apiRequest<void>('DELETE', `/notebooks/${notebookId}/members/${memberId}`));
 
+/**
+ * Give up one's own grant. The reply is the panel when access remains (through a group), nothing when none
+ * is left: then the notebook is only dropped from the lists (the page moves away; refetching it would fail).
+ */
+export function useLeaveNotebookMutation(notebookId: string) {
+  const queryClient = useQueryClient();
+  const refresh = useRefreshSharing(notebookId);
+  return useMutation({
+    mutationFn: (memberId: string) => apiRequest<SharingView | undefined>('DELETE', `/notebooks/${notebookId}/members/${memberId}`),
+    onSuccess: (view) => {
+      if (view) refresh(view);
+      else void queryClient.invalidateQueries({ queryKey: ['notebooks', 'list'] });
+    },
+  });
+}
+
 export const useCancelInvitationMutation = (notebookId: string) =>
   useSharingMutation(notebookId, (invitationId: string) => apiRequest<void>('DELETE', `/notebooks/${notebookId}/invitations/${invitationId}`));
 

@@ -11,7 +11,7 @@ const sharedParams = z.object({ token: z.string() });
 export function liveRoutes({ live }: Services) {
   return [
     route({ method: 'get', path: '/notebooks/:notebookId/events', access: 'signed-in', eventStream: true, summary: 'Live events of a notebook (text/event-stream: hello, changed, presence, presenter, role, revoked; 429 beyond 10 open streams per person)', params: notebookParams,
-      handler: async ({ user, params }) => new EventStreamReply(await live.watch(user!, params.notebookId)) }),
+      handler: async ({ user, params, sessionId }) => new EventStreamReply(await live.watch(user!, params.notebookId, sessionId)) }),
     route({ method: 'get', path: '/shared/:token/events', access: 'public', eventStream: true, summary: 'Live events of the notebook behind a share link, read-only (404 for unknown, expired or revoked links)', params: sharedParams,
       handler: async ({ params }) => new EventStreamReply(await live.watchShared(params.token)) }),
     route({ method: 'post', path: '/notebooks/:notebookId/presentation', access: 'signed-in', summary: 'Present the notebook, or move your presentation to another cell (editors, with the notebook open: 409 otherwise)', params: notebookParams, body: presentationInput,

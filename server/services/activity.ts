@@ -1,4 +1,4 @@
-import type { DataSource } from 'typeorm';
+import { In, IsNull, type DataSource } from 'typeorm';
 import type { Logger } from 'pino';
 import type { ActivityReply, NotebookEventKind, NotebookEventView, NotificationView } from '../../shared/notebook/sharing';
 import type { SignedInUser } from '../auth/sessions';
@@ -17,6 +17,17 @@ export interface NotebookActivityFilter {
 
 /** SQLite datetime text as TypeORM writes it, for comparisons inside queries. */
 const sqliteTime = (date: Date) => date.toISOString().replace('T', ' ').replace('Z', '');
+
+/** The text of an entry that stands for several changes: `3 changes in "Title" since you last looked; latest: …`. */
+const COALESCED = /^(\d+) changes in ".*" since you last looked; latest: /s;
+
+/** How many changes an unread 'notebook-change' entry already stands for. */
+function changesIn(text: string): number {
+  const match = COALESCED.exec(text);
+  return match ? Number(match[1]) : 1;
+}
+
+const changeLine = (change: NotebookChange) => `${change.actorName ?? 'Someone'} ${change.text}`;
 
 /** Entries the person may still see: those of notebooks they can open (owner, own grant or a group's). */
 const VISIBLE = `(a.notebookId IS NULL
@@ -38,21 +49,35 @@ export function createActivityService(dataSource: DataSource, notebooks: Noteboo
     return [...new Set([notebook.ownerId, ...rows.map((row) => row.userId)])];
   }
 
+  /** Each person's newest unread 'notebook-change' entry of the notebook. */
+  async function unreadChangeEntries(notebookId: string, userIds: string[]): Promise<Map<string, Notification>> {
+    const rows = await notifications.find({ where: { notebookId, kind: 'notebook-change', readAt: IsNull(), userId: In(userIds) }, order: { createdAt: 'ASC' } });
+    return new Map(rows.map((row) => [row.userId, row]));
+  }
+
+  /**
+   * One unread entry per follower and notebook: the first change writes it, later ones rewrite it to
+   * count the changes and name the latest, and bring it to the top of the list.
+   */
   async function notifyFollowers(change: NotebookChange): Promise<void> {
+    // Changes nobody made (a run finishing) follow from one somebody made, which followers were told of.
+    if (change.actorId === null) return;
     const notebook = await dataSource.getRepository(Notebook).findOneBy({ id: change.notebookId });
     if (!notebook) return;
     const withAccess = new Set((await notebooks.peopleWithAccess(notebook.id)).map((p) => p.id));
     const told = (await followers(notebook)).filter((userId) => userId !== change.actorId && withAccess.has(userId));
     if (!told.length) return;
-    const alreadyUnread = new Set(
-      (await notifications.createQueryBuilder('a').select('a.userId', 'userId')
-        .where('a.notebookId = :notebookId AND a.kind = :kind AND a.readAt IS NULL', { notebookId: notebook.id, kind: 'notebook-change' })
-        .getRawMany<{ userId: string }>()).map((row) => row.userId),
-    );
-    const text = `${change.actorName ?? 'Someone'} ${change.text} in "${notebook.title}"`;
+    const unread = await unreadChangeEntries(notebook.id, told);
+    const latest = { actorName: change.actorName, cellId: change.cellId };
     await dataSource.transaction(async (manager) => {
-      for (const userId of told.filter((id) => !alreadyUnread.has(id))) {
-        await addNotification(manager, { userId, kind: 'notebook-change', notebookId: notebook.id, actorName: change.actorName, text, cellId: change.cellId });
+      for (const userId of told) {
+        const entry = unread.get(userId);
+        if (!entry) {
+          await addNotification(manager, { userId, kind: 'notebook-change', notebookId: notebook.id, ...latest, text: `${changeLine(change)} in "${notebook.title}"` });
+          continue;
+        }
+        const text = `${changesIn(entry.text) + 1} changes in "${notebook.title}" since you last looked; latest: ${changeLine(change)}`;
+        await manager.update(Notification, { id: entry.id }, { ...latest, text: text.slice(0, 500), createdAt: new Date() });
       }
     });
   }

@@ -11,14 +11,16 @@ import {
   type NotebookRole,
 } from '../../shared/notebook/sharing';
 import type { SignedInUser } from '../auth/sessions';
-import { Cell, Comment, Notebook, NotebookFollow, User } from '../db/entities';
+import { Cell, Comment, Notebook, NotebookFollow } from '../db/entities';
 import { AppError } from '../http/errors';
 import { senderLimit } from '../http/senderLimits';
 import { newId } from '../ids';
 import type { Mailer } from '../mail/mailer';
-import { recordNotebookChange, type NotebookChange, type NotebookEventBus } from './notebookEvents';
+import { mailSafe } from '../mail/mailSafe';
+import { commitNotebookChange, type NotebookChange, type NotebookEventBus } from './notebookEvents';
 import type { NotebookService } from './notebooks';
 import { addNotification, type NewNotification } from './notifications';
+import { namesOf } from './sharing';
 
 /** What a share link grants, as the sharing service resolves it (404 for unknown, expired or revoked links). */
 export interface ResolvedLink {
@@ -108,17 +110,10 @@ export function createCommentService(deps: CommentServiceDeps) {
     const cellIds = [...new Set(shown.map((row) => row.cellId).filter((id): id is string => Boolean(id)))];
     const cells = cellIds.length ? await dataSource.getRepository(Cell).find({ where: { id: In(cellIds), notebookId }, select: { id: true, revision: true } }) : [];
     const revisions = new Map(cells.map((cell) => [cell.id, cell.revision]));
-    const names = await namesOf(shown.flatMap((row) => [row.authorId, row.resolvedById]));
+    const names = await namesOf(dataSource, shown.flatMap((row) => [row.authorId, row.resolvedById]));
     const roots = shown.filter((row) => !row.parentId);
     const threads = roots.flatMap((root) => [root, ...shown.filter((row) => row.parentId === root.id)]);
     return threads.map((row) => view(row, reader, names, revisions));
-  }
-
-  async function namesOf(ids: (string | null)[]): Promise<Map<string, string>> {
-    const unique = [...new Set(ids.filter((id): id is string => Boolean(id)))];
-    if (!unique.length) return new Map();
-    const users = await dataSource.getRepository(User).find({ where: { id: In(unique) }, select: { id: true, name: true } });
-    return new Map(users.map((user) => [user.id, user.name]));
   }
 
   function view(row: Comment, reader: Reader, names: Map<string, string>, revisions: Map<string, number>): CommentView {
@@ -149,7 +144,7 @@ export function createCommentService(deps: CommentServiceDeps) {
 
   async function viewOf(commentId: string, reader: Reader): Promise<CommentView> {
     const row = await comments.findOneByOrFail({ id: commentId });
-    const names = await namesOf([row.authorId, row.resolvedById]);
+    const names = await namesOf(dataSource, [row.authorId, row.resolvedById]);
     const cell = row.cellId ? await dataSource.getRepository(Cell).findOneBy({ id: row.cellId, notebookId: row.notebookId }) : null;
     return view(row, reader, names, new Map(cell ? [[cell.id, cell.revision]] : []));
   }
@@ -196,13 +191,17 @@ export function createCommentService(deps: CommentServiceDeps) {
         return null;
       }
       const excerpt = body.length > 500 ? `${body.slice(0, 500)}…` : body;
+      const name = mailSafe(author.name);
+      const title = mailSafe(notebook.title);
       return {
         to: person.email,
-        subject: `${author.name} mentioned you in ${notebook.title}`,
-        text: `${author.name} mentioned you in a comment on "${notebook.title}":\n\n${excerpt}\n\nOpen the notebook: ${publicUrl}/notebooks/${notebook.id}\n`,
+        subject: `${name} mentioned you in ${title}`,
+        text: `${name} mentioned you in a comment on "${title}":\n\n${excerpt}\n\nOpen the notebook: ${publicUrl}/notebooks/${notebook.id}\n`,
       };
     });
   }
+
+  const commit = (recorded: NotebookChange, write: (manager: EntityManager) => Promise<void>) => commitNotebookChange(dataSource, events, recorded, write);
 
   function change(notebookId: string, actor: SignedInUser, kind: NotebookEventKind, cellId: string | null, text: string): NotebookChange {
     return { notebookId, kind, actorId: actor.id, actorName: actor.name, cellId, text };
@@ -221,7 +220,7 @@ export function createCommentService(deps: CommentServiceDeps) {
     const repliedTo = placed.root ? (await threadParticipants(placed.root)).filter((id) => id !== author.id && withAccess.has(id) && !mentionedIds.has(id)) : [];
     const id = newId();
     const recorded = change(notebook.id, author, 'comment-added', placed.cellId, placed.root ? `replied to a comment on ${cellPhrase(placed.cellLabel)}` : `commented on ${cellPhrase(placed.cellLabel)}`);
-    await dataSource.transaction(async (manager) => {
+    await commit(recorded, async (manager) => {
       await manager.insert(Comment, {
         id,
         notebookId: notebook.id,
@@ -238,9 +237,7 @@ export function createCommentService(deps: CommentServiceDeps) {
       const entry = (userId: string, kind: 'mention' | 'reply', text: string): NewNotification => ({ userId, kind, notebookId: notebook.id, actorName: author.name, text, commentId: id, cellId: placed.cellId });
       for (const person of mentioned.filter((p) => p.id !== author.id)) await addNotification(manager, entry(person.id, 'mention', `${author.name} mentioned you in "${notebook.title}"`));
       for (const userId of repliedTo) await addNotification(manager, entry(userId, 'reply', `${author.name} replied in a thread on ${cellPhrase(placed.cellLabel)} of "${notebook.title}"`));
-      await recordNotebookChange(manager, recorded);
     });
-    events.publish(recorded);
     for (const person of mentioned.filter((p) => p.id !== author.id)) mailMention(author, notebook, person, input.body);
     return id;
   }
@@ -274,14 +271,12 @@ export function createCommentService(deps: CommentServiceDeps) {
     const before = new Set(JSON.parse(row.mentionsJson) as string[]);
     const newlyMentioned = mentioned.filter((p) => !before.has(p.id) && p.id !== viewer.id);
     const recorded = change(notebook.id, viewer, 'comment-edited', row.cellId, `edited a comment on ${cellPhrase(row.cellLabel)}`);
-    await dataSource.transaction(async (manager) => {
+    await commit(recorded, async (manager) => {
       await manager.update(Comment, { id: row.id }, { body, editedAt: new Date(), mentionsJson: JSON.stringify(mentioned.map((p) => p.id)) });
       for (const person of newlyMentioned) {
         await addNotification(manager, { userId: person.id, kind: 'mention', notebookId: notebook.id, actorName: viewer.name, text: `${viewer.name} mentioned you in "${notebook.title}"`, commentId: row.id, cellId: row.cellId });
       }
-      await recordNotebookChange(manager, recorded);
     });
-    events.publish(recorded);
     for (const person of newlyMentioned) mailMention(viewer, notebook, person, body);
   }
 
@@ -290,11 +285,9 @@ export function createCommentService(deps: CommentServiceDeps) {
     if (row.parentId) throw new AppError('validation_failed', 'Only a whole thread can be resolved: use its first comment.', { resolved: 'Resolve the thread\'s first comment' });
     if ((row.resolvedAt !== null) === resolved) return;
     const recorded = change(row.notebookId, viewer, resolved ? 'comment-resolved' : 'comment-reopened', row.cellId, `${resolved ? 'resolved' : 'reopened'} a thread on ${cellPhrase(row.cellLabel)}`);
-    await dataSource.transaction(async (manager) => {
+    await commit(recorded, async (manager) => {
       await manager.update(Comment, { id: row.id }, resolved ? { resolvedAt: new Date(), resolvedById: viewer.id } : { resolvedAt: null, resolvedById: null });
-      await recordNotebookChange(manager, recorded);
     });
-    events.publish(recorded);
   }
 
   /** A comment with replies stays as an empty placeholder; otherwise it goes, and so does a placeholder left without replies. */
@@ -313,7 +306,7 @@ export function createCommentService(deps: CommentServiceDeps) {
   async function linkNotebook(token: string): Promise<{ link: ResolvedLink; notebook: Notebook }> {
     const link = await deps.resolveLink(token);
     const notebook = await dataSource.getRepository(Notebook).findOneBy({ id: link.notebookId });
-    if (!notebook) throw new AppError('not_found', 'No such link.');
+    if (!notebook) throw new AppError('not_found', 'No such notebook.');
     return { link, notebook };
   }
 
@@ -361,11 +354,7 @@ export function createCommentService(deps: CommentServiceDeps) {
       if (row.authorId === viewer.id) requireCommenter(role, 'delete comments');
       else if (role !== 'owner') throw new AppError('forbidden', 'You can delete only your own comments; the notebook\'s owner may delete any.');
       const recorded = change(row.notebookId, viewer, 'comment-deleted', row.cellId, `deleted a comment on ${cellPhrase(row.cellLabel)}`);
-      await dataSource.transaction(async (manager) => {
-        await removeComment(manager, row);
-        await recordNotebookChange(manager, recorded);
-      });
-      events.publish(recorded);
+      await commit(recorded, (manager) => removeComment(manager, row));
     },
 
     /** Through a share link: anyone holding it reads that notebook's comments, and nothing else. */

@@ -1,6 +1,6 @@
 import type { Logger } from 'pino';
 import { can, type LinkRole, type LiveEvent, type NotebookRole, type PresenterState, type ViewerPresence } from '../../shared/notebook/sharing';
-import type { SignedInUser } from '../auth/sessions';
+import type { SessionService, SignedInUser } from '../auth/sessions';
 import { AppError } from '../http/errors';
 import type { AccessChange, NotebookChange, NotebookEventBus } from './notebookEvents';
 import type { NotebookService } from './notebooks';
@@ -21,7 +21,10 @@ export interface LiveLimits {
   perLink: number;
   /** Open streams of the whole server. */
   total: number;
-  /** A comment line this often keeps idle connections open through proxies. */
+  /**
+   * A comment line this often keeps idle connections open through proxies; at each one the session or
+   * share link a stream was opened with is checked again (sign-out, password reset, link expiry).
+   */
   heartbeatMs: number;
 }
 
@@ -32,8 +35,12 @@ interface Watcher {
   notebookId: string;
   viewer: SignedInUser | null;
   link: { token: string; linkId: string } | null;
+  /** The session the person's stream was opened with. */
+  sessionId: string | null;
   role: NotebookRole;
   stream: LiveStream | null;
+  /** A check of the watcher's session or link is under way (heartbeats do not pile up behind a slow one). */
+  checking: boolean;
 }
 
 export interface LiveDeps {
@@ -41,6 +48,8 @@ export interface LiveDeps {
   events: NotebookEventBus;
   logger: Logger;
   resolveLink(token: string): Promise<{ notebookId: string; role: LinkRole; linkId: string }>;
+  /** Validates the sessions people's streams were opened with; without it only access changes end their streams. */
+  sessions?: Pick<SessionService, 'resolve'>;
   limits?: Partial<LiveLimits>;
 }
 
@@ -99,7 +108,12 @@ export function createLiveHub(deps: LiveDeps) {
   function startHeartbeat() {
     if (heartbeat) return;
     heartbeat = setInterval(() => {
-      for (const set of watching.values()) for (const watcher of set) watcher.stream?.comment('ping');
+      for (const set of watching.values()) {
+        for (const watcher of set) {
+          watcher.stream?.comment('ping');
+          checkStillAdmitted(watcher);
+        }
+      }
     }, limits.heartbeatMs);
     heartbeat.unref();
   }
@@ -169,19 +183,39 @@ export function createLiveHub(deps: LiveDeps) {
     }
   }
 
+  function revoke(watcher: Watcher) {
+    if (!watcher.stream || watcher.stream.closed) return;
+    send(watcher, { type: 'revoked' });
+    watcher.stream.close();
+  }
+
   async function recheck(watcher: Watcher) {
     const role = await currentRole(watcher);
     if (!watcher.stream || watcher.stream.closed) return;
-    if (role === null) {
-      send(watcher, { type: 'revoked' });
-      watcher.stream.close();
-      return;
-    }
+    if (role === null) return revoke(watcher);
     if (role === watcher.role) return;
     watcher.role = role;
     send(watcher, { type: 'role', role });
     const presenter = presenters.get(watcher.notebookId);
     if (presenter && presenter.userId === watcher.viewer?.id && !can(role, 'present')) endPresentation(watcher.notebookId);
+  }
+
+  /** Whether the person's stream still rests on a live session of theirs (ended by sign-out, password reset, expiry). */
+  async function sessionHolds(watcher: Watcher): Promise<boolean> {
+    if (!deps.sessions || !watcher.viewer) return true;
+    if (!watcher.sessionId) return false;
+    const { user } = await deps.sessions.resolve(watcher.sessionId);
+    return user?.id === watcher.viewer.id;
+  }
+
+  /** Heartbeat check: a link holder's link must still be usable, a person's session still open. */
+  function checkStillAdmitted(watcher: Watcher) {
+    if (watcher.checking || !watcher.stream || watcher.stream.closed) return;
+    watcher.checking = true;
+    const check = watcher.link ? recheck(watcher) : sessionHolds(watcher).then((holds) => (holds ? undefined : revoke(watcher)));
+    check
+      .catch((error) => deps.logger.error({ err: error, notebookId: watcher.notebookId }, 'checking a live stream\'s session or link failed'))
+      .finally(() => (watcher.checking = false));
   }
 
   function onAccessChange(change: AccessChange) {
@@ -198,11 +232,14 @@ export function createLiveHub(deps: LiveDeps) {
   deps.events.onAccessChange(onAccessChange);
 
   return {
-    /** Admit a person to a notebook's stream (viewer and up); the returned function feeds the opened stream. */
-    async watch(viewer: SignedInUser, notebookId: string): Promise<(stream: LiveStream) => void> {
+    /**
+     * Admit a person to a notebook's stream (viewer and up) on the session they opened it with; the returned
+     * function feeds the opened stream.
+     */
+    async watch(viewer: SignedInUser, notebookId: string, sessionId: string | null): Promise<(stream: LiveStream) => void> {
       const { role } = await deps.notebooks.requireRole(viewer, notebookId, 'read');
       reserve('person', viewer.id);
-      const watcher: Watcher = { notebookId, viewer, link: null, role, stream: null };
+      const watcher: Watcher = { notebookId, viewer, link: null, sessionId, role, stream: null, checking: false };
       return (stream) => attach(watcher, stream);
     },
 
@@ -210,7 +247,7 @@ export function createLiveHub(deps: LiveDeps) {
     async watchShared(token: string): Promise<(stream: LiveStream) => void> {
       const link = await deps.resolveLink(token);
       reserve('link', link.linkId);
-      const watcher: Watcher = { notebookId: link.notebookId, viewer: null, link: { token, linkId: link.linkId }, role: link.role, stream: null };
+      const watcher: Watcher = { notebookId: link.notebookId, viewer: null, link: { token, linkId: link.linkId }, sessionId: null, role: link.role, stream: null, checking: false };
       return (stream) => attach(watcher, stream);
     },
 

@@ -1,5 +1,5 @@
 import { EventEmitter } from 'node:events';
-import type { EntityManager } from 'typeorm';
+import type { DataSource, EntityManager } from 'typeorm';
 import type { NotebookEventKind } from '../../shared/notebook/sharing';
 import { NotebookEvent } from '../db/entities';
 import { newId } from '../ids';
@@ -48,4 +48,33 @@ export type NotebookEventBus = ReturnType<typeof createNotebookEventBus>;
 /** Write the change to the notebook's activity log, inside the writer's transaction. */
 export async function recordNotebookChange(manager: EntityManager, change: NotebookChange): Promise<void> {
   await manager.insert(NotebookEvent, { id: newId(), ...change, text: change.text.slice(0, 500) });
+}
+
+export interface CommitOptions {
+  /** Also tell the live streams that who may open the notebook may have changed. */
+  accessChanged?: boolean;
+  /** Drop cached copies of the notebook (e.g. `notebooks.forget`) once the change is committed. */
+  forget?: (notebookId: string) => void;
+}
+
+/**
+ * Run `write` and record `change` in one transaction; after commit, forget cached copies, publish the
+ * change and, when asked, the access change. Returns what `write` returned.
+ */
+export async function commitNotebookChange<T>(
+  dataSource: DataSource,
+  events: NotebookEventBus,
+  change: NotebookChange,
+  write: (manager: EntityManager) => Promise<T>,
+  options: CommitOptions = {},
+): Promise<T> {
+  const result = await dataSource.transaction(async (manager) => {
+    const written = await write(manager);
+    await recordNotebookChange(manager, change);
+    return written;
+  });
+  options.forget?.(change.notebookId);
+  events.publish(change);
+  if (options.accessChanged) events.accessChanged({ notebookId: change.notebookId });
+  return result;
 }

@@ -1,6 +1,7 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import type { VersionSummary } from '../../shared/notebook/api';
-import type { CellInput } from '../../shared/notebook/cells';
+import type { CellInput, CellKind } from '../../shared/notebook/cells';
+import { canonicalJson } from '../../shared/notebook/dependencies';
 import { RESULT_LIMITS } from '../../shared/jobs/limits';
 import type { NotebookAction, NotebookEventKind } from '../../shared/notebook/sharing';
 import type { SignedInUser } from '../auth/sessions';
@@ -143,6 +144,42 @@ export interface WriterDeps {
 export interface NewCell {
   label: string;
   input: CellInput;
+}
+
+/** A cell as a whole-notebook write (a restore) leaves it, in notebook order. */
+export interface CellToKeep {
+  label: string;
+  kind: CellKind;
+  input: CellInput;
+}
+
+/**
+ * Makes the notebook's cells exactly `wanted`, matched by label: a cell whose label stays keeps its id
+ * (comment threads and open editors name it) and moves up one revision only when its input changes, so a
+ * stale save is refused and comments see "changed since" only where something changed; cells not wanted
+ * are deleted, new labels inserted at revision 1. Returns the id of every wanted cell by label.
+ */
+export async function writeCellsByLabel(manager: EntityManager, notebookId: string, wanted: CellToKeep[]): Promise<Map<string, string>> {
+  const current = new Map((await manager.findBy(Cell, { notebookId })).map((cell) => [cell.label, cell]));
+  const wantedLabels = new Set(wanted.map((cell) => cell.label));
+  const gone = [...current.values()].filter((cell) => !wantedLabels.has(cell.label)).map((cell) => cell.id);
+  if (gone.length) await manager.delete(Cell, gone);
+  const ids = new Map<string, string>();
+  for (const [position, cell] of wanted.entries()) {
+    const inputJson = JSON.stringify(cell.input);
+    const kept = current.get(cell.label);
+    if (!kept) {
+      const id = newId();
+      await manager.insert(Cell, { id, notebookId, position, kind: cell.kind, label: cell.label, inputJson, revision: 1 });
+      ids.set(cell.label, id);
+      continue;
+    }
+    const changed = canonicalJson(JSON.parse(kept.inputJson)) !== canonicalJson(cell.input);
+    const fields = changed ? { position, kind: cell.kind, inputJson, revision: kept.revision + 1 } : { position };
+    await manager.update(Cell, { id: kept.id }, fields);
+    ids.set(cell.label, kept.id);
+  }
+  return ids;
 }
 
 /**

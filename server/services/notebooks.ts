@@ -76,7 +76,7 @@ function sqliteHandle(dataSource: DataSource): { prepare(sql: string): { get(...
 }
 
 /** SQLite datetime text (UTC, as TypeORM and datetime('now') write it) to a Date. */
-function sqliteDate(text: string): Date {
+export function sqliteDate(text: string): Date {
   return new Date(`${text.replace(' ', 'T')}${text.endsWith('Z') ? '' : 'Z'}`);
 }
 
@@ -84,13 +84,20 @@ export function parseCellInput(json: string): CellInput {
   return cellInput.parse(JSON.parse(json));
 }
 
+/** The parts of a notebook summary that are the same for everyone who may see the notebook. */
+type CommonSummary = Omit<NotebookSummary, 'role' | 'sharedBy' | 'canEdit'>;
+
 /** Notebooks and their cells: who may see and edit them, and what state every cell is in. */
 export function createNotebookService(dataSource: DataSource, runs: RunService, events: NotebookEventBus) {
   const notebooks = dataSource.getRepository(Notebook);
   const cells = dataSource.getRepository(Cell);
   // Cell views of notebooks with no run in flight; every write path below calls forget().
   const settledViews = new WeightedLru<string, CellView[]>(SETTLED_VIEWS_BUDGET);
-  const forget = (notebookId: string) => settledViews.delete(notebookId);
+  const settledSummaries = new WeightedLru<string, CommonSummary>(SETTLED_SUMMARIES_BUDGET);
+  const forget = (notebookId: string) => {
+    settledViews.delete(notebookId);
+    settledSummaries.delete(notebookId);
+  };
 
   async function groupIdsOf(userId: string): Promise<string[]> {
     const rows = await dataSource.getRepository(GroupMembership).findBy({ userId });
@@ -212,10 +219,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
     return found;
   }
 
-  /** The parts of a summary that are the same for everyone who may see the notebook. */
-  type SharedSummary = Omit<NotebookSummary, 'role' | 'sharedBy' | 'canEdit'>;
-
-  async function sharedSummaries(rows: Notebook[]): Promise<SharedSummary[]> {
+  async function commonSummaries(rows: Notebook[]): Promise<CommonSummary[]> {
     if (!rows.length) return [];
     const owners = await dataSource.getRepository(User).createQueryBuilder('u').where('u.id IN (:...ids)', { ids: [...new Set(rows.map((r) => r.ownerId))] }).getMany();
     const groupIds = [...new Set(rows.map((r) => r.groupId).filter((id): id is string => Boolean(id)))];
@@ -242,24 +246,22 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
 
   /** Summaries as the viewer sees them: their role and how each notebook reached them. */
   async function summaries(rows: Notebook[], viewer: SignedInUser): Promise<NotebookSummary[]> {
-    const shared = await sharedSummaries(rows);
+    const common = await commonSummaries(rows);
     const grants = await grantsReaching(viewer, rows.filter((row) => row.ownerId !== viewer.id).map((row) => row.id));
-    return shared.map((summary) => personalised(summary, viewer, grants.get(summary.id)));
+    return common.map((summary) => personalised(summary, viewer, grants.get(summary.id)));
   }
 
-  function personalised(summary: SharedSummary, viewer: SignedInUser, grant: { role: NotebookRole; personName: string | null; groupName: string | null } | undefined): NotebookSummary {
+  function personalised(summary: CommonSummary, viewer: SignedInUser, grant: { role: NotebookRole; personName: string | null; groupName: string | null } | undefined): NotebookSummary {
     const role: NotebookRole = summary.ownerId === viewer.id ? 'owner' : (grant?.role ?? 'viewer');
     const sharedBy = role === 'owner' ? null : { personName: grant?.personName ?? summary.ownerName, groupName: grant?.groupName ?? null };
     return { ...summary, role, sharedBy, canEdit: can(role, 'edit') };
   }
 
-  const settledSummaries = new WeightedLru<string, SharedSummary>(SETTLED_SUMMARIES_BUDGET);
-
   async function detail(viewer: SignedInUser, notebookId: string): Promise<NotebookDetail> {
     const { notebook, role } = await access(viewer, notebookId);
     let summary = settledSummaries.get(notebookId);
     if (!summary || summary.updatedAt !== notebook.updatedAt.toISOString()) {
-      [summary] = await sharedSummaries([notebook]);
+      [summary] = await commonSummaries([notebook]);
       settledSummaries.set(notebookId, summary, 500 + summary.title.length + summary.summary.length);
     }
     const grant = role === 'owner' ? undefined : (await grantsReaching(viewer, [notebookId])).get(notebookId);

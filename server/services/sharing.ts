@@ -1,4 +1,4 @@
-import { IsNull, MoreThan, type DataSource, type EntityManager } from 'typeorm';
+import { In, IsNull, MoreThan, type DataSource, type EntityManager } from 'typeorm';
 import type { NotebookDetail } from '../../shared/notebook/api';
 import {
   roleAtLeast,
@@ -22,9 +22,10 @@ import { AppError } from '../http/errors';
 import type { SenderLimit } from '../http/senderLimits';
 import { newId } from '../ids';
 import type { Mailer, OutgoingMessage } from '../mail/mailer';
+import { mailSafe } from '../mail/mailSafe';
 import { emailKey } from './accounts';
-import { recordNotebookChange, type NotebookChange, type NotebookEventBus } from './notebookEvents';
-import type { NotebookAccess, NotebookService } from './notebooks';
+import { commitNotebookChange, recordNotebookChange, type NotebookChange, type NotebookEventBus } from './notebookEvents';
+import { sqliteDate, type NotebookAccess, type NotebookService } from './notebooks';
 import { addNotification } from './notifications';
 
 export const INVITATION_LIFETIME_MS = 14 * 24 * 3600 * 1000;
@@ -33,10 +34,12 @@ const DAY_MS = 24 * 3600 * 1000;
 /** The same reply for unknown, malformed, expired and revoked links: nothing tells whether a notebook exists. */
 const noSuchNotebook = () => new AppError('not_found', 'No such notebook.');
 
-/** One line of a plain-text mail: no control characters or line breaks that could fake further lines, bounded length. */
-export function mailSafe(text: string, max = 200): string {
-  const flat = text.replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]+/g, ' ').replace(/\s+/g, ' ').trim();
-  return flat.length > max ? `${flat.slice(0, max - 1)}…` : flat;
+/** Display names of the given people (unknown and null ids are left out). */
+export async function namesOf(dataSource: DataSource, userIds: (string | null)[]): Promise<Map<string, string>> {
+  const ids = [...new Set(userIds.filter((id): id is string => Boolean(id)))];
+  if (!ids.length) return new Map();
+  const users = await dataSource.getRepository(User).find({ where: { id: In(ids) }, select: { id: true, name: true } });
+  return new Map(users.map((user) => [user.id, user.name]));
 }
 
 const article = (role: NotebookRole) => (role === 'editor' || role === 'owner' ? 'an' : 'a');
@@ -105,25 +108,14 @@ export interface SharingServiceDeps {
 export function createSharingService({ dataSource, notebooks, events, mailer, publicUrl, invitationLimit, now = () => new Date() }: SharingServiceDeps) {
   const notebookUrl = (notebookId: string) => `${publicUrl}/notebooks/${notebookId}`;
 
-  /** Write the change in the transaction of `write`; publish it (and the access change) after commit. */
-  async function commitChange<T>(change: Omit<NotebookChange, 'cellId'>, write: (manager: EntityManager) => Promise<T>): Promise<T> {
-    const full: NotebookChange = { ...change, cellId: null };
-    const result = await dataSource.transaction(async (manager) => {
-      const written = await write(manager);
-      await recordNotebookChange(manager, full);
-      return written;
-    });
-    notebooks.forget(change.notebookId);
-    events.publish(full);
-    events.accessChanged({ notebookId: change.notebookId });
-    return result;
-  }
+  const commitChange = <T>(change: NotebookChange, write: (manager: EntityManager) => Promise<T>): Promise<T> =>
+    commitNotebookChange(dataSource, events, change, write, { accessChanged: true, forget: notebooks.forget });
 
   // Notebook summaries (owner, group) are cached until updatedAt changes.
   const updateNotebookRow = (manager: EntityManager, notebookId: string, fields: Partial<Pick<Notebook, 'groupId' | 'ownerId'>>) =>
     manager.update(Notebook, { id: notebookId }, { ...fields, updatedAt: now() });
 
-  const changeBy = (viewer: SignedInUser, notebookId: string, kind: NotebookChange['kind'], text: string) => ({ notebookId, kind, actorId: viewer.id, actorName: viewer.name, text });
+  const changeBy = (viewer: SignedInUser, notebookId: string, kind: NotebookChange['kind'], text: string): NotebookChange => ({ notebookId, kind, actorId: viewer.id, actorName: viewer.name, cellId: null, text });
 
   async function manageable(viewer: SignedInUser, notebookId: string): Promise<NotebookAccess> {
     return notebooks.requireRole(viewer, notebookId, 'manageSharing');
@@ -154,7 +146,7 @@ export function createSharingService({ dataSource, notebooks, events, mailer, pu
       email: row.userId && showEmails ? row.email : null,
       role: row.role,
       grantedByName: row.grantedByName,
-      createdAt: sqliteIso(row.createdAt),
+      createdAt: sqliteDate(row.createdAt).toISOString(),
     }));
     grants.sort((a, b) => roleRank(b.role) - roleRank(a.role) || a.kind.localeCompare(b.kind) || a.name.localeCompare(b.name));
     return [ownerView, ...grants];
@@ -162,7 +154,7 @@ export function createSharingService({ dataSource, notebooks, events, mailer, pu
 
   async function invitationViews(notebookId: string): Promise<PendingInvitationView[]> {
     const rows = await dataSource.getRepository(NotebookInvitation).find({ where: { notebookId, acceptedAt: IsNull(), expiresAt: MoreThan(now()) }, order: { createdAt: 'DESC' } });
-    const names = await namesOf(rows.map((row) => row.invitedById));
+    const names = await namesOf(dataSource, rows.map((row) => row.invitedById));
     return rows.map((row) => ({
       id: row.id, email: row.email, role: row.role, invitedByName: names.get(row.invitedById) ?? '', createdAt: row.createdAt.toISOString(), expiresAt: row.expiresAt.toISOString(),
     }));
@@ -170,7 +162,7 @@ export function createSharingService({ dataSource, notebooks, events, mailer, pu
 
   async function linkViews(notebookId: string): Promise<ShareLinkView[]> {
     const rows = await dataSource.getRepository(ShareLink).find({ where: { notebookId }, order: { createdAt: 'DESC' } });
-    const names = await namesOf(rows.map((row) => row.createdById));
+    const names = await namesOf(dataSource, rows.map((row) => row.createdById));
     return rows.map((row) => ({
       id: row.id,
       role: row.role,
@@ -180,13 +172,6 @@ export function createSharingService({ dataSource, notebooks, events, mailer, pu
       revokedAt: row.revokedAt?.toISOString() ?? null,
       active: isActiveLink(row, now()),
     }));
-  }
-
-  async function namesOf(userIds: string[]): Promise<Map<string, string>> {
-    const ids = [...new Set(userIds)];
-    if (!ids.length) return new Map();
-    const users = await dataSource.getRepository(User).createQueryBuilder('u').where('u.id IN (:...ids)', { ids }).getMany();
-    return new Map(users.map((user) => [user.id, user.name]));
   }
 
   async function view(viewer: SignedInUser, notebookId: string): Promise<SharingView> {
@@ -415,11 +400,6 @@ export function createSharingService({ dataSource, notebooks, events, mailer, pu
       return view(viewer, notebookId);
     },
   };
-}
-
-/** SQLite datetime text (UTC, as datetime('now') writes it) in ISO form. */
-function sqliteIso(text: string): string {
-  return new Date(`${text.replace(' ', 'T')}${text.endsWith('Z') ? '' : 'Z'}`).toISOString();
 }
 
 export type SharingService = ReturnType<typeof createSharingService>;

@@ -14,7 +14,7 @@ import { newId } from '../ids';
 import { assertCellsAccepted } from './cellChecks';
 import { MAX_CELLS_PER_NOTEBOOK, type NotebookService } from './notebooks';
 import { jobHash } from './runs';
-import { cellText, resultBudget, storedCells, toSummary, SUMMARY_COLUMNS, type StoredCell } from './notebookWriter';
+import { cellText, resultBudget, storedCells, toSummary, writeCellsByLabel, SUMMARY_COLUMNS, type StoredCell } from './notebookWriter';
 
 export { MAX_VERSIONS_PER_NOTEBOOK } from './notebookWriter';
 
@@ -150,24 +150,14 @@ export function createVersionService(dataSource: DataSource, notebooks: Notebook
         },
         apply: async ({ manager, saveVersion }, { row, snapshot }) => {
           await saveVersion(`Before restoring version ${row.number}`);
-          await manager.delete(Cell, { notebookId });
+          const cellIds = await writeCellsByLabel(manager, notebookId, snapshot.cells);
           const results = await cachedResults(manager, snapshot.cells);
-          for (const [position, cell] of snapshot.cells.entries()) {
-            const cellId = newId();
+          for (const cell of snapshot.cells) {
+            const cellId = cellIds.get(cell.label)!;
             const result = results.found.get(cell.label);
             // the cell gets its own cached run, as a cache hit on running it would give (no engine work)
             const runId = result ? await recordCachedRun(manager, result.run, cellId, viewer.id) : null;
-            await manager.insert(Cell, {
-              id: cellId,
-              notebookId,
-              position,
-              kind: cell.kind,
-              label: cell.label,
-              inputJson: JSON.stringify(cell.input),
-              revision: 1,
-              lastRunId: runId,
-              lastRunFingerprint: result?.fingerprint ?? null,
-            });
+            await manager.update(Cell, { id: cellId }, { lastRunId: runId, lastRunFingerprint: result?.fingerprint ?? null });
           }
           await manager.update(Notebook, { id: notebookId }, { title: snapshot.title, summary: snapshot.summary, updatedAt: new Date() });
           await saveVersion(restoredMessage(row, results.leftToRun));

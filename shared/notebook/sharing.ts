@@ -222,7 +222,7 @@ export interface NotebookEventView {
 export interface ViewerPresence {
   userId: string;
   name: string;
-  /** The cell they presented last, when presenting. */
+  /** True while this person presents the notebook. */
   presenting: boolean;
 }
 

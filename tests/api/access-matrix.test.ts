@@ -7,6 +7,7 @@ import { after, before, describe, test } from 'node:test';
 import { apiRouteTable } from '../../server/app';
 import { ResearchGroup } from '../../server/db/entities';
 import { newId } from '../../server/ids';
+import { GRANTABLE_ROLES, NOTEBOOK_ROLES, type NotebookRole } from '../../shared/notebook/sharing';
 import { ORIGIN, startHarness, type Harness } from './harness';
 import { collaborationFixture, createPerson, joinGroup, notebookWithRun, signInAgain, type Client, type RouteFixture as Fixture, type TestPerson } from './people';
 
@@ -22,13 +23,12 @@ const identities = [
 ] as const;
 type Identity = (typeof identities)[number];
 type Expected = Record<Identity, number>;
-type NotebookRole = 'viewer' | 'commenter' | 'editor' | 'owner';
 
 const roleOf: Partial<Record<Identity, NotebookRole>> = {
   viewer: 'viewer', groupViewer: 'viewer', commenter: 'commenter', groupCommenter: 'commenter',
   editor: 'editor', groupMember: 'editor', groupLead: 'editor', owner: 'owner',
 };
-const RANK: NotebookRole[] = ['viewer', 'commenter', 'editor', 'owner'];
+const RANK: readonly NotebookRole[] = NOTEBOOK_ROLES;
 
 interface Row {
   body?: (f: Fixture) => unknown;
@@ -241,8 +241,14 @@ describe('access matrix: every route × every kind of caller', () => {
     assert.deepEqual(Object.keys(matrix).filter((key) => !routes.includes(key)), [], 'matrix rows for routes that no longer exist');
   });
 
-  test(`size: ${Object.keys(matrix).length} routes × ${identities.length} kinds of caller`, () => {
-    assert.equal(identities.length, 14);
+  test(`size: ${Object.keys(matrix).length} routes × ${identities.length} kinds of caller; every notebook role is held personally, through a group and not at all`, () => {
+    // the roles come from the product's contract, not from this file
+    const held = new Set(Object.values(roleOf));
+    assert.deepEqual([...held].sort(), [...NOTEBOOK_ROLES].sort());
+    for (const role of GRANTABLE_ROLES) {
+      const holders = identities.filter((identity) => roleOf[identity] === role);
+      assert.ok(holders.some((i) => i.startsWith('group')) && holders.some((i) => !i.startsWith('group')), `${role}: held both personally and through a group`);
+    }
   });
 
   /** linkViewer holds the viewer link; everyone else the commenter link. */

@@ -4,7 +4,7 @@ import { NotebookMember } from '../../server/db/entities';
 import { newId } from '../../server/ids';
 import type { ActivityReply, CommentView, NotebookEventView } from '../../shared/notebook/sharing';
 import { startHarness, type Harness } from './harness';
-import { createPerson, type TestPerson } from './people';
+import { createPerson, notebookWithRun, type TestPerson } from './people';
 
 const handleOf = (who: TestPerson) => who.email.split('@')[0].toLowerCase();
 
@@ -71,11 +71,44 @@ describe('activity: per person and per notebook', () => {
     const viewerChanges = (await changesFor(viewer)).filter((n) => !n.read);
     assert.equal(viewerChanges.length, 1, 'coalesced into one unread entry');
     assert.equal(viewerChanges[0].notebookId, notebookId);
+    assert.equal(viewerChanges[0].text, `2 changes in "${title}" since you last looked; latest: Invented editor commented on the notebook`);
     assert.equal((await changesFor(owner)).filter((n) => !n.read).length, 1);
     assert.equal((await changesFor(editor)).length, already, 'no entry for one\'s own changes');
     await readAll(viewer);
     await comment(editor, 'third change by the editor');
-    assert.equal((await changesFor(viewer)).length, 2);
+    const afterRead = await changesFor(viewer);
+    assert.equal(afterRead.length, 2);
+    assert.equal(afterRead.filter((n) => !n.read).map((n) => n.text).join(), `Invented editor commented on the notebook in "${title}"`);
+  });
+
+  test('a coalesced entry names the latest change, counts them, and takes the latest change\'s time', async () => {
+    await readAll(viewer);
+    const root = await comment(editor, 'one');
+    await comment(commenter, 'two');
+    await editor.client.patch(`/api/comments/${root.id}`).send({ body: 'one, edited' }).expect(200);
+    const unread = (await changesFor(viewer)).filter((n) => !n.read);
+    assert.deepEqual(unread.map((n) => [n.text, n.actorName]), [[`3 changes in "${title}" since you last looked; latest: Invented editor edited a comment on the notebook`, 'Invented editor']]);
+    const newestLogEntry = ((await viewer.client.get(`/api/notebooks/${notebookId}/activity`).expect(200)).body.events as NotebookEventView[])[0];
+    assert.equal(newestLogEntry.kind, 'comment-edited');
+    assert.ok(Date.parse(unread[0].createdAt) >= Date.parse(newestLogEntry.createdAt), 'the entry is as recent as the latest change');
+  });
+
+  test('a run finishing tells no follower (nobody made that change); starting it told the others', async () => {
+    const groupId = (await owner.client.post('/api/groups').send({ name: 'Invented Activity Group', description: '' }).expect(201)).body.group.id as string;
+    let stopListening = () => {};
+    const finished = new Promise<void>((resolve) => {
+      stopListening = h.rungbook.services.events.onChange((change) => {
+        if (change.kind === 'cell-run' && change.actorId === null) resolve();
+      });
+    });
+    const ran = await notebookWithRun(owner.client, groupId);
+    await finished;
+    stopListening();
+    await h.rungbook.services.activity.idle();
+    const ownersEntries = (await activity(owner)).items.filter((n) => n.notebookId === ran.notebookId);
+    assert.deepEqual(ownersEntries.map((n) => n.text), [], 'the owner started the run: nothing to tell them');
+    const all = (await activity(owner)).items.concat((await activity(editor)).items, (await activity(viewer)).items);
+    assert.ok(!all.some((n) => n.text.includes('a run finished') || n.text.startsWith('Someone')), JSON.stringify(all.map((n) => n.text)));
   });
 
   test('commenting follows the notebook; unfollowing stops the entries', async () => {

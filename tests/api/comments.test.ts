@@ -1,7 +1,7 @@
 import assert from 'node:assert/strict';
 import { after, before, describe, test } from 'node:test';
 import { sha256Hex, newLinkToken } from '../../server/auth/linkTokens';
-import { Comment, NotebookMember, ShareLink } from '../../server/db/entities';
+import { Comment, NotebookMember, ShareLink, User } from '../../server/db/entities';
 import { newId } from '../../server/ids';
 import { mentionHandles, mentionedHandles } from '../../server/services/comments';
 import { COMMENT_EDIT_WINDOW_MS, type CommentView, type MentionCandidate, type NotificationView } from '../../shared/notebook/sharing';
@@ -174,6 +174,26 @@ describe('comment threads, mentions and link holders', () => {
     assert.ok(mail.textBody.includes(`${ORIGIN}/notebooks/${notebookId}`));
   });
 
+  test('names and titles in a mention e-mail stay on one line, whatever line breaks they hold', async () => {
+    const brokenTitle = 'Invented title\nSubject: forged\r\n\nForged paragraph';
+    const flatTitle = 'Invented title Subject: forged Forged paragraph';
+    const broken = await newNotebook(owner.client, brokenTitle);
+    await grant(h, broken.notebookId, commenter.id, 'commenter', owner.id);
+    const rename = async (name: string) => {
+      await h.rungbook.services.dataSource.getRepository(User).update({ id: commenter.id }, { name });
+      h.rungbook.services.sessions.forgetCached(commenter.id);
+    };
+    await rename('Invented\ncommenter');
+    try {
+      await commenter.client.post(`/api/notebooks/${broken.notebookId}/comments`).send({ body: `@${handleOf(owner)} see the title` }).expect(201);
+      const mail = await mailTo(h, owner.email, `Invented commenter mentioned you in ${flatTitle}`);
+      assert.equal(mail.textBody.split(/\r?\n/)[0], `Invented commenter mentioned you in a comment on "${flatTitle}":`);
+      assert.ok(!/^(Subject|Forged)/m.test(mail.textBody), mail.textBody);
+    } finally {
+      await rename('Invented commenter');
+    }
+  });
+
   test('a mention of someone without access does nothing: no e-mail, no entry, the reply of an unknown handle', async () => {
     const strangerReply = (await commenter.client.post(`/api/notebooks/${notebookId}/comments`).send({ body: `@${handleOf(outsider)} have a look` }).expect(201)).body.comment as CommentView;
     const unknownReply = (await commenter.client.post(`/api/notebooks/${notebookId}/comments`).send({ body: '@nosuchhandle1 have a look' }).expect(201)).body.comment as CommentView;
@@ -204,6 +224,13 @@ describe('comment threads, mentions and link holders', () => {
     const posted = (await outsider.client.post(`/api/shared/${commenterToken}/comments`).send({ body: 'through a commenter link', cellId }).expect(201)).body.comment as CommentView;
     assert.equal(posted.notebookId, notebookId);
     assert.ok((await comments(owner.client, notebookId)).some((c) => c.id === posted.id));
+    // Without a role of their own the author cannot change it afterwards (documented on PATCH/DELETE /api/comments/:id).
+    assert.deepEqual([posted.canEdit, posted.canDelete], [false, false]);
+    const throughLink = (await outsider.client.get(`/api/shared/${commenterToken}/comments`).expect(200)).body.comments as CommentView[];
+    assert.deepEqual(throughLink.filter((c) => c.id === posted.id).map((c) => [c.canEdit, c.canDelete]), [[false, false]]);
+    await outsider.client.patch(`/api/comments/${posted.id}`).send({ body: 'edited through a link' }).expect(404);
+    await outsider.client.delete(`/api/comments/${posted.id}`).expect(404);
+    assert.equal((await comments(owner.client, notebookId)).find((c) => c.id === posted.id)!.body, 'through a commenter link');
     await h.browser().get(`/api/shared/${newLinkToken()}/comments`).expect(404);
     // The link reaches only its own notebook's cells.
     const other = await newNotebook(owner.client, 'Invented unrelated notebook');

@@ -4,9 +4,12 @@ import type { AddressInfo } from 'node:net';
 import { after, before, describe, test } from 'node:test';
 import type { LiveEvent, NotebookRole } from '../../shared/notebook/sharing';
 import type { NotebookDetail } from '../../shared/notebook/api';
-import { Cell, NotebookMember } from '../../server/db/entities';
+import pino from 'pino';
+import { sha256Hex } from '../../server/auth/linkTokens';
+import { Cell, NotebookMember, ShareLink } from '../../server/db/entities';
 import { newId } from '../../server/ids';
-import { startHarness, type Harness } from './harness';
+import { createLiveHub, type LiveHub, type LiveStream } from '../../server/services/live';
+import { ORIGIN, startHarness, type Harness } from './harness';
 import { createPerson, type TestPerson } from './people';
 
 /** What a browser's EventSource would read: named events, each with JSON data. */
@@ -337,5 +340,127 @@ describe('live notebook streams', () => {
     stream.close();
     const unknown = await openStream(`/api/shared/${'x'.repeat(43)}/events`, null);
     assert.equal(unknown.status, 404);
+  });
+});
+
+/** A stream as the hub feeds it, recording what it is sent (the HTTP layer is not what is tested here). */
+function recordingStream() {
+  const events: LiveEvent[] = [];
+  const waiting: { until: () => boolean; resolve: () => void }[] = [];
+  const closeListeners: (() => void)[] = [];
+  let pings = 0;
+  let closed = false;
+  const settle = () => {
+    for (const waiter of [...waiting]) if (waiter.until()) waiting.splice(waiting.indexOf(waiter), 1)[0].resolve();
+  };
+  const waitFor = (until: () => boolean, what: string) =>
+    new Promise<void>((resolve, reject) => {
+      const timer = setTimeout(() => reject(new Error(`${what} did not happen`)), EVENT_WAIT_MS);
+      waiting.push({ until, resolve: () => (clearTimeout(timer), resolve()) });
+      settle();
+    });
+  const stream: LiveStream = {
+    send: (_event, data) => (events.push(data as LiveEvent), settle()),
+    comment: () => ((pings += 1), settle()),
+    close() {
+      if (closed) return;
+      closed = true;
+      for (const listener of closeListeners) listener();
+      settle();
+    },
+    onClose: (listener) => closeListeners.push(listener),
+    get closed() {
+      return closed;
+    },
+  };
+  return {
+    stream,
+    types: () => events.map((event) => event.type),
+    pings: () => pings,
+    event: (type: LiveEvent['type']) => waitFor(() => events.some((event) => event.type === type), `a "${type}" event`),
+    closedNow: () => waitFor(() => closed, 'closing the stream'),
+    pingsReach: (count: number) => waitFor(() => pings >= count, `${count} heartbeats`),
+  };
+}
+
+describe('live streams are checked again at every heartbeat: sessions and share links', () => {
+  let h: Harness;
+  let hub: LiveHub;
+  let owner: TestPerson;
+  let notebookId: string;
+
+  before(async () => {
+    h = await startHarness();
+    const { notebooks, events, sessions, sharing } = h.rungbook.services;
+    // a fast heartbeat so the checks come soon; the tests wait for events, never for an amount of time
+    hub = createLiveHub({ notebooks, events, sessions, logger: pino({ level: 'silent' }), resolveLink: (token) => sharing.resolveLink(token), limits: { heartbeatMs: 50 } });
+    owner = await createPerson(h, { tag: 'owner' });
+    notebookId = ((await owner.client.post('/api/notebooks').send({ title: 'Invented heartbeat notebook', summary: '' }).expect(201)).body.notebook as NotebookDetail).id;
+  });
+  after(async () => {
+    hub.closeAll();
+    await h.close();
+  });
+
+  /** A fresh session of the person, as signing in in another browser gives: its cookie, id and user. */
+  async function session(person: TestPerson) {
+    const cookie = (await h.rungbook.services.sessions.start(person.id)).split(';')[0];
+    const sessionId = cookie.slice(cookie.indexOf('=') + 1);
+    const { user } = await h.rungbook.services.sessions.resolve(sessionId);
+    return { cookie, sessionId, user: user! };
+  }
+
+  async function watching(person: TestPerson) {
+    const { cookie, sessionId, user } = await session(person);
+    const recorded = recordingStream();
+    (await hub.watch(user, notebookId, sessionId))(recorded.stream);
+    await recorded.event('hello');
+    return { cookie, recorded };
+  }
+
+  test('signing out closes the streams opened with that session (revoked); a stream on another session stays open', async () => {
+    const signingOut = await watching(owner);
+    const staying = await watching(owner);
+    await h.raw.post('/api/auth/sign-out').set('Origin', ORIGIN).set('Cookie', signingOut.cookie).expect(204);
+    await signingOut.recorded.event('revoked');
+    await signingOut.recorded.closedNow();
+    // several heartbeats later (each one checks), the other session's stream is still open
+    await staying.recorded.pingsReach(staying.recorded.pings() + 3);
+    assert.equal(staying.recorded.stream.closed, false);
+    assert.ok(!staying.recorded.types().includes('revoked'));
+    staying.recorded.stream.close();
+  });
+
+  test('a password reset (which ends every session of the person) closes all their streams', async () => {
+    const person = await createPerson(h, { tag: 'resetting' });
+    await h.rungbook.services.dataSource.getRepository(NotebookMember).insert({ id: newId(), notebookId, userId: person.id, groupId: null, role: 'viewer', grantedById: owner.id });
+    const first = await watching(person);
+    const second = await watching(person);
+    // what a completed password reset does to sessions (server/services/passwordReset.ts)
+    await h.rungbook.services.sessions.endAllFor(person.id);
+    await Promise.all([first.recorded.event('revoked'), second.recorded.event('revoked')]);
+    assert.deepEqual([first.recorded.stream.closed, second.recorded.stream.closed], [true, true]);
+  });
+
+  test('a share link that expires while its stream is open: the stream is revoked and closed', async () => {
+    const token = (await owner.client.post(`/api/notebooks/${notebookId}/links`).send({ role: 'viewer' }).expect(201)).body.token as string;
+    const recorded = recordingStream();
+    (await hub.watchShared(token))(recorded.stream);
+    await recorded.event('hello');
+    // the expiry passes; nothing else happens that would re-check access
+    await h.rungbook.services.dataSource.getRepository(ShareLink).update({ tokenHash: sha256Hex(token) }, { expiresAt: new Date(Date.now() - 60_000) });
+    await recorded.event('revoked');
+    await recorded.closedNow();
+    assert.equal(hub.openStreams(), 0);
+  });
+
+  test('a share link revoked in the database alone is noticed at the next heartbeat', async () => {
+    const token = (await owner.client.post(`/api/notebooks/${notebookId}/links`).send({ role: 'commenter' }).expect(201)).body.token as string;
+    const recorded = recordingStream();
+    (await hub.watchShared(token))(recorded.stream);
+    await recorded.event('hello');
+    await h.rungbook.services.dataSource.getRepository(ShareLink).update({ tokenHash: sha256Hex(token) }, { revokedAt: new Date() });
+    await recorded.event('revoked');
+    await recorded.closedNow();
   });
 });

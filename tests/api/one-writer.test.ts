@@ -2,7 +2,7 @@ import assert from 'node:assert/strict';
 import { after, before, describe, test } from 'node:test';
 import type { NotebookDetail, RunView } from '../../shared/notebook/api';
 import type { NotebookEventKind } from '../../shared/notebook/sharing';
-import { Cell, NotebookEvent, NotebookMember, NotebookVersion } from '../../server/db/entities';
+import { Cell, Notebook, NotebookEvent, NotebookMember, NotebookVersion } from '../../server/db/entities';
 import { newId } from '../../server/ids';
 import type { NotebookChange } from '../../server/services/notebookEvents';
 import { startHarness, type Harness } from './harness';
@@ -166,5 +166,25 @@ describe('one writer of cells: every write is checked, logged once and announced
     assert.match(refused.body.error.message, /As a viewer you cannot run cells/);
     const stranger = await createPerson(h, { tag: 'stranger' });
     await stranger.client.get(`/api/runs/${runId}`).expect(404);
+  });
+});
+
+describe('forgetting a notebook drops every cached view of it', () => {
+  let h: Harness;
+  before(async () => {
+    h = await startHarness();
+  });
+  after(() => h.close());
+
+  test('the common summary (title, owner, group) is read again after forget, even when updatedAt did not move', async () => {
+    const owner = await createPerson(h);
+    const id = ((await owner.client.post('/api/notebooks').send({ title: 'Invented cached title', summary: '' }).expect(201)).body.notebook as NotebookDetail).id;
+    assert.equal(((await owner.client.get(`/api/notebooks/${id}`).expect(200)).body.notebook as NotebookDetail).title, 'Invented cached title');
+    // a change that leaves updatedAt as it was (two writes within one clock tick look like this)
+    const notebooks = h.rungbook.services.dataSource.getRepository(Notebook);
+    const { updatedAt } = await notebooks.findOneByOrFail({ id });
+    await notebooks.update({ id }, { title: 'Invented new title', updatedAt });
+    h.rungbook.services.notebooks.forget(id);
+    assert.equal(((await owner.client.get(`/api/notebooks/${id}`).expect(200)).body.notebook as NotebookDetail).title, 'Invented new title');
   });
 });

@@ -78,7 +78,7 @@ describe('share links', () => {
     await h.raw.get(`/api/shared/${created.token}`).expect(200);
   });
 
-  test('unknown, malformed, expired and revoked links all answer the same 404', async () => {
+  test('unknown, malformed, expired and revoked links all answer the same 404 on every /shared route', async () => {
     const base = `/api/notebooks/${fixture.notebookId}/links`;
     const expiring = (await owner.client.post(base).send({ role: 'viewer', expiresAt: new Date(Date.now() + DAY_MS).toISOString() }).expect(201)).body;
     await h.rungbook.services.dataSource.getRepository(ShareLink).update({ id: expiring.id }, { expiresAt: new Date(Date.now() - 1000) });
@@ -92,8 +92,15 @@ describe('share links', () => {
 
     const unknown = randomBytes(32).toString('base64url');
     const replies = [];
-    for (const token of [unknown, 'not-a-token', expiring.token, revoked.token]) replies.push(await h.raw.get(`/api/shared/${token}`));
-    for (const reply of replies) assert.equal(reply.status, 404);
+    const asked: string[] = [];
+    for (const token of [unknown, 'not-a-token', `${unknown}x`, expiring.token, revoked.token]) {
+      replies.push(await h.raw.get(`/api/shared/${token}`));
+      replies.push(await h.raw.get(`/api/shared/${token}/comments`));
+      replies.push(await holder.client.get(`/api/shared/${token}/comments`));
+      replies.push(await holder.client.post(`/api/shared/${token}/comments`).send({ body: 'through a dead link' }));
+      asked.push(`GET ${token}`, `GET ${token}/comments`, `GET ${token}/comments (signed in)`, `POST ${token}/comments`);
+    }
+    replies.forEach((reply, i) => assert.equal(reply.status, 404, asked[i]));
     assert.deepEqual(JSON.parse(replies[0].text), { error: { code: 'not_found', message: 'No such notebook.' } });
     for (const reply of replies.slice(1)) assert.equal(reply.text, replies[0].text);
     // A signed-in caller gets the very same answer.

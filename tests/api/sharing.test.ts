@@ -61,6 +61,18 @@ describe('sharing a notebook with people and groups', () => {
     assert.deepEqual(notes.map((n) => n.kind), ['shared']);
   });
 
+  test('a title with line breaks stays on one line in the sharing and invitation e-mails', async () => {
+    const notebookId = await newNotebook(owner.client, 'Invented broken\nSubject: forged\r\nForged line');
+    const flat = 'Invented broken Subject: forged Forged line';
+    await owner.client.post(`/api/notebooks/${notebookId}/members`).send({ email: bea.email, role: 'viewer' }).expect(200);
+    const shared = await mailTo(h, bea.email, `Invented owner shared "${flat}" with you`);
+    assert.ok(shared.textBody.includes(`Invented owner shared the Rungbook notebook "${flat}" with you as a viewer.`), shared.textBody);
+    const invitee = 'invented-broken-title@test.rungbook.example';
+    await owner.client.post(`/api/notebooks/${notebookId}/members`).send({ email: invitee, role: 'viewer' }).expect(200);
+    const invited = await mailTo(h, invitee, `Invented owner invited you to "${flat}" on Rungbook`);
+    for (const mail of [shared, invited]) assert.ok(!/^(Subject|Forged)/m.test(mail.textBody), mail.textBody);
+  });
+
   test('a group grant reaches every member; the stronger of personal and group role wins', async () => {
     const notebookId = await newNotebook(owner.client, 'Invented group notebook');
     await owner.client.post(`/api/notebooks/${notebookId}/members`).send({ groupId, role: 'commenter' }).expect(200);

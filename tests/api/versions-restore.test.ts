@@ -209,3 +209,57 @@ describe('the structural comparison is bounded', () => {
     assert.deepEqual(result.listed, [{ path: '__proto__.a', before: '1', after: '2' }]);
   });
 });
+
+describe('restoring a version keeps the cells it shares with the notebook: their ids, threads and revisions', () => {
+  let h: Harness;
+  let owner: Client;
+  let notebook: NotebookDetail;
+  const cell = (label: string): CellView => notebook.cells.find((c) => c.label === label)!;
+  const noteInput = { kind: 'note', text: 'An invented note.' };
+
+  before(async () => {
+    h = await startHarness();
+    owner = (await createPerson(h)).client;
+    notebook = (await owner.post('/api/notebooks').send({ title: 'Invented restore threads', summary: '' }).expect(201)).body.notebook;
+    await owner.post(`/api/notebooks/${notebook.id}/cells`).send(setupCell).expect(201);
+    await owner.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'note', input: noteInput }).expect(201);
+    notebook = (await owner.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'bubble', input: bubbleInput }).expect(201)).body.notebook;
+  });
+  after(() => h.close());
+
+  test('threads stay on their cells; only a cell the restore changes reads "changed since"; an open editor of it gets 409, not 404', async () => {
+    const saved = (await owner.post(`/api/notebooks/${notebook.id}/versions`).send({ message: 'order 1' }).expect(201)).body.version;
+    const before = { setup: cell('setup'), note: cell('note'), bubble: cell('bubble') };
+    for (const label of ['setup', 'bubble'] as const) {
+      await owner.post(`/api/notebooks/${notebook.id}/comments`).send({ body: `A remark on ${label}.`, cellId: before[label].id }).expect(201);
+    }
+    // after the save: bubble changes, and a cell is added that the version does not have
+    notebook = (await owner.patch(`/api/notebooks/${notebook.id}/cells/${before.bubble.id}`).send({ input: { ...bubbleInput, order: 2 }, revision: before.bubble.revision }).expect(200)).body.notebook;
+    const editedBubble = cell('bubble');
+    notebook = (await owner.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'later', input: { kind: 'note', text: 'Written after the save.' } }).expect(201)).body.notebook;
+    await owner.delete(`/api/notebooks/${notebook.id}/cells/${before.note.id}`).expect(200);
+
+    notebook = (await owner.post(`/api/notebooks/${notebook.id}/versions/${saved.id}/restore`).expect(200)).body.notebook;
+    assert.deepEqual(notebook.cells.map((c) => c.label), ['setup', 'note', 'bubble'], 'the version\'s cells in its order');
+    assert.equal(cell('setup').id, before.setup.id, 'an unchanged cell keeps its id');
+    assert.equal(cell('setup').revision, before.setup.revision, 'and its revision');
+    assert.equal(cell('bubble').id, before.bubble.id, 'a changed cell keeps its id too');
+    assert.equal(cell('bubble').revision, editedBubble.revision + 1, 'one revision on for the restored input');
+    assert.deepEqual(cell('bubble').input, bubbleInput);
+    assert.notEqual(cell('note').id, before.note.id, 'a cell deleted since comes back as a new cell');
+    assert.equal(cell('note').revision, 1);
+
+    const comments = (await owner.get(`/api/notebooks/${notebook.id}/comments`).expect(200)).body.comments as { cellId: string; cellChangedSince: boolean }[];
+    const ids = new Set(notebook.cells.map((c) => c.id));
+    assert.equal(comments.length, 2);
+    for (const comment of comments) assert.ok(ids.has(comment.cellId), 'every thread still names a cell of the notebook');
+    const changedSince = Object.fromEntries(comments.map((c) => [c.cellId === before.setup.id ? 'setup' : 'bubble', c.cellChangedSince]));
+    assert.deepEqual(changedSince, { setup: false, bubble: true });
+
+    // an editor who still has the edited bubble open saves on its old revision: a conflict, the cell still exists
+    const stale = await owner.patch(`/api/notebooks/${notebook.id}/cells/${before.bubble.id}`).send({ input: { ...bubbleInput, order: 3 }, revision: editedBubble.revision }).expect(409);
+    assert.equal(stale.body.error.code, 'conflict');
+    // one on an unchanged cell is not in anyone's way
+    await owner.patch(`/api/notebooks/${notebook.id}/cells/${before.setup.id}`).send({ input: { ...setupCell.input, digits: 25 }, revision: before.setup.revision }).expect(200);
+  });
+});

@@ -1,4 +1,5 @@
 import { fireEvent, screen, waitFor } from '@testing-library/react-native';
+import SignInRoute from '../../app/(auth)/sign-in';
 import { SignInForm } from '../../components/auth/SignInForm';
 import { mockFetchOnce, renderWithQueryClient } from './testUtils';
 
@@ -6,8 +7,13 @@ import { mockFetchOnce, renderWithQueryClient } from './testUtils';
 jest.mock('expo-router', () => {
   const { createElement } = require('react');
   const { View } = require('react-native');
-  return { Link: ({ children, href, testID }: { children: unknown; href: string; testID?: string }) => createElement(View, { testID, accessibilityHint: href }, children) };
+  return {
+    Link: ({ children, href, testID }: { children: unknown; href: string; testID?: string }) => createElement(View, { testID, accessibilityHint: href }, children),
+    router: { replace: jest.fn() },
+    useLocalSearchParams: jest.fn(() => ({})),
+  };
 });
+const expoRouter = jest.requireMock<{ router: { replace: jest.Mock }; useLocalSearchParams: jest.Mock }>('expo-router');
 
 beforeEach(() => {
   global.fetch = jest.fn();
@@ -52,5 +58,35 @@ describe('SignInForm', () => {
     const link = screen.getByTestId('to-resend');
     expect(link.props.accessibilityHint).toBe('/resend-confirmation');
     expect(link).toHaveTextContent('Not confirmed yet? Resend the confirmation e-mail');
+  });
+});
+
+describe('the sign-in page', () => {
+  const user = { id: 'u1', name: 'Invented', email: 'a@b.example', siteRole: 'member', emailVerified: true };
+
+  async function signInWith(next: string | undefined): Promise<string> {
+    expoRouter.router.replace.mockClear();
+    expoRouter.useLocalSearchParams.mockReturnValue(next === undefined ? {} : { next });
+    mockFetchOnce(200, { user });
+    const view = renderWithQueryClient(<SignInRoute />);
+    fireEvent.changeText(screen.getByTestId('sign-in-email'), 'a@b.example');
+    fireEvent.changeText(screen.getByTestId('sign-in-password'), 'right-password');
+    fireEvent.press(screen.getByTestId('sign-in-submit'));
+    await waitFor(() => expect(expoRouter.router.replace).toHaveBeenCalledTimes(1));
+    view.unmount();
+    return expoRouter.router.replace.mock.calls[0][0];
+  }
+
+  it('goes back to the page named by next= when it is a path of this site', async () => {
+    expect(await signInWith('/shared/Abcdefghijklmnopqrstuvwxyz0123456789_-ABCDE')).toBe('/shared/Abcdefghijklmnopqrstuvwxyz0123456789_-ABCDE');
+  });
+
+  it('goes to the notebooks without next=', async () => {
+    expect(await signInWith(undefined)).toBe('/notebooks');
+  });
+
+  // '//host' and '/\\host' are read by browsers as another site; a scheme is another site outright.
+  it.each(['//evil.example', 'https://evil.example', '/\\evil.example', 'javascript:alert(1)', 'shared/x', '/\t/evil.example'])('ignores next=%j and goes to the notebooks', async (next) => {
+    expect(await signInWith(next)).toBe('/notebooks');
   });
 });

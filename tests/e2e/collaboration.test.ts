@@ -167,7 +167,7 @@ for (const viewport of viewports) {
       await b.waitForURL(notebookUrl());
       await b.getByTestId('cell-flow').waitFor();
       // textContent, not innerText: the badge is upper-cased by CSS only.
-      assert.equal(await b.getByTestId('role-badge').textContent(), 'commenter');
+      assert.equal(await b.getByTestId('role-badge').textContent(), 'Commenter');
       await b.getByTestId('live-status').filter({ hasText: 'Live' }).waitFor();
       await assertNoEditControls(b, 'a commenter');
       // The comment button is there: commenting is what this role is for.

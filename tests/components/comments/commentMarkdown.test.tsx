@@ -2,6 +2,7 @@ import { screen } from '@testing-library/react-native';
 import { render } from '@testing-library/react-native';
 import { CommentBody } from '../../../components/comments/CommentBody';
 import { commentHtml, commentTextParts } from '../../../components/comments/commentMarkdown';
+import { mentionQueryAt } from '../../../components/comments/mentions';
 
 describe('comment Markdown subset', () => {
   it('shows HTML as text instead of building elements from it', () => {
@@ -65,5 +66,30 @@ describe('comment Markdown subset', () => {
     const body = '<img src=x onerror=alert(1)>';
     render(<CommentBody text={body} testID="body" />);
     expect(screen.getByTestId('body')).toHaveTextContent(body);
+  });
+});
+
+describe('mentions follow the server grammar (handles of letters, digits, ".", "_", "-")', () => {
+  // The server reads "@a.b-c_d" as the handle a.b-c_d, stops at any other character and drops a trailing ".", "_" or "-".
+  it.each([
+    ['ping @a.b-c_d now', '@a.b-c_d'],
+    ['ping @anna+lab please', '@anna'],
+    ['thanks @imre_', '@imre'],
+    ['see @x9', '@x9'],
+  ])('%j mentions %j', (text, mention) => {
+    expect(commentTextParts(text).filter((part) => part.mention).map((part) => part.text)).toEqual([mention]);
+    expect(commentHtml(text)).toContain(`<span class="rungbook-mention">${mention}</span>`);
+  });
+
+  // No mention: the @ follows an address character (a "+" or "%" included), or the handle does not start with a letter or digit.
+  it.each(['mail a+@b.example', 'x%@y', 'see @_hidden', 'see @-dash', 'a lone @ sign'])('%j mentions nobody', (text) => {
+    expect(commentTextParts(text).filter((part) => part.mention)).toEqual([]);
+    expect(commentHtml(text)).not.toContain('rungbook-mention');
+  });
+
+  it('offers autocomplete only for characters a handle may hold', () => {
+    expect(mentionQueryAt('hello @an')).toEqual({ start: 6, search: 'an' });
+    expect(mentionQueryAt('hello @an+')).toBeNull();
+    expect(mentionQueryAt('a+@an')).toBeNull();
   });
 });

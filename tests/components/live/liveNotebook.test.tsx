@@ -6,6 +6,7 @@ import type { LiveEvent, NotebookRole, PresenterState } from '../../../shared/no
 import { renderWithQueryClient } from '../testUtils';
 
 jest.mock('expo-router', () => ({ router: { push: jest.fn(), navigate: jest.fn() } }));
+const { router } = jest.requireMock<{ router: { push: jest.Mock } }>('expo-router');
 jest.mock('../../../components/formula', () => {
   const { Text: MockText } = jest.requireActual<typeof import('react-native')>('react-native');
   return { Formula: ({ tex }: { tex: string }) => <MockText testID="tex">{tex}</MockText> };
@@ -148,17 +149,33 @@ describe('the notebook live stream', () => {
     const { stream } = await openEditor();
     hello(stream, 'owner');
     for (const control of ['run-all', 'add-cell', 'save-version', 'share-button', 'notebook-rename', 'cell-setup-menu']) expect(screen.getByTestId(control)).toBeTruthy();
-    expect(screen.getByTestId('role-badge')).toHaveTextContent('owner');
+    expect(screen.getByTestId('role-badge')).toHaveTextContent('Owner');
     // The refetch never answers: the controls must follow the event itself.
     served.holdNotebook = true;
     stream.emit({ type: 'role', role: 'viewer' });
-    expect(screen.getByTestId('role-badge')).toHaveTextContent('viewer');
+    expect(screen.getByTestId('role-badge')).toHaveTextContent('Viewer');
     for (const control of ['run-all', 'add-cell', 'save-version', 'share-button', 'notebook-rename', 'cell-setup-menu']) expect(screen.queryByTestId(control)).toBeNull();
     expect(screen.getByTestId('cell-setup')).toBeTruthy();
     stream.emit({ type: 'role', role: 'editor' });
-    expect(screen.getByTestId('role-badge')).toHaveTextContent('editor');
+    expect(screen.getByTestId('role-badge')).toHaveTextContent('Editor');
     expect(screen.getByTestId('run-all')).toBeTruthy();
     expect(screen.getByTestId('cell-setup-menu')).toBeTruthy();
+  });
+
+  it('gives every role the way to the people with access: Share for those who manage it, People for the others', async () => {
+    served.notebook = notebookAs('commenter');
+    const { stream } = await openEditor();
+    hello(stream, 'commenter');
+    expect(screen.queryByTestId('share-button')).toBeNull();
+    expect(screen.getByTestId('role-badge')).toHaveTextContent('Commenter');
+    router.push.mockClear();
+    fireEvent.press(screen.getByTestId('people-button'));
+    expect(router.push).toHaveBeenCalledWith('/notebooks/nbinvented01/sharing');
+    stream.emit({ type: 'role', role: 'editor' });
+    expect(screen.queryByTestId('people-button')).toBeNull();
+    router.push.mockClear();
+    fireEvent.press(screen.getByTestId('share-button'));
+    expect(router.push).toHaveBeenCalledWith('/notebooks/nbinvented01/sharing');
   });
 
   it('says access was removed and stops listening', async () => {

@@ -6,7 +6,8 @@ import type { NotebookMemberView, NotebookRole, SharingView } from '../../../sha
 import { renderWithQueryClient } from '../testUtils';
 import { fakeServer } from './fakeServer';
 
-jest.mock('expo-router', () => ({ router: { push: jest.fn() }, Link: ({ children }: { children: unknown }) => children }));
+jest.mock('expo-router', () => ({ router: { push: jest.fn(), replace: jest.fn() }, Link: ({ children }: { children: unknown }) => children }));
+const { router } = jest.requireMock<{ router: { replace: jest.Mock } }>('expo-router');
 
 const NB = 'nb00000001';
 const me = { id: 'me00000001', name: 'Invented Editor', email: 'editor@y.example', siteRole: 'member', emailVerified: true };
@@ -176,6 +177,60 @@ describe('SharingScreen', () => {
     fireEvent.press(screen.getByTestId('transfer-confirm'));
     await waitFor(() => expect(server.sent('POST', `/notebooks/${NB}/owner`).map((r) => r.body)).toEqual([{ userId: reader.subjectId }]));
     expect(await screen.findByTestId('transfer-done')).toHaveTextContent(/^Invented Reader now owns this notebook\./);
+    await settled(client);
+  });
+
+  it('offers no role change on one’s own row (the server refuses it), only the badge', async () => {
+    serve(sharingAs('editor'));
+    const { client } = renderWithQueryClient(<SharingScreen notebookId={NB} />);
+    await screen.findByTestId(`member-row-${me.email}`);
+    expect(offeredRoles(`member-role-${me.email}`)).toEqual([]);
+    expect(screen.getByTestId(`member-role-${me.email}`)).toHaveTextContent('Editor');
+    expect(screen.queryByTestId(`member-remove-${me.email}`)).toBeNull();
+    // Other rows keep their controls.
+    expect(offeredRoles(`member-role-${reader.email}`)).toEqual(['viewer', 'commenter', 'editor']);
+    await settled(client);
+  });
+
+  it('lets a commenter leave after confirming, and goes to the notebook list when no access is left', async () => {
+    const commenterMe = member({ id: 'm5', subjectId: me.id, name: me.name, email: me.email, role: 'commenter' });
+    const server = serve({ role: 'commenter', members: [owner, commenterMe], invitations: [], links: [] }, { [`DELETE /notebooks/${NB}/members/m5`]: { status: 204 } });
+    const { client } = renderWithQueryClient(<SharingScreen notebookId={NB} />);
+    fireEvent.press(await screen.findByTestId('member-leave'));
+    expect(screen.getByTestId('member-leave-question')).toHaveTextContent(/^Leave this notebook\?/);
+    fireEvent.press(screen.getByTestId('member-leave-cancel'));
+    expect(screen.queryByTestId('member-leave-question')).toBeNull();
+    expect(server.sent('DELETE', `/notebooks/${NB}/members/m5`)).toHaveLength(0);
+
+    fireEvent.press(screen.getByTestId('member-leave'));
+    fireEvent.press(screen.getByTestId('member-leave-confirm'));
+    await waitFor(() => expect(router.replace).toHaveBeenCalledWith('/notebooks'));
+    expect(server.sent('DELETE', `/notebooks/${NB}/members/m5`)).toHaveLength(1);
+    await settled(client);
+  });
+
+  it('stays on the panel after leaving when a group still gives access', async () => {
+    const viewerMe = member({ id: 'm6', subjectId: me.id, name: me.name, email: me.email, role: 'viewer' });
+    const group = member({ id: 'm7', kind: 'group', subjectId: 'grp0000001', name: 'Invented Group', email: null, role: 'commenter' });
+    const after: SharingView = { role: 'commenter', members: [owner, group], invitations: [], links: [] };
+    const server = serve({ role: 'viewer', members: [owner, viewerMe, group], invitations: [], links: [] }, { [`DELETE /notebooks/${NB}/members/m6`]: { status: 200, body: after } });
+    const { client } = renderWithQueryClient(<SharingScreen notebookId={NB} />);
+    fireEvent.press(await screen.findByTestId('member-leave'));
+    fireEvent.press(screen.getByTestId('member-leave-confirm'));
+    await waitFor(() => expect(server.sent('DELETE', `/notebooks/${NB}/members/m6`)).toHaveLength(1));
+    await waitFor(() => expect(screen.queryByTestId(`member-row-${me.email}`)).toBeNull());
+    expect(screen.getByTestId('sharing-my-role')).toHaveTextContent('Commenter');
+    expect(router.replace).not.toHaveBeenCalled();
+    await settled(client);
+  });
+
+  it('offers the owner no way to leave (ownership is transferred instead)', async () => {
+    const ownerMe = member({ id: 'm0', subjectId: me.id, name: me.name, email: me.email, role: 'owner' });
+    serve({ role: 'owner', members: [ownerMe, reader], invitations: [], links: [] });
+    const { client } = renderWithQueryClient(<SharingScreen notebookId={NB} />);
+    await screen.findByTestId(`member-row-${me.email}`);
+    expect(screen.getByTestId(`member-role-${me.email}`)).toHaveTextContent('Owner');
+    expect(screen.queryByTestId('member-leave')).toBeNull();
     await settled(client);
   });
 });
