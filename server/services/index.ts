@@ -82,7 +82,7 @@ export function createServices(config: ServerConfig, logger: Logger, dataSource:
       resolveLink: (token) => services.sharing.resolveLink(token),
     }),
     activity: createActivityService(dataSource, notebooks, events, logger),
-    live: createLiveHub({ notebooks, events, logger, resolveLink: (token) => services.sharing.resolveLink(token) }),
+    live: createLiveHub({ notebooks, events, sessions, logger, resolveLink: (token) => services.sharing.resolveLink(token) }),
   };
   return services;
 }
