@@ -394,7 +394,13 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
     // Runs of a shared notebook's cells are visible to everyone who can open the notebook (site admins included: no more).
     const notebookId = run.cellId ? await cellNotebookId(run.cellId) : null;
     if (!notebookId) throw new AppError('not_found', 'No such run.');
-    await requireRole(viewer, notebookId, 'read');
+    try {
+      await requireRole(viewer, notebookId, 'read');
+    } catch (error) {
+      // a run of a notebook the viewer cannot open is a run that does not exist, not a hint of the notebook
+      if (error instanceof AppError && error.code === 'not_found') throw new AppError('not_found', 'No such run.');
+      throw error;
+    }
     return run;
   }
 

@@ -165,7 +165,10 @@ describe('one writer of cells: every write is checked, logged once and announced
     const refused = await viewer.client.post(`/api/runs/${runId}/cancel`).expect(403);
     assert.match(refused.body.error.message, /As a viewer you cannot run cells/);
     const stranger = await createPerson(h, { tag: 'stranger' });
-    await stranger.client.get(`/api/runs/${runId}`).expect(404);
+    const hidden = await stranger.client.get(`/api/runs/${runId}`).expect(404);
+    // answered exactly like a run id that never existed: nothing hints at the notebook behind it
+    const unknown = await stranger.client.get('/api/runs/zzzzzzzzzzzzzzzzzzzz').expect(404);
+    assert.equal(hidden.text, unknown.text);
   });
 });
 
