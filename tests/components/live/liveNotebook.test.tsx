@@ -4,6 +4,7 @@ import { NotebookPresentScreen } from '../../../components/screens/NotebookPrese
 import type { CellView, NotebookDetail } from '../../../shared/notebook';
 import type { LiveEvent, NotebookRole, PresenterState } from '../../../shared/notebook/sharing';
 import { renderWithQueryClient } from '../testUtils';
+import { FakeEventSource } from '../fakeEventSource';
 
 jest.mock('expo-router', () => ({ router: { push: jest.fn(), navigate: jest.fn() } }));
 const { router } = jest.requireMock<{ router: { push: jest.Mock } }>('expo-router');
@@ -19,41 +20,6 @@ jest.mock('../../../components/activity/NotebookActivity', () => ({ NotebookActi
 
 // The first render loads every screen module, which can take long on a busy machine.
 jest.setTimeout(30_000);
-
-/** Stands in for the browser's EventSource: records what was opened and lets a test deliver events. */
-class FakeEventSource {
-  static readonly CONNECTING = 0;
-  static readonly OPEN = 1;
-  static readonly CLOSED = 2;
-  static instances: FakeEventSource[] = [];
-  readyState = FakeEventSource.CONNECTING;
-  onopen: (() => void) | null = null;
-  onerror: (() => void) | null = null;
-  private listeners = new Map<string, ((message: { data: string }) => void)[]>();
-  constructor(readonly url: string, readonly init?: { withCredentials?: boolean }) {
-    FakeEventSource.instances.push(this);
-  }
-  addEventListener(type: string, listener: (message: { data: string }) => void) {
-    this.listeners.set(type, [...(this.listeners.get(type) ?? []), listener]);
-  }
-  close() {
-    this.readyState = FakeEventSource.CLOSED;
-  }
-  emit(event: LiveEvent) {
-    const { type, ...data } = event;
-    act(() => {
-      for (const listener of this.listeners.get(type) ?? []) listener({ data: JSON.stringify(data) });
-    });
-  }
-  open() {
-    this.readyState = FakeEventSource.OPEN;
-    act(() => this.onopen?.());
-  }
-  drop() {
-    this.readyState = FakeEventSource.CONNECTING;
-    act(() => this.onerror?.());
-  }
-}
 
 const me = { id: 'umeinvented01', name: 'Ada Invented', email: 'ada@invented.example', siteRole: 'user', emailVerified: true };
 const lead: PresenterState = { userId: 'uleadinvented1', name: 'Invented Lead', cellId: 'cellsetup0001', since: '2026-01-01T10:00:00Z' };

@@ -6,6 +6,7 @@ import type { CommentView, LiveEvent, PresenterState } from '../../../shared/not
 import { comment } from '../comments/fakeApi';
 import { renderWithQueryClient } from '../testUtils';
 import { fakeServer } from './fakeServer';
+import { FakeEventSource } from '../fakeEventSource';
 
 // Links render as a View carrying their target, so a test can see where they lead.
 jest.mock('expo-router', () => {
@@ -78,33 +79,6 @@ describe('SharedNotebookScreen', () => {
     expect(server.requests.filter((r) => r.path.startsWith('/shared'))).toEqual([]);
   });
 });
-
-/** Stands in for the browser's EventSource: records what was opened and lets a test deliver events. */
-class FakeEventSource {
-  static readonly CONNECTING = 0;
-  static readonly OPEN = 1;
-  static readonly CLOSED = 2;
-  static instances: FakeEventSource[] = [];
-  readyState = FakeEventSource.CONNECTING;
-  onopen: (() => void) | null = null;
-  onerror: (() => void) | null = null;
-  private listeners = new Map<string, ((message: { data: string }) => void)[]>();
-  constructor(readonly url: string, readonly init?: { withCredentials?: boolean }) {
-    FakeEventSource.instances.push(this);
-  }
-  addEventListener(type: string, listener: (message: { data: string }) => void) {
-    this.listeners.set(type, [...(this.listeners.get(type) ?? []), listener]);
-  }
-  close() {
-    this.readyState = FakeEventSource.CLOSED;
-  }
-  emit(event: LiveEvent) {
-    const { type, ...data } = event;
-    act(() => {
-      for (const listener of this.listeners.get(type) ?? []) listener({ data: JSON.stringify(data) });
-    });
-  }
-}
 
 describe('SharedNotebookScreen, live', () => {
   const presenter: PresenterState = { userId: 'own0000001', name: 'Invented Owner', cellId: 'c2', since: '2026-01-01T10:00:00Z' };
