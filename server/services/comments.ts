@@ -1,8 +1,12 @@
-import { In, type DataSource, type EntityManager } from 'typeorm';
+import { In, IsNull, type DataSource, type EntityManager } from 'typeorm';
 import type { Logger } from 'pino';
 import {
   can,
   COMMENT_EDIT_WINDOW_MS,
+  COMMENTS_PER_PERSON_PER_HOUR,
+  MAX_COMMENT_CHARS_PER_NOTEBOOK,
+  MAX_COMMENTS_PER_NOTEBOOK,
+  MAX_MENTIONS_PER_COMMENT,
   strongerRole,
   type CommentView,
   type LinkRole,
@@ -11,7 +15,7 @@ import {
   type NotebookRole,
 } from '../../shared/notebook/sharing';
 import type { SignedInUser } from '../auth/sessions';
-import { Cell, Comment, Notebook, NotebookFollow } from '../db/entities';
+import { Cell, Comment, Notebook, NotebookFollow, Notification } from '../db/entities';
 import { AppError } from '../http/errors';
 import { senderLimit } from '../http/senderLimits';
 import { newId } from '../ids';
@@ -97,13 +101,49 @@ export function mentionedHandles(text: string): Set<string> {
 
 const cellPhrase = (label: string | null) => (label ? `cell "${label}"` : 'the notebook');
 
+/** The text of an unread entry that stands for several mentions: `3 mentions in "Title"; latest: …`. */
+const COALESCED_MENTIONS = /^(\d+) mentions in ".*"; latest: /s;
+
+/** How many mentions an unread 'mention' entry already stands for. */
+function mentionsCounted(text: string): number {
+  const match = COALESCED_MENTIONS.exec(text);
+  return match ? Number(match[1]) : 1;
+}
+
+/** The @handles of a body; more distinct ones than a comment may hold is a validation error. */
+function boundedMentions(body: string): Set<string> {
+  const handles = mentionedHandles(body);
+  if (handles.size > MAX_MENTIONS_PER_COMMENT) {
+    throw new AppError('validation_failed', `A comment may mention at most ${MAX_MENTIONS_PER_COMMENT} people.`, { body: `Mention at most ${MAX_MENTIONS_PER_COMMENT} people in one comment (this one names ${handles.size})` });
+  }
+  return handles;
+}
+
+/** 409 when the notebook would hold more comments, or more characters of comments, than it may. */
+async function requireRoom(manager: EntityManager, notebookId: string, added: { comments: number; chars: number }): Promise<void> {
+  const held = await manager
+    .createQueryBuilder(Comment, 'c')
+    .select('COUNT(*)', 'comments')
+    .addSelect('COALESCE(SUM(LENGTH(c.body)), 0)', 'chars')
+    .where('c.notebookId = :notebookId', { notebookId })
+    .getRawOne<{ comments: number; chars: number }>();
+  const comments = Number(held?.comments ?? 0) + added.comments;
+  const chars = Number(held?.chars ?? 0) + added.chars;
+  if (comments > MAX_COMMENTS_PER_NOTEBOOK || chars > MAX_COMMENT_CHARS_PER_NOTEBOOK) {
+    throw new AppError('conflict', `This notebook holds the most comments it can (${MAX_COMMENTS_PER_NOTEBOOK} comments or ${MAX_COMMENT_CHARS_PER_NOTEBOOK} characters of them); delete resolved threads to make room.`);
+  }
+}
+
 /** Comment threads on notebooks and cells, mentions, and the notifications and e-mails they cause. */
 export function createCommentService(deps: CommentServiceDeps) {
   const { dataSource, notebooks, events, mailer, logger, publicUrl } = deps;
   const comments = dataSource.getRepository(Comment);
   const mentionMails = senderLimit(deps.mentionMailsPerSenderPerHour, 'mention e-mails');
+  const newComments = senderLimit(COMMENTS_PER_PERSON_PER_HOUR, 'comments');
 
   async function views(notebookId: string, reader: Reader): Promise<CommentView[]> {
+    // Bounded by construction: a notebook holds at most MAX_COMMENTS_PER_NOTEBOOK comments and
+    // MAX_COMMENT_CHARS_PER_NOTEBOOK characters of them (requireRoom on every new or longer comment).
     const rows = await comments.find({ where: { notebookId }, order: { createdAt: 'ASC' } });
     const withReplies = new Set(rows.map((row) => row.parentId).filter(Boolean));
     const shown = rows.filter((row) => !row.deletedAt || withReplies.has(row.id));
@@ -174,7 +214,7 @@ export function createCommentService(deps: CommentServiceDeps) {
 
   /** People with access whose handle the body names; any other @word is ignored alike. */
   function mentionedPeople(body: string, people: (Person & { handle: string })[]): Person[] {
-    const handles = mentionedHandles(body);
+    const handles = boundedMentions(body);
     return people.filter((p) => handles.has(p.handle));
   }
 
@@ -201,6 +241,28 @@ export function createCommentService(deps: CommentServiceDeps) {
     });
   }
 
+  /**
+   * One unread mention entry per person and notebook: the first mention writes it, later ones rewrite it
+   * to count the mentions and name the latest, and bring it to the top of the list.
+   */
+  async function tellMentioned(manager: EntityManager, userId: string, author: SignedInUser, notebook: Notebook, comment: Pick<Comment, 'id' | 'cellId' | 'cellLabel'>) {
+    const latest = { actorName: author.name, commentId: comment.id, cellId: comment.cellId };
+    const unread = await manager.findOne(Notification, { where: { userId, notebookId: notebook.id, kind: 'mention', readAt: IsNull() }, order: { createdAt: 'DESC' } });
+    if (!unread) {
+      await addNotification(manager, { userId, kind: 'mention', notebookId: notebook.id, ...latest, text: `${author.name} mentioned you in "${notebook.title}"` });
+      return;
+    }
+    const text = `${mentionsCounted(unread.text) + 1} mentions in "${notebook.title}"; latest: ${author.name} on ${cellPhrase(comment.cellLabel)}`;
+    await manager.update(Notification, { id: unread.id }, { ...latest, text: text.slice(0, 500), createdAt: new Date() });
+  }
+
+  /** People told of this comment before (entries keep the comment's id until a later mention rewrites them). */
+  async function toldOf(commentId: string, userIds: string[]): Promise<Set<string>> {
+    if (!userIds.length) return new Set();
+    const rows = await dataSource.getRepository(Notification).find({ where: { commentId, kind: 'mention', userId: In(userIds) }, select: { userId: true } });
+    return new Set(rows.map((row) => row.userId));
+  }
+
   const commit = (recorded: NotebookChange, write: (manager: EntityManager) => Promise<void>) => commitNotebookChange(dataSource, events, recorded, write);
 
   function change(notebookId: string, actor: SignedInUser, kind: NotebookEventKind, cellId: string | null, text: string): NotebookChange {
@@ -215,12 +277,17 @@ export function createCommentService(deps: CommentServiceDeps) {
     const placed = await anchor(notebook.id, input);
     const people = await candidates(notebook.id);
     const mentioned = mentionedPeople(input.body, people);
+    const added = { comments: 1, chars: input.body.length };
+    await requireRoom(dataSource.manager, notebook.id, added);
+    await newComments.takeOrRefuse(author.id);
     const withAccess = new Set(people.map((p) => p.id));
     const mentionedIds = new Set(mentioned.map((p) => p.id));
     const repliedTo = placed.root ? (await threadParticipants(placed.root)).filter((id) => id !== author.id && withAccess.has(id) && !mentionedIds.has(id)) : [];
     const id = newId();
     const recorded = change(notebook.id, author, 'comment-added', placed.cellId, placed.root ? `replied to a comment on ${cellPhrase(placed.cellLabel)}` : `commented on ${cellPhrase(placed.cellLabel)}`);
     await commit(recorded, async (manager) => {
+      // Again inside the transaction: another comment may have been written since the check above.
+      await requireRoom(manager, notebook.id, added);
       await manager.insert(Comment, {
         id,
         notebookId: notebook.id,
@@ -234,8 +301,8 @@ export function createCommentService(deps: CommentServiceDeps) {
         createdAt: new Date(),
       });
       await follow(manager, notebook.id, author.id);
-      const entry = (userId: string, kind: 'mention' | 'reply', text: string): NewNotification => ({ userId, kind, notebookId: notebook.id, actorName: author.name, text, commentId: id, cellId: placed.cellId });
-      for (const person of mentioned.filter((p) => p.id !== author.id)) await addNotification(manager, entry(person.id, 'mention', `${author.name} mentioned you in "${notebook.title}"`));
+      const entry = (userId: string, kind: 'reply', text: string): NewNotification => ({ userId, kind, notebookId: notebook.id, actorName: author.name, text, commentId: id, cellId: placed.cellId });
+      for (const person of mentioned.filter((p) => p.id !== author.id)) await tellMentioned(manager, person.id, author, notebook, { id, ...placed });
       for (const userId of repliedTo) await addNotification(manager, entry(userId, 'reply', `${author.name} replied in a thread on ${cellPhrase(placed.cellLabel)} of "${notebook.title}"`));
     });
     for (const person of mentioned.filter((p) => p.id !== author.id)) mailMention(author, notebook, person, input.body);
@@ -268,14 +335,18 @@ export function createCommentService(deps: CommentServiceDeps) {
     }
     const people = await candidates(notebook.id);
     const mentioned = mentionedPeople(body, people);
-    const before = new Set(JSON.parse(row.mentionsJson) as string[]);
-    const newlyMentioned = mentioned.filter((p) => !before.has(p.id) && p.id !== viewer.id);
+    // Everyone this comment ever mentioned stays listed, so removing and re-adding a mention tells nobody twice.
+    const before = JSON.parse(row.mentionsJson) as string[];
+    const told = await toldOf(row.id, mentioned.map((p) => p.id));
+    const newlyMentioned = mentioned.filter((p) => !before.includes(p.id) && !told.has(p.id) && p.id !== viewer.id);
+    const mentionsJson = JSON.stringify([...new Set([...before, ...mentioned.map((p) => p.id)])]);
+    const longer = { comments: 0, chars: body.length - row.body.length };
+    if (longer.chars > 0) await requireRoom(dataSource.manager, notebook.id, longer);
     const recorded = change(notebook.id, viewer, 'comment-edited', row.cellId, `edited a comment on ${cellPhrase(row.cellLabel)}`);
     await commit(recorded, async (manager) => {
-      await manager.update(Comment, { id: row.id }, { body, editedAt: new Date(), mentionsJson: JSON.stringify(mentioned.map((p) => p.id)) });
-      for (const person of newlyMentioned) {
-        await addNotification(manager, { userId: person.id, kind: 'mention', notebookId: notebook.id, actorName: viewer.name, text: `${viewer.name} mentioned you in "${notebook.title}"`, commentId: row.id, cellId: row.cellId });
-      }
+      if (longer.chars > 0) await requireRoom(manager, notebook.id, longer);
+      await manager.update(Comment, { id: row.id }, { body, editedAt: new Date(), mentionsJson });
+      for (const person of newlyMentioned) await tellMentioned(manager, person.id, viewer, notebook, row);
     });
     for (const person of newlyMentioned) mailMention(viewer, notebook, person, body);
   }

@@ -64,6 +64,13 @@ export const shareTokenParam = z.string().regex(/^[A-Za-z0-9_-]{43}$/, 'Malforme
 export const COMMENT_MAX_CHARS = 5000;
 /** Own comments can be edited for this long after posting. */
 export const COMMENT_EDIT_WINDOW_MS = 15 * 60 * 1000;
+/** New comments one person may write per hour, over all notebooks. */
+export const COMMENTS_PER_PERSON_PER_HOUR = 120;
+/** What one notebook holds at most (deleted comments kept for their replies count): bounds the comment list. */
+export const MAX_COMMENTS_PER_NOTEBOOK = 2000;
+export const MAX_COMMENT_CHARS_PER_NOTEBOOK = 2_000_000;
+/** Distinct @handles one comment may hold. */
+export const MAX_MENTIONS_PER_COMMENT = 20;
 export const commentBody = z
   .string({ error: 'Write something' })
   .trim()
@@ -173,7 +180,7 @@ export interface CommentView {
   /** The cell's revision the comment was written on, and whether the cell has changed since. */
   cellRevision: number | null;
   cellChangedSince: boolean;
-  /** People mentioned (ids) who have access. */
+  /** People this comment has mentioned (ids, people with access), each told once; an edit that removes a mention keeps the id. */
   mentions: string[];
   /** What the caller may do with it. */
   canEdit: boolean;

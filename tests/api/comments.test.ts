@@ -4,7 +4,17 @@ import { sha256Hex, newLinkToken } from '../../server/auth/linkTokens';
 import { Comment, NotebookMember, ShareLink, User } from '../../server/db/entities';
 import { newId } from '../../server/ids';
 import { mentionHandles, mentionedHandles } from '../../server/services/comments';
-import { COMMENT_EDIT_WINDOW_MS, type CommentView, type MentionCandidate, type NotificationView } from '../../shared/notebook/sharing';
+import {
+  COMMENT_EDIT_WINDOW_MS,
+  COMMENT_MAX_CHARS,
+  COMMENTS_PER_PERSON_PER_HOUR,
+  MAX_COMMENT_CHARS_PER_NOTEBOOK,
+  MAX_COMMENTS_PER_NOTEBOOK,
+  MAX_MENTIONS_PER_COMMENT,
+  type CommentView,
+  type MentionCandidate,
+  type NotificationView,
+} from '../../shared/notebook/sharing';
 import { mailTo, ORIGIN, startHarness, type Harness } from './harness';
 import { createPerson, type Client, type TestPerson } from './people';
 
@@ -253,7 +263,168 @@ describe('mention e-mails are limited per sender', () => {
     await mailTo(h, reader.email, `Invented author mentioned you in Invented limit notebook`);
     await h.rungbook.services.mailer.idle();
     assert.equal((await h.capturedMail()).filter((m) => m.recipients.includes(reader.email)).length, 1);
-    assert.equal((await activityOf(reader)).filter((n) => n.kind === 'mention').length, 3);
+    const entries = (await activityOf(reader)).filter((n) => n.kind === 'mention');
+    assert.deepEqual(entries.map((n) => n.text), ['3 mentions in "Invented limit notebook"; latest: Invented author on the notebook']);
+  });
+});
+
+/** Comments written straight into the database, to bring a notebook near its limits cheaply. */
+async function storeComments(h: Harness, notebookId: string, authorId: string, bodies: string[]) {
+  const rows = bodies.map((body) => ({ id: newId(), notebookId, cellId: null, cellLabel: null, cellRevision: null, parentId: null, authorId, body, mentionsJson: '[]', createdAt: new Date() }));
+  for (let i = 0; i < rows.length; i += 100) await h.rungbook.services.dataSource.getRepository(Comment).insert(rows.slice(i, i + 100));
+}
+
+describe('comment limits: per person, per notebook, per comment', () => {
+  let h: Harness;
+  let owner: TestPerson, commenter: TestPerson;
+  const countIn = (notebookId: string) => h.rungbook.services.dataSource.getRepository(Comment).countBy({ notebookId });
+  const post = (who: TestPerson, notebookId: string, body: string) => who.client.post(`/api/notebooks/${notebookId}/comments`).send({ body });
+  const mentionMailsTo = async (who: TestPerson, subject: string) => {
+    await h.rungbook.services.mailer.idle();
+    return (await h.capturedMail()).filter((m) => m.recipients.includes(who.email) && m.subject === subject).length;
+  };
+  const unreadMentions = async (who: TestPerson, notebookId: string) => (await activityOf(who)).filter((n) => n.kind === 'mention' && n.notebookId === notebookId && !n.read);
+
+  before(async () => {
+    h = await startHarness();
+    [owner, commenter] = await Promise.all(['owner', 'commenter'].map((tag) => createPerson(h, { tag })));
+  });
+  after(() => h.close());
+
+  async function sharedNotebookWithCell(title: string): Promise<{ notebookId: string; cellId: string }> {
+    const created = await newNotebook(owner.client, title);
+    await grant(h, created.notebookId, commenter.id, 'commenter', owner.id);
+    return created;
+  }
+  const sharedNotebook = async (title: string) => (await sharedNotebookWithCell(title)).notebookId;
+
+  test('the documented limits', () => {
+    // README "Comments": 120 new comments per person per hour; 2000 comments and 2 000 000 characters per notebook; 20 mentions per comment.
+    assert.deepEqual(
+      [COMMENTS_PER_PERSON_PER_HOUR, MAX_COMMENTS_PER_NOTEBOOK, MAX_COMMENT_CHARS_PER_NOTEBOOK, MAX_MENTIONS_PER_COMMENT],
+      [120, 2000, 2_000_000, 20],
+    );
+  });
+
+  test('a comment naming more than the allowed number of distinct handles is refused (400) and nothing is stored', async () => {
+    const notebookId = await sharedNotebook('Invented crowded notebook');
+    const handles = (n: number) => Array.from({ length: n }, (_, i) => `@someone${i}`).join(' ');
+    const refused = await post(commenter, notebookId, `${handles(21)} see this`).expect(400);
+    assert.equal(refused.body.error.code, 'validation_failed');
+    assert.match(refused.body.error.fields.body, /at most 20 people/);
+    assert.equal(await countIn(notebookId), 0);
+    // The same handle twice is one mention.
+    await post(commenter, notebookId, `${handles(20)} @someone0 see this`).expect(201);
+    const mine = (await post(commenter, notebookId, 'short').expect(201)).body.comment as CommentView;
+    await commenter.client.patch(`/api/comments/${mine.id}`).send({ body: handles(21) }).expect(400);
+    assert.equal((await comments(owner.client, notebookId)).find((c) => c.id === mine.id)!.body, 'short');
+  });
+
+  test('a person is told once per comment: removing and re-adding a mention by editing tells nobody again', async () => {
+    const title = 'Invented once-per-comment notebook';
+    const notebookId = await sharedNotebook(title);
+    const subject = `Invented commenter mentioned you in ${title}`;
+    const posted = (await post(commenter, notebookId, `@${handleOf(owner)} check eq. 4`).expect(201)).body.comment as CommentView;
+    await mailTo(h, owner.email, subject);
+    for (let round = 0; round < 3; round += 1) {
+      await commenter.client.patch(`/api/comments/${posted.id}`).send({ body: 'check eq. 4' }).expect(200);
+      await commenter.client.patch(`/api/comments/${posted.id}`).send({ body: `@${handleOf(owner)} check eq. 4 (round ${round})` }).expect(200);
+    }
+    assert.equal(await mentionMailsTo(owner, subject), 1);
+    const entries = await unreadMentions(owner, notebookId);
+    assert.deepEqual(entries.map((n) => [n.text, n.commentId]), [[`Invented commenter mentioned you in "${title}"`, posted.id]]);
+    // Even after the entry was read, an edit does not tell again.
+    await owner.client.post('/api/activity/read').send({}).expect(200);
+    await commenter.client.patch(`/api/comments/${posted.id}`).send({ body: 'check eq. 4' }).expect(200);
+    await commenter.client.patch(`/api/comments/${posted.id}`).send({ body: `@${handleOf(owner)} check eq. 4 again` }).expect(200);
+    assert.equal((await unreadMentions(owner, notebookId)).length, 0);
+    assert.equal(await mentionMailsTo(owner, subject), 1);
+  });
+
+  test('once per comment also when a later mention has taken over the unread entry', async () => {
+    const title = 'Invented two-comment notebook';
+    const notebookId = await sharedNotebook(title);
+    const subject = `Invented commenter mentioned you in ${title}`;
+    const first = (await post(commenter, notebookId, `@${handleOf(owner)} first`).expect(201)).body.comment as CommentView;
+    await post(commenter, notebookId, `@${handleOf(owner)} second`).expect(201);
+    await commenter.client.patch(`/api/comments/${first.id}`).send({ body: 'first' }).expect(200);
+    await commenter.client.patch(`/api/comments/${first.id}`).send({ body: `@${handleOf(owner)} first, again` }).expect(200);
+    assert.deepEqual((await unreadMentions(owner, notebookId)).map((n) => n.text), [`2 mentions in "${title}"; latest: Invented commenter on the notebook`]);
+    assert.equal(await mentionMailsTo(owner, subject), 2);
+  });
+
+  test('an edit tells a person the comment had not mentioned before', async () => {
+    const title = 'Invented added-mention notebook';
+    const notebookId = await sharedNotebook(title);
+    const posted = (await post(owner, notebookId, 'a remark').expect(201)).body.comment as CommentView;
+    await owner.client.patch(`/api/comments/${posted.id}`).send({ body: `a remark for @${handleOf(commenter)}` }).expect(200);
+    await mailTo(h, commenter.email, `Invented owner mentioned you in ${title}`);
+    assert.deepEqual((await unreadMentions(commenter, notebookId)).map((n) => n.commentId), [posted.id]);
+  });
+
+  test('unread mentions of one person in one notebook make one entry naming the count and the latest', async () => {
+    const title = 'Invented coalescing notebook';
+    const { notebookId, cellId } = await sharedNotebookWithCell(title);
+    const other = await sharedNotebook('Invented second coalescing notebook');
+    await post(commenter, notebookId, `@${handleOf(owner)} first`).expect(201);
+    await post(commenter, other, `@${handleOf(owner)} elsewhere`).expect(201);
+    const second = (await commenter.client.post(`/api/notebooks/${notebookId}/comments`).send({ body: `@${handleOf(owner)} second`, cellId }).expect(201)).body.comment as CommentView;
+    const afterSecond = await unreadMentions(owner, notebookId);
+    assert.deepEqual(afterSecond.map((n) => [n.text, n.commentId, n.cellId]), [[`2 mentions in "${title}"; latest: Invented commenter on cell "note1"`, second.id, cellId]]);
+    const third = (await post(commenter, notebookId, `@${handleOf(owner)} third`).expect(201)).body.comment as CommentView;
+    const entries = await unreadMentions(owner, notebookId);
+    assert.equal(entries.length, 1);
+    assert.equal(entries[0].id, afterSecond[0].id, 'the same entry, rewritten');
+    assert.equal(entries[0].text, `3 mentions in "${title}"; latest: Invented commenter on the notebook`);
+    assert.deepEqual([entries[0].commentId, entries[0].cellId, entries[0].actorName], [third.id, null, 'Invented commenter']);
+    assert.equal((await unreadMentions(owner, other)).length, 1, 'another notebook keeps its own entry');
+    // Each mention still sends its e-mail (within the sender's hourly limit).
+    assert.equal(await mentionMailsTo(owner, `Invented commenter mentioned you in ${title}`), 3);
+    // Once read, the next mention starts a new entry.
+    await owner.client.post('/api/activity/read').send({}).expect(200);
+    const fourth = (await post(commenter, notebookId, `@${handleOf(owner)} fourth`).expect(201)).body.comment as CommentView;
+    assert.deepEqual((await unreadMentions(owner, notebookId)).map((n) => [n.text, n.commentId]), [[`Invented commenter mentioned you in "${title}"`, fourth.id]]);
+  });
+
+  test('a notebook holds a bounded number of comments: one more is 409 and nothing is stored', async () => {
+    const notebookId = await sharedNotebook('Invented full notebook');
+    await storeComments(h, notebookId, owner.id, Array.from({ length: MAX_COMMENTS_PER_NOTEBOOK - 1 }, () => 'x'));
+    await post(commenter, notebookId, 'the last one that fits').expect(201);
+    const refused = await post(commenter, notebookId, 'one too many').expect(409);
+    assert.equal(refused.body.error.code, 'conflict');
+    assert.match(refused.body.error.message, /holds the most comments it can.*delete resolved threads/);
+    assert.equal(await countIn(notebookId), 2000);
+    assert.equal((await comments(owner.client, notebookId)).length, 2000);
+  });
+
+  test('a notebook holds a bounded number of characters of comments, for new and lengthened comments', async () => {
+    const notebookId = await sharedNotebook('Invented wordy notebook');
+    const room = 10;
+    const full = Array.from({ length: 400 }, () => 'y'.repeat(COMMENT_MAX_CHARS));
+    full[0] = 'y'.repeat(COMMENT_MAX_CHARS - room);
+    await storeComments(h, notebookId, owner.id, full);
+    const fits = (await post(commenter, notebookId, 'z'.repeat(room)).expect(201)).body.comment as CommentView;
+    await post(commenter, notebookId, 'z').expect(409);
+    await commenter.client.patch(`/api/comments/${fits.id}`).send({ body: 'z'.repeat(room + 1) }).expect(409);
+    await commenter.client.patch(`/api/comments/${fits.id}`).send({ body: 'z'.repeat(room - 1) }).expect(200);
+    const held = (await comments(owner.client, notebookId)).reduce((sum, c) => sum + c.body.length, 0);
+    assert.equal(held, 2_000_000 - 1);
+    // Deleting makes room again.
+    await commenter.client.delete(`/api/comments/${fits.id}`).expect(204);
+    await post(commenter, notebookId, 'z'.repeat(room)).expect(201);
+  });
+
+  test('one person writes a bounded number of comments per hour: one more is 429 naming the limit and nothing is stored', async () => {
+    const busy = await createPerson(h, { tag: 'busy' });
+    const notebookId = await sharedNotebook('Invented busy notebook');
+    await grant(h, notebookId, busy.id, 'commenter', owner.id);
+    for (let n = 0; n < 120; n += 1) await post(busy, notebookId, `point ${n}`).expect(201);
+    const refused = await post(busy, notebookId, 'point 120').expect(429);
+    assert.equal(refused.body.error.code, 'rate_limited');
+    assert.match(refused.body.error.message, /at most 120 comments per hour/);
+    assert.equal(await countIn(notebookId), 120);
+    // Someone else is not held back.
+    await post(commenter, notebookId, 'still welcome').expect(201);
   });
 });
 

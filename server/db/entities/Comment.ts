@@ -41,7 +41,7 @@ export class Comment {
   @Column({ type: 'text' })
   body: string;
 
-  /** JSON array of the ids of people mentioned who had access. */
+  /** JSON array of the ids of people with access this comment has mentioned (only grows: each is told once). */
   @Column({ type: 'text', default: '[]' })
   mentionsJson: string;
 
