@@ -22,6 +22,11 @@ export function InvitationList({ notebookId, invitations, manage }: { notebookId
             <Text style={styles.muted}>
               invited by {invitation.invitedByName} · open until {new Date(invitation.expiresAt).toLocaleDateString()}
             </Text>
+            {invitation.voidReason ? (
+              <Text style={styles.muted} testID={`invitation-void-${invitation.id}`}>
+                void: {invitation.voidReason} — accepting it grants nothing
+              </Text>
+            ) : null}
           </View>
           <View style={styles.controls}>
             <RoleBadge role={invitation.role} />

@@ -78,7 +78,7 @@ function CreatedLink({ link, onDismiss }: { link: CreatedShareLink; onDismiss: (
   );
 }
 
-const stateLabels: Record<LinkState, string> = { active: 'active', expired: 'expired', revoked: 'revoked' };
+const stateLabels: Record<LinkState, string> = { active: 'active', expired: 'expired', revoked: 'revoked', 'creator-lost-role': 'inactive: its creator no longer manages sharing' };
 
 function LinkList({ notebookId, links }: { notebookId: string; links: ShareLinkView[] }) {
   const revoke = useRevokeShareLinkMutation(notebookId);
@@ -96,7 +96,7 @@ function LinkList({ notebookId, links }: { notebookId: string; links: ShareLinkV
               </Text>
               <Text style={styles.muted}>{linkFacts(link)}</Text>
             </View>
-            {state === 'active' ? <ChipButton label="Revoke" tone="danger" disabled={revoke.isPending} onPress={() => revoke.mutate(link.id)} testID={`link-revoke-${link.id}`} /> : null}
+            {state === 'active' || state === 'creator-lost-role' ? <ChipButton label="Revoke" tone="danger" disabled={revoke.isPending} onPress={() => revoke.mutate(link.id)} testID={`link-revoke-${link.id}`} /> : null}
           </View>
         );
       })}

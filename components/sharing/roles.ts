@@ -25,9 +25,14 @@ export const linkRolesFor = (callerRole: NotebookRole | null | undefined): LinkR
 /** A grant the caller may change or remove: not the owner's, and not one above the caller's own role. */
 export const canManageGrant = (callerRole: NotebookRole, grantRole: NotebookRole) => grantRole !== 'owner' && roleAtLeast(callerRole, grantRole);
 
-export type LinkState = 'active' | 'expired' | 'revoked';
+export type LinkState = 'active' | 'expired' | 'revoked' | 'creator-lost-role';
 
-export const linkState = (link: { active: boolean; revokedAt: string | null }): LinkState => (link.revokedAt ? 'revoked' : link.active ? 'active' : 'expired');
+/** The server says why an inactive link opens nothing (`inactiveReason`); older replies only carried dates. */
+export function linkState(link: { active: boolean; revokedAt: string | null; inactiveReason?: string | null }): LinkState {
+  if (link.revokedAt) return 'revoked';
+  if (link.active) return 'active';
+  return link.inactiveReason && link.inactiveReason !== 'expired' ? 'creator-lost-role' : 'expired';
+}
 
 /** How a notebook I do not own reaches me: through a group, or from the person who shared it. */
 export function sharedByLine(notebook: Pick<NotebookSummary, 'role' | 'sharedBy' | 'ownerName'>): string | null {

@@ -19,6 +19,13 @@ export interface LiveLimits {
   perPerson: number;
   /** Open streams one share link may hold. */
   perLink: number;
+  /** Open share-link streams of one notebook, through all its links together. */
+  linkStreamsPerNotebook: number;
+  /**
+   * Open share-link streams of signed-out holders from one network address (signed-in holders count
+   * against `perPerson`): filling the server through links takes many addresses.
+   */
+  linkStreamsPerAddress: number;
   /** Open streams of the whole server. */
   total: number;
   /**
@@ -28,13 +35,16 @@ export interface LiveLimits {
   heartbeatMs: number;
 }
 
-export const DEFAULT_LIVE_LIMITS: LiveLimits = { perPerson: 10, perLink: 50, total: 2000, heartbeatMs: 20_000 };
+export const DEFAULT_LIVE_LIMITS: LiveLimits = { perPerson: 10, perLink: 50, linkStreamsPerNotebook: 100, linkStreamsPerAddress: 10, total: 2000, heartbeatMs: 20_000 };
+
+/** Who holds a share-link stream, for counting: a signed-in person, or else the network address it came from. */
+export type LinkHolder = { userId: string } | { address: string };
 
 /** Someone watching one notebook through one stream: a person, or a share-link holder. */
 interface Watcher {
   notebookId: string;
   viewer: SignedInUser | null;
-  link: { token: string; linkId: string } | null;
+  link: { token: string; linkId: string; createdById: string; holder: LinkHolder } | null;
   /** The session the person's stream was opened with. */
   sessionId: string | null;
   role: NotebookRole;
@@ -47,7 +57,7 @@ export interface LiveDeps {
   notebooks: Pick<NotebookService, 'access' | 'requireRole' | 'cellNotebookId'>;
   events: NotebookEventBus;
   logger: Logger;
-  resolveLink(token: string): Promise<{ notebookId: string; role: LinkRole; linkId: string }>;
+  resolveLink(token: string): Promise<{ notebookId: string; role: LinkRole; linkId: string; createdById: string }>;
   /** Validates the sessions people's streams were opened with; without it only access changes end their streams. */
   sessions?: Pick<SessionService, 'resolve'>;
   limits?: Partial<LiveLimits>;
@@ -65,6 +75,8 @@ export function createLiveHub(deps: LiveDeps) {
   const presenters = new Map<string, PresenterState>();
   const perPerson = new Map<string, number>();
   const perLink = new Map<string, number>();
+  const linkStreamsOfNotebook = new Map<string, number>();
+  const perAddress = new Map<string, number>();
   let total = 0;
   let heartbeat: NodeJS.Timeout | null = null;
 
@@ -89,19 +101,31 @@ export function createLiveHub(deps: LiveDeps) {
     else map.delete(key);
   }
 
-  function reserve(kind: 'person' | 'link', key: string) {
+  /** The counters a stream takes a place in, each with its limit and the refusal past it. */
+  function countersOf(watcher: Watcher): [Map<string, number>, string, number, string][] {
+    const person = (userId: string): [Map<string, number>, string, number, string] =>
+      [perPerson, userId, limits.perPerson, `At most ${limits.perPerson} live pages per person are open at once; close another tab.`];
+    if (watcher.viewer) return [person(watcher.viewer.id)];
+    const { linkId, holder } = watcher.link!;
+    return [
+      [perLink, linkId, limits.perLink, `At most ${limits.perLink} live pages per share link are open at once.`],
+      [linkStreamsOfNotebook, watcher.notebookId, limits.linkStreamsPerNotebook, `At most ${limits.linkStreamsPerNotebook} live pages are open through this notebook's share links at once.`],
+      'userId' in holder
+        ? person(holder.userId)
+        : [perAddress, holder.address, limits.linkStreamsPerAddress, `At most ${limits.linkStreamsPerAddress} live pages through share links are open from one network address at once; close another tab.`],
+    ];
+  }
+
+  function reserve(watcher: Watcher) {
     if (total >= limits.total) throw new AppError('rate_limited', 'Too many live pages are open on this server right now; the page will reconnect shortly.');
-    const [map, limit] = kind === 'person' ? [perPerson, limits.perPerson] : [perLink, limits.perLink];
-    if ((map.get(key) ?? 0) >= limit) {
-      throw new AppError('rate_limited', kind === 'person' ? `At most ${limit} live pages per person are open at once; close another tab.` : `At most ${limit} live pages per share link are open at once.`);
-    }
-    count(map, key, 1);
+    const counters = countersOf(watcher);
+    for (const [map, key, limit, refusal] of counters) if ((map.get(key) ?? 0) >= limit) throw new AppError('rate_limited', refusal);
+    for (const [map, key] of counters) count(map, key, 1);
     total += 1;
   }
 
   function release(watcher: Watcher) {
-    if (watcher.viewer) count(perPerson, watcher.viewer.id, -1);
-    if (watcher.link) count(perLink, watcher.link.linkId, -1);
+    for (const [map, key] of countersOf(watcher)) count(map, key, -1);
     total -= 1;
   }
 
@@ -219,10 +243,13 @@ export function createLiveHub(deps: LiveDeps) {
   }
 
   function onAccessChange(change: AccessChange) {
+    // a person's changed access also changes what the share links they made still open
     const affected =
       'notebookId' in change
         ? watchersOf(change.notebookId)
-        : [...watching.values()].flatMap((set) => [...set]).filter((w) => w.viewer?.id === change.userId && w.stream && !w.stream.closed);
+        : [...watching.values()]
+            .flatMap((set) => [...set])
+            .filter((w) => (w.viewer?.id === change.userId || w.link?.createdById === change.userId) && w.stream && !w.stream.closed);
     for (const watcher of affected) {
       recheck(watcher).catch((error) => deps.logger.error({ err: error, notebookId: watcher.notebookId }, 'checking a live stream\'s access failed'));
     }
@@ -238,16 +265,18 @@ export function createLiveHub(deps: LiveDeps) {
      */
     async watch(viewer: SignedInUser, notebookId: string, sessionId: string | null): Promise<(stream: LiveStream) => void> {
       const { role } = await deps.notebooks.requireRole(viewer, notebookId, 'read');
-      reserve('person', viewer.id);
       const watcher: Watcher = { notebookId, viewer, link: null, sessionId, role, stream: null, checking: false };
+      reserve(watcher);
       return (stream) => attach(watcher, stream);
     },
 
     /** Admit a share-link holder to the read-only stream of the link's notebook. */
-    async watchShared(token: string): Promise<(stream: LiveStream) => void> {
+    async watchShared(token: string, holder: LinkHolder): Promise<(stream: LiveStream) => void> {
       const link = await deps.resolveLink(token);
-      reserve('link', link.linkId);
-      const watcher: Watcher = { notebookId: link.notebookId, viewer: null, link: { token, linkId: link.linkId }, sessionId: null, role: link.role, stream: null, checking: false };
+      const watcher: Watcher = {
+        notebookId: link.notebookId, viewer: null, link: { token, linkId: link.linkId, createdById: link.createdById, holder }, sessionId: null, role: link.role, stream: null, checking: false,
+      };
+      reserve(watcher);
       return (stream) => attach(watcher, stream);
     },
 

@@ -45,6 +45,24 @@ export interface NotebookAccess {
   canEdit: boolean;
 }
 
+/**
+ * The grants reaching one person on notebook `n` (parameters: the person's id twice): their own grant,
+ * and the grants of their groups as a comma-separated list. The one place this rule is written in SQL.
+ */
+const GRANTS_COLUMNS = `(SELECT m.role FROM notebook_members m WHERE m.notebookId = n.id AND m.userId = ?) AS personalRole,
+  (SELECT group_concat(m.role) FROM notebook_members m JOIN group_memberships g ON g.groupId = m.groupId
+    WHERE m.notebookId = n.id AND g.userId = ?) AS groupRoles`;
+
+/** A person's current role on a notebook (null = none), inside any transaction: the rule of access(). */
+export async function roleOn(manager: EntityManager, userId: string, notebookId: string): Promise<NotebookRole | null> {
+  const [row]: { ownerId: string; personalRole: string | null; groupRoles: string | null }[] = await manager.query(
+    `SELECT n.ownerId AS ownerId, ${GRANTS_COLUMNS} FROM notebooks n WHERE n.id = ?`,
+    [userId, userId, notebookId],
+  );
+  if (!row) return null;
+  return row.ownerId === userId ? 'owner' : roleFromGrants(row.personalRole, row.groupRoles);
+}
+
 /** The strongest of a personal grant and a comma-separated list of group grants (as group_concat returns them). */
 export function roleFromGrants(personal: string | null | undefined, groupRoles: string | null | undefined): NotebookRole | null {
   let role = (personal as NotebookRole | null | undefined) ?? null;
@@ -110,13 +128,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
    * not other people's research. No role at all is answered exactly like a missing notebook (404).
    */
   // Every notebook request starts here, so it is one prepared statement rather than several ORM queries.
-  const accessQuery = sqliteHandle(dataSource).prepare(
-    `SELECT n.id, n.title, n.summary, n.ownerId, n.groupId, n.createdAt, n.updatedAt,
-            (SELECT m.role FROM notebook_members m WHERE m.notebookId = n.id AND m.userId = ?) AS personalRole,
-            (SELECT group_concat(m.role) FROM notebook_members m JOIN group_memberships g ON g.groupId = m.groupId
-              WHERE m.notebookId = n.id AND g.userId = ?) AS groupRoles
-       FROM notebooks n WHERE n.id = ?`,
-  );
+  const accessQuery = sqliteHandle(dataSource).prepare(`SELECT n.id, n.title, n.summary, n.ownerId, n.groupId, n.createdAt, n.updatedAt, ${GRANTS_COLUMNS} FROM notebooks n WHERE n.id = ?`);
 
   async function access(viewer: SignedInUser, notebookId: string): Promise<NotebookAccess> {
     const row = accessQuery.get(viewer.id, viewer.id, notebookId) as Record<string, string | null> | undefined;

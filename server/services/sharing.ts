@@ -1,6 +1,7 @@
 import { In, IsNull, MoreThan, type DataSource, type EntityManager } from 'typeorm';
 import type { NotebookDetail } from '../../shared/notebook/api';
 import {
+  can,
   roleAtLeast,
   roleRank,
   SHARE_LINK_MAX_DAYS,
@@ -25,11 +26,15 @@ import type { Mailer, OutgoingMessage } from '../mail/mailer';
 import { mailSafe } from '../mail/mailSafe';
 import { emailKey } from './accounts';
 import { commitNotebookChange, recordNotebookChange, type NotebookChange, type NotebookEventBus } from './notebookEvents';
-import { sqliteDate, type NotebookAccess, type NotebookService } from './notebooks';
+import { roleOn, sqliteDate, type NotebookAccess, type NotebookService } from './notebooks';
 import { addNotification } from './notifications';
 
 export const INVITATION_LIFETIME_MS = 14 * 24 * 3600 * 1000;
 const DAY_MS = 24 * 3600 * 1000;
+/** Unrevoked, unexpired links one notebook may have at once (each link may hold live streams). */
+export const MAX_ACTIVE_LINKS_PER_NOTEBOOK = 20;
+export const CREATOR_LOST_ROLE = 'its creator no longer manages sharing';
+export const INVITER_LOST_ROLE = 'its sender no longer manages sharing';
 
 /** The same reply for unknown, malformed, expired and revoked links: nothing tells whether a notebook exists. */
 const noSuchNotebook = () => new AppError('not_found', 'No such notebook.');
@@ -50,15 +55,26 @@ function forbidAbove(ownRole: NotebookRole, role: NotebookRole, what: string): v
   }
 }
 
-/** A share link still opens the notebook: neither revoked nor expired. */
+/** A share link is neither revoked nor expired (whether it opens anything also depends on its creator's role). */
 export function isActiveLink(link: Pick<ShareLink, 'revokedAt' | 'expiresAt'>, now: Date): boolean {
   return !link.revokedAt && (!link.expiresAt || link.expiresAt.getTime() > now.getTime());
 }
 
 /**
+ * Links and invitations act on behalf of the person who made them, so they are honoured only while that
+ * person may still manage sharing with at least the role they hand out. Checked at the point of use, this
+ * covers every way a role is lost (grant removed or lowered, left a group, ownership handed on).
+ */
+export const mayHandOut = (makersRole: NotebookRole | null, role: NotebookRole): boolean => can(makersRole, 'manageSharing') && roleAtLeast(makersRole, role);
+
+/** The weaker of two roles. */
+const weakerRole = (a: NotebookRole, b: NotebookRole): NotebookRole => (roleRank(a) <= roleRank(b) ? a : b);
+
+/**
  * Grants the pending, unexpired invitations of a newly confirmed address (inside the confirmation's
- * transaction): the stronger of an existing personal grant and the invited role, the invitation marked
- * accepted, an activity entry for the person. Returns the notebook changes to publish after commit.
+ * transaction): the stronger of an existing personal grant and the invited role (capped at the inviter's
+ * current role; nothing when the inviter no longer manages sharing), the invitation marked accepted, an
+ * activity entry for the person. Returns the notebook changes to publish after commit.
  */
 export async function acceptInvitations(manager: EntityManager, user: Pick<User, 'id' | 'name' | 'emailKey'>, at: Date): Promise<NotebookChange[]> {
   const pending = await manager.find(NotebookInvitation, { where: { emailKey: user.emailKey, acceptedAt: IsNull(), expiresAt: MoreThan(at) }, order: { createdAt: 'ASC' } });
@@ -67,8 +83,11 @@ export async function acceptInvitations(manager: EntityManager, user: Pick<User,
     const notebook = await manager.findOneBy(Notebook, { id: invitation.notebookId });
     await manager.update(NotebookInvitation, { id: invitation.id }, { acceptedAt: at, acceptedById: user.id });
     if (!notebook || notebook.ownerId === user.id) continue;
+    const invitersRole = await roleOn(manager, invitation.invitedById, notebook.id);
+    if (!can(invitersRole, 'manageSharing')) continue;
+    const invited = weakerRole(invitation.role, invitersRole!) as GrantableRole;
     const existing = await manager.findOneBy(NotebookMember, { notebookId: notebook.id, userId: user.id });
-    const role = strongerRole(existing?.role ?? null, invitation.role) as GrantableRole;
+    const role = strongerRole(existing?.role ?? null, invited) as GrantableRole;
     if (existing) await manager.update(NotebookMember, { id: existing.id }, { role });
     else await manager.insert(NotebookMember, { id: newId(), notebookId: notebook.id, userId: user.id, role, grantedById: invitation.invitedById });
     const inviter = await manager.findOneBy(User, { id: invitation.invitedById });
@@ -92,6 +111,11 @@ export async function acceptInvitations(manager: EntityManager, user: Pick<User,
   }
   return changes;
 }
+
+/** A share link as listed in the panel: why it opens nothing (revoked, expired, its creator's role), or null. */
+export type LinkListing = ShareLinkView;
+/** A pending invitation as listed: why accepting it would grant nothing, or null. */
+export type InvitationListing = PendingInvitationView;
 
 export interface SharingServiceDeps {
   dataSource: DataSource;
@@ -152,36 +176,52 @@ export function createSharingService({ dataSource, notebooks, events, mailer, pu
     return [ownerView, ...grants];
   }
 
-  async function invitationViews(notebookId: string): Promise<PendingInvitationView[]> {
+  async function rolesOnNotebook(notebookId: string): Promise<Map<string, NotebookRole>> {
+    return new Map((await notebooks.peopleWithAccess(notebookId)).map((person) => [person.id, person.role]));
+  }
+
+  async function invitationViews(notebookId: string, roles: Map<string, NotebookRole>): Promise<InvitationListing[]> {
     const rows = await dataSource.getRepository(NotebookInvitation).find({ where: { notebookId, acceptedAt: IsNull(), expiresAt: MoreThan(now()) }, order: { createdAt: 'DESC' } });
     const names = await namesOf(dataSource, rows.map((row) => row.invitedById));
     return rows.map((row) => ({
       id: row.id, email: row.email, role: row.role, invitedByName: names.get(row.invitedById) ?? '', createdAt: row.createdAt.toISOString(), expiresAt: row.expiresAt.toISOString(),
+      voidReason: can(roles.get(row.invitedById), 'manageSharing') ? null : INVITER_LOST_ROLE,
     }));
   }
 
-  async function linkViews(notebookId: string): Promise<ShareLinkView[]> {
+  function linkInactiveReason(link: ShareLink, roles: Map<string, NotebookRole>): string | null {
+    if (link.revokedAt) return 'revoked';
+    if (!isActiveLink(link, now())) return 'expired';
+    return mayHandOut(roles.get(link.createdById) ?? null, link.role) ? null : CREATOR_LOST_ROLE;
+  }
+
+  async function linkViews(notebookId: string, roles: Map<string, NotebookRole>): Promise<LinkListing[]> {
     const rows = await dataSource.getRepository(ShareLink).find({ where: { notebookId }, order: { createdAt: 'DESC' } });
     const names = await namesOf(dataSource, rows.map((row) => row.createdById));
-    return rows.map((row) => ({
-      id: row.id,
-      role: row.role,
-      createdByName: names.get(row.createdById) ?? '',
-      createdAt: row.createdAt.toISOString(),
-      expiresAt: row.expiresAt?.toISOString() ?? null,
-      revokedAt: row.revokedAt?.toISOString() ?? null,
-      active: isActiveLink(row, now()),
-    }));
+    return rows.map((row) => {
+      const inactiveReason = linkInactiveReason(row, roles);
+      return {
+        id: row.id,
+        role: row.role,
+        createdByName: names.get(row.createdById) ?? '',
+        createdAt: row.createdAt.toISOString(),
+        expiresAt: row.expiresAt?.toISOString() ?? null,
+        revokedAt: row.revokedAt?.toISOString() ?? null,
+        active: inactiveReason === null,
+        inactiveReason,
+      };
+    });
   }
 
   async function view(viewer: SignedInUser, notebookId: string): Promise<SharingView> {
     const { notebook, role } = await notebooks.requireRole(viewer, notebookId, 'read');
-    const manages = roleAtLeast(role, 'editor');
+    const manages = can(role, 'manageSharing');
+    const roles = manages ? await rolesOnNotebook(notebookId) : new Map<string, NotebookRole>();
     return {
       role,
       members: await memberViews(notebook, manages),
-      invitations: manages ? await invitationViews(notebookId) : [],
-      links: manages ? await linkViews(notebookId) : [],
+      invitations: manages ? await invitationViews(notebookId, roles) : [],
+      links: manages ? await linkViews(notebookId, roles) : [],
     };
   }
 
@@ -284,6 +324,13 @@ export function createSharingService({ dataSource, notebooks, events, mailer, pu
     if (expiresAt && expiresAt.getTime() > at.getTime() + SHARE_LINK_MAX_DAYS * DAY_MS) {
       throw new AppError('validation_failed', `A link may expire at most ${SHARE_LINK_MAX_DAYS} days ahead.`, { expiresAt: `At most ${SHARE_LINK_MAX_DAYS} days ahead` });
     }
+    const activeLinks = await dataSource.getRepository(ShareLink).count({ where: [
+      { notebookId, revokedAt: IsNull(), expiresAt: IsNull() },
+      { notebookId, revokedAt: IsNull(), expiresAt: MoreThan(at) },
+    ] });
+    if (activeLinks >= MAX_ACTIVE_LINKS_PER_NOTEBOOK) {
+      throw new AppError('conflict', `A notebook may have at most ${MAX_ACTIVE_LINKS_PER_NOTEBOOK} active share links; revoke one you no longer need first.`);
+    }
     const token = newLinkToken();
     const id = newId();
     const expiry = expiresAt ? `, expiring ${expiresAt.toISOString().slice(0, 10)}` : '';
@@ -294,11 +341,12 @@ export function createSharingService({ dataSource, notebooks, events, mailer, pu
   }
 
   /** The notebook and role a share link opens; the same 404 for every link that opens nothing. */
-  async function resolveLink(token: string): Promise<{ notebookId: string; role: LinkRole; linkId: string }> {
+  async function resolveLink(token: string): Promise<{ notebookId: string; role: LinkRole; linkId: string; createdById: string }> {
     if (!shareTokenParam.safeParse(token).success) throw noSuchNotebook();
     const link = await dataSource.getRepository(ShareLink).findOneBy({ tokenHash: sha256Hex(token) });
     if (!link || !isActiveLink(link, now())) throw noSuchNotebook();
-    return { notebookId: link.notebookId, role: link.role, linkId: link.id };
+    if (!mayHandOut(await roleOn(dataSource.manager, link.createdById, link.notebookId), link.role)) throw noSuchNotebook();
+    return { notebookId: link.notebookId, role: link.role, linkId: link.id, createdById: link.createdById };
   }
 
   /** The notebook behind a share link, read-only: its cells and results, nothing about who has access. */

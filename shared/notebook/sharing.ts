@@ -131,6 +131,8 @@ export interface PendingInvitationView {
   invitedByName: string;
   createdAt: string;
   expiresAt: string;
+  /** Set when accepting it would grant nothing, e.g. 'its sender no longer manages sharing'. */
+  voidReason: string | null;
 }
 
 export interface SharingView {
@@ -149,8 +151,10 @@ export interface ShareLinkView {
   createdAt: string;
   expiresAt: string | null;
   revokedAt: string | null;
-  /** Expired or revoked links no longer open anything. */
+  /** Expired or revoked links, and links whose creator no longer manages sharing, open nothing. */
   active: boolean;
+  /** Why an inactive link opens nothing: 'revoked', 'expired' or 'its creator no longer manages sharing'. */
+  inactiveReason: string | null;
 }
 
 export interface CreatedShareLink {

@@ -123,3 +123,78 @@ describe('invitation and sharing e-mails are limited per sender', () => {
     await other.client.post(`/api/notebooks/${notebookId}/members`).send({ email: newcomer(13).email, role: 'viewer' }).expect(200);
   });
 });
+
+// Documented behaviour (README, sharing panel): an invitation acts for the person who sent it; on acceptance it
+// grants at most the sender's role at that moment, and nothing once the sender no longer manages sharing
+// (editor or owner). The panel shows such a pending invitation as void.
+describe('an invitation grants only what its sender may still hand out', () => {
+  let h: Harness;
+  let owner: TestPerson;
+  let notebookId: string;
+
+  const membersPath = () => `/api/notebooks/${notebookId}/members`;
+  async function editorInviting(tag: string, invitee: ReturnType<typeof newcomer>, role: 'viewer' | 'commenter' | 'editor') {
+    const sender = await createPerson(h, { tag });
+    await owner.client.post(membersPath()).send({ email: sender.email, role: 'editor' }).expect(200);
+    const view = (await sender.client.post(membersPath()).send({ email: invitee.email, role }).expect(200)).body;
+    const memberId = (view.members as { id: string; subjectId: string }[]).find((m) => m.subjectId === sender.id)!.id;
+    const invitationId = (view.invitations as { id: string; email: string }[]).find((i) => i.email === invitee.email)!.id;
+    return { sender, memberId, invitationId };
+  }
+  const listedInvitation = async (id: string) =>
+    ((await owner.client.get(membersPath()).expect(200)).body.invitations as { id: string; voidReason: string | null }[]).find((i) => i.id === id)!;
+
+  before(async () => {
+    h = await startHarness();
+    owner = await createPerson(h, { tag: 'notebook-owner' });
+    notebookId = await newNotebook(owner.client, 'Invented delegated invitations');
+  });
+  after(() => h.close());
+
+  test('a sender who is still an editor: the invitation grants the invited role (control)', async () => {
+    const invitee = newcomer(20);
+    const { invitationId } = await editorInviting('steady-editor', invitee, 'editor');
+    assert.equal((await listedInvitation(invitationId)).voidReason, null);
+    const { client } = await signUpVerified(h, invitee);
+    assert.equal((await client.get(`/api/notebooks/${notebookId}`).expect(200)).body.notebook.role, 'editor');
+  });
+
+  test('a sender removed from the notebook: the invitation is listed as void, grants nothing, and is used up', async () => {
+    const invitee = newcomer(21);
+    const { memberId, invitationId } = await editorInviting('removed-editor', invitee, 'editor');
+    await owner.client.delete(`${membersPath()}/${memberId}`).expect(200);
+    assert.equal((await listedInvitation(invitationId)).voidReason, 'its sender no longer manages sharing');
+    const { client, user } = await signUpVerified(h, invitee);
+    await client.get(`/api/notebooks/${notebookId}`).expect(404);
+    assert.deepEqual((await client.get('/api/notebooks').expect(200)).body.notebooks, []);
+    assert.equal(await h.rungbook.services.dataSource.getRepository(NotebookMember).countBy({ notebookId, userId: user.id }), 0);
+    const stored = await h.rungbook.services.dataSource.getRepository(NotebookInvitation).findOneByOrFail({ id: invitationId });
+    assert.ok(stored.acceptedAt, 'no longer pending');
+    assert.equal((await owner.client.get(membersPath()).expect(200)).body.invitations.some((i: { id: string }) => i.id === invitationId), false);
+    assert.equal(await h.rungbook.services.dataSource.getRepository(Notification).countBy({ userId: user.id, kind: 'invitation' }), 0);
+  });
+
+  test('a sender lowered to viewer (or commenter) before acceptance: the invitation grants nothing', async () => {
+    for (const [n, lowered] of [[22, 'viewer'], [23, 'commenter']] as const) {
+      const invitee = newcomer(n);
+      const { memberId, invitationId } = await editorInviting(`lowered-to-${lowered}`, invitee, 'editor');
+      await owner.client.patch(`${membersPath()}/${memberId}`).send({ role: lowered }).expect(200);
+      assert.equal((await listedInvitation(invitationId)).voidReason, 'its sender no longer manages sharing');
+      const { client } = await signUpVerified(h, invitee);
+      await client.get(`/api/notebooks/${notebookId}`).expect(404);
+    }
+  });
+
+  test('the invited role is capped at the sender\'s role when accepted', async () => {
+    // Through the API an editor can invite at most as an editor, so an over-strong invitation is written here
+    // directly: an owner-strength role is never granted by an invitation from an editor.
+    const invitee = newcomer(24);
+    const { sender } = await editorInviting('capping-editor', newcomer(25), 'viewer');
+    await h.rungbook.services.dataSource.getRepository(NotebookInvitation).insert({
+      id: newId(), notebookId, emailKey: invitee.email, email: invitee.email, role: 'owner' as 'editor', invitedById: sender.id,
+      expiresAt: new Date(Date.now() + INVITATION_LIFETIME_MS), acceptedAt: null, acceptedById: null,
+    });
+    const { client } = await signUpVerified(h, invitee);
+    assert.equal((await client.get(`/api/notebooks/${notebookId}`).expect(200)).body.notebook.role, 'editor');
+  });
+});

@@ -8,9 +8,10 @@ import pino from 'pino';
 import { sha256Hex } from '../../server/auth/linkTokens';
 import { Cell, NotebookMember, ShareLink } from '../../server/db/entities';
 import { newId } from '../../server/ids';
-import { createLiveHub, type LiveHub, type LiveStream } from '../../server/services/live';
+import { createLiveHub, type LinkHolder, type LiveHub, type LiveStream } from '../../server/services/live';
+import { AppError } from '../../server/http/errors';
 import { ORIGIN, startHarness, type Harness } from './harness';
-import { createPerson, type TestPerson } from './people';
+import { createPerson, joinGroup, type TestPerson } from './people';
 
 /** What a browser's EventSource would read: named events, each with JSON data. */
 interface OpenStream {
@@ -341,6 +342,42 @@ describe('live notebook streams', () => {
     const unknown = await openStream(`/api/shared/${'x'.repeat(43)}/events`, null);
     assert.equal(unknown.status, 404);
   });
+
+  /** The server notices closed sockets a little later; wait (bounded) until no stream is counted. */
+  async function noStreamsOpen() {
+    for (let i = 0; i < 500 && h.rungbook.services.live.openStreams() > 0; i += 1) await new Promise((resolve) => setTimeout(resolve, 10));
+    assert.equal(h.rungbook.services.live.openStreams(), 0);
+  }
+
+  test('an editor removed from the notebook: the stream through the link they made is revoked and closed', async () => {
+    const maker = await createPerson(h, { tag: 'link-maker' });
+    await owner.client.post(`/api/notebooks/${notebookId}/members`).send({ email: maker.email, role: 'editor' }).expect(200);
+    const token = (await maker.client.post(`/api/notebooks/${notebookId}/links`).send({ role: 'commenter' }).expect(201)).body.token as string;
+    const stream = await openStream(`/api/shared/${token}/events`, null);
+    assert.equal((await stream.next('hello')).role, 'commenter');
+    const members = (await owner.client.get(`/api/notebooks/${notebookId}/members`).expect(200)).body.members as { id: string; subjectId: string }[];
+    await owner.client.delete(`/api/notebooks/${notebookId}/members/${members.find((m) => m.subjectId === maker.id)!.id}`).expect(200);
+    await stream.next('revoked');
+    await stream.ended;
+    assert.equal((await openStream(`/api/shared/${token}/events`, null)).status, 404);
+  });
+
+  test('at most 10 signed-out link streams per network address; a signed-in holder counts as a person instead', async () => {
+    await noStreamsOpen();
+    const token = (await owner.client.post(`/api/notebooks/${notebookId}/links`).send({ role: 'viewer' }).expect(201)).body.token as string;
+    const held: OpenStream[] = [];
+    for (let i = 0; i < 10; i += 1) {
+      const stream = await openStream(`/api/shared/${token}/events`, null);
+      assert.equal(stream.status, 200);
+      held.push(stream);
+    }
+    const refused = await openStream(`/api/shared/${token}/events`, null);
+    assert.equal(refused.status, 429);
+    const signedIn = await openStream(`/api/shared/${token}/events`, cookies.get(stranger.id)!);
+    assert.equal(signedIn.status, 200, 'from the same address, but counted per person');
+    for (const stream of [...held, signedIn]) stream.close();
+    await noStreamsOpen();
+  });
 });
 
 /** A stream as the hub feeds it, recording what it is sent (the HTTP layer is not what is tested here). */
@@ -445,7 +482,7 @@ describe('live streams are checked again at every heartbeat: sessions and share 
   test('a share link that expires while its stream is open: the stream is revoked and closed', async () => {
     const token = (await owner.client.post(`/api/notebooks/${notebookId}/links`).send({ role: 'viewer' }).expect(201)).body.token as string;
     const recorded = recordingStream();
-    (await hub.watchShared(token))(recorded.stream);
+    (await hub.watchShared(token, { address: '192.0.2.1' }))(recorded.stream);
     await recorded.event('hello');
     // the expiry passes; nothing else happens that would re-check access
     await h.rungbook.services.dataSource.getRepository(ShareLink).update({ tokenHash: sha256Hex(token) }, { expiresAt: new Date(Date.now() - 60_000) });
@@ -454,13 +491,107 @@ describe('live streams are checked again at every heartbeat: sessions and share 
     assert.equal(hub.openStreams(), 0);
   });
 
+  test('a person leaving the group that made them an editor: streams through the links they made are revoked', async () => {
+    const groupId = (await owner.client.post('/api/groups').send({ name: 'Invented Heartbeat Group', description: '' }).expect(201)).body.group.id as string;
+    const member = await createPerson(h, { tag: 'group-editor' });
+    await joinGroup(h, groupId, member.id, 'member');
+    await owner.client.post(`/api/notebooks/${notebookId}/members`).send({ groupId, role: 'editor' }).expect(200);
+    const token = (await member.client.post(`/api/notebooks/${notebookId}/links`).send({ role: 'viewer' }).expect(201)).body.token as string;
+    const recorded = recordingStream();
+    (await hub.watchShared(token, { address: '192.0.2.9' }))(recorded.stream);
+    await recorded.event('hello');
+    await member.client.delete(`/api/groups/${groupId}/members/${member.id}`).expect(200);
+    await recorded.event('revoked');
+    await recorded.closedNow();
+  });
+
   test('a share link revoked in the database alone is noticed at the next heartbeat', async () => {
     const token = (await owner.client.post(`/api/notebooks/${notebookId}/links`).send({ role: 'commenter' }).expect(201)).body.token as string;
     const recorded = recordingStream();
-    (await hub.watchShared(token))(recorded.stream);
+    (await hub.watchShared(token, { address: '192.0.2.1' }))(recorded.stream);
     await recorded.event('hello');
     await h.rungbook.services.dataSource.getRepository(ShareLink).update({ tokenHash: sha256Hex(token) }, { revokedAt: new Date() });
     await recorded.event('revoked');
     await recorded.closedNow();
+  });
+});
+
+describe('share-link streams are capped per notebook and per network address', () => {
+  let h: Harness;
+  let hub: LiveHub;
+  let owner: TestPerson;
+  let notebookId: string;
+  const open: ReturnType<typeof recordingStream>[] = [];
+
+  before(async () => {
+    h = await startHarness();
+    const { notebooks, events, sessions, sharing } = h.rungbook.services;
+    hub = createLiveHub({
+      notebooks, events, sessions, logger: pino({ level: 'silent' }), resolveLink: (token) => sharing.resolveLink(token),
+      limits: { linkStreamsPerNotebook: 4, linkStreamsPerAddress: 2, perPerson: 3 },
+    });
+    owner = await createPerson(h, { tag: 'owner' });
+    notebookId = await newNotebookOf(owner, 'Invented popular notebook');
+  });
+  after(async () => {
+    hub.closeAll();
+    await h.close();
+  });
+
+  async function newNotebookOf(person: TestPerson, title: string): Promise<string> {
+    return ((await person.client.post('/api/notebooks').send({ title, summary: '' }).expect(201)).body.notebook as NotebookDetail).id;
+  }
+  const newLink = async (id: string) => (await owner.client.post(`/api/notebooks/${id}/links`).send({ role: 'viewer' }).expect(201)).body.token as string;
+  async function admitted(token: string, holder: LinkHolder) {
+    const recorded = recordingStream();
+    (await hub.watchShared(token, holder))(recorded.stream);
+    open.push(recorded);
+    return recorded;
+  }
+  const refusedAs = (pattern: RegExp) => (error: unknown) => error instanceof AppError && error.code === 'rate_limited' && pattern.test(error.message);
+  function closeEverything() {
+    for (const recorded of open.splice(0)) recorded.stream.close();
+    assert.equal(hub.openStreams(), 0);
+  }
+
+  test('per address: the third signed-out stream from one address is refused, whatever the link; another address is admitted', async () => {
+    const [first, second] = [await newLink(notebookId), await newLink(notebookId)];
+    await admitted(first, { address: '198.51.100.7' });
+    await admitted(second, { address: '198.51.100.7' });
+    await assert.rejects(hub.watchShared(first, { address: '198.51.100.7' }), refusedAs(/at most 2 live pages through share links .* one network address/i));
+    await admitted(first, { address: '198.51.100.8' });
+    assert.equal(hub.openStreams(), 3);
+    open[0].stream.close();
+    await admitted(first, { address: '198.51.100.7' });
+    closeEverything();
+  });
+
+  test('per notebook: the fifth link stream of one notebook is refused, from any address and any of its links; people and other notebooks are not affected', async () => {
+    const links = [await newLink(notebookId), await newLink(notebookId)];
+    for (let i = 0; i < 4; i += 1) await admitted(links[i % 2], { address: `203.0.113.${i}` });
+    await assert.rejects(hub.watchShared(links[0], { address: '203.0.113.50' }), refusedAs(/at most 4 live pages .* this notebook's share links/i));
+    await assert.rejects(hub.watchShared(links[1], { userId: owner.id }), refusedAs(/this notebook's share links/));
+
+    const session = (await h.rungbook.services.sessions.start(owner.id)).split(';')[0];
+    const sessionId = session.slice(session.indexOf('=') + 1);
+    const { user } = await h.rungbook.services.sessions.resolve(sessionId);
+    const person = recordingStream();
+    (await hub.watch(user!, notebookId, sessionId))(person.stream);
+    open.push(person);
+    await person.event('hello');
+
+    const elsewhere = await newNotebookOf(owner, 'Invented quiet notebook');
+    await admitted(await newLink(elsewhere), { address: '203.0.113.50' });
+    assert.equal(hub.openStreams(), 6);
+    closeEverything();
+  });
+
+  test('a signed-in holder is counted as a person (the per-person limit), not by address', async () => {
+    const token = await newLink(notebookId);
+    const holder = await createPerson(h, { tag: 'holder' });
+    for (let i = 0; i < 3; i += 1) await admitted(token, { userId: holder.id });
+    await assert.rejects(hub.watchShared(token, { userId: holder.id }), refusedAs(/at most 3 live pages per person/i));
+    await admitted(token, { address: '198.51.100.7' });
+    closeEverything();
   });
 });

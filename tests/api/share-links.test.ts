@@ -3,9 +3,10 @@ import { randomBytes } from 'node:crypto';
 import { after, before, describe, test } from 'node:test';
 import { sha256Hex } from '../../server/auth/linkTokens';
 import { ShareLink } from '../../server/db/entities';
+import { MAX_ACTIVE_LINKS_PER_NOTEBOOK } from '../../server/services/sharing';
 import { SHARE_LINK_MAX_DAYS } from '../../shared/notebook/sharing';
 import { ORIGIN, startHarness, type Harness } from './harness';
-import { createPerson, notebookWithRun, settleRun, type TestPerson } from './people';
+import { createPerson, joinGroup, notebookWithRun, settleRun, type TestPerson } from './people';
 
 // Documented behaviour (issue 9, "Share links"): a secret viewer/commenter link, optional expiry, revocable;
 // opened without an account it shows the notebook read-only; unknown, expired and revoked links give 404 and
@@ -138,5 +139,113 @@ describe('opening share links is limited per network address', () => {
     for (let i = 0; i < LIMIT / 2; i += 1) await h.raw.get(`/api/shared/${unknown}/comments`).expect(404);
     const refused = await h.raw.get(`/api/shared/${unknown}`).expect(429);
     assert.equal(refused.body.error.code, 'rate_limited');
+  });
+});
+
+// Documented behaviour (sharing panel, README): a share link acts for the person who created it; it opens
+// the notebook only while that person may still manage sharing (editor or owner) — removed, lowered or out
+// of the group, the link answers the same 404 as an unknown one, and the panel lists it as inactive.
+describe('a share link opens only while its creator may manage sharing', () => {
+  let h: Harness;
+  let owner: TestPerson;
+  let editor: TestPerson;
+  let notebookId: string;
+
+  const membersPath = () => `/api/notebooks/${notebookId}/members`;
+  const memberIdOf = async (person: TestPerson) =>
+    ((await owner.client.get(membersPath()).expect(200)).body.members as { id: string; subjectId: string }[]).find((m) => m.subjectId === person.id)!.id;
+  const listedLink = async (linkId: string) =>
+    ((await owner.client.get(membersPath()).expect(200)).body.links as { id: string; active: boolean; inactiveReason: string | null }[]).find((l) => l.id === linkId)!;
+  const unknownReply = async () => (await h.raw.get(`/api/shared/${randomBytes(32).toString('base64url')}`).expect(404)).text;
+
+  before(async () => {
+    h = await startHarness();
+    owner = await createPerson(h, { tag: 'creator-owner' });
+    editor = await createPerson(h, { tag: 'creator-editor' });
+    notebookId = (await owner.client.post('/api/notebooks').send({ title: 'Invented delegated links', summary: '', groupId: null }).expect(201)).body.notebook.id;
+  });
+  after(() => h.close());
+
+  test('removed editor: their commenter link answers 404 for the notebook and its comments, and is listed inactive with the reason', async () => {
+    await owner.client.post(membersPath()).send({ email: editor.email, role: 'editor' }).expect(200);
+    const link = (await editor.client.post(`/api/notebooks/${notebookId}/links`).send({ role: 'commenter' }).expect(201)).body;
+    await h.raw.get(`/api/shared/${link.token}`).expect(200);
+    await editor.client.post(`/api/shared/${link.token}/comments`).send({ body: 'through my own link' }).expect(201);
+    const listedFirst = await listedLink(link.id);
+    assert.deepEqual([listedFirst.active, listedFirst.inactiveReason], [true, null]);
+
+    await owner.client.delete(`${membersPath()}/${await memberIdOf(editor)}`).expect(200);
+    const expected = await unknownReply();
+    assert.equal((await h.raw.get(`/api/shared/${link.token}`).expect(404)).text, expected);
+    assert.equal((await editor.client.get(`/api/shared/${link.token}/comments`).expect(404)).text, expected);
+    assert.equal((await editor.client.post(`/api/shared/${link.token}/comments`).send({ body: 'still here?' }).expect(404)).text, expected);
+    const listed = await listedLink(link.id);
+    assert.equal(listed.active, false);
+    assert.equal(listed.inactiveReason, 'its creator no longer manages sharing');
+  });
+
+  test('lowered to commenter: the link stops; made editor again: the same link opens again (checked when used)', async () => {
+    await owner.client.post(membersPath()).send({ email: editor.email, role: 'editor' }).expect(200);
+    const link = (await editor.client.post(`/api/notebooks/${notebookId}/links`).send({ role: 'viewer' }).expect(201)).body;
+    await owner.client.patch(`${membersPath()}/${await memberIdOf(editor)}`).send({ role: 'commenter' }).expect(200);
+    await h.raw.get(`/api/shared/${link.token}`).expect(404);
+    assert.equal((await listedLink(link.id)).active, false);
+    await owner.client.patch(`${membersPath()}/${await memberIdOf(editor)}`).send({ role: 'editor' }).expect(200);
+    assert.equal((await h.raw.get(`/api/shared/${link.token}`).expect(200)).body.notebook.id, notebookId);
+    const again = await listedLink(link.id);
+    assert.deepEqual([again.active, again.inactiveReason], [true, null]);
+  });
+
+  test('an editor through a group who leaves the group: the link stops', async () => {
+    const groupId = (await owner.client.post('/api/groups').send({ name: 'Invented Delegating Group', description: '' }).expect(201)).body.group.id;
+    const member = await createPerson(h, { tag: 'group-editor' });
+    await joinGroup(h, groupId, member.id, 'member');
+    await owner.client.post(membersPath()).send({ groupId, role: 'editor' }).expect(200);
+    const link = (await member.client.post(`/api/notebooks/${notebookId}/links`).send({ role: 'viewer' }).expect(201)).body;
+    await h.raw.get(`/api/shared/${link.token}`).expect(200);
+    await member.client.delete(`/api/groups/${groupId}/members/${member.id}`).expect(200);
+    await member.client.get(`/api/notebooks/${notebookId}`).expect(404);
+    await h.raw.get(`/api/shared/${link.token}`).expect(404);
+  });
+
+  test('the former owner after handing the notebook on stays an editor: their links keep working', async () => {
+    const heir = await createPerson(h, { tag: 'heir' });
+    const own = (await owner.client.post('/api/notebooks').send({ title: 'Invented handed on', summary: '', groupId: null }).expect(201)).body.notebook.id;
+    await owner.client.post(`/api/notebooks/${own}/members`).send({ email: heir.email, role: 'viewer' }).expect(200);
+    const link = (await owner.client.post(`/api/notebooks/${own}/links`).send({ role: 'commenter' }).expect(201)).body;
+    await owner.client.post(`/api/notebooks/${own}/owner`).send({ userId: heir.id }).expect(200);
+    assert.equal((await owner.client.get(`/api/notebooks/${own}`).expect(200)).body.notebook.role, 'editor');
+    await h.raw.get(`/api/shared/${link.token}`).expect(200);
+  });
+});
+
+describe('active share links per notebook are capped', () => {
+  let h: Harness;
+  let owner: TestPerson;
+  before(async () => {
+    h = await startHarness();
+    owner = await createPerson(h, { tag: 'many-links' });
+  });
+  after(() => h.close());
+
+  test(`${MAX_ACTIVE_LINKS_PER_NOTEBOOK} unrevoked, unexpired links at once; the next is 409 until one is revoked; expired and revoked ones do not count`, async () => {
+    assert.equal(MAX_ACTIVE_LINKS_PER_NOTEBOOK, 20, 'README: at most 20 active share links per notebook');
+    const notebookId = (await owner.client.post('/api/notebooks').send({ title: 'Invented crowded notebook', summary: '', groupId: null }).expect(201)).body.notebook.id;
+    const base = `/api/notebooks/${notebookId}/links`;
+    const expired = (await owner.client.post(base).send({ role: 'viewer', expiresAt: new Date(Date.now() + DAY_MS).toISOString() }).expect(201)).body;
+    await h.rungbook.services.dataSource.getRepository(ShareLink).update({ id: expired.id }, { expiresAt: new Date(Date.now() - 1000) });
+    const revoked = (await owner.client.post(base).send({ role: 'viewer' }).expect(201)).body;
+    await owner.client.delete(`${base}/${revoked.id}`).expect(200);
+    const ids: string[] = [];
+    for (let i = 0; i < 20; i += 1) ids.push((await owner.client.post(base).send({ role: i % 2 ? 'viewer' : 'commenter' }).expect(201)).body.id);
+    const refused = await owner.client.post(base).send({ role: 'viewer' }).expect(409);
+    assert.equal(refused.body.error.code, 'conflict');
+    assert.match(refused.body.error.message, /at most 20 active share links; revoke/);
+    assert.equal(await h.rungbook.services.dataSource.getRepository(ShareLink).countBy({ notebookId }), 22, 'nothing was stored');
+    await owner.client.delete(`${base}/${ids[0]}`).expect(200);
+    await owner.client.post(base).send({ role: 'viewer' }).expect(201);
+    // the cap is per notebook
+    const other = (await owner.client.post('/api/notebooks').send({ title: 'Invented quiet notebook', summary: '', groupId: null }).expect(201)).body.notebook.id;
+    await owner.client.post(`/api/notebooks/${other}/links`).send({ role: 'viewer' }).expect(201);
   });
 });

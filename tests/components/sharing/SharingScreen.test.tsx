@@ -114,7 +114,7 @@ describe('SharingScreen', () => {
   });
 
   it('says an address without an account was invited, and lists the invitation', async () => {
-    const invitation = { id: 'inv0000001', email: 'new@y.example', role: 'commenter' as const, invitedByName: me.name, createdAt: '2026-01-01T00:00:00Z', expiresAt: '2026-01-15T00:00:00Z' };
+    const invitation = { id: 'inv0000001', email: 'new@y.example', role: 'commenter' as const, invitedByName: me.name, createdAt: '2026-01-01T00:00:00Z', expiresAt: '2026-01-15T00:00:00Z', voidReason: null };
     serve(sharingAs('editor'), { [`POST /notebooks/${NB}/members`]: { status: 201, body: sharingAs('editor', { invitations: [invitation] }) } });
     const { client } = renderWithQueryClient(<SharingScreen notebookId={NB} />);
     fireEvent.changeText(await screen.findByTestId('share-email'), 'new@y.example');
@@ -129,9 +129,10 @@ describe('SharingScreen', () => {
 
   it('creates a link with an expiry, shows its address once, and lists links with their state', async () => {
     const links = [
-      { id: 'lnk0000001', role: 'viewer' as const, createdByName: me.name, createdAt: '2026-01-01T00:00:00Z', expiresAt: null, revokedAt: null, active: true },
-      { id: 'lnk0000002', role: 'commenter' as const, createdByName: me.name, createdAt: '2026-01-01T00:00:00Z', expiresAt: '2026-01-02T00:00:00Z', revokedAt: null, active: false },
-      { id: 'lnk0000003', role: 'viewer' as const, createdByName: me.name, createdAt: '2026-01-01T00:00:00Z', expiresAt: null, revokedAt: '2026-01-03T00:00:00Z', active: false },
+      { id: 'lnk0000001', role: 'viewer' as const, createdByName: me.name, createdAt: '2026-01-01T00:00:00Z', expiresAt: null, revokedAt: null, active: true, inactiveReason: null },
+      { id: 'lnk0000002', role: 'commenter' as const, createdByName: me.name, createdAt: '2026-01-01T00:00:00Z', expiresAt: '2026-01-02T00:00:00Z', revokedAt: null, active: false, inactiveReason: 'expired' },
+      { id: 'lnk0000003', role: 'viewer' as const, createdByName: me.name, createdAt: '2026-01-01T00:00:00Z', expiresAt: null, revokedAt: '2026-01-03T00:00:00Z', active: false, inactiveReason: 'revoked' },
+      { id: 'lnk0000005', role: 'viewer' as const, createdByName: 'Invented Former Editor', createdAt: '2026-01-01T00:00:00Z', expiresAt: null, revokedAt: null, active: false, inactiveReason: 'its creator no longer manages sharing' },
     ];
     const url = 'http://localhost:8080/shared/AAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAA';
     const server = serve(sharingAs('editor', { links }), { [`POST /notebooks/${NB}/links`]: { status: 201, body: { id: 'lnk0000004', token: url.slice(-43), url } } });
@@ -141,6 +142,9 @@ describe('SharingScreen', () => {
     expect(screen.getByTestId('link-state-lnk0000003')).toHaveTextContent('revoked');
     expect(screen.getByTestId('link-revoke-lnk0000001')).toBeTruthy();
     expect(screen.queryByTestId('link-revoke-lnk0000002')).toBeNull();
+    // the server's reason for an inactive link whose creator lost the role is shown, and it can still be revoked for good
+    expect(screen.getByTestId('link-state-lnk0000005')).toHaveTextContent(/its creator no longer manages sharing/);
+    expect(screen.getByTestId('link-revoke-lnk0000005')).toBeTruthy();
 
     fireEvent.changeText(screen.getByTestId('link-expiry-days'), '400');
     fireEvent.press(screen.getByTestId('link-create'));
