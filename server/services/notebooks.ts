@@ -112,7 +112,10 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
   // Cell views of notebooks with no run in flight; every write path below calls forget().
   const settledViews = new WeightedLru<string, CellView[]>(SETTLED_VIEWS_BUDGET);
   const settledSummaries = new WeightedLru<string, CommonSummary>(SETTLED_SUMMARIES_BUDGET);
+  // Counts forget() calls: views read from the database while a write committed must not be cached after it.
+  let forgets = 0;
   const forget = (notebookId: string) => {
+    forgets += 1;
     settledViews.delete(notebookId);
     settledSummaries.delete(notebookId);
   };
@@ -172,9 +175,11 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
   async function cellViews(notebookId: string): Promise<CellView[]> {
     const cached = settledViews.get(notebookId);
     if (cached) return cached;
+    const forgetsBefore = forgets;
     const { views, weight, inFlight } = await freshCellViews(notebookId);
-    // decided from the runs, not the cells' states: a run in flight can show as a broken reference
-    if (!inFlight) settledViews.set(notebookId, views, weight);
+    // decided from the runs, not the cells' states: a run in flight can show as a broken reference;
+    // and not when a write was forgotten meanwhile: these views may predate it, and nothing would drop them
+    if (!inFlight && forgets === forgetsBefore) settledViews.set(notebookId, views, weight);
     return views;
   }
 
