@@ -4,7 +4,7 @@ import type { ActivityReply, NotebookEventKind, NotebookEventView, NotificationV
 import type { SignedInUser } from '../auth/sessions';
 import { Notebook, NotebookEvent, NotebookFollow, Notification } from '../db/entities';
 import type { NotebookChange, NotebookEventBus } from './notebookEvents';
-import type { NotebookService } from './notebooks';
+import { NOTEBOOKS_SHARED_WITH_ME, type NotebookService } from './notebooks';
 import { addNotification } from './notifications';
 
 export const ACTIVITY_PAGE = 100;
@@ -32,8 +32,7 @@ const changeLine = (change: NotebookChange) => `${change.actorName ?? 'Someone'}
 /** Entries the person may still see: those of notebooks they can open (owner, own grant or a group's). */
 const VISIBLE = `(a.notebookId IS NULL
   OR a.notebookId IN (SELECT n.id FROM notebooks n WHERE n.ownerId = :me)
-  OR a.notebookId IN (SELECT m.notebookId FROM notebook_members m
-       WHERE m.userId = :me OR m.groupId IN (SELECT gm.groupId FROM group_memberships gm WHERE gm.userId = :me)))`;
+  OR a.notebookId IN ${NOTEBOOKS_SHARED_WITH_ME})`;
 
 /** One person's activity list, following notebooks, and each notebook's log of who did what. */
 export function createActivityService(dataSource: DataSource, notebooks: NotebookService, events: NotebookEventBus, logger: Logger) {

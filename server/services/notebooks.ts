@@ -53,6 +53,11 @@ const GRANTS_COLUMNS = `(SELECT m.role FROM notebook_members m WHERE m.notebookI
   (SELECT group_concat(m.role) FROM notebook_members m JOIN group_memberships g ON g.groupId = m.groupId
     WHERE m.notebookId = n.id AND g.userId = ?) AS groupRoles`;
 
+/** Grant rows `m` (notebook_members) that reach the person named by the :me parameter: their own, or their groups'. */
+export const GRANT_REACHES_ME = `(m.userId = :me OR m.groupId IN (SELECT gm.groupId FROM group_memberships gm WHERE gm.userId = :me))`;
+/** Ids of the notebooks shared with :me (not counting ownership). */
+export const NOTEBOOKS_SHARED_WITH_ME = `(SELECT m.notebookId FROM notebook_members m WHERE ${GRANT_REACHES_ME})`;
+
 /** A person's current role on a notebook (null = none), inside any transaction: the rule of access(). */
 export async function roleOn(manager: EntityManager, userId: string, notebookId: string): Promise<NotebookRole | null> {
   const [row]: { ownerId: string; personalRole: string | null; groupRoles: string | null }[] = await manager.query(
@@ -227,7 +232,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
       .leftJoin(User, 'u', 'u.id = m.grantedById')
       .select(['m.notebookId AS "notebookId"', 'm.role AS "role"', 'g.name AS "groupName"', 'u.name AS "grantedByName"'])
       .where('m.notebookId IN (:...notebookIds)', { notebookIds })
-      .andWhere('(m.userId = :me OR m.groupId IN (SELECT gm.groupId FROM group_memberships gm WHERE gm.userId = :me))', { me: viewer.id })
+      .andWhere(GRANT_REACHES_ME, { me: viewer.id })
       .getRawMany();
     for (const row of rows) {
       const known = found.get(row.notebookId);
@@ -461,7 +466,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
     parseCellInput,
 
     async list(viewer: SignedInUser, options: { q?: string; filter?: 'all' | 'mine' | 'shared' | 'group'; groupId?: string } = {}): Promise<NotebookSummary[]> {
-      const reaching = `n.id IN (SELECT m.notebookId FROM notebook_members m WHERE m.userId = :me OR m.groupId IN (SELECT gm.groupId FROM group_memberships gm WHERE gm.userId = :me))`;
+      const reaching = `n.id IN ${NOTEBOOKS_SHARED_WITH_ME}`;
       const throughGroup = `n.id IN (SELECT m.notebookId FROM notebook_members m WHERE m.groupId IN (SELECT gm.groupId FROM group_memberships gm WHERE gm.userId = :me)${options.groupId ? ' AND m.groupId = :groupId' : ''})`;
       const where = {
         all: `(n.ownerId = :me OR ${reaching})`,
