@@ -68,6 +68,17 @@ describe('comment threads, mentions and link holders', () => {
     assert.ok(listed.every((c) => !c.canEdit && !c.canDelete));
   });
 
+  test('the longest allowed comment is kept whole; one character more is refused and nothing is stored', async () => {
+    const longest = `${'ε'.repeat(COMMENT_MAX_CHARS - 1)}!`;
+    const kept = (await commenter.client.post(`/api/notebooks/${notebookId}/comments`).send({ body: longest }).expect(201)).body.comment as CommentView;
+    assert.equal(kept.body, longest);
+    const before = (await comments(owner.client, notebookId)).length;
+    const tooLong = await commenter.client.post(`/api/notebooks/${notebookId}/comments`).send({ body: `${longest}x` }).expect(400);
+    assert.equal(tooLong.body.error.code, 'validation_failed');
+    assert.equal((await comments(owner.client, notebookId)).length, before);
+    await owner.client.delete(`/api/comments/${kept.id}`).expect(204);
+  });
+
   test('a cell of another notebook is refused (404) and nothing is stored', async () => {
     const other = await newNotebook(outsider.client, 'Invented other notebook');
     const before = await h.rungbook.services.dataSource.getRepository(Comment).count();

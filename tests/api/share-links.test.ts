@@ -72,6 +72,10 @@ describe('share links', () => {
     assert.ok(past.body.error.fields.expiresAt);
     const tooFar = new Date(Date.now() + (SHARE_LINK_MAX_DAYS + 1) * DAY_MS).toISOString();
     assert.equal((await owner.client.post(base).send({ role: 'viewer', expiresAt: tooFar }).expect(400)).body.error.code, 'validation_failed');
+    // the far edge itself (a minute inside a year) is allowed
+    const atTheEdge = new Date(Date.now() + SHARE_LINK_MAX_DAYS * DAY_MS - 60_000).toISOString();
+    const edge = (await owner.client.post(base).send({ role: 'viewer', expiresAt: atTheEdge }).expect(201)).body;
+    await owner.client.delete(`${base}/${edge.id}`).expect(200);
     const inTenDays = new Date(Date.now() + 10 * DAY_MS);
     const created = (await owner.client.post(base).send({ role: 'viewer', expiresAt: inTenDays.toISOString() }).expect(201)).body;
     const stored = await h.rungbook.services.dataSource.getRepository(ShareLink).findOneByOrFail({ id: created.id });
