@@ -190,4 +190,25 @@ describe('forgetting a notebook drops every cached view of it', () => {
     h.rungbook.services.notebooks.forget(id);
     assert.equal(((await owner.client.get(`/api/notebooks/${id}`).expect(200)).body.notebook as NotebookDetail).title, 'Invented new title');
   });
+
+  test('cell views read while a write commits are not kept after that write\'s forget', async () => {
+    const owner = await createPerson(h);
+    const id = ((await owner.client.post('/api/notebooks').send({ title: 'Invented race check', summary: '' }).expect(201)).body.notebook as NotebookDetail).id;
+    await owner.client.post(`/api/notebooks/${id}/cells`).send({ label: 'note1', input: { kind: 'note', text: 'before' } }).expect(201);
+    h.rungbook.services.notebooks.forget(id);
+    // The next read of the cells sees them as they were; a write then commits and forgets, before the read's views are stored.
+    const repository = h.rungbook.services.dataSource.manager.getRepository(Cell);
+    const originalFind = repository.find.bind(repository);
+    repository.find = (async (...args: Parameters<typeof repository.find>) => {
+      repository.find = originalFind;
+      const rows = await originalFind(...args);
+      await repository.update({ notebookId: id }, { label: 'note2' });
+      h.rungbook.services.notebooks.forget(id);
+      return rows;
+    }) as typeof repository.find;
+    const during = (await owner.client.get(`/api/notebooks/${id}`).expect(200)).body.notebook as NotebookDetail;
+    assert.deepEqual(during.cells.map((cell) => cell.label), ['note1'], 'the read that raced the write saw the cells before it');
+    const after = (await owner.client.get(`/api/notebooks/${id}`).expect(200)).body.notebook as NotebookDetail;
+    assert.deepEqual(after.cells.map((cell) => cell.label), ['note2'], 'the next read is not served the stale views');
+  });
 });
