@@ -20,4 +20,6 @@ export const eventKindTitles: Record<NotebookEventKind, string> = {
   'comment-deleted': 'Comments deleted',
   'comment-resolved': 'Threads resolved',
   'comment-reopened': 'Threads reopened',
+  'dataset-added': 'Datasets added',
+  'dataset-removed': 'Datasets removed',
 };

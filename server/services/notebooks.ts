@@ -287,7 +287,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
       settledSummaries.set(notebookId, summary, 500 + summary.title.length + summary.summary.length);
     }
     const grant = role === 'owner' ? undefined : (await grantsReaching(viewer, [notebookId])).get(notebookId);
-    return { ...personalised(summary, viewer, grant && { ...grant, role }), cells: await cellViews(notebookId) };
+    return { ...personalised(summary, viewer, grant && { ...grant, role }), cells: await cellViews(notebookId), datasets: [] };
   }
 
   /**

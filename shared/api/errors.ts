@@ -1,6 +1,8 @@
+import type { RowProblem } from '../notebook/datasets';
 /** Error codes the API returns in `{ error: { code, message, fields? } }`. */
 export const errorStatus = {
   validation_failed: 400,
+  invalid_table: 400,
   malformed_json: 400,
   invalid_reset_token: 400,
   invalid_verification_token: 400,
@@ -24,5 +26,5 @@ export const errorStatus = {
 export type ErrorCode = keyof typeof errorStatus;
 
 export interface ApiErrorBody {
-  error: { code: ErrorCode; message: string; fields?: Record<string, string> };
+  error: { code: ErrorCode; message: string; fields?: Record<string, string>; problems?: RowProblem[]; problemCount?: number };
 }

@@ -1,3 +1,4 @@
+import type { DatasetView } from './datasets';
 import { z } from 'zod';
 import { cellInput, cellLabel, type CellInput, type CellKind } from './cells';
 import type { CellState } from './dependencies';
@@ -106,6 +107,8 @@ export interface NotebookSummary {
 
 export interface NotebookDetail extends NotebookSummary {
   cells: CellView[];
+  /** The notebook's datasets, without their points (GET …/datasets/:datasetId has those). */
+  datasets: DatasetView[];
 }
 
 export interface VersionSummary {
@@ -128,6 +131,8 @@ export interface VersionDetail extends VersionSummary {
   title: string;
   summary: string;
   cells: VersionCellSnapshot[];
+  /** The datasets this version holds (absent in versions saved before datasets existed). */
+  datasets?: DatasetView[];
 }
 
 export interface TextChange {

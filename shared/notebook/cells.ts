@@ -1,10 +1,11 @@
 import { z } from 'zod';
+import { COMPARABLE_Y_AXES, DATASET_SHAPES, datasetLabel } from './datasets';
 
 /**
  * Cell kinds of a notebook and their inputs. Inputs are validated here, at the edge, before any job
  * is built; the job itself is validated again by the engine's job schema.
  */
-export const cellKinds = ['note', 'setup', 'integral', 'flow', 'fixedpoints', 'exponents', 'scan'] as const;
+export const cellKinds = ['note', 'setup', 'integral', 'flow', 'fixedpoints', 'exponents', 'scan', 'comparison'] as const;
 export type CellKind = (typeof cellKinds)[number];
 
 /** What the UI calls each kind. */
@@ -16,6 +17,7 @@ export const cellKindTitles: Record<CellKind, string> = {
   fixedpoints: 'Fixed points',
   exponents: 'Critical exponents',
   scan: 'Scan over s',
+  comparison: 'Series against data',
 };
 
 export const cellLabel = z
@@ -84,7 +86,23 @@ export const scanInput = z.strictObject({
   deltaSigmaShortRange: decimal.optional(),
 });
 
-export const cellInput = z.discriminatedUnion('kind', [noteInput, setupInput, integralInput, flowInput, fixedPointsInput, exponentsInput, scanInput]);
+/**
+ * Holds a dataset of the notebook against the series of a scan cell: `uses` names the scan cell (its model,
+ * d and range of s), `dataset` the dataset's label. `quantity` defaults to the dataset's y-axis; `xFrom`/`xTo`
+ * keep only data inside a range of the data's x (a large dataset must be narrowed to DATASET_LIMITS.maxComparedPoints).
+ */
+export const comparisonInput = z.strictObject({
+  kind: z.literal('comparison'),
+  uses: cellLabel.describe('label of the scan cell whose series are compared'),
+  dataset: datasetLabel,
+  quantity: z.enum(COMPARABLE_Y_AXES).optional(),
+  show: z.enum(DATASET_SHAPES).optional(),
+  kinks: z.boolean().default(false),
+  xFrom: decimal.optional(),
+  xTo: decimal.optional(),
+});
+
+export const cellInput = z.discriminatedUnion('kind', [noteInput, setupInput, integralInput, flowInput, fixedPointsInput, exponentsInput, scanInput, comparisonInput]);
 export type CellInput = z.infer<typeof cellInput>;
 
 export { symbolOrNumber };

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { cellInput, cellKindTitles, cellLabel, type CellInput } from './cells';
+import { DATASET_LIMITS, exportedDataset } from './datasets';
 import { FormulaFilter, withoutControlCharacters } from './latexSafety';
 
 /**
@@ -23,6 +24,12 @@ export const notebookDocument = z.strictObject({
     .array(z.strictObject({ label: cellLabel, input: cellInput, output: z.unknown().optional() }))
     .max(200)
     .refine((cells) => new Set(cells.map((c) => c.label)).size === cells.length, 'Two cells share a label'),
+  /** The notebook's datasets with their points (files written before datasets existed have none). */
+  datasets: z
+    .array(exportedDataset)
+    .max(DATASET_LIMITS.maxPerNotebook)
+    .refine((datasets) => new Set(datasets.map((d) => d.label)).size === datasets.length, 'Two datasets share a label')
+    .optional(),
 });
 export type NotebookDocument = z.infer<typeof notebookDocument>;
 

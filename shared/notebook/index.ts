@@ -3,3 +3,4 @@ export * from './dependencies';
 export * from './jobs';
 export * from './api';
 export * from './exports';
+export * from './datasets';

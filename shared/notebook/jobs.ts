@@ -1,6 +1,26 @@
 import type { CellInput, ModelSpec } from './cells';
+import { COMPARABLE_X_AXES, COMPARABLE_Y_AXES, DATASET_LIMITS, type AxisSpec, type DatasetPoints } from './datasets';
 
 export type SetupInput = Extract<CellInput, { kind: 'setup' }>;
+
+export type ScanInput = Extract<CellInput, { kind: 'scan' }>;
+export type ComparisonInput = Extract<CellInput, { kind: 'comparison' }>;
+
+/** A dataset as a comparison job needs it (loaded only when such a cell runs: points may be megabytes). */
+export interface DatasetForJob {
+  label: string;
+  shape: 'points' | 'boundary';
+  xAxis: AxisSpec;
+  yAxis: AxisSpec;
+  points: DatasetPoints;
+  contentHash: string;
+}
+
+/** What cells beyond setups a job may need: other cells by label (a comparison's scan) and datasets by label. */
+export interface CellJobContext {
+  cells?: Map<string, CellInput>;
+  datasets?: Map<string, DatasetForJob>;
+}
 
 export class CellJobError extends Error {
   constructor(readonly field: string, message: string) {
@@ -23,7 +43,7 @@ function modelJob(model: ModelSpec): Record<string, unknown> {
  * The engine job a cell runs: the same object the calc CLI and POST /api/calc accept.
  * Returns null for cells that run nothing (notes, setups).
  */
-export function jobForCell(input: CellInput, setups: Map<string, SetupInput>): Record<string, unknown> | null {
+export function jobForCell(input: CellInput, setups: Map<string, SetupInput>, context: CellJobContext = {}): Record<string, unknown> | null {
   switch (input.kind) {
     case 'note':
     case 'setup':
@@ -69,5 +89,44 @@ export function jobForCell(input: CellInput, setups: Map<string, SetupInput>): R
         ...(input.deltaSigmaShortRange ? { shortRange: { Delta_sigma: input.deltaSigmaShortRange } } : {}),
       };
     }
+    case 'comparison':
+      return comparisonJob(input, setups, context);
   }
+}
+
+/** Decimal text compared as numbers (data values are plain decimals; the engine works exactly). */
+const inRange = (value: string, from?: string, to?: string) => (from === undefined || Number(value) >= Number(from)) && (to === undefined || Number(value) <= Number(to));
+
+function comparisonJob(input: ComparisonInput, setups: Map<string, SetupInput>, context: CellJobContext): Record<string, unknown> {
+  const scan = context.cells?.get(input.uses);
+  if (!scan || scan.kind !== 'scan') throw new CellJobError('uses', `There is no scan cell labelled "${input.uses}"`);
+  const scanJob = jobForCell(scan, setups, context) as Record<string, unknown>;
+  const dataset = context.datasets?.get(input.dataset);
+  if (!dataset) throw new CellJobError('dataset', `This notebook has no dataset labelled "${input.dataset}"`);
+  if (!(COMPARABLE_X_AXES as readonly string[]).includes(dataset.xAxis.kind)) {
+    throw new CellJobError('dataset', `The series are functions of s at fixed d: the dataset's x-axis must be s or Δφ (it is ${dataset.xAxis.label ?? dataset.xAxis.kind})`);
+  }
+  const quantity = input.quantity ?? ((COMPARABLE_Y_AXES as readonly string[]).includes(dataset.yAxis.kind) ? dataset.yAxis.kind : null);
+  if (!quantity) throw new CellJobError('quantity', 'Choose which series quantity the data measures');
+  const { points } = dataset;
+  const kept = points.x.flatMap((x, i) => (inRange(x, input.xFrom, input.xTo) ? [i] : []));
+  if (kept.length === 0) throw new CellJobError('xFrom', 'No data point lies in this x-range');
+  if (kept.length > DATASET_LIMITS.maxComparedPoints) {
+    throw new CellJobError('xFrom', `${kept.length.toLocaleString('en')} data points lie in this x-range; a comparison takes at most ${DATASET_LIMITS.maxComparedPoints.toLocaleString('en')}: narrow the range`);
+  }
+  const pick = (column: string[] | undefined) => (column ? kept.map((i) => column[i]) : undefined);
+  const { job: _scan, quantities: _quantities, digits, ...curve } = scanJob;
+  return {
+    job: 'compare',
+    ...curve,
+    digits: Math.min(Number(digits), 20),
+    quantity,
+    data: {
+      xAxis: dataset.xAxis.kind,
+      x: pick(points.x),
+      y: pick(points.y),
+      ...(points.yErrLow ? { yErrLow: pick(points.yErrLow), yErrHigh: pick(points.yErrHigh ?? points.yErrLow) } : {}),
+      boundary: input.kinks && (input.show ?? dataset.shape) === 'boundary',
+    },
+  };
 }

@@ -100,6 +100,7 @@ export const NOTEBOOK_EVENT_KINDS = [
   'cell-added', 'cell-edited', 'cell-moved', 'cell-deleted', 'cell-run', 'notebook-edited', 'imported', 'restored',
   'version-saved', 'sharing-changed', 'owner-changed', 'link-created', 'link-revoked',
   'comment-added', 'comment-edited', 'comment-deleted', 'comment-resolved', 'comment-reopened',
+  'dataset-added', 'dataset-removed',
 ] as const;
 export type NotebookEventKind = (typeof NOTEBOOK_EVENT_KINDS)[number];
 export const notebookActivityQuery = z.strictObject({

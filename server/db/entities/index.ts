@@ -1,5 +1,6 @@
 import { CapturedMail } from './CapturedMail';
 import { Comment } from './Comment';
+import { Dataset } from './Dataset';
 import { Cell } from './Cell';
 import { EmailVerificationToken } from './EmailVerificationToken';
 import { GroupMembership } from './GroupMembership';
@@ -10,6 +11,7 @@ import { NotebookFollow } from './NotebookFollow';
 import { NotebookInvitation } from './NotebookInvitation';
 import { NotebookMember } from './NotebookMember';
 import { NotebookVersion } from './NotebookVersion';
+import { NotebookVersionDataset } from './NotebookVersionDataset';
 import { Notification } from './Notification';
 import { PasswordResetToken } from './PasswordResetToken';
 import { ResearchGroup } from './ResearchGroup';
@@ -20,7 +22,8 @@ import { User } from './User';
 
 export {
   CapturedMail, Cell, Comment, EmailVerificationToken, GroupMembership, JobRun, Notebook, NotebookEvent, NotebookFollow, NotebookInvitation, NotebookMember,
-  NotebookVersion, Notification, PasswordResetToken, ResearchGroup, ServerSecret, Session, ShareLink, User,
+  NotebookVersion, NotebookVersionDataset, Dataset, Notification, PasswordResetToken, ResearchGroup, ServerSecret, Session, ShareLink, User,
 };
 export const entities = [User, Session, ResearchGroup, GroupMembership, PasswordResetToken, CapturedMail, Notebook, Cell, JobRun, NotebookVersion, EmailVerificationToken, ServerSecret,
-  NotebookMember, ShareLink, NotebookInvitation, Comment, NotebookEvent, Notification, NotebookFollow];
+  NotebookMember, ShareLink, NotebookInvitation, Comment, NotebookEvent, Notification, NotebookFollow,
+  Dataset, NotebookVersionDataset];

@@ -4,6 +4,7 @@ import { AccountSecurity1764660000000 } from './1764660000000-AccountSecurity';
 import { SharedResults1764670000000 } from './1764670000000-SharedResults';
 import { ServerSecrets1764680000000 } from './1764680000000-ServerSecrets';
 import { Collaboration1764690000000 } from './1764690000000-Collaboration';
+import { Datasets1764700000000 } from './1764700000000-Datasets';
 
 /** Every migration, oldest first. Add new ones at the end. */
 export const migrations = [
@@ -13,4 +14,5 @@ export const migrations = [
   SharedResults1764670000000,
   ServerSecrets1764680000000,
   Collaboration1764690000000,
+  Datasets1764700000000,
 ];

@@ -18,7 +18,7 @@ const note: CellView = { id: 'cell000001', position: 0, label: 'remark', kind: '
 
 function notebookAs(role: NotebookRole): NotebookDetail {
   const canEdit = role === 'editor' || role === 'owner';
-  return { id: 'nb00000001', title: 'Invented check', summary: '', ownerId: 'u000000009', ownerName: 'Invented Lead', groupId: null, groupName: null, cellCount: 1, updatedAt: '2026-01-01T00:00:00Z', role, sharedBy: null, canEdit, cells: [note] };
+  return { id: 'nb00000001', title: 'Invented check', summary: '', ownerId: 'u000000009', ownerName: 'Invented Lead', groupId: null, groupName: null, cellCount: 1, updatedAt: '2026-01-01T00:00:00Z', role, sharedBy: null, canEdit, cells: [note], datasets: [] };
 }
 
 const onCell = comment({ id: 'cmt0000001', cellId: 'cell000001', cellLabel: 'remark', body: 'Is the sign right?' });

@@ -30,7 +30,7 @@ function cell(overrides: Partial<CellView>): CellView {
 const cells = [cell({ dependents: ['exponents'] }), cell({ id: 'cellexpon0002', position: 1, label: 'exponents', kind: 'exponents', input: { kind: 'exponents', uses: 'setup' } })];
 
 function notebookAs(role: NotebookRole, title = 'Invented check'): NotebookDetail {
-  return { id: 'nbinvented01', title, summary: '', ownerId: 'uleadinvented1', ownerName: 'Invented Lead', groupId: null, groupName: null, cellCount: 2, updatedAt: '2026-01-01T00:00:00Z', role, sharedBy: role === 'owner' ? null : { personName: 'Invented Lead', groupName: null }, canEdit: role === 'owner' || role === 'editor', cells };
+  return { id: 'nbinvented01', title, summary: '', ownerId: 'uleadinvented1', ownerName: 'Invented Lead', groupId: null, groupName: null, cellCount: 2, updatedAt: '2026-01-01T00:00:00Z', role, sharedBy: role === 'owner' ? null : { personName: 'Invented Lead', groupName: null }, canEdit: role === 'owner' || role === 'editor', cells, datasets: [] };
 }
 
 /** What the fake server answers; a test changes it between events. */

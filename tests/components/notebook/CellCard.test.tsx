@@ -24,7 +24,7 @@ function cell(overrides: Partial<CellView>): CellView {
 }
 
 function notebookWith(cells: CellView[]): NotebookDetail {
-  return { id: 'nb1', title: 'Invented check', summary: '', ownerId: 'u1', ownerName: 'Invented Lead', groupId: null, groupName: null, cellCount: cells.length, updatedAt: '2026-01-01T00:00:00Z', role: 'owner', sharedBy: null, canEdit: true, cells };
+  return { id: 'nb1', title: 'Invented check', summary: '', ownerId: 'u1', ownerName: 'Invented Lead', groupId: null, groupName: null, cellCount: cells.length, updatedAt: '2026-01-01T00:00:00Z', role: 'owner', sharedBy: null, canEdit: true, cells, datasets: [] };
 }
 
 const setup = cell({ dependents: ['exponents'] });

@@ -30,7 +30,7 @@ const exponents: CellView = {
 };
 
 function sharedNotebook(role: 'viewer' | 'commenter'): NotebookDetail {
-  return { id: 'nb00000001', title: 'Invented two-loop check', summary: 'Shared for reading', ownerId: 'own0000001', ownerName: 'Invented Owner', groupId: null, groupName: null, cellCount: 2, updatedAt: '2026-01-01T00:00:00Z', role, sharedBy: null, canEdit: false, cells: [setup, exponents] };
+  return { id: 'nb00000001', title: 'Invented two-loop check', summary: 'Shared for reading', ownerId: 'own0000001', ownerName: 'Invented Owner', groupId: null, groupName: null, cellCount: 2, updatedAt: '2026-01-01T00:00:00Z', role, sharedBy: null, canEdit: false, cells: [setup, exponents], datasets: [] };
 }
 
 const signedOut = { status: 401, body: { error: { code: 'unauthenticated', message: 'Sign in first' } } };
