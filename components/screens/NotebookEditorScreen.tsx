@@ -27,6 +27,7 @@ import { saveTextFile } from '../notebook/saveFile';
 import { ShortcutSheet } from '../notebook/ShortcutSheet';
 import { useKeyboardShortcuts } from '../notebook/useKeyboardShortcuts';
 import { NotebookTitle } from '../notebook/NotebookTitle';
+import { DatasetPanel } from '../datasets/DatasetPanel';
 
 /** `focusCellId` (the `?cell=` parameter of links from comments and activity) scrolls to that cell and highlights it. */
 export function NotebookEditorScreen({ notebookId, focusCellId }: { notebookId: string; focusCellId?: string }) {
@@ -84,6 +85,7 @@ function NotebookEditor({ notebook, live, focusCellId }: { notebook: NotebookDet
   const [justAdded, setJustAdded] = useState<string | null>(null);
   const [versionFormOpen, setVersionFormOpen] = useState(false);
   const [helpOpen, setHelpOpen] = useState(false);
+  const [dataOpen, setDataOpen] = useState(false);
   const [exportError, setExportError] = useState<string | null>(null);
   const addCell = useAddCellMutation(notebook.id);
   const runAll = useRunAllMutation(notebook.id);
@@ -177,6 +179,7 @@ function NotebookEditor({ notebook, live, focusCellId }: { notebook: NotebookDet
           <ChipButton label="Present" onPress={() => router.push(`/notebooks/${notebook.id}/present`)} testID="open-present" />
           <ChipButton label="LaTeX" onPress={() => void exportAs('tex')} testID="export-tex" accessibilityLabel="Export as LaTeX" />
           <ChipButton label="JSON" onPress={() => void exportAs('json')} testID="export-json" accessibilityLabel="Export as JSON" />
+          <ChipButton label={notebook.datasets?.length ? `Data (${notebook.datasets.length})` : 'Data'} selected={dataOpen} onPress={() => setDataOpen(!dataOpen)} testID="data-toggle" accessibilityLabel="Datasets of this notebook" />
           {wide && notebook.canEdit ? <ChipButton label="Shortcuts" onPress={() => setHelpOpen(true)} testID="open-shortcuts" /> : null}
         </View>
         {runAll.data && runAll.data.runs.length === 0 && runAll.data.waiting.length === 0 ? <Notice tone="info" message="Every cell is already up to date." testID="run-all-nothing" /> : null}
@@ -184,6 +187,7 @@ function NotebookEditor({ notebook, live, focusCellId }: { notebook: NotebookDet
         {runAll.isError ? <Notice tone="error" message={runAll.error.message} /> : null}
         {exportError ? <Notice tone="error" message={exportError} /> : null}
         {versionFormOpen && notebook.canEdit ? <SaveVersionForm notebookId={notebook.id} /> : null}
+        {dataOpen ? <DatasetPanel notebook={notebook} onCellAdded={reveal} /> : null}
 
         {notebook.cells.length === 0 ? <Notice tone="info" message="This notebook has no cells yet. Start with a model & parameters cell, then add what it should compute." /> : null}
         {notebook.cells.map((cell, index) => (

@@ -13,4 +13,6 @@ export const queryKeys = {
   sharing: (notebookId: string) => ['notebooks', 'sharing', notebookId] as const,
   sharedNotebook: (token: string) => ['shared', token] as const,
   comparison: (notebookId: string, fromId: string, toId: string) => ['notebooks', 'compare', notebookId, fromId, toId] as const,
+  datasets: (notebookId: string) => ['notebooks', 'datasets', notebookId] as const,
+  dataset: (notebookId: string, datasetId: string) => ['notebooks', 'datasets', notebookId, datasetId] as const,
 };
