@@ -17,6 +17,29 @@ export const colors = {
   successWash: '#E8F4EC',
 } as const;
 
+/**
+ * Plot styles of series held against data: each variant has its own colour AND dash pattern, so lines stay
+ * apart in print and for readers who do not tell the colours apart. Truncations are solid or dotted, Padé dashed.
+ */
+export const comparisonPlot = {
+  truncated: [
+    { color: '#26324A', dash: undefined },
+    { color: '#2C7DA0', dash: '2 3' },
+    { color: '#6B4FA0', dash: '1 2' },
+  ],
+  pade: [
+    { color: '#C9822B', dash: '8 4' },
+    { color: '#2F7A4F', dash: '12 3 3 3' },
+    { color: '#B23A3A', dash: '5 5' },
+    { color: '#7A5C2E', dash: '14 4' },
+  ],
+  data: '#1C2230',
+  dataBand: '#EEF1F6',
+  mark: '#9E6217',
+  kink: '#B23A3A',
+  zero: '#8A90A0',
+} as const;
+
 export const fonts = {
   regular: 'Inter_400Regular',
   medium: 'Inter_500Medium',

@@ -81,6 +81,7 @@ export function CellCard({ notebook, cell, index, wide, selected, onSelect, star
   const move = useMoveCellMutation(notebook.id);
   const remove = useDeleteCellMutation(notebook.id);
   const setupLabels = notebook.cells.filter((other) => other.kind === 'setup' && other.id !== cell.id).map((other) => other.label);
+  const scanLabels = notebook.cells.filter((other) => other.kind === 'scan' && other.id !== cell.id).map((other) => other.label);
   const testPrefix = `cell-${cell.label}`;
   const conflict = isConflict(update.error);
   const serverErrors = update.error && !conflict ? errorsFromServer(update.error) : null;
@@ -159,7 +160,7 @@ export function CellCard({ notebook, cell, index, wide, selected, onSelect, star
       {editing ? (
         <View style={styles.editor}>
           <TextField label="Label (other cells refer to it by this)" value={draft.label} onChangeText={setLabel} error={fieldErrors.label} testID={`${testPrefix}-field-label`} />
-          <CellEditor input={draft.input} errors={fieldErrors} onChange={setInput} setupLabels={setupLabels} testPrefix={`${testPrefix}-field`} />
+          <CellEditor input={draft.input} errors={fieldErrors} onChange={setInput} setupLabels={setupLabels} scanLabels={scanLabels} datasets={notebook.datasets} testPrefix={`${testPrefix}-field`} />
           {cell.kind === 'note' && draft.input.kind === 'note' && draft.input.text ? <NoteView text={draft.input.text} /> : null}
           {serverErrors?.message ? <Notice tone="error" message={serverErrors.message} testID={`${testPrefix}-save-error`} /> : null}
           <View style={styles.editorActions}>

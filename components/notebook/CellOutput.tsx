@@ -6,16 +6,27 @@ import { Notice } from '../ui/Notice';
 import { ChipButton } from './ChipButton';
 import { CopyableFormula } from './CopyableFormula';
 import { epsilonOf } from './cellSummary';
+import { comparisonDisplay } from './outputs/ComparisonOutput';
 import { ResultView } from './outputs/ResultView';
 import { ProgressBar } from './ProgressBar';
+
+/** Which reference is missing: the scan cell or dataset of a comparison, else the model & parameters cell. */
+function brokenReferenceMessage(notebook: NotebookDetail, cell: CellView): string {
+  if (cell.input.kind === 'comparison') {
+    const { uses, dataset } = cell.input;
+    if (!notebook.cells.some((other) => other.label === uses && other.kind === 'scan')) return `There is no scan cell labelled "${uses}". Edit this cell to choose one.`;
+    if (!notebook.datasets.some((other) => other.label === dataset)) return `This notebook has no dataset labelled "${dataset}". Open Data to add one, or edit this cell.`;
+  }
+  const uses = 'uses' in cell.input ? cell.input.uses : undefined;
+  return `There is no model & parameters cell labelled "${uses ?? ''}". Edit this cell to choose one.`;
+}
 
 /** What a cell has computed: progress while it runs, the error if it failed, the result when done. */
 export function CellOutput({ notebook, cell }: { notebook: NotebookDetail; cell: CellView }) {
   if (cell.input.kind === 'setup') return <SetupOutput input={cell.input} label={cell.label} />;
   if (cell.kind === 'note') return null;
   if (cell.state === 'broken-reference') {
-    const uses = 'uses' in cell.input ? cell.input.uses : undefined;
-    return <Notice tone="error" message={`There is no model & parameters cell labelled "${uses ?? ''}". Edit this cell to choose one.`} testID={`cell-${cell.label}-broken`} />;
+    return <Notice tone="error" message={brokenReferenceMessage(notebook, cell)} testID={`cell-${cell.label}-broken`} />;
   }
   const lastRun = cell.lastRun;
   if (!lastRun) return <Text style={styles.hint}>Not computed yet. Run it to see the result.</Text>;
@@ -25,7 +36,7 @@ export function CellOutput({ notebook, cell }: { notebook: NotebookDetail; cell:
       {lastRun.status === 'failed' || lastRun.status === 'cancelled' ? (
         <Notice tone="error" message={lastRun.error?.message ?? (lastRun.status === 'cancelled' ? 'The run was cancelled.' : 'The run failed.')} testID={`cell-${cell.label}-error`} />
       ) : (
-        <ResultView kind={cell.kind} result={lastRun.result} label={cell.label} setupD={setupDOf(notebook, cell.input)} />
+        <ResultView kind={cell.kind} result={lastRun.result} label={cell.label} setupD={setupDOf(notebook, cell.input)} {...comparisonDisplay(cell.input, notebook.datasets)} />
       )}
       <Text style={styles.meta}>{runFacts(lastRun)}</Text>
     </View>

@@ -1,4 +1,4 @@
-import type { CellInput, CellKind, CellView } from '../../shared/notebook';
+import type { CellInput, CellKind, CellView, DatasetView } from '../../shared/notebook';
 
 /** The label a new cell of this kind gets: the kind's own word, numbered when taken. */
 export function freshLabel(kind: CellKind, cells: Pick<CellView, 'label'>[]): string {
@@ -12,7 +12,12 @@ export function defaultSetupLabel(cells: Pick<CellView, 'label' | 'kind'>[]): st
   return [...cells].reverse().find((cell) => cell.kind === 'setup')?.label ?? 'setup';
 }
 
-export function defaultInput(kind: CellKind, cells: Pick<CellView, 'label' | 'kind'>[]): CellInput {
+/** The scan a new comparison holds data against: the last scan cell above the end of the notebook. */
+export function defaultScanLabel(cells: Pick<CellView, 'label' | 'kind'>[]): string {
+  return [...cells].reverse().find((cell) => cell.kind === 'scan')?.label ?? 'scan';
+}
+
+export function defaultInput(kind: CellKind, cells: Pick<CellView, 'label' | 'kind'>[], datasets: Pick<DatasetView, 'label' | 'shape'>[] = []): CellInput {
   const uses = defaultSetupLabel(cells);
   switch (kind) {
     case 'note':
@@ -28,5 +33,9 @@ export function defaultInput(kind: CellKind, cells: Pick<CellView, 'label' | 'ki
       return { kind, uses };
     case 'scan':
       return { kind, uses, from: '1.55', to: '1.95', points: 41, quantities: ['nuInv', 'eta'] };
+    case 'comparison': {
+      const dataset = datasets.at(-1);
+      return { kind, uses: defaultScanLabel(cells), dataset: dataset?.label ?? 'data', kinks: dataset?.shape === 'boundary' };
+    }
   }
 }

@@ -31,5 +31,13 @@ export function cellSummary(input: CellInput): string {
       return `exponents of ${input.uses}${input.fixedPoint ? ` at ${input.fixedPoint}` : ''}`;
     case 'scan':
       return `${input.quantities.map(nameOfQuantity).join(', ')} for s from ${input.from} to ${input.to} (${input.points} points)`;
+    case 'comparison':
+      return comparisonSummary(input);
   }
+}
+
+function comparisonSummary(input: Extract<CellInput, { kind: 'comparison' }>): string {
+  const range = input.xFrom || input.xTo ? `, x from ${input.xFrom ?? 'start'} to ${input.xTo ?? 'end'}` : '';
+  const quantity = input.quantity ? `${nameOfQuantity(input.quantity)} of ` : '';
+  return `${quantity}${input.uses} against dataset ${input.dataset}${input.show ? ` (as ${input.show === 'boundary' ? 'a boundary' : 'points'})` : ''}${range}${input.kinks ? ', with kinks' : ''}`;
 }

@@ -1,3 +1,4 @@
+import type { CompareResult } from '../../shared/jobs/dataSchemas';
 import { isCoefficient, isDecimal, type Coefficient } from './texFormat';
 
 /** Recognisers for the engine's result shapes. Each returns null for anything it does not know. */
@@ -152,4 +153,18 @@ export function asFixedPoints(result: unknown): { eps: string | null; points: Fi
     });
   }
   return { eps: typeof result.eps === 'string' ? result.eps : null, points };
+}
+
+const isStringRecord = (value: unknown) => isObject(value) && Object.values(value).every((entry) => entry === null || typeof entry === 'string');
+
+/** The compare job's result (series variants against a dataset); null for anything else. */
+export function asComparison(result: unknown): CompareResult | null {
+  if (!isObject(result) || typeof result.xAxis !== 'string' || typeof result.quantity !== 'string' || !isObject(result.marks)) return null;
+  const { variants, curve, points, summary, notes, marks } = result;
+  if (!Array.isArray(variants) || !variants.every((v) => isObject(v) && typeof v.key === 'string' && typeof v.label === 'string')) return null;
+  if (!Array.isArray(curve) || !curve.every((row) => isObject(row) && typeof row.x === 'string' && isStringRecord(row.values))) return null;
+  if (!Array.isArray(points) || !points.every((row) => isObject(row) && typeof row.x === 'string' && typeof row.y === 'string' && isStringRecord(row.series) && isStringRecord(row.residual))) return null;
+  if (!Array.isArray(summary) || !Array.isArray(notes) || !isObject(marks.meanFieldEnd) || !Array.isArray(marks.dataRange)) return null;
+  if (result.kinks !== undefined && !(Array.isArray(result.kinks) && result.kinks.every((kink) => isObject(kink) && typeof kink.x === 'string' && isObject(kink.distance)))) return null;
+  return result as unknown as CompareResult;
 }

@@ -97,7 +97,7 @@ function NotebookEditor({ notebook, live, focusCellId }: { notebook: NotebookDet
     const label = freshLabel(kind, notebook.cells);
     const position = selectedIndex >= 0 && selectedIndex < notebook.cells.length - 1 ? selectedIndex + 1 : undefined;
     addCell.mutate(
-      { label, input: defaultInput(kind, notebook.cells.slice(0, position ?? notebook.cells.length)), position },
+      { label, input: defaultInput(kind, notebook.cells.slice(0, position ?? notebook.cells.length), notebook.datasets), position },
       {
         onSuccess: ({ notebook: updated }) => {
           const created = updated.cells.find((cell) => cell.label === label);

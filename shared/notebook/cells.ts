@@ -100,6 +100,9 @@ export const comparisonInput = z.strictObject({
   kinks: z.boolean().default(false),
   xFrom: decimal.optional(),
   xTo: decimal.optional(),
+}).refine((input) => input.xFrom === undefined || input.xTo === undefined || Number(input.xFrom) < Number(input.xTo), {
+  message: 'The x-range must start below its end',
+  path: ['xTo'],
 });
 
 export const cellInput = z.discriminatedUnion('kind', [noteInput, setupInput, integralInput, flowInput, fixedPointsInput, exponentsInput, scanInput, comparisonInput]);

@@ -1,4 +1,5 @@
-import type { CellInput } from '../../../shared/notebook';
+import type { CellInput, DatasetView } from '../../../shared/notebook';
+import { ComparisonEditor } from './ComparisonEditor';
 import { IntegralEditor } from './IntegralEditor';
 import { NoteEditor } from './NoteEditor';
 import { ReferenceEditor } from './ReferenceEditor';
@@ -7,7 +8,12 @@ import { SetupEditor } from './SetupEditor';
 import type { EditorProps } from './fields';
 
 /** The input form for a cell, by its kind. */
-export function CellEditor({ input, ...props }: EditorProps<CellInput>) {
+export function CellEditor({ input, scanLabels, datasets, ...props }: EditorProps<CellInput> & {
+  /** Labels of the notebook's scan cells (a comparison picks one). */
+  scanLabels?: string[];
+  /** The notebook's datasets (a comparison picks one). */
+  datasets?: DatasetView[];
+}) {
   switch (input.kind) {
     case 'note':
       return <NoteEditor input={input} {...props} />;
@@ -21,5 +27,7 @@ export function CellEditor({ input, ...props }: EditorProps<CellInput>) {
       return <ReferenceEditor input={input} {...props} />;
     case 'scan':
       return <ScanEditor input={input} {...props} />;
+    case 'comparison':
+      return <ComparisonEditor input={input} scanLabels={scanLabels} datasets={datasets} {...props} />;
   }
 }

@@ -1,6 +1,7 @@
 import { Component, type ReactNode } from 'react';
 import type { CellKind } from '../../../shared/notebook';
-import { asExponents, asFixedPoints, asScan, asSeries, isObject } from '../resultShapes';
+import { asComparison, asExponents, asFixedPoints, asScan, asSeries, isObject } from '../resultShapes';
+import { ComparisonOutput } from './ComparisonOutput';
 import { FixedPointsOutput } from './FixedPointsOutput';
 import { FlowOutput } from './FlowOutput';
 import { ExponentsOutput } from './ExponentsOutput';
@@ -15,6 +16,10 @@ interface ResultViewProps {
   label: string;
   /** d of the setup cell, for marking s = d/2 in scans. */
   setupD?: string;
+  /** A comparison's data drawn as points or as a boundary line (the cell's choice, else the dataset's shape). */
+  show?: 'points' | 'boundary';
+  /** The compared dataset's name, for the legend. */
+  dataName?: string;
 }
 
 /** The finished result of a cell in the view its shape calls for; unknown shapes as JSON. */
@@ -26,7 +31,7 @@ export function ResultView(props: ResultViewProps) {
   );
 }
 
-function KnownResult({ kind, result, label, setupD }: ResultViewProps) {
+function KnownResult({ kind, result, label, setupD, show, dataName }: ResultViewProps) {
   const testID = `cell-${label}-result`;
   if (kind === 'integral') {
     const series = asSeries(result);
@@ -44,6 +49,10 @@ function KnownResult({ kind, result, label, setupD }: ResultViewProps) {
   if (kind === 'scan') {
     const scan = asScan(result, setupD);
     if (scan) return <ScanOutput scan={scan} fileName={label} testID={testID} />;
+  }
+  if (kind === 'comparison') {
+    const comparison = asComparison(result);
+    if (comparison) return <ComparisonOutput result={comparison} show={show} dataName={dataName} fileName={label} testID={testID} />;
   }
   if (result !== null && typeof result === 'object') return <StructuredResult value={result} fileName={label} />;
   return <JsonBlock value={result} testID={`cell-${label}-json`} />;

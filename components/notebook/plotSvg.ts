@@ -1,0 +1,348 @@
+import { scaleLinear } from 'd3-scale';
+import { colors, comparisonPlot } from '../../constants/theme';
+import type { CompareResult, SeriesVariant } from '../../shared/jobs/dataSchemas';
+import { AXIS_NAMES } from '../../shared/notebook/datasets';
+
+/**
+ * Geometry of a comparison (series variants against a dataset) and its residuals, shared by the on-screen
+ * plots (react-native-svg) and the standalone SVG file, so both draw exactly the same thing.
+ */
+
+export type DataShow = 'points' | 'boundary';
+
+export interface VariantStyle {
+  color: string;
+  dash?: string;
+}
+
+export const COMPARISON_MARGIN = { top: 16, right: 16, bottom: 44, left: 60 };
+const RESIDUAL_MARGIN = { top: 10, right: 16, bottom: 30, left: 60 };
+
+/** A colour and a dash pattern per variant: the highest truncation solid, lower ones dotted, Padé dashed. */
+export function variantStyles(variants: SeriesVariant[]): Record<string, VariantStyle> {
+  const styles: Record<string, VariantStyle> = {};
+  const truncated = variants.filter((variant) => variant.kind === 'truncated').sort((a, b) => b.order - a.order);
+  const pade = variants.filter((variant) => variant.kind === 'pade');
+  truncated.forEach((variant, i) => (styles[variant.key] = { ...comparisonPlot.truncated[i % comparisonPlot.truncated.length] }));
+  pade.forEach((variant, i) => (styles[variant.key] = { ...comparisonPlot.pade[i % comparisonPlot.pade.length] }));
+  return styles;
+}
+
+/** A decimal string as a finite number, else null (missing values, defects). */
+export function finiteOf(value: string | null | undefined): number | null {
+  if (value === null || value === undefined) return null;
+  const number = Number(value);
+  return Number.isFinite(number) ? number : null;
+}
+
+const px = (value: number) => Math.round(value * 100) / 100;
+
+/** Path data of a line that breaks wherever a value is missing: one `M … L …` run per unbroken stretch. */
+export function brokenLine(points: ({ x: number; y: number } | null)[]): string[] {
+  const runs: string[] = [];
+  let current: string[] = [];
+  const close = () => {
+    if (current.length === 1) current.push(current[0].replace('M', 'L'));
+    if (current.length) runs.push(current.join(' '));
+    current = [];
+  };
+  for (const point of points) {
+    if (!point) close();
+    else current.push(`${current.length ? 'L' : 'M'}${px(point.x)},${px(point.y)}`);
+  }
+  close();
+  return runs;
+}
+
+export interface Tick {
+  value: number;
+  at: number;
+}
+
+export interface CurveGeometry {
+  key: string;
+  label: string;
+  style: VariantStyle;
+  segments: string[];
+}
+
+export interface DataPointGeometry {
+  cx: number;
+  cy: number;
+  /** Error bar ends (pixels), when the point has errors. */
+  barTop?: number;
+  barBottom?: number;
+}
+
+export interface MarkGeometry {
+  key: 'meanfield' | 'sstar';
+  label: string;
+  x: number;
+}
+
+export interface KinkGeometry {
+  cx: number;
+  cy: number;
+  x0: number;
+  x1: number;
+}
+
+interface Frame {
+  width: number;
+  height: number;
+  plotLeft: number;
+  plotRight: number;
+  plotTop: number;
+  plotBottom: number;
+  xTicks: Tick[];
+  yTicks: Tick[];
+  xTitle: string;
+  yTitle: string;
+}
+
+export interface ComparisonGeometry extends Frame {
+  xDomain: [number, number];
+  band: { x0: number; x1: number } | null;
+  marks: MarkGeometry[];
+  curves: CurveGeometry[];
+  data: { show: 'points'; points: DataPointGeometry[] } | { show: 'boundary'; segments: string[] };
+  kinks: KinkGeometry[];
+}
+
+type Scale = ReturnType<typeof scaleLinear<number, number>>;
+
+function extent(values: number[], fallback: [number, number]): [number, number] {
+  if (values.length === 0) return fallback;
+  let low = Infinity;
+  let high = -Infinity;
+  for (const value of values) {
+    if (value < low) low = value;
+    if (value > high) high = value;
+  }
+  if (low === high) return [low - 0.5, high + 0.5];
+  return [low, high];
+}
+
+const dataErrors = (point: CompareResult['points'][number]) => ({ low: finiteOf(point.errLow) ?? 0, high: finiteOf(point.errHigh) ?? finiteOf(point.errLow) ?? 0 });
+
+/**
+ * The y-range: the data with its errors and the truncated series always; Padé values only near that range,
+ * so a value close to a pole (outside (0, ε), hence not a defect) cannot flatten everything else.
+ */
+function comparisonYDomain(result: CompareResult): [number, number] {
+  const kinds = new Map(result.variants.map((variant) => [variant.key, variant.kind]));
+  const core: number[] = [];
+  for (const point of result.points) {
+    const y = finiteOf(point.y);
+    if (y === null) continue;
+    const { low, high } = dataErrors(point);
+    core.push(y - low, y + high);
+  }
+  const pade: number[] = [];
+  for (const row of result.curve) {
+    for (const [key, value] of Object.entries(row.values)) {
+      const number = finiteOf(value);
+      if (number === null) continue;
+      (kinds.get(key) === 'pade' ? pade : core).push(number);
+    }
+  }
+  for (const kink of result.kinks ?? []) {
+    const y = finiteOf(kink.y);
+    if (y !== null) core.push(y);
+  }
+  const [low, high] = extent(core, [0, 1]);
+  const reach = Math.max(high - low, Math.abs(high) * 0.1, 1e-9);
+  return extent([...core, ...pade.filter((value) => value >= low - reach && value <= high + reach)], [0, 1]);
+}
+
+function comparisonXDomain(result: CompareResult): [number, number] {
+  const xs: number[] = [];
+  for (const row of result.curve) {
+    const x = finiteOf(row.x);
+    if (x !== null) xs.push(x);
+  }
+  for (const point of result.points) {
+    const x = finiteOf(point.x);
+    if (x !== null) xs.push(x);
+  }
+  return extent(xs, [0, 1]);
+}
+
+function frame(x: Scale, y: Scale, width: number, height: number, margin: typeof COMPARISON_MARGIN, titles: { x: string; y: string }): Frame {
+  return {
+    width,
+    height,
+    plotLeft: margin.left,
+    plotRight: width - margin.right,
+    plotTop: margin.top,
+    plotBottom: height - margin.bottom,
+    xTicks: x.ticks(Math.max(2, Math.floor((width - margin.left - margin.right) / 80))).map((value) => ({ value, at: x(value) })),
+    yTicks: y.ticks(Math.max(2, Math.floor((height - margin.top - margin.bottom) / 45))).map((value) => ({ value, at: y(value) })),
+    xTitle: titles.x,
+    yTitle: titles.y,
+  };
+}
+
+export const axisName = (kind: string) => (AXIS_NAMES as Record<string, string>)[kind] ?? kind;
+
+/** Scales, curves, data, marks and kinks of a comparison at a size. */
+export function comparisonGeometry(result: CompareResult, show: DataShow, width: number, height: number): ComparisonGeometry {
+  const xDomain = comparisonXDomain(result);
+  const x = scaleLinear().domain(xDomain).range([COMPARISON_MARGIN.left, width - COMPARISON_MARGIN.right]);
+  const y = scaleLinear().domain(comparisonYDomain(result)).nice().range([height - COMPARISON_MARGIN.bottom, COMPARISON_MARGIN.top]);
+  const [yLow, yHigh] = y.domain();
+  const inside = (value: number | null, low: number, high: number) => value !== null && value >= low && value <= high;
+  const styles = variantStyles(result.variants);
+
+  const curves = result.variants.map((variant) => {
+    const points = result.curve.map((row) => {
+      const xValue = finiteOf(row.x);
+      const yValue = row.defects?.[variant.key] ? null : finiteOf(row.values[variant.key]);
+      return xValue !== null && inside(yValue, yLow, yHigh) ? { x: x(xValue), y: y(yValue as number) } : null;
+    });
+    return { key: variant.key, label: variant.label, style: styles[variant.key], segments: brokenLine(points) };
+  });
+
+  const dataPoints = result.points.flatMap((point) => {
+    const xValue = finiteOf(point.x);
+    const yValue = finiteOf(point.y);
+    return xValue === null || yValue === null ? [] : [{ xValue, yValue, point }];
+  });
+  const data: ComparisonGeometry['data'] =
+    show === 'boundary'
+      ? { show, segments: brokenLine([...dataPoints].sort((a, b) => a.xValue - b.xValue).map(({ xValue, yValue }) => ({ x: x(xValue), y: y(yValue) }))) }
+      : {
+          show,
+          points: dataPoints.map(({ xValue, yValue, point }) => {
+            const hasErrors = point.errLow !== undefined || point.errHigh !== undefined;
+            const { low, high } = dataErrors(point);
+            return { cx: px(x(xValue)), cy: px(y(yValue)), ...(hasErrors ? { barTop: px(y(yValue + high)), barBottom: px(y(yValue - low)) } : {}) };
+          }),
+        };
+
+  const marks: MarkGeometry[] = [];
+  const meanField = finiteOf(result.marks.meanFieldEnd.x);
+  if (inside(meanField, xDomain[0], xDomain[1])) marks.push({ key: 'meanfield', label: 's = d/2', x: px(x(meanField as number)) });
+  const sStar = finiteOf(result.marks.sStar?.x);
+  if (inside(sStar, xDomain[0], xDomain[1])) marks.push({ key: 'sstar', label: 's*', x: px(x(sStar as number)) });
+
+  const [rangeFrom, rangeTo] = result.marks.dataRange.map(finiteOf);
+  const band = rangeFrom !== null && rangeTo !== null ? { x0: px(x(Math.min(rangeFrom, rangeTo))), x1: px(x(Math.max(rangeFrom, rangeTo))) } : null;
+
+  const clampX = (pixel: number) => Math.min(Math.max(pixel, COMPARISON_MARGIN.left), width - COMPARISON_MARGIN.right);
+  const kinks = (result.kinks ?? []).flatMap((kink) => {
+    const kx = finiteOf(kink.x);
+    const ky = finiteOf(kink.y);
+    if (kx === null || ky === null) return [];
+    const spread = Math.abs(finiteOf(kink.uncertainty) ?? 0);
+    return [{ cx: px(x(kx)), cy: px(y(ky)), x0: px(clampX(Math.min(x(kx - spread), x(kx + spread)))), x1: px(clampX(Math.max(x(kx - spread), x(kx + spread)))) }];
+  });
+
+  return {
+    ...frame(x, y, width, height, COMPARISON_MARGIN, { x: axisName(result.xAxis), y: axisName(result.quantity) }),
+    xDomain,
+    band,
+    marks,
+    curves,
+    data,
+    kinks,
+  };
+}
+
+export interface ResidualGeometry extends Frame {
+  /** Pulls (residual over the error) when the data has errors, else plain residuals. */
+  measure: 'pull' | 'residual';
+  zeroY: number;
+  series: { key: string; style: VariantStyle; segments: string[]; dots: { cx: number; cy: number }[] }[];
+}
+
+/** Residuals (or pulls) per variant against the data's x; dots only while they stay few enough to read. */
+export function residualGeometry(result: CompareResult, xDomain: [number, number], width: number, height: number, maxDots = 200): ResidualGeometry {
+  const measure = result.points.some((point) => point.pull && Object.values(point.pull).some((value) => value !== null)) ? 'pull' : 'residual';
+  const valueOf = (point: CompareResult['points'][number], key: string) => finiteOf(measure === 'pull' ? point.pull?.[key] : point.residual[key]);
+  const all = result.points.flatMap((point) => result.variants.map((variant) => valueOf(point, variant.key)).filter((value): value is number => value !== null));
+  const reach = Math.max(...all.map(Math.abs), 0) || 1;
+  const x = scaleLinear().domain(xDomain).range([RESIDUAL_MARGIN.left, width - RESIDUAL_MARGIN.right]);
+  const y = scaleLinear().domain([-reach, reach]).nice().range([height - RESIDUAL_MARGIN.bottom, RESIDUAL_MARGIN.top]);
+  const styles = variantStyles(result.variants);
+  const ordered = [...result.points].sort((a, b) => Number(a.x) - Number(b.x));
+  const series = result.variants.map((variant) => {
+    const placed = ordered.map((point) => {
+      const value = valueOf(point, variant.key);
+      const xValue = finiteOf(point.x);
+      return value === null || xValue === null ? null : { x: x(xValue), y: y(value) };
+    });
+    const dots = ordered.length <= maxDots ? placed.flatMap((point) => (point ? [{ cx: px(point.x), cy: px(point.y) }] : [])) : [];
+    return { key: variant.key, style: styles[variant.key], segments: brokenLine(placed), dots };
+  });
+  return {
+    ...frame(x, y, width, height, RESIDUAL_MARGIN, { x: axisName(result.xAxis), y: measure === 'pull' ? '(series − data)/σ' : 'series − data' }),
+    measure,
+    zeroY: px(y(0)),
+    series,
+  };
+}
+
+export const tickLabel = (value: number) => String(Number(value.toPrecision(6)));
+
+const escapeXml = (text: string) => text.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+const dashAttribute = (dash?: string) => (dash ? ` stroke-dasharray="${dash}"` : '');
+
+function axesSvg(g: Frame): string[] {
+  const parts: string[] = [];
+  for (const tick of g.yTicks) {
+    parts.push(`<line x1="${g.plotLeft}" x2="${g.plotRight}" y1="${px(tick.at)}" y2="${px(tick.at)}" stroke="${colors.rule}"/>`);
+    parts.push(`<text x="${g.plotLeft - 6}" y="${px(tick.at) + 4}" text-anchor="end" fill="${colors.inkSoft}">${tickLabel(tick.value)}</text>`);
+  }
+  for (const tick of g.xTicks) {
+    parts.push(`<line x1="${px(tick.at)}" x2="${px(tick.at)}" y1="${g.plotBottom}" y2="${g.plotBottom + 5}" stroke="${colors.inkSoft}"/>`);
+    parts.push(`<text x="${px(tick.at)}" y="${g.plotBottom + 18}" text-anchor="middle" fill="${colors.inkSoft}">${tickLabel(tick.value)}</text>`);
+  }
+  parts.push(`<line x1="${g.plotLeft}" x2="${g.plotRight}" y1="${g.plotBottom}" y2="${g.plotBottom}" stroke="${colors.inkSoft}"/>`);
+  parts.push(`<line x1="${g.plotLeft}" x2="${g.plotLeft}" y1="${g.plotTop}" y2="${g.plotBottom}" stroke="${colors.inkSoft}"/>`);
+  parts.push(`<text x="${(g.plotLeft + g.plotRight) / 2}" y="${g.height - 6}" text-anchor="middle" font-size="13" fill="${colors.ink}">${escapeXml(g.xTitle)}</text>`);
+  const middle = (g.plotTop + g.plotBottom) / 2;
+  parts.push(`<text x="14" y="${middle}" text-anchor="middle" font-size="13" fill="${colors.ink}" transform="rotate(-90 14 ${middle})">${escapeXml(g.yTitle)}</text>`);
+  return parts;
+}
+
+/** A standalone SVG file of the overlay plot, legend included. */
+export function comparisonSvg(g: ComparisonGeometry, dataLabel: string): string {
+  const parts: string[] = [
+    `<?xml version="1.0" encoding="UTF-8"?>`,
+    `<svg xmlns="http://www.w3.org/2000/svg" width="${g.width}" height="${g.height}" viewBox="0 0 ${g.width} ${g.height}" font-family="Inter, Helvetica, Arial, sans-serif" font-size="11">`,
+    `<rect width="100%" height="100%" fill="#FFFFFF"/>`,
+  ];
+  if (g.band) parts.push(`<rect x="${g.band.x0}" y="${g.plotTop}" width="${Math.max(1, px(g.band.x1 - g.band.x0))}" height="${g.plotBottom - g.plotTop}" fill="${comparisonPlot.dataBand}"/>`);
+  parts.push(...axesSvg(g));
+  for (const mark of g.marks) {
+    parts.push(`<line x1="${mark.x}" x2="${mark.x}" y1="${g.plotTop}" y2="${g.plotBottom}" stroke="${comparisonPlot.mark}" stroke-dasharray="4 3"/>`);
+    parts.push(`<text x="${mark.x + 4}" y="${g.plotTop + 12}" fill="${comparisonPlot.mark}">${escapeXml(mark.label)}</text>`);
+  }
+  if (g.data.show === 'boundary') {
+    parts.push(`<path d="${g.data.segments.join(' ')}" fill="none" stroke="${comparisonPlot.data}" stroke-width="1.5"/>`);
+  } else {
+    for (const point of g.data.points) {
+      if (point.barTop !== undefined && point.barBottom !== undefined) {
+        parts.push(`<line x1="${point.cx}" x2="${point.cx}" y1="${point.barTop}" y2="${point.barBottom}" stroke="${comparisonPlot.data}"/>`);
+      }
+      parts.push(`<circle cx="${point.cx}" cy="${point.cy}" r="3" fill="${comparisonPlot.data}"/>`);
+    }
+  }
+  for (const curve of g.curves) {
+    parts.push(`<path d="${curve.segments.join(' ')}" fill="none" stroke="${curve.style.color}" stroke-width="2" stroke-linecap="round"${dashAttribute(curve.style.dash)}/>`);
+  }
+  for (const kink of g.kinks) {
+    parts.push(`<line x1="${kink.x0}" x2="${kink.x1}" y1="${kink.cy}" y2="${kink.cy}" stroke="${comparisonPlot.kink}" stroke-width="2"/>`);
+    parts.push(`<path d="M${kink.cx},${kink.cy - 6} L${kink.cx + 6},${kink.cy} L${kink.cx},${kink.cy + 6} L${kink.cx - 6},${kink.cy} Z" fill="${comparisonPlot.kink}"/>`);
+  }
+  const legend = [...g.curves.map((curve) => ({ label: curve.label, style: curve.style })), { label: dataLabel, style: { color: comparisonPlot.data } as VariantStyle }];
+  const legendX = Math.max(g.plotLeft + 8, g.plotRight - 170);
+  legend.forEach((entry, i) => {
+    const y = g.plotTop + 10 + i * 16;
+    parts.push(`<line x1="${legendX}" x2="${legendX + 24}" y1="${y}" y2="${y}" stroke="${entry.style.color}" stroke-width="2"${dashAttribute(entry.style.dash)}/>`);
+    parts.push(`<text x="${legendX + 30}" y="${y + 4}" fill="${colors.ink}">${escapeXml(entry.label)}</text>`);
+  });
+  parts.push('</svg>');
+  return parts.join('\n') + '\n';
+}
