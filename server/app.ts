@@ -12,6 +12,7 @@ import { activityRoutes } from './routes/activity';
 import { adminRoutes } from './routes/admin';
 import { authRoutes } from './routes/auth';
 import { commentRoutes } from './routes/comments';
+import { datasetRoutes } from './routes/datasets';
 import { groupRoutes } from './routes/groups';
 import { healthRoutes } from './routes/health';
 import { liveRoutes } from './routes/live';
@@ -22,6 +23,11 @@ import { sharingRoutes } from './routes/sharing';
 import { sharedLinkOpenLimiter } from './http/senderLimits';
 import type { Services } from './services';
 
+/** Largest exchange file POST /notebooks/import accepts (other JSON bodies: BODY_LIMIT). */
+export const IMPORT_BODY_LIMIT = '12mb';
+/** A pasted table may hold DATASET_LIMITS.maxPastedChars characters, up to 4 bytes each in UTF-8 plus JSON escapes. */
+export const PASTED_TABLE_BODY_LIMIT = '1mb';
+
 /** Every API route, in mounting order: the single table the router, the OpenAPI document and the access-matrix test read. */
 export function apiRouteTable(services: Services): AnyRouteSpec[] {
   const specs = [
@@ -29,6 +35,7 @@ export function apiRouteTable(services: Services): AnyRouteSpec[] {
     ...authRoutes(services),
     ...groupRoutes(services),
     ...notebookRoutes(services),
+    ...datasetRoutes(services),
     ...runRoutes(services),
     ...liveRoutes(services),
     ...sharingRoutes(services),
@@ -45,6 +52,9 @@ function apiRouter(services: Services) {
   router.use(noStore);
   if (extraAppOrigins.length) router.use(cors({ origin: extraAppOrigins, credentials: true }));
   router.use(acceptedBodyEncodings);
+  // an exchange file carries its datasets' points (a 200 000-row table is several MB): only the import route takes that much
+  router.post('/notebooks/import', express.json({ limit: IMPORT_BODY_LIMIT }));
+  router.post('/notebooks/:notebookId/datasets/pasted', express.json({ limit: PASTED_TABLE_BODY_LIMIT }));
   router.use(express.json({ limit: services.config.bodyLimit }));
   router.use(boundedBodyDepth);
   router.use(sameOriginGuard([publicUrl, ...extraAppOrigins], services.sessions.cookieName));

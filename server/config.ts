@@ -21,7 +21,7 @@ export interface ServerConfig {
    */
   localOnly: boolean;
   /** Sign-up, forgot-password and reset requests per source per 15 minutes; people one person may add to groups per hour. */
-  authLimits: { signUpPerIpPer15Min: number; forgotPerIpPer15Min: number; resetPerIpPer15Min: number; groupAddsPerUserPerHour: number; versionSavesPerUserPerHour: number; invitationsPerSenderPerHour: number; mentionMailsPerSenderPerHour: number; sharedLinkOpensPerIpPer15Min: number };
+  authLimits: { signUpPerIpPer15Min: number; forgotPerIpPer15Min: number; resetPerIpPer15Min: number; groupAddsPerUserPerHour: number; versionSavesPerUserPerHour: number; invitationsPerSenderPerHour: number; mentionMailsPerSenderPerHour: number; sharedLinkOpensPerIpPer15Min: number; datasetUploadsPerUserPerHour: number };
   /** Express 'trust proxy' setting: false (default) ignores X-Forwarded-* headers. */
   trustProxy: boolean | number | string;
   seedDemoData: boolean;
@@ -126,6 +126,8 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
       mentionMailsPerSenderPerHour: Math.max(1, intFrom(env.MENTION_MAIL_LIMIT_PER_USER, 60)),
       // every request through a share link (notebook, comments, live stream) counts: slows token guessing
       sharedLinkOpensPerIpPer15Min: Math.max(1, intFrom(env.SHARED_LINK_LIMIT_PER_IP, 300)),
+      // each upload may be 10 MB of table read in the document pool
+      datasetUploadsPerUserPerHour: Math.max(1, intFrom(env.DATASET_UPLOAD_LIMIT_PER_USER, 60)),
     },
     trustProxy: trustProxyFrom(env.TRUST_PROXY),
     seedDemoData: boolFrom(env.SEED_DEMO_DATA, !production),

@@ -2,6 +2,7 @@ import type { Request, Response, Router } from 'express';
 import type { z } from 'zod';
 import type { SignedInUser } from '../auth/sessions';
 import { AppError } from './errors';
+import { readUpload, type UploadedFile } from './upload';
 import { parseInput } from './validation';
 
 export type Access = 'public' | 'signed-in' | 'admin';
@@ -101,6 +102,8 @@ export interface RouteContext<Body, Params, Query = unknown> {
   /** The current session's id, when signed in. */
   sessionId: string | null;
   req: Request;
+  /** The uploaded file of an `upload: 'file'` route (null when the form had none). */
+  file: UploadedFile | null;
   /** Queue a Set-Cookie header for the reply. */
   setCookie(serialized: string): void;
 }
@@ -117,6 +120,12 @@ export interface RouteSpec<BodySchema extends z.ZodType, ParamsSchema extends z.
   status?: number;
   /** The reply is a text/event-stream that stays open (EventStreamReply); clients and tests read its status, then events. */
   eventStream?: boolean;
+  /**
+   * A multipart form with one file (field "file") and a JSON text field "description" validated with `body`.
+   * `beforeUpload` runs after the access check and before any byte of the file is read (e.g. the notebook role).
+   */
+  upload?: 'file';
+  beforeUpload?(ctx: { params: z.output<ParamsSchema>; user: SignedInUser | null }): Promise<void>;
   handler(ctx: RouteContext<z.output<BodySchema>, z.output<ParamsSchema>, z.output<QuerySchema>>): Promise<unknown>;
 }
 
@@ -133,16 +142,32 @@ function authorize(access: Access, user: SignedInUser | null): void {
   if (access === 'admin' && user.siteRole !== 'admin') throw new AppError('forbidden', 'Only site administrators may do this.');
 }
 
+/** The JSON text of a multipart form's "description" field, parsed (the route's body schema validates it). */
+function descriptionField(form: unknown): unknown {
+  const text = (form as Record<string, unknown> | undefined)?.description;
+  if (typeof text !== 'string') throw new AppError('validation_failed', 'Describe the table in the form field "description" (JSON).', { description: 'Required' });
+  try {
+    return JSON.parse(text);
+  } catch {
+    throw new AppError('malformed_json', 'The form field "description" is not valid JSON.', { description: 'Not valid JSON' });
+  }
+}
+
 export function mount(router: Router, specs: AnyRouteSpec[]): void {
   for (const spec of specs) {
     router[spec.method](spec.path, async (req: Request, res: Response) => {
       const user = res.locals.user as SignedInUser | null;
       authorize(spec.access, user);
       const params = spec.params ? parseInput(spec.params, req.params) : req.params;
-      const body = spec.body ? parseInput(spec.body, req.body) : undefined;
+      let file: UploadedFile | null = null;
+      if (spec.upload) {
+        await spec.beforeUpload?.({ params, user });
+        file = await readUpload(req, res);
+      }
+      const body = spec.body ? parseInput(spec.body, spec.upload ? descriptionField(req.body) : req.body) : undefined;
       const query = spec.query ? parseInput(spec.query, req.query) : undefined;
       const cookies: string[] = [];
-      const result = await spec.handler({ body, params, query, user, sessionId: (res.locals.sessionId as string | null) ?? null, req, setCookie: (c) => cookies.push(c) });
+      const result = await spec.handler({ body, params, query, user, sessionId: (res.locals.sessionId as string | null) ?? null, req, file, setCookie: (c) => cookies.push(c) });
       if (cookies.length) res.append('Set-Cookie', cookies);
       if (result instanceof EventStreamReply) {
         openEventStream(req, res, result);

@@ -1,7 +1,8 @@
 import path from 'node:path';
 import { Piscina } from 'piscina';
 import type { CellComparison } from '../../shared/notebook/api';
-import type { RestorableSnapshot } from './documentWorker';
+import type { DatasetPoints } from '../../shared/notebook/datasets';
+import type { ReadDatasetOutcome, ReadDatasetTask, RestorableSnapshot } from './documentWorker';
 import { AppError } from '../http/errors';
 
 export type { RestorableSnapshot } from './documentWorker';
@@ -17,6 +18,14 @@ export interface DocumentRenderer {
   compare(fromJson: string, toJson: string, person: string): Promise<CellComparison[]>;
   /** A version snapshot's title, summary and cell inputs, without its outputs. */
   restorable(snapshotJson: string, person: string): Promise<RestorableSnapshot>;
+  /** A table (uploaded file or pasted text) read, checked and turned into stored points. */
+  readDataset(task: ReadDatasetTask, person: string): Promise<ReadDatasetOutcome>;
+  /** A dataset of an exchange file checked and turned into stored points. */
+  importedDataset(task: { points: DatasetPoints; shape: string; xAxis: ReadDatasetTask['xAxis']; yAxis: ReadDatasetTask['yAxis']; label: string }, person: string): Promise<ReadDatasetOutcome>;
+  /** The stored columns of a dataset as CSV under the given header. */
+  datasetCsv(pointsJson: string, columns: { key: keyof DatasetPoints; title: string }[], person: string): Promise<string>;
+  /** The points with x in [from, to] (none, with their count, when more than a comparison takes). */
+  datasetPointsInRange(task: { pointsJson: string; from?: string; to?: string }, person: string): Promise<{ points: DatasetPoints; kept: number }>;
   close(): Promise<void>;
 }
 
@@ -47,6 +56,10 @@ const FAILURE: Record<string, string> = {
   latex: 'This notebook could not be exported',
   compareVersions: 'These versions could not be compared',
   restorable: 'This version could not be read',
+  readDataset: 'This table could not be read',
+  importedDataset: 'A dataset of this file could not be read',
+  datasetCsv: 'This dataset could not be written as CSV',
+  datasetPointsInRange: 'This dataset could not be read',
 };
 
 export function createDocumentRenderer(options: DocumentPoolOptions = {}): DocumentRenderer {
@@ -127,6 +140,10 @@ export function createDocumentRenderer(options: DocumentPoolOptions = {}): Docum
     latex: (documentJson, person) => run<string>(documentJson, 'latex', person),
     compare: (fromJson, toJson, person) => run<CellComparison[]>({ fromJson, toJson }, 'compareVersions', person),
     restorable: (snapshotJson, person) => run<RestorableSnapshot>(snapshotJson, 'restorable', person),
+    readDataset: (task, person) => run<ReadDatasetOutcome>(task, 'readDataset', person),
+    importedDataset: (task, person) => run<ReadDatasetOutcome>(task, 'importedDataset', person),
+    datasetCsv: (pointsJson, columns, person) => run<string>({ pointsJson, columns }, 'datasetCsv', person),
+    datasetPointsInRange: (task, person) => run<{ points: DatasetPoints; kept: number }>(task, 'datasetPointsInRange', person),
     async close() {
       for (const waiting of queue.splice(0)) {
         clearTimeout(waiting.timer);

@@ -7,6 +7,7 @@ import type { Mailer } from '../mail/mailer';
 import { createAccountService, type AccountService } from './accounts';
 import { createActivityService, type ActivityService } from './activity';
 import { createCommentService, type CommentService } from './comments';
+import { createDatasetService, type DatasetService } from './datasets';
 import { createEmailVerificationService, type EmailVerificationService } from './emailVerification';
 import { createGroupService, type GroupService } from './groups';
 import { createLiveHub, type LiveHub } from './live';
@@ -46,6 +47,8 @@ export interface Services {
   activity: ActivityService;
   /** Live streams of notebooks: changes, presence, presenters, role changes. */
   live: LiveHub;
+  /** Tables of numerical results attached to notebooks. */
+  datasets: DatasetService;
 }
 
 export function createServices(config: ServerConfig, logger: Logger, dataSource: DataSource, mailer: Mailer, runner: JobRunner): Services {
@@ -54,8 +57,8 @@ export function createServices(config: ServerConfig, logger: Logger, dataSource:
   const events = createNotebookEventBus();
   const emailVerification = createEmailVerificationService(dataSource, mailer, sessions, config.publicUrl, undefined, events);
   const runs = createRunService(dataSource, runner, logger, config.jobs);
-  const notebooks = createNotebookService(dataSource, runs, events);
   const documents = createDocumentRenderer({ maxQueue: config.documentQueueLimit });
+  const notebooks = createNotebookService(dataSource, runs, events, documents);
   const services: Services = {
     config,
     logger,
@@ -83,6 +86,11 @@ export function createServices(config: ServerConfig, logger: Logger, dataSource:
     }),
     activity: createActivityService(dataSource, notebooks, events, logger),
     live: createLiveHub({ notebooks, events, sessions, logger, resolveLink: (token) => services.sharing.resolveLink(token) }),
+    datasets: createDatasetService({
+      dataSource, notebooks, documents,
+      uploadLimit: senderLimit(config.authLimits.datasetUploadsPerUserPerHour, 'dataset uploads'),
+      resolveLink: (token) => services.sharing.resolveLink(token),
+    }),
   };
   return services;
 }

@@ -10,6 +10,7 @@ import { AppError } from '../http/errors';
 import { newId } from '../ids';
 import { recordNotebookChange, type NotebookChange, type NotebookEventBus } from './notebookEvents';
 import type { NotebookAccess } from './notebooks';
+import { currentDatasetViews, deleteUnheldDatasets, recordVersionDatasets } from './datasets';
 
 /** At most this many versions per notebook: beyond it the oldest automatic ones make room. */
 export const MAX_VERSIONS_PER_NOTEBOOK = 200;
@@ -75,9 +76,14 @@ export async function storedCells(manager: EntityManager, notebookId: string): P
 export const cellText = (cell: StoredCell, withKind: boolean) =>
   `{"label":${JSON.stringify(cell.label)},${withKind ? `"kind":${JSON.stringify(cell.kind)},` : ''}"input":${cell.inputJson},"output":${cell.outputJson ?? 'null'}}`;
 
-/** A version snapshot's text: {"title", "summary", "cells": [{label, kind, input, output}]} (the VersionSnapshot shape). */
-function snapshotText(title: string, summary: string, cells: StoredCell[]): string {
-  return `{"title":${JSON.stringify(title)},"summary":${JSON.stringify(summary)},"cells":[${cells.map((cell) => cellText(cell, true)).join(',')}]}`;
+/**
+ * A version snapshot's text: {"title", "summary", "cells": [{label, kind, input, output}], "datasets"?: [DatasetView]}
+ * (the VersionSnapshot shape; the datasets without their points, which the version holds by id; absent when
+ * the notebook has none, as in versions saved before datasets existed).
+ */
+function snapshotText(title: string, summary: string, cells: StoredCell[], datasets: unknown[]): string {
+  const held = datasets.length ? `,"datasets":${JSON.stringify(datasets)}` : '';
+  return `{"title":${JSON.stringify(title)},"summary":${JSON.stringify(summary)},"cells":[${cells.map((cell) => cellText(cell, true)).join(',')}]${held}}`;
 }
 
 /**
@@ -90,7 +96,10 @@ async function makeRoom(manager: EntityManager, notebookId: string, automatic: b
   const excess = (await repo.countBy({ notebookId })) - MAX_VERSIONS_PER_NOTEBOOK + 1;
   if (excess <= 0) return;
   const oldest = await repo.find({ select: { id: true }, where: { notebookId, automatic: true }, order: { number: 'ASC' }, take: excess });
-  if (oldest.length) await repo.delete(oldest.map((row) => row.id));
+  if (oldest.length) {
+    await repo.delete(oldest.map((row) => row.id));
+    await deleteUnheldDatasets(manager, notebookId);
+  }
   if (oldest.length < excess && !automatic) {
     throw new AppError('conflict', `This notebook keeps at most ${MAX_VERSIONS_PER_NOTEBOOK} versions and all of them were saved by hand; a version cannot be deleted, so no more can be saved.`);
   }
@@ -99,12 +108,13 @@ async function makeRoom(manager: EntityManager, notebookId: string, automatic: b
 /** Snapshot the notebook as it stands in this transaction and keep it as a new version. */
 async function saveVersionIn(manager: EntityManager, author: SignedInUser, notebookId: string, message: string, automatic: boolean): Promise<VersionSummary> {
   const notebook = await manager.findOneByOrFail(Notebook, { id: notebookId });
-  const snapshotJson = snapshotText(notebook.title, notebook.summary, await storedCells(manager, notebookId));
+  const snapshotJson = snapshotText(notebook.title, notebook.summary, await storedCells(manager, notebookId), await currentDatasetViews(manager, notebookId));
   await makeRoom(manager, notebookId, automatic);
   const repo = manager.getRepository(NotebookVersion);
   const last = await repo.findOne({ select: { number: true }, where: { notebookId }, order: { number: 'DESC' } });
   const id = newId();
   await manager.insert(NotebookVersion, { id, notebookId, number: (last?.number ?? 0) + 1, message, automatic, authorId: author.id, authorName: author.name, snapshotJson });
+  await recordVersionDatasets(manager, notebookId, id);
   return toSummary(await repo.findOneOrFail({ select: SUMMARY_COLUMNS, where: { id } }));
 }
 
@@ -213,7 +223,14 @@ export function createNotebookWriter(dataSource: DataSource, deps: WriterDeps) {
   }
 
   /** A new notebook owned by the actor, optionally filed under a group (an editor grant) and with cells; `kind` logs it. */
-  async function create(actor: SignedInUser, notebook: { title: string; summary: string; groupId: string | null }, cells: NewCell[] = [], kind: NotebookEventKind | null = null): Promise<string> {
+  async function create(
+    actor: SignedInUser,
+    notebook: { title: string; summary: string; groupId: string | null },
+    cells: NewCell[] = [],
+    kind: NotebookEventKind | null = null,
+    /** More rows of the new notebook written in the same transaction (an import's datasets). */
+    alsoWrite?: (manager: EntityManager, notebookId: string) => Promise<void>,
+  ): Promise<string> {
     const id = newId();
     let change: NotebookChange | null = null;
     await dataSource.transaction(async (manager) => {
@@ -222,6 +239,7 @@ export function createNotebookWriter(dataSource: DataSource, deps: WriterDeps) {
       for (const [position, cell] of cells.entries()) {
         await manager.insert(Cell, { id: newId(), notebookId: id, position, kind: cell.input.kind, label: cell.label, inputJson: JSON.stringify(cell.input), revision: 1 });
       }
+      await alsoWrite?.(manager, id);
       if (!kind) return;
       change = changeOf(actor, id, { kind, text: `${kind === 'imported' ? 'imported' : 'created'} the notebook with ${cells.length} cell${cells.length === 1 ? '' : 's'}` });
       await recordNotebookChange(manager, change);

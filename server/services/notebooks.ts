@@ -1,7 +1,7 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import { cellInput, type CellInput } from '../../shared/notebook/cells';
 import { cellStates, dependentsOf, fingerprintOf, type CellForStaleness } from '../../shared/notebook/dependencies';
-import { CellJobError, jobForCell, type SetupInput } from '../../shared/notebook/jobs';
+import { CellJobError, jobForCell, type CellJobContext, type SetupInput } from '../../shared/notebook/jobs';
 import type { CellView, NotebookDetail, NotebookSummary, RunAllReply, RunView } from '../../shared/notebook/api';
 import type { SignedInUser } from '../auth/sessions';
 import { can, ROLE_NEEDED, strongerRole, type NotebookAction, type NotebookRole } from '../../shared/notebook/sharing';
@@ -15,6 +15,8 @@ import { assertCellAccepted } from './cellChecks';
 import { resultHolderId, resultsOf, type RunService } from './runs';
 import type { NotebookEventBus } from './notebookEvents';
 import { createNotebookWriter, type WrittenChange } from './notebookWriter';
+import { currentDatasetHashes, currentDatasetViews, datasetForJob } from './datasets';
+import type { DocumentRenderer } from '../jobs/documents';
 
 export const MAX_CELLS_PER_NOTEBOOK = 200;
 /** Characters of JSON the settled cell views of all notebooks may hold in memory together (results counted once per notebook). */
@@ -37,6 +39,8 @@ interface NotebookAtRun {
   byLabel: Map<string, { label: string; input: CellInput }>;
   /** Characters of result JSON each cell's latest run holds, or will hold once it finishes (estimated). */
   resultBytes: Map<string, number>;
+  /** Content hash of each current dataset by label. */
+  datasetHashes: Map<string, string>;
 }
 
 export interface NotebookAccess {
@@ -111,7 +115,7 @@ export function parseCellInput(json: string): CellInput {
 type CommonSummary = Omit<NotebookSummary, 'role' | 'sharedBy' | 'canEdit'>;
 
 /** Notebooks and their cells: who may see and edit them, and what state every cell is in. */
-export function createNotebookService(dataSource: DataSource, runs: RunService, events: NotebookEventBus) {
+export function createNotebookService(dataSource: DataSource, runs: RunService, events: NotebookEventBus, documents: DocumentRenderer) {
   const notebooks = dataSource.getRepository(Notebook);
   const cells = dataSource.getRepository(Cell);
   // Cell views of notebooks with no run in flight; every write path below calls forget().
@@ -203,7 +207,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
       lastRunFingerprint: row.lastRunFingerprint,
       lastRunStatus: run?.status ?? null,
     }));
-    const states = cellStates(staleness);
+    const states = cellStates(staleness, await currentDatasetHashes(dataSource.manager, notebookId));
     const labelled = parsed.map(({ row, input }) => ({ label: row.label, input }));
     const views = parsed.map(({ row, input, run }) => ({
       id: row.id,
@@ -287,7 +291,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
       settledSummaries.set(notebookId, summary, 500 + summary.title.length + summary.summary.length);
     }
     const grant = role === 'owner' ? undefined : (await grantsReaching(viewer, [notebookId])).get(notebookId);
-    return { ...personalised(summary, viewer, grant && { ...grant, role }), cells: await cellViews(notebookId), datasets: [] };
+    return { ...personalised(summary, viewer, grant && { ...grant, role }), cells: await cellViews(notebookId), datasets: await currentDatasetViews(dataSource.manager, notebookId) };
   }
 
   /**
@@ -334,7 +338,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
     const setups = new Map<string, SetupInput>();
     for (const cell of cellsWithInputs) if (cell.input.kind === 'setup') setups.set(cell.label, cell.input);
     const byLabel = new Map(cellsWithInputs.map((cell) => [cell.label, { label: cell.label, input: cell.input }]));
-    return { notebookId, setups, byLabel, resultBytes: await resultBytesByCell(notebookId) };
+    return { notebookId, setups, byLabel, resultBytes: await resultBytesByCell(notebookId), datasetHashes: await currentDatasetHashes(dataSource.manager, notebookId) };
   }
 
   /**
@@ -372,10 +376,22 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
   }
 
   /** Queue the cell's job within the notebook's result budget; null when the cell has nothing to run. */
+  /** What a comparison cell's job needs besides setups: the cells by label and the one dataset it names (with its hash as loaded). */
+  async function jobContext(viewer: SignedInUser, cell: CellToRun, notebook: NotebookAtRun): Promise<{ context: CellJobContext; datasetHashes: Map<string, string> }> {
+    if (cell.input.kind !== 'comparison') return { context: {}, datasetHashes: notebook.datasetHashes };
+    const cells = new Map([...notebook.byLabel.values()].map((other) => [other.label, other.input]));
+    const dataset = await datasetForJob(dataSource.manager, documents, notebook.notebookId, cell.input, viewer.id);
+    if (!dataset) return { context: { cells, datasets: new Map() }, datasetHashes: notebook.datasetHashes };
+    return { context: { cells, datasets: new Map([[dataset.label, dataset]]) }, datasetHashes: new Map(notebook.datasetHashes).set(dataset.label, dataset.contentHash) };
+  }
+
   async function startCellRun(viewer: SignedInUser, cell: CellToRun, notebook: NotebookAtRun): Promise<StartedRun | null> {
     let job: Record<string, unknown> | null;
+    let datasetHashes = notebook.datasetHashes;
     try {
-      job = jobForCell(cell.input, notebook.setups);
+      const context = await jobContext(viewer, cell, notebook);
+      datasetHashes = context.datasetHashes;
+      job = jobForCell(cell.input, notebook.setups, context.context);
     } catch (error) {
       if (error instanceof CellJobError) throw new AppError('validation_failed', `Cell "${cell.label}": ${error.message}`, { [error.field]: error.message });
       throw error;
@@ -384,7 +400,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
     const expectedBytes = await assertResultsFit(cell, job, notebook);
     const run = await submitCellJob(viewer, cell, job);
     notebook.resultBytes.set(cell.id, expectedBytes);
-    return { cellId: cell.id, label: cell.label, run, fingerprint: fingerprintOf({ label: cell.label, input: cell.input }, notebook.byLabel) };
+    return { cellId: cell.id, label: cell.label, run, fingerprint: fingerprintOf({ label: cell.label, input: cell.input }, notebook.byLabel, datasetHashes) };
   }
 
   async function recordRuns(manager: EntityManager, started: StartedRun[]) {

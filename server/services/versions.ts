@@ -6,7 +6,7 @@ import { fingerprintOf } from '../../shared/notebook/dependencies';
 import { NOTEBOOK_FORMAT, NOTEBOOK_FORMAT_VERSION, type NotebookDocument } from '../../shared/notebook/exports';
 import { megabytes } from '../../shared/jobs/cost';
 import { RESULT_LIMITS } from '../../shared/jobs/limits';
-import { CellJobError, jobForCell, type SetupInput } from '../../shared/notebook/jobs';
+import { CellJobError, jobForCell, type CellJobContext, type SetupInput } from '../../shared/notebook/jobs';
 import type { SignedInUser } from '../auth/sessions';
 import { Cell, JobRun, Notebook, NotebookVersion } from '../db/entities';
 import { AppError } from '../http/errors';
@@ -14,6 +14,7 @@ import { newId } from '../ids';
 import { assertCellsAccepted } from './cellChecks';
 import { MAX_CELLS_PER_NOTEBOOK, type NotebookService } from './notebooks';
 import { jobHash } from './runs';
+import { checkedImportedDatasets, currentDatasetHashes, datasetForJob, deleteUnheldDatasets, exportedDatasetsText, insertImportedDatasets, restoreVersionDatasets } from './datasets';
 import { cellText, resultBudget, storedCells, toSummary, writeCellsByLabel, SUMMARY_COLUMNS, type StoredCell } from './notebookWriter';
 
 export { MAX_VERSIONS_PER_NOTEBOOK } from './notebookWriter';
@@ -21,9 +22,9 @@ export { MAX_VERSIONS_PER_NOTEBOOK } from './notebookWriter';
 export { COMPARISON_LIMITS, valueDifferences } from '../../shared/notebook/comparison';
 
 /** The exchange file's text, in the shape of toNotebookDocument (shared/notebook/exports.ts), compact. */
-function documentText(title: string, summary: string, cells: StoredCell[], exportedAt: Date): string {
+function documentText(title: string, summary: string, cells: StoredCell[], datasetsText: string, exportedAt: Date): string {
   const head = { format: NOTEBOOK_FORMAT, formatVersion: NOTEBOOK_FORMAT_VERSION, title, summary, exportedAt: exportedAt.toISOString() };
-  return `${JSON.stringify(head).slice(0, -1)},"cells":[${cells.map((cell) => cellText(cell, false)).join(',')}]}`;
+  return `${JSON.stringify(head).slice(0, -1)},"cells":[${cells.map((cell) => cellText(cell, false)).join(',')}],"datasets":[${datasetsText}]}`;
 }
 
 /**
@@ -33,16 +34,18 @@ function documentText(title: string, summary: string, cells: StoredCell[], expor
  */
 type HoldingRun = Pick<JobRun, 'id' | 'inputHash' | 'engineVersion' | 'jobJson'>;
 
-async function cachedResults(manager: EntityManager, cells: { label: string; input: CellInput }[]): Promise<{ found: Map<string, { run: HoldingRun; fingerprint: string }>; leftToRun: string[] }> {
+async function cachedResults(manager: EntityManager, notebookId: string, cells: { label: string; input: CellInput }[]): Promise<{ found: Map<string, { run: HoldingRun; fingerprint: string }>; leftToRun: string[] }> {
   const setups = new Map<string, SetupInput>(cells.flatMap((c) => (c.input.kind === 'setup' ? [[c.label, c.input] as const] : [])));
   const byLabel = new Map(cells.map((c) => [c.label, { label: c.label, input: c.input }]));
   const found = new Map<string, { run: HoldingRun; fingerprint: string }>();
   const leftToRun: string[] = [];
   const fits = resultBudget();
+  const datasetHashes = await currentDatasetHashes(manager, notebookId);
+  const inputs = new Map(cells.map((c) => [c.label, c.input]));
   for (const cell of cells) {
     let job: Record<string, unknown> | null;
     try {
-      job = jobForCell(cell.input, setups);
+      job = jobForCell(cell.input, setups, await comparisonContext(manager, notebookId, cell.input, inputs));
     } catch (error) {
       if (error instanceof CellJobError) continue;
       throw error;
@@ -60,9 +63,21 @@ async function cachedResults(manager: EntityManager, cells: { label: string; inp
       leftToRun.push(cell.label);
       continue;
     }
-    found.set(cell.label, { run, fingerprint: fingerprintOf(cell, byLabel) });
+    found.set(cell.label, { run, fingerprint: fingerprintOf(cell, byLabel, datasetHashes) });
   }
   return { found, leftToRun };
+}
+
+/** A comparison cell's cells and dataset, when the dataset is small enough to read inside the transaction (else the cell is left to run). */
+async function comparisonContext(manager: EntityManager, notebookId: string, input: CellInput, cells: Map<string, CellInput>): Promise<CellJobContext> {
+  if (input.kind !== 'comparison') return {};
+  try {
+    const dataset = await datasetForJob(manager, null, notebookId, input, '');
+    return { cells, datasets: new Map(dataset ? [[dataset.label, dataset]] : []) };
+  } catch (error) {
+    if (error instanceof AppError) return { cells };
+    throw error;
+  }
 }
 
 /** A cache hit for the restored cell: a row pointing at the run that holds the result, not a copy of it. */
@@ -150,8 +165,10 @@ export function createVersionService(dataSource: DataSource, notebooks: Notebook
         },
         apply: async ({ manager, saveVersion }, { row, snapshot }) => {
           await saveVersion(`Before restoring version ${row.number}`);
+          await restoreVersionDatasets(manager, notebookId, row.id);
+          await deleteUnheldDatasets(manager, notebookId);
           const cellIds = await writeCellsByLabel(manager, notebookId, snapshot.cells);
-          const results = await cachedResults(manager, snapshot.cells);
+          const results = await cachedResults(manager, notebookId, snapshot.cells);
           for (const cell of snapshot.cells) {
             const cellId = cellIds.get(cell.label)!;
             const result = results.found.get(cell.label);
@@ -171,13 +188,16 @@ export function createVersionService(dataSource: DataSource, notebooks: Notebook
     async exportDocument(viewer: SignedInUser, notebookId: string): Promise<{ title: string; json: string }> {
       await notebooks.requireRole(viewer, notebookId, 'export');
       const { notebook, cells } = await notebookText(notebookId);
-      return { title: notebook.title, json: documentText(notebook.title, notebook.summary, cells, new Date()) };
+      return { title: notebook.title, json: documentText(notebook.title, notebook.summary, cells, await exportedDatasetsText(dataSource.manager, notebookId), new Date()) };
     },
 
     async importDocument(viewer: SignedInUser, document: NotebookDocument) {
       if (document.cells.length > MAX_CELLS_PER_NOTEBOOK) throw new AppError('conflict', `A notebook holds at most ${MAX_CELLS_PER_NOTEBOOK} cells.`);
       assertCellsAccepted(document.cells);
-      const notebookId = await notebooks.writer.create(viewer, { title: document.title, summary: document.summary, groupId: null }, document.cells, 'imported');
+      const datasets = await checkedImportedDatasets(documents, document.datasets ?? [], viewer.id);
+      const notebookId = await notebooks.writer.create(viewer, { title: document.title, summary: document.summary, groupId: null }, document.cells, 'imported', (manager, id) =>
+        insertImportedDatasets(manager, id, viewer, datasets),
+      );
       return notebooks.detail(viewer, notebookId);
     },
   };

@@ -13,6 +13,7 @@ import {
 } from '../engine/index';
 import { customModel } from '../engine/models/custom';
 import { type Q } from '../engine/symbolic/rational';
+import { CompareJob, KinksJob, isDataJob } from './dataSchemas';
 import { checkParameterName, parseAffine, parseDefinitions, parseGammaProduct } from './expressions';
 import { FlowCalcJob, isFlowJob } from './flowJobs';
 import { JOB_LIMITS, RESULT_LIMITS } from './limits';
@@ -32,6 +33,10 @@ export const COST_LIMITS = {
   presetPointUnit: 3,
   /** One scan point (or one fixed-point search) of a custom model: units × couplings² × (1 + digits/60). */
   customPointUnit: 40,
+  /** One Padé variant at one point of a comparison, with its pole check: units × (1 + digits/30). */
+  padePointUnit: 0.05,
+  /** One smoothing-spline fit of the kink locator, per data point and curvature grid point (the grid has 4 per point, 2000 to 20 000). */
+  kinkFitUnit: 0.001,
 } as const;
 
 /**
@@ -42,6 +47,20 @@ export const COST_LIMITS = {
 const SCAN_RESULT = { perNumberOverhead: 20, perPointOverhead: 80, perPointSeveralCouplings: 60, fixedOverhead: 1_000 } as const;
 /** Results of jobs other than scans are bounded by their digits × terms; this covers their text around the numbers. */
 const OTHER_RESULT_OVERHEAD = 20_000;
+
+/**
+ * Characters of a comparison's result: per curve point s, x, ε and one value per variant; per data point
+ * its own text (x, y, errors as given), s, and the series, residual and pull (with errors) per variant.
+ */
+export function compareResultBytes(job: CompareJob): number {
+  const perNumber = job.digits + 17;
+  const variants = job.loops === 2 ? 5 : 2;
+  const withErrors = !!(job.data.yErrLow || job.data.yErrHigh);
+  const given = [job.data.x, job.data.y, job.data.yErrLow ?? [], job.data.yErrHigh ?? []].reduce((sum, column) => sum + column.reduce((n, text) => n + text.length, 0), 0);
+  const curve = job.s.points * ((3 + variants) * perNumber + SCAN_RESULT.perPointOverhead);
+  const data = job.data.x.length * ((1 + (withErrors ? 3 : 2) * variants) * perNumber + 2 * SCAN_RESULT.perPointOverhead) + given;
+  return SCAN_RESULT.fixedOverhead + curve + data;
+}
 
 export function scanResultBytes(points: number, quantities: number, digits: number, severalCouplings: boolean): number {
   const perNumber = digits + SCAN_RESULT.perNumberOverhead;
@@ -57,6 +76,8 @@ export function estimatedResultBytes(job: unknown): number {
     const severalCouplings = scan.data.model.preset !== 'on';
     return scanResultBytes(scan.data.s.points, scan.data.quantities.length, scan.data.digits, severalCouplings);
   }
+  const compare = CompareJob.safeParse(job);
+  if (compare.success) return compareResultBytes(compare.data);
   return OTHER_RESULT_OVERHEAD + 2 * estimatedWork(job);
 }
 
@@ -132,6 +153,7 @@ export function jobCostProblem(job: unknown): string | null {
   try {
     if (Array.isArray(job)) return batchWorkProblem(job) ?? job.reduce<string | null>((found, one, i) => found ?? prefixed(`job ${i + 1}`, jobCostProblem(one)), null);
     if (isFlowJob(job)) return flowCostProblem(job);
+    if (isDataJob(job)) return dataCostProblem(job);
     return calcCostProblem(job);
   } catch (error) {
     // a limit met while reading the job (an expression or potential that grows too large) is a cost problem; other errors are the runner's to report
@@ -180,7 +202,7 @@ interface ModelSize {
   label: string;
 }
 
-function modelSize(model: FlowCalcJob['model']): ModelSize {
+function modelSize(model: FlowCalcJob['model'] | CompareJob['model']): ModelSize {
   if (model.preset === 'custom') {
     const built = customModel(model.fields, model.potential);
     return { fields: model.fields, couplings: built.couplings.length, custom: true, label: `a ${model.fields}-field model with ${built.couplings.length} couplings` };
@@ -230,4 +252,37 @@ function flowCostProblem(input: unknown): string | null {
   }
   if (units <= COST_LIMITS.maxUnits) return null;
   return `${asked} — about ${seconds(units)} of engine time, over the limit of about ${seconds(COST_LIMITS.maxUnits)}; reduce ${reduce}`;
+}
+
+/** A spline fit per resample plus the first, each over the data points and the curvature grid. */
+function kinkUnits(points: number, resamples: number | undefined): number {
+  const grid = Math.min(20_000, Math.max(2_000, 4 * points));
+  return COST_LIMITS.kinkFitUnit * (points + grid) * ((resamples ?? 200) + 1);
+}
+
+function dataCostProblem(input: unknown): string | null {
+  const kinks = KinksJob.safeParse(input);
+  if (kinks.success) {
+    const units = kinkUnits(kinks.data.points.length, kinks.data.resamples);
+    if (units <= COST_LIMITS.maxUnits) return null;
+    return `locating kinks in ${kinks.data.points.length} points with ${kinks.data.resamples ?? 200} resamples would take about ${seconds(units)} of engine time, over the limit of about ${seconds(COST_LIMITS.maxUnits)}; reduce the points or the resamples`;
+  }
+  const parsed = CompareJob.safeParse(input);
+  if (!parsed.success) return null;
+  return compareCostProblem(parsed.data);
+}
+
+function compareCostProblem(job: CompareJob): string | null {
+  const size = modelSize(job.model);
+  const points = job.s.points + job.data.x.length;
+  const resultBytes = compareResultBytes(job);
+  if (resultBytes > RESULT_LIMITS.maxResultBytes) {
+    return `this comparison's result would take about ${megabytes(resultBytes)} (${job.s.points} curve points and ${job.data.x.length} data points at ${job.digits} digits), over the limit of ${megabytes(RESULT_LIMITS.maxResultBytes)} per result; reduce the scan's points, the data's x-range or the digits`;
+  }
+  const padeVariants = job.loops === 2 ? 3 : 1;
+  const series = COST_LIMITS.seriesPointUnit * (1 + job.digits / 30) + COST_LIMITS.padePointUnit * padeVariants * (1 + job.digits / 30);
+  const perPoint = size.couplings > 1 ? numericPointUnits(size, job.digits) + series : series;
+  const units = derivationUnits(size.fields, size.couplings, job.loops, job.digits) + points * perPoint + (job.data.boundary ? kinkUnits(job.data.x.length, undefined) : 0);
+  if (units <= COST_LIMITS.maxUnits) return null;
+  return `this comparison evaluates ${size.label} at ${points} values of s (${job.s.points} curve points and ${job.data.x.length} data points) at ${job.digits} digits — about ${seconds(units)} of engine time, over the limit of about ${seconds(COST_LIMITS.maxUnits)}; reduce the scan's points, the data's x-range, the digits or the number of couplings`;
 }

@@ -106,7 +106,7 @@ export function modelFrom(input: z.infer<typeof ModelInput>): ModelSpec {
   return input.N === 'N' ? cubicFamily : cubicModel(input.N);
 }
 
-function exactPositive(text: string, what: string): Q {
+export function exactPositive(text: string, what: string): Q {
   const v = toExactRational(text);
   if (qCompare(v, q(0)) <= 0) fail('domain', `${what} must be positive`);
   return v;
@@ -116,7 +116,7 @@ function exactPositive(text: string, what: string): Q {
 
 type Coefficient = string | { expr: string; latex: string };
 
-function formatCoefficient(c: unknown, digits: number): Coefficient {
+export function formatCoefficient(c: unknown, digits: number): Coefficient {
   if (typeof c === 'object' && c !== null && 'terms' in c && 'isZero' in c) {
     const e = c as Expression;
     return { expr: expressionToString(e), latex: expressionToLatex(e) };
@@ -187,7 +187,7 @@ function flowSummary<C>(flow: DerivedFlow<C>, digits: number) {
 
 // ---- jobs ------------------------------------------------------------------------------------------
 
-function deriveFor(model: ModelSpec, s: Q | null, loops: 1 | 2, digits: number): AnyFlow {
+export function deriveFor(model: ModelSpec, s: Q | null, loops: 1 | 2, digits: number): AnyFlow {
   return flowFor({ model, s, loops, digits });
 }
 
@@ -213,7 +213,7 @@ function physicalEps(d: Q, s: Q): Q {
   return qSub(qMul(q(2), s), d);
 }
 
-function checkDimension(d: Q): void {
+export function checkDimension(d: Q): void {
   if (qCompare(d, q(0)) <= 0) fail('domain', 'd must be positive');
 }
 
@@ -295,13 +295,13 @@ function formatQuadratic(flow: DerivedFlow<Real>, point: FixedPoint<Real>, s: Q,
   }));
 }
 
-function decimalText(x: Q, digits: number): string {
+export function decimalText(x: Q, digits: number): string {
   const R = realContext(digits);
   return new R(x.num.toString()).div(x.den.toString()).toSignificantDigits(digits).toString();
 }
 
 /** The IR-stable non-Gaussian fixed point (or a named one). */
-function chooseFixedPoint<C>(points: FixedPoint<C>[], name: string | undefined, symbolic: boolean): FixedPoint<C> {
+export function chooseFixedPoint<C>(points: FixedPoint<C>[], name: string | undefined, symbolic: boolean): FixedPoint<C> {
   if (name !== undefined) {
     const byBase = points.filter((p) => baseName(p.name) === name);
     const found = points.find((p) => p.name === name) ?? (byBase.length === 1 ? byBase[0] : undefined);

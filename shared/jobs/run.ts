@@ -29,6 +29,8 @@ import {
 } from '../engine/index';
 import { batchWorkProblem, padeWorkProblem, parameterValues, seriesWorkProblem, specialWorkProblem } from './cost';
 import { parseAffine, parseDefinitions, parseGammaProduct } from './expressions';
+import { runDataJob } from './dataJobs';
+import { isDataJob } from './dataSchemas';
 import { isFlowJob, runFlowJob, type JobHooks } from './flowJobs';
 import { JOB_LIMITS } from './limits';
 import {
@@ -61,6 +63,7 @@ export function isJobError(r: unknown): r is JobError {
 export function runJob(input: unknown, hooks: JobHooks = {}): CalcResult {
   // RG-flow jobs (flow, fixedpoints, exponents, scan) have their own schemas and runner.
   if (isFlowJob(input)) return runFlowJob(input, hooks) as CalcResult;
+  if (isDataJob(input)) return runDataJob(input, hooks) as CalcResult;
   const parsed = CalcJob.safeParse(input);
   if (!parsed.success) return jobError('invalid-job', z.prettifyError(parsed.error));
   try {

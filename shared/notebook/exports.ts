@@ -2,6 +2,8 @@ import { z } from 'zod';
 import { cellInput, cellKindTitles, cellLabel, type CellInput } from './cells';
 import { DATASET_LIMITS, exportedDataset } from './datasets';
 import { FormulaFilter, withoutControlCharacters } from './latexSafety';
+import type { CompareResult } from '../jobs/dataSchemas';
+import { comparisonSummaryTex, numberTex, variantTex } from './comparisonTable';
 
 /**
  * The notebook exchange file: our own JSON schema, versioned by `formatVersion`.
@@ -231,6 +233,65 @@ function outputToLatex(output: unknown, writer: LatexWriter): string {
   return monospaceBlock(asciiText(JSON.stringify(output, null, 2)).slice(0, 20_000));
 }
 
+type ComparisonCell = Extract<CellInput, { kind: 'comparison' }>;
+
+function modelText(model: Extract<CellInput, { kind: 'setup' }>['model']): string {
+  if (model.preset === 'custom') return `a ${model.fields}-field model with potential \\texttt{${textCell(model.potential)}}`;
+  return `the ${model.preset === 'on' ? 'O' : 'cubic'}(${textCell(model.N)}) model`;
+}
+
+/** Where the series come from: the scan cell the comparison uses and that cell's model & parameters. */
+function comparisonSetupText(input: ComparisonCell, document: NotebookDocument, writer: LatexWriter): string {
+  const scan = document.cells.find((c) => c.label === input.uses)?.input;
+  if (!scan || scan.kind !== 'scan') return `Series from scan cell \\texttt{${escapeLatexText(input.uses)}} (not in this notebook).`;
+  const setup = document.cells.find((c) => c.label === scan.uses)?.input;
+  const range = `${writer.inline(`s = ${numberTex(scan.from)}`)} to ${writer.inline(numberTex(scan.to))} (${scan.points} points)`;
+  const model = setup && setup.kind === 'setup' ? `${modelText(setup.model)} at ${setup.loops} loop${setup.loops === 1 ? '' : 's'}${setup.d ? `, ${writer.inline(`d = ${numberTex(setup.d)}`)}` : ''}, ` : '';
+  return `Series from scan cell \\texttt{${escapeLatexText(input.uses)}}: ${model}${range}.`;
+}
+
+function comparisonDatasetText(input: ComparisonCell, document: NotebookDocument): string {
+  const dataset = document.datasets?.find((d) => d.label === input.dataset);
+  if (!dataset) return `Dataset \\texttt{${escapeLatexText(input.dataset)}} (not in this notebook).`;
+  const source = dataset.source.trim() ? ` Source: ${textCell(dataset.source)}.` : '';
+  return `Data: \\emph{${textCell(dataset.name)}} (dataset \\texttt{${escapeLatexText(dataset.label)}}, ${dataset.points.x.length} points).${source}`;
+}
+
+const isText = (value: unknown): value is string => typeof value === 'string';
+const mathNumber = (value: string | null | undefined, digits?: number) => {
+  const tex = numberTex(value, digits);
+  return tex === '--' ? '--' : `$${tex}$`;
+};
+
+/** The fields of a comparison result this export reads (the view is imported by the app, so no zod schema of the engine here). */
+function isComparisonResult(output: unknown): output is CompareResult {
+  if (!isRecord(output) || !isRecord(output.marks) || !isRecord(output.marks.meanFieldEnd) || !Array.isArray(output.marks.dataRange)) return false;
+  const variantsOk = Array.isArray(output.variants) && output.variants.every((v) => isRecord(v) && isText(v.key) && isText(v.label) && typeof v.order === 'number');
+  const summaryOk = Array.isArray(output.summary) && output.summary.every((row) => isRecord(row) && isText(row.key));
+  const kinksOk = output.kinks === undefined || (Array.isArray(output.kinks) && output.kinks.every((k) => isRecord(k) && isRecord(k.distance)));
+  return variantsOk && summaryOk && kinksOk && Array.isArray(output.notes) && isText(output.quantity) && isText(output.xAxis) && isText(output.d);
+}
+
+/** A comparison: the setup of its series, the dataset with its source, the χ² summary per variant, marks, kinks and notes. */
+function comparisonToLatex(input: ComparisonCell, output: unknown, document: NotebookDocument, writer: LatexWriter): string {
+  const intro = [comparisonSetupText(input, document, writer), comparisonDatasetText(input, document)].join(' ');
+  if (!isComparisonResult(output)) return [intro, outputToLatex(output, writer)].filter(Boolean).join('\n\n');
+  const result = output;
+  const axis = result.xAxis === 's' ? 's' : '\\Delta_{\\phi}';
+  const heading = `${writer.inline(quantityTex(result.quantity))} against ${writer.inline(axis)} at ${writer.inline(`d = ${numberTex(result.d)}`)}${result.fixedPoint ? `, fixed point ${textCell(result.fixedPoint)}` : ''}.`;
+  const marks = [
+    `${writer.inline(`s = d/2`)} at ${writer.inline(`${axis} = ${numberTex(result.marks.meanFieldEnd.x)}`)}`,
+    ...(result.marks.sStar ? [`${writer.inline('s^*')} at ${writer.inline(`${axis} = ${numberTex(result.marks.sStar.x)}`)}`] : []),
+    `data from ${writer.inline(`${axis} = ${numberTex(result.marks.dataRange[0])}`)} to ${writer.inline(numberTex(result.marks.dataRange[1]))}`,
+  ];
+  const chi2 = `${writer.inline('\\chi^2')} is the sum of squared pulls (residual series $-$ data over the data's error on the side of the series).\n\n\\begin{center}\n${comparisonSummaryTex(result)}\n\\end{center}`;
+  const kinks = result.kinks?.length
+    ? tabular(['kink', 'uncertainty', writer.inline(quantityTex(result.quantity)), ...result.variants.map((v) => `distance ${variantTex(v)}`)], result.kinks.map((k) => [k.x, k.uncertainty, k.y, ...result.variants.map((v) => k.distance[v.key] ?? null)].map((v) => mathNumber(v, 6))))
+    : result.kinks ? 'No kink found in the boundary.' : '';
+  const notes = result.notes.length ? `\\begin{itemize}\n${result.notes.map((note) => `\\item ${textCell(note)}`).join('\n')}\n\\end{itemize}` : '';
+  return [intro, heading, `Marks: ${marks.join('; ')}.`, chi2, kinks, notes].filter(Boolean).join('\n\n');
+}
+
 function inputToLatex(input: CellInput): string {
   const fields = Object.entries(input).filter(([key]) => key !== 'kind');
   return `\\begin{description}\n${fields.map(([key, v]) => `\\item[${escapeLatexText(key)}] \\texttt{${textCell(typeof v === 'string' ? v : JSON.stringify(v))}}`).join('\n')}\n\\end{description}`;
@@ -247,6 +308,7 @@ export function toLatexDocument(document: NotebookDocument): string {
   const body = document.cells.map((cell) => {
     if (cell.input.kind === 'note') return noteToLatex(cell.input.text, writer);
     const heading = `\\subsection*{${escapeLatexText(cellKindTitles[cell.input.kind])}: \\texttt{${escapeLatexText(cell.label)}}}`;
+    if (cell.input.kind === 'comparison') return [heading, inputToLatex(cell.input), comparisonToLatex(cell.input, cell.output, document, writer)].filter(Boolean).join('\n\n');
     return [heading, inputToLatex(cell.input), outputToLatex(cell.output, writer)].filter(Boolean).join('\n\n');
   });
   const removals = writer.report.empty ? null : writer.report.summary();

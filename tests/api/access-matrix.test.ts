@@ -9,7 +9,7 @@ import { ResearchGroup } from '../../server/db/entities';
 import { newId } from '../../server/ids';
 import { GRANTABLE_ROLES, NOTEBOOK_ROLES, type NotebookRole } from '../../shared/notebook/sharing';
 import { ORIGIN, startHarness, type Harness } from './harness';
-import { collaborationFixture, createPerson, joinGroup, notebookWithRun, signInAgain, type Client, type RouteFixture as Fixture, type TestPerson } from './people';
+import { collaborationFixture, createPerson, datasetFixture, INVENTED_TABLE, joinGroup, notebookWithRun, signInAgain, type Client, type RouteFixture as Fixture, type TestPerson } from './people';
 
 /**
  * Who calls. Notebook roles come from a personal grant (viewer, commenter, editor), from a group's grant
@@ -32,6 +32,8 @@ const RANK: readonly NotebookRole[] = NOTEBOOK_ROLES;
 
 interface Row {
   body?: (f: Fixture) => unknown;
+  /** A multipart upload: the form's text fields and its one file (field "file"). */
+  upload?: { fields: Record<string, string>; file: { content: string; name: string } };
   query?: (f: Fixture) => Record<string, string>;
   expect: Expected;
 }
@@ -132,6 +134,24 @@ const matrix: Record<string, Row> = {
   'POST /notebooks/:notebookId/presentation': { body: (f) => ({ cellId: f.cellId }), expect: needsRole('editor', 200) },
   'DELETE /notebooks/:notebookId/presentation': { expect: needsRole('editor', 204) },
 
+  // Datasets follow the notebook's roles: editors add and remove, viewers read and download; link holders read through /shared.
+  'POST /notebooks/:notebookId/datasets': {
+    upload: {
+      fields: { description: JSON.stringify({ label: 'uploaded', name: 'Invented upload', xAxis: { kind: 's' }, yAxis: { kind: 'Delta_phi2' }, mapping: { x: 0, y: 1, yError: { kind: 'symmetric', column: 2 } } }) },
+      file: { content: INVENTED_TABLE, name: 'invented.csv' },
+    },
+    expect: needsRole('editor', 201),
+  },
+  'POST /notebooks/:notebookId/datasets/pasted': {
+    body: () => ({ label: 'pasted', name: 'Invented paste', xAxis: { kind: 's' }, yAxis: { kind: 'Delta_phi2' }, mapping: { x: 0, y: 1 }, text: INVENTED_TABLE }),
+    expect: needsRole('editor', 201),
+  },
+  'GET /notebooks/:notebookId/datasets': { expect: needsRole('viewer', 200) },
+  'GET /notebooks/:notebookId/datasets/:datasetId': { expect: needsRole('viewer', 200) },
+  'GET /notebooks/:notebookId/datasets/:datasetId/download.csv': { expect: needsRole('viewer', 200) },
+  'DELETE /notebooks/:notebookId/datasets/:datasetId': { expect: needsRole('editor', 200) },
+  'GET /shared/:token/datasets/:datasetId': { expect: all(200) },
+
   'POST /calc': { body: () => ({ job: { job: 'special', fn: 'gamma', x: '0.5', digits: 20 } }), expect: signedIn(200) },
   // A run of a notebook cell is as visible as the notebook; cancelling needs whoever started it or someone who may run cells.
   'GET /runs/:runId': { expect: needsRole('viewer', 200) },
@@ -176,6 +196,7 @@ describe('access matrix: every route × every kind of caller', () => {
     h = await startHarness({
       SIGNIN_LIMIT_PER_IP: '100000', SIGNIN_LIMIT_PER_ACCOUNT: '100000', SIGNUP_LIMIT_PER_IP: '100000', FORGOT_LIMIT_PER_IP: '100000', RESET_LIMIT_PER_IP: '100000',
       GROUP_ADD_LIMIT_PER_USER: '100000', VERSION_SAVE_LIMIT_PER_USER: '100000', JOB_QUEUE_PER_USER: '1000', INVITE_LIMIT_PER_USER: '100000', SHARED_LINK_LIMIT_PER_IP: '100000',
+      DATASET_UPLOAD_LIMIT_PER_USER: '100000',
     });
     server = http.createServer(h.rungbook.app).listen(0, '127.0.0.1');
     await new Promise((resolve) => server.once('listening', resolve));
@@ -228,10 +249,11 @@ describe('access matrix: every route × every kind of caller', () => {
       { groupId: viewerGroup, role: 'viewer' },
       { groupId: commenterGroup, role: 'commenter' },
     ]);
+    const datasetId = await datasetFixture(people.owner.client, notebook.notebookId);
     return {
       ...notebook, groupId, userId: people.groupMember.id,
       memberId: extra.memberId, invitationId: extra.invitationId, linkId: extra.linkId, commentId: extra.commentId,
-      token: extra.commenterToken, viewerToken: extra.viewerToken,
+      token: extra.commenterToken, viewerToken: extra.viewerToken, datasetId,
     };
   }
 
@@ -274,6 +296,10 @@ describe('access matrix: every route × every kind of caller', () => {
             let request = client[method.toLowerCase() as 'get' | 'post' | 'patch' | 'delete'](url);
             if (row.query) request = request.query(row.query(fixture));
             if (row.body) request = request.send(row.body(fixture) as object);
+            if (row.upload) {
+              for (const [name, value] of Object.entries(row.upload.fields)) request = request.field(name, value);
+              request = request.attach('file', Buffer.from(row.upload.file.content), row.upload.file.name);
+            }
             return request;
           };
           // Presenting needs the presenter's notebook open in a live stream.

@@ -7,7 +7,7 @@ import fc from 'fast-check';
 import { apiRouteTable } from '../../server/app';
 import type { AnyRouteSpec } from '../../server/http/route';
 import { startHarness, type Harness } from './harness';
-import { collaborationFixture, createPerson, notebookWithRun, type RouteFixture as Fixture, type TestPerson } from './people';
+import { collaborationFixture, createPerson, datasetFixture, INVENTED_TABLE, notebookWithRun, type RouteFixture as Fixture, type TestPerson } from './people';
 
 const RUNS_PER_ROUTE = Number(process.env.FUZZ_RUNS ?? 25);
 
@@ -41,9 +41,17 @@ function seedBody(spec: AnyRouteSpec): Record<string, unknown> {
     'POST /shared/:token/comments': { body: 'Invented comment through a link' },
     'POST /activity/read': { ids: [] },
     'POST /notebooks/:notebookId/presentation': { cellId: null },
+    'POST /notebooks/:notebookId/datasets': DATASET_DESCRIPTION_SEED,
+    'POST /notebooks/:notebookId/datasets/pasted': { ...DATASET_DESCRIPTION_SEED, label: 'pasted', text: INVENTED_TABLE },
   };
   return seeds[key] ?? {};
 }
+
+/** A valid dataset description (invented): x = s, y = Δφ² with symmetric errors in the third column. */
+const DATASET_DESCRIPTION_SEED = {
+  label: 'fuzzed', name: 'Invented fuzz data', source: 'invented', note: '', shape: 'points',
+  xAxis: { kind: 's' }, yAxis: { kind: 'Delta_phi2' }, mapping: { x: 0, y: 1, yError: { kind: 'symmetric', column: 2 } },
+};
 
 const anyCodeUnit = fc.integer({ min: 0, max: 0xffff }).map((code) => String.fromCharCode(code));
 const hostileString = fc.oneof(
@@ -105,7 +113,7 @@ describe('fuzzing every request schema: only 4xx, never 500', () => {
   const statusCounts = new Map<number, number>();
 
   before(async () => {
-    h = await startHarness({ SIGNIN_LIMIT_PER_IP: '100000', SIGNIN_LIMIT_PER_ACCOUNT: '100000', INVITE_LIMIT_PER_USER: '100000', SHARED_LINK_LIMIT_PER_IP: '100000' });
+    h = await startHarness({ SIGNIN_LIMIT_PER_IP: '100000', SIGNIN_LIMIT_PER_ACCOUNT: '100000', INVITE_LIMIT_PER_USER: '100000', SHARED_LINK_LIMIT_PER_IP: '100000', DATASET_UPLOAD_LIMIT_PER_USER: '100000' });
     owner = await createPerson(h, { tag: 'owner' });
     const member = await createPerson(h, { tag: 'member', signIn: false });
     fixture = await buildFixture(h, owner, member.id);
@@ -147,6 +155,26 @@ describe('fuzzing every request schema: only 4xx, never 500', () => {
     }
   });
 
+  test('the upload route answers arbitrary multipart forms (description and file) with a status below 500', async () => {
+    await signedIn();
+    const fileContent = fc.oneof(
+      fc.constant(INVENTED_TABLE),
+      fc.string({ unit: anyCodeUnit, maxLength: 200 }),
+      fc.uint8Array({ maxLength: 300 }).map((bytes) => Buffer.from(bytes).toString('latin1')),
+      fc.constantFrom('', 'x,y\n', '=cmd|\' /C calc\'!A0,1\n1,2\n', 'NaN,Infinity\n1,2\n', '1,2\n1,3\n'),
+    );
+    const property = fc.asyncProperty(bodies(DATASET_DESCRIPTION_SEED), fileContent, fc.constantFrom('t.csv', 't.tsv', 'x', '../../etc/passwd', ''), async (description, content, name) => {
+      let request = owner.client.post(`/api/notebooks/${fixture.notebookId}/datasets`).field('description', JSON.stringify(description) ?? 'null');
+      request = name ? request.attach('file', Buffer.from(content, 'latin1'), name) : request;
+      const reply = await request;
+      requests += 1;
+      statusCounts.set(reply.status, (statusCounts.get(reply.status) ?? 0) + 1);
+      assert.ok(reply.status < 500, `upload ${JSON.stringify(description)?.slice(0, 200)} / ${JSON.stringify(content.slice(0, 80))} gave ${reply.status}: ${reply.text.slice(0, 300)}`);
+      if (reply.status >= 400) assert.equal(typeof reply.body?.error?.code, 'string', 'a 4xx reply carries a JSON error code');
+    });
+    await fc.assert(property, { numRuns: RUNS_PER_ROUTE * 2 });
+  });
+
   test('the server is healthy after the fuzzing', async () => {
     const health = await h.raw.get('/api/health').expect(200);
     assert.equal(health.body.database, 'ok');
@@ -157,5 +185,6 @@ async function buildFixture(h: Harness, owner: TestPerson, userId: string): Prom
   const groupId = (await owner.client.post('/api/groups').send({ name: 'Invented Fuzz Group', description: 'invented' }).expect(201)).body.group.id as string;
   const notebook = await notebookWithRun(owner.client, groupId);
   const extra = await collaborationFixture(h, { ...notebook, ownerId: owner.id }, [{ userId, role: 'viewer' }]);
-  return { ...notebook, groupId, userId, memberId: extra.memberId, invitationId: extra.invitationId, linkId: extra.linkId, token: extra.commenterToken, commentId: extra.commentId };
+  const datasetId = await datasetFixture(owner.client, notebook.notebookId);
+  return { ...notebook, groupId, userId, memberId: extra.memberId, invitationId: extra.invitationId, linkId: extra.linkId, token: extra.commenterToken, commentId: extra.commentId, datasetId };
 }

@@ -91,6 +91,8 @@ export interface RouteFixture {
   token: string;
   /** A thread on the fixture's cell, started by the owner. */
   commentId: string;
+  /** A dataset of the notebook (see datasetFixture). */
+  datasetId: string;
 }
 
 export interface CollaborationFixture {
@@ -143,4 +145,19 @@ export async function notebookWithRun(client: Client, groupId: string): Promise<
   const runId = (await client.post(`/api/notebooks/${notebookId}/cells/${cellId}/run`).expect(202)).body.run.id as string;
   const versionId = (await client.post(`/api/notebooks/${notebookId}/versions`).send({ message: 'Route-test base' }).expect(201)).body.version.id as string;
   return { notebookId, cellId, runId, versionId };
+}
+
+/** Invented test data: Δφ², a few points with symmetric errors (not a published measurement). */
+export const INVENTED_TABLE = 's,Delta_phi2,err\n1.5,1.41,0.02\n1.6,1.43,0.02\n1.7,1.46,0.03\n1.8,1.50,0.03\n';
+
+/** A pasted dataset "lattice" (INVENTED_TABLE) in the notebook, made through the API; returns its id. */
+export async function datasetFixture(client: Client, notebookId: string, label = 'lattice'): Promise<string> {
+  const reply = await client.post(`/api/notebooks/${notebookId}/datasets/pasted`).send({
+    label, name: 'Invented lattice points', source: 'invented for tests', shape: 'points',
+    xAxis: { kind: 's' }, yAxis: { kind: 'Delta_phi2' },
+    mapping: { x: 0, y: 1, yError: { kind: 'symmetric', column: 2 } },
+    text: INVENTED_TABLE,
+  });
+  if (reply.status !== 201) throw new Error(`datasetFixture: ${reply.status} ${reply.text.slice(0, 300)}`);
+  return reply.body.dataset.id as string;
 }

@@ -28,6 +28,8 @@ export interface FlowScanRequest {
   /** Picks the fixed point at a grid point (throws EngineError when none fits). */
   choose: (points: FixedPoint<Real>[]) => FixedPoint<Real>;
   onProgress?: (fraction: number) => void;
+  /** Keep each point's numeric series coefficients at its fixed point (ScanPoint.coefficients). */
+  keepCoefficients?: boolean;
 }
 
 export interface FlowScanPoint extends ScanPoint {
@@ -81,13 +83,15 @@ export function scanFlow(request: FlowScanRequest): FlowScanPoint[] {
       const series = exponentSeries(flow, point);
       const values: Real[] = [];
       const pade: (Real | null)[] = [];
+      const kept: Real[][] = [];
       for (const k of request.quantities) {
         const coeffs = series[k].coefficients();
+        if (request.keepCoefficients) kept.push(coeffs);
         const exact = exactLongRangeValue(k, ring.fromRational(request.d.num, request.d.den), ring.fromRational(s.num, s.den), () => series.nu.evaluate(epsReal));
         values.push(new out(exact ?? series[k].evaluate(epsReal)).toSignificantDigits(request.digits));
         pade.push(padeValue(coeffs, epsReal, request.digits));
       }
-      return { ...empty, values, pade, fixedPoint: point.name };
+      return { ...empty, values, pade, fixedPoint: point.name, ...(request.keepCoefficients ? { coefficients: kept } : {}) };
     } catch (e) {
       if (!(e instanceof EngineError)) throw e;
       return { ...empty, fixedPoint: null, note: e.message };

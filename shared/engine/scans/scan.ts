@@ -21,6 +21,8 @@ export interface ScanPoint {
   regime: 'mean-field' | 'long-range' | 'short-range';
   values: Real[];
   pade: (Real | null)[];
+  /** With `keepCoefficients`: per quantity, the ε-series coefficients c_0, c_1, … evaluated at this s (working precision); absent at mean-field points. */
+  coefficients?: Real[][];
 }
 
 export function evaluateAtPoint(e: Expression, at: Record<string, Q>, digits: number, atoms: Map<string, Real>): Real {
@@ -56,6 +58,8 @@ export interface ScanRequest {
   withPade?: boolean;
   /** Told the fraction of points done, about a hundred times per scan. */
   onProgress?: (fraction: number) => void;
+  /** Keep each point's numeric series coefficients (ScanPoint.coefficients), e.g. for truncations and Padé variants. */
+  keepCoefficients?: boolean;
 }
 
 export function meanFieldEnd(d: Q): Q {
@@ -101,8 +105,10 @@ export function scanSeries(request: ScanRequest): ScanPoint[] {
     const epsReal = rationalToReal(eps, work);
     const values: Real[] = [];
     const pade: (Real | null)[] = [];
+    const kept: Real[][] = [];
     for (const series of request.series) {
       const coeffs = series.coefficients.map((c) => evaluateAtPoint(c, at, work, atoms));
+      if (request.keepCoefficients) kept.push(coeffs);
       let v = new R(0);
       for (let k = coeffs.length - 1; k >= 0; k--) v = v.times(epsReal).plus(coeffs[k]);
       values.push(new out(v).toSignificantDigits(request.digits));
@@ -116,7 +122,7 @@ export function scanSeries(request: ScanRequest): ScanPoint[] {
         if (exact) values[i] = new out(exact).toSignificantDigits(request.digits);
       });
     }
-    return { s, eps, regime, values, pade };
+    return request.keepCoefficients ? { s, eps, regime, values, pade, coefficients: kept } : { s, eps, regime, values, pade };
   });
 }
 

@@ -1,0 +1,148 @@
+import { type PadeApproximant, evaluatePade, padeApproximant, polesInInterval } from '../pade/pade';
+import { EngineError } from '../precision/errors';
+import { type Real, GUARD_DIGITS, realContext } from '../precision/real';
+import { type Q, q, qMul, qSub } from '../symbolic/rational';
+
+/**
+ * Holding exponent series against data: the x-axes a comparison uses, the series variants drawn
+ * (truncations at each order, Padé approximants checked for poles), residuals, pulls and χ² summaries.
+ */
+
+/** The axes data can be given on: s itself, or Δφ = (d − s)/2 (exact for s < 2, where φ is not renormalized). */
+export type ComparisonAxis = 's' | 'Delta_phi';
+
+export function deltaPhiFromS(d: Q, s: Q): Q {
+  return qMul(qSub(d, s), q(1, 2));
+}
+
+export function sFromDeltaPhi(d: Q, deltaPhi: Q): Q {
+  return qSub(d, qMul(q(2), deltaPhi));
+}
+
+export function sFromAxis(axis: ComparisonAxis, d: Q, x: Q): Q {
+  return axis === 's' ? x : sFromDeltaPhi(d, x);
+}
+
+export function axisFromS(axis: ComparisonAxis, d: Q, s: Q): Q {
+  return axis === 's' ? s : deltaPhiFromS(d, s);
+}
+
+export interface VariantSpec {
+  key: string;
+  label: string;
+  kind: 'truncated' | 'pade';
+  /** Highest power of ε used. */
+  order: number;
+  /** Padé degrees (numerator L, denominator M). */
+  L?: number;
+  M?: number;
+}
+
+const ORDER_LABELS = ['mean field (ε⁰)', 'one loop (ε¹)', 'two loops (ε²)'];
+
+/** Truncations through ε¹ … ε^loops, then the Padé approximants [L/M] with M ≥ 1 and L + M ≤ loops. */
+export function seriesVariants(loops: 1 | 2): VariantSpec[] {
+  const truncated: VariantSpec[] = Array.from({ length: loops }, (_, i) => ({ key: `order${i + 1}`, label: ORDER_LABELS[i + 1], kind: 'truncated', order: i + 1 }));
+  const pade: VariantSpec[] = [];
+  for (let total = 1; total <= loops; total++) {
+    for (let M = total; M >= 1; M--) {
+      const L = total - M;
+      pade.push({ key: `pade_${L}_${M}`, label: `Padé [${L}/${M}]`, kind: 'pade', order: total, L, M });
+    }
+  }
+  return [...truncated, ...pade.sort((a, b) => a.order - b.order || (b.L ?? 0) - (a.L ?? 0))];
+}
+
+export interface VariantValue {
+  value: Real | null;
+  /** Why the value is missing (a pole of the approximant in (0, ε], a degenerate approximant). */
+  defect?: string;
+}
+
+/** Σ_{k ≤ order} c_k ε^k at working precision, rounded to `digits`. */
+export function truncatedValue(coefficients: Real[], eps: Real, order: number, digits: number): Real {
+  const R = realContext(digits + GUARD_DIGITS);
+  let sum = new R(0);
+  for (let k = Math.min(order, coefficients.length - 1); k >= 0; k--) sum = sum.times(eps).plus(coefficients[k]);
+  return new (realContext(digits))(sum).toSignificantDigits(digits);
+}
+
+const shortNumber = (x: Real) => new (realContext(6))(x).toSignificantDigits(6).toString();
+
+/**
+ * The [L/M] approximant at ε > 0, or null with the reason: an approximant with a pole in (0, ε] is not
+ * continued from ε = 0 to the physical ε, so its value there means nothing.
+ */
+export function padeVariant(coefficients: Real[], L: number, M: number, eps: Real, digits: number): VariantValue {
+  try {
+    const approximant = padeApproximant(coefficients.slice(0, L + M + 1), L, M, digits);
+    const pole = eps.gt(0) ? poleIn(approximant, eps, digits) : null;
+    if (pole) return { value: null, defect: `pole at ε = ${shortNumber(pole)}` };
+    return { value: evaluatePade(approximant, eps, digits) };
+  } catch (error) {
+    if (!(error instanceof EngineError)) throw error;
+    return { value: null, defect: error.code === 'singular' ? 'degenerate approximant (a vanishing coefficient)' : error.message };
+  }
+}
+
+function denominatorAt(approximant: PadeApproximant, x: Real): Real {
+  return approximant.denominator.reduceRight((sum, c) => sum.times(x).plus(c), x.mul(0));
+}
+
+/**
+ * The first zero of the denominator Q in (0, ε], or null. Q(0) = 1, so for M ≤ 2 a zero lies there
+ * exactly when Q(ε) ≤ 0 or, for a convex quadratic, when its minimum inside is ≤ 0; only then is it
+ * located (by polesInInterval, or at the minimum for a double zero the sign-change search cannot see).
+ */
+function poleIn(approximant: PadeApproximant, eps: Real, digits: number): Real | null {
+  const located = () => polesInInterval(approximant, 0, eps, digits).find((p) => p.gt(0)) ?? null;
+  if (approximant.M > 2) return located();
+  if (!denominatorAt(approximant, eps).gt(0)) return located() ?? eps;
+  if (approximant.M < 2) return null;
+  const [, q1, q2] = approximant.denominator;
+  if (!q2.gt(0)) return null;
+  const vertex = q1.neg().div(q2.times(2));
+  if (!vertex.gt(0) || !vertex.lt(eps) || denominatorAt(approximant, vertex).gt(0)) return null;
+  return located() ?? vertex;
+}
+
+/** Every variant at one ε from the series coefficients c_0 … c_loops at that s. */
+export function variantValues(variants: VariantSpec[], coefficients: Real[], eps: Real, digits: number): Record<string, VariantValue> {
+  return Object.fromEntries(
+    variants.map((v) => [v.key, v.kind === 'truncated' ? { value: truncatedValue(coefficients, eps, v.order, digits) } : padeVariant(coefficients, v.L ?? 0, v.M ?? 1, eps, digits)]),
+  );
+}
+
+/**
+ * The residual in units of the data's error on the side where the series lies: above the data point
+ * (residual > 0) the upper error, below it the lower one. Null when that error is zero.
+ */
+export function pullOf(residual: Real, errLow: Real, errHigh: Real): Real | null {
+  const sigma = residual.isNegative() ? errLow : errHigh;
+  return sigma.isZero() ? null : residual.div(sigma);
+}
+
+export interface FitSummary {
+  /** Points where the variant has a value. */
+  points: number;
+  /** Σ pull² over the points with a pull; null when no point has one. */
+  chi2: Real | null;
+  chi2PerPoint: Real | null;
+  rms: Real | null;
+  maxAbs: Real | null;
+}
+
+export function fitSummary(residuals: (Real | null)[], pulls: (Real | null)[] | null, digits: number): FitSummary {
+  const R = realContext(digits + GUARD_DIGITS);
+  const present = residuals.filter((r): r is Real => r !== null);
+  const counted = (pulls ?? []).filter((p): p is Real => p !== null);
+  const chi2 = counted.length ? counted.reduce((sum, p) => sum.plus(p.times(p)), new R(0)) : null;
+  const squares = present.reduce((sum, r) => sum.plus(r.times(r)), new R(0));
+  return {
+    points: present.length,
+    chi2,
+    chi2PerPoint: chi2 ? chi2.div(counted.length) : null,
+    rms: present.length ? squares.div(present.length).sqrt() : null,
+    maxAbs: present.length ? present.reduce((m, r) => (r.abs().gt(m) ? r.abs() : m), new R(0)) : null,
+  };
+}

@@ -1,0 +1,347 @@
+import { type DerivedFlow } from '../engine/diagrams/renormalization';
+import { locateKinks } from '../engine/data/kinks';
+import { exponentSeries, type Quantity } from '../engine/exponents/exponents';
+import { findFixedPoints } from '../engine/fixedpoints/fixedPoints';
+import { checkPropagatorPower } from '../engine/flows/flow';
+import { type ModelSpec } from '../engine/models/model';
+import { EngineError, fail } from '../engine/precision/errors';
+import { type Real, GUARD_DIGITS, rationalToReal, realContext, toExactRational } from '../engine/precision/real';
+import { type ComparisonAxis, type VariantSpec, type VariantValue, axisFromS, fitSummary, pullOf, sFromAxis, seriesVariants, variantValues } from '../engine/scans/compare';
+import { scanFlow } from '../engine/scans/flowScan';
+import { type ScanPoint, crossoverS, meanFieldEnd, scanSeries } from '../engine/scans/scan';
+import { type LaurentSeries } from '../engine/series/laurent';
+import { type Expression } from '../engine/symbolic/expression';
+import { type Q, q, qAdd, qCompare, qMul, qSub } from '../engine/symbolic/rational';
+import { DATASET_LIMITS } from '../notebook/datasets';
+import { type CompareJob, type CompareResult } from './dataSchemas';
+import { type JobHooks, checkDimension, chooseFixedPoint, decimalText, deriveFor, exactPositive, formatCoefficient, modelFrom } from './flowJobs';
+
+/**
+ * The "compare" job: the series of one quantity at every order (truncations and Padé approximants)
+ * on the scan's grid of s and at every data point, residuals and pulls against the data, a χ²-like
+ * summary per variant and, for a boundary curve, its kinks with the series' distance from each.
+ */
+
+type Regime = ScanPoint['regime'];
+type PointRegime = Regime | 'outside';
+
+/** The series at one s: a value or a defect for every variant. */
+interface SeriesAt {
+  s: Q;
+  eps: Q;
+  regime: PointRegime;
+  values: Record<string, VariantValue>;
+  note?: string;
+  fixedPoint?: string | null;
+}
+
+interface DataPoint {
+  x: string;
+  /** y and the errors as given, and as numbers. */
+  text: { y: string; errLow?: string; errHigh?: string };
+  y: Real;
+  s: Q;
+  errLow?: Real;
+  errHigh?: Real;
+}
+
+const BACKGROUND_PROGRESS = 0.05;
+
+export function runCompareJob(job: CompareJob, hooks: JobHooks = {}): CompareResult {
+  const model = modelFrom(job.model);
+  if ('member' in model) fail('not-representable', 'a comparison needs a numeric N (give "N" as a number, e.g. "N":3); the flow is derived once symbolically in s');
+  const d = toExactRational(job.d);
+  checkDimension(d);
+  const curveS = curveGrid(job);
+  const data = dataPoints(job, d);
+  const axis: ComparisonAxis = job.data.xAxis;
+  const shortRangeS = job.shortRange ? crossoverS(d, toExactRational(job.shortRange.Delta_sigma)) : null;
+  const variants = seriesVariants(job.loops);
+  const notes: string[] = [];
+  hooks.onProgress?.(0.01);
+  const found = job.data.boundary ? kinksOf(job, data, notes) : [];
+  // the series are evaluated at the kink position as reported (six digits), so distance and position agree
+  const kinkS = found.map((k) => sFromAxis(axis, d, exactNumber(k.x)));
+
+  const evaluate = seriesEvaluator({ job, model, d, shortRangeS, variants, hooks });
+  const insideData = data.filter((p) => insideWindow(p.s));
+  const insideKinks = kinkS.filter(insideWindow);
+  const evaluated = evaluate([...curveS, ...insideData.map((p) => p.s), ...insideKinks]);
+  const curveAt = evaluated.slice(0, curveS.length);
+  const dataAt = new Map(insideData.map((p, i) => [p, evaluated[curveS.length + i]]));
+  const kinkAt = evaluated.slice(curveS.length + insideData.length);
+
+  const digits = job.digits;
+  const text = (r: Real | null | undefined) => (r === null || r === undefined ? null : (formatCoefficient(r, digits) as string));
+  const exact = (x: Q) => decimalText(x, digits);
+  const pointResults = data.map((p) => pointResult(p, dataAt.get(p) ?? outside(p.s, d), variants, digits));
+  const withErrors = data.some((p) => p.errLow !== undefined);
+  const result: CompareResult = {
+    quantity: job.quantity,
+    xAxis: axis,
+    d: job.d,
+    fixedPoint: job.fixedPoint ?? usedFixedPoint(evaluated),
+    variants: variants.map(({ key, label, kind, order }) => ({ key, label, kind, order })),
+    marks: {
+      meanFieldEnd: { s: exact(meanFieldEnd(d)), x: exact(axisFromS(axis, d, meanFieldEnd(d))) },
+      ...(shortRangeS ? { sStar: { s: exact(shortRangeS), x: exact(axisFromS(axis, d, shortRangeS)) } } : {}),
+      dataRange: dataRange(data),
+    },
+    curve: curveAt.map((at) => ({
+      s: exact(at.s),
+      x: exact(axisFromS(axis, d, at.s)),
+      eps: exact(at.eps),
+      regime: at.regime as Regime,
+      values: Object.fromEntries(variants.map((v) => [v.key, text(at.values[v.key].value)])),
+      ...defectsOf(at, variants),
+    })),
+    points: pointResults.map(({ json }) => json),
+    summary: variants.map((v) => {
+      const summary = fitSummary(pointResults.map((r) => r.residual[v.key]), withErrors ? pointResults.map((r) => r.pull[v.key]) : null, digits);
+      return { key: v.key, points: summary.points, chi2: text(summary.chi2), chi2PerPoint: text(summary.chi2PerPoint), rms: text(summary.rms), maxAbs: text(summary.maxAbs) };
+    }),
+    ...(job.data.boundary ? { kinks: found.map((k, i) => kinkResult(k, kinkS[i], kinkAt[insideKinks.indexOf(kinkS[i])] ?? outside(kinkS[i], d), variants, digits)) } : {}),
+    notes: [...notes, ...comparisonNotes({ job, d, axis, data, evaluated, curveAt, dataAt, shortRangeS, variants })],
+  };
+  hooks.onProgress?.(1);
+  return result;
+}
+
+// ---- input --------------------------------------------------------------------------------------
+
+function curveGrid(job: CompareJob): Q[] {
+  const from = exactPositive(job.s.from, 's.from');
+  const to = exactPositive(job.s.to, 's.to');
+  checkPropagatorPower(from);
+  checkPropagatorPower(to);
+  return Array.from({ length: job.s.points }, (_, i) => qAdd(from, qMul(qSub(to, from), q(i, job.s.points - 1))));
+}
+
+/** Data text read exactly; every column as long as x; errors non-negative (one error column alone is symmetric). */
+function dataPoints(job: CompareJob, d: Q): DataPoint[] {
+  const { x, y, yErrLow, yErrHigh } = job.data;
+  const columns: [string, string[] | undefined][] = [['y', y], ['yErrLow', yErrLow], ['yErrHigh', yErrHigh]];
+  for (const [name, column] of columns) {
+    if (column && column.length !== x.length) fail('invalid', `data.${name} has ${column.length} values for ${x.length} values of x`);
+  }
+  const work = job.digits + GUARD_DIGITS;
+  const low = yErrLow ?? yErrHigh;
+  const high = yErrHigh ?? yErrLow;
+  return x.map((text, i) => {
+    const point: DataPoint = { x: text, text: { y: y[i] }, y: realOf(y[i], work), s: sFromAxis(job.data.xAxis, d, toExactRational(text)) };
+    if (low && high) {
+      point.text = { y: y[i], errLow: low[i], errHigh: high[i] };
+      point.errLow = realOf(low[i], work);
+      point.errHigh = realOf(high[i], work);
+      if (point.errLow.isNegative() || point.errHigh.isNegative()) fail('invalid', `data point ${i + 1} (x = ${text}) has a negative error; give errors as distances from y`);
+    }
+    return point;
+  });
+}
+
+function realOf(text: string, digits: number): Real {
+  return rationalToReal(toExactRational(text), digits);
+}
+
+/** A kink position as an exact rational, through the text the result shows. */
+function exactNumber(x: number): Q {
+  if (!Number.isFinite(x)) fail('domain', 'the kink locator gave a non-finite position');
+  return toExactRational(numberText(x));
+}
+
+/** The long-range model is defined for 0 < s ≤ 2 (s = 2 is the short-range theory). */
+function insideWindow(s: Q): boolean {
+  return qCompare(s, q(0)) > 0 && qCompare(s, q(2)) <= 0;
+}
+
+function dataRange(data: DataPoint[]): [string, string] {
+  const exact = data.map((p) => ({ text: p.x, value: toExactRational(p.x) }));
+  const min = exact.reduce((a, b) => (qCompare(b.value, a.value) < 0 ? b : a));
+  const max = exact.reduce((a, b) => (qCompare(b.value, a.value) > 0 ? b : a));
+  return [min.text, max.text];
+}
+
+// ---- kinks --------------------------------------------------------------------------------------
+
+interface FoundKink {
+  x: number;
+  y: number;
+  uncertainty: number;
+  strength: number;
+}
+
+/** The kink locator on the data as given (inverse-variance weights when every point has a non-zero error). */
+function kinksOf(job: CompareJob, data: DataPoint[], notes: string[]): FoundKink[] {
+  if (data.length < DATASET_LIMITS.minKinkPoints) {
+    notes.push(`The kink locator needs at least ${DATASET_LIMITS.minKinkPoints} points (this boundary has ${data.length}): no kinks were looked for.`);
+    return [];
+  }
+  const sigma = data.map((p) => (p.errLow && p.errHigh ? Number(p.errLow.plus(p.errHigh).div(2)) : 0));
+  const weights = sigma.every((s) => s > 0) ? sigma.map((s) => 1 / (s * s)) : undefined;
+  const order = data.map((_, i) => i).sort((a, b) => Number(data[a].x) - Number(data[b].x));
+  try {
+    const located = locateKinks(order.map((i) => Number(data[i].x)), order.map((i) => data[i].y.toNumber()), { weights: weights && order.map((i) => weights[i]) });
+    if (located.kinks.length === 0) notes.push('No kink stands out from the noise: the boundary is smooth within its resampling uncertainty.');
+    return located.kinks;
+  } catch (error) {
+    if (!(error instanceof EngineError)) throw error;
+    notes.push(`No kinks: ${error.message}`);
+    return [];
+  }
+}
+
+/** Kink figures with six significant digits, as the kinks job writes them. */
+const numberText = (x: number) => String(Number(x.toPrecision(6)));
+
+/** A kink as reported (six digits), its s, and series − kink y at that s for every variant. */
+function kinkResult(kink: FoundKink, s: Q, at: SeriesAt, variants: VariantSpec[], digits: number): NonNullable<CompareResult['kinks']>[number] {
+  const y = realOf(numberText(kink.y), digits + GUARD_DIGITS);
+  const text = (r: Real | null) => (r === null ? null : (formatCoefficient(r, digits) as string));
+  return {
+    x: numberText(kink.x),
+    y: numberText(kink.y),
+    uncertainty: numberText(kink.uncertainty),
+    strength: numberText(kink.strength),
+    s: decimalText(s, digits),
+    distance: Object.fromEntries(variants.map((v) => [v.key, text(difference(at.values[v.key]?.value, y, digits))])),
+  };
+}
+
+// ---- series ---------------------------------------------------------------------------------------
+
+interface EvaluatorContext {
+  job: CompareJob;
+  model: ModelSpec;
+  d: Q;
+  shortRangeS: Q | null;
+  variants: VariantSpec[];
+  hooks: JobHooks;
+}
+
+/** Derives the flow once (symbolic in s) and returns a function giving every variant at many s, as runScan does. */
+function seriesEvaluator(context: EvaluatorContext): (sValues: Q[]) => SeriesAt[] {
+  const { job, model, d, shortRangeS, variants, hooks } = context;
+  const quantity = job.quantity as Quantity;
+  const any = deriveFor(model, null, job.loops, job.digits);
+  const flow = any.flow as DerivedFlow<Expression>;
+  hooks.onProgress?.(BACKGROUND_PROGRESS);
+  const onProgress = hooks.onProgress ? (f: number) => hooks.onProgress!(BACKGROUND_PROGRESS + (1 - 2 * BACKGROUND_PROGRESS) * f) : undefined;
+  const grid = { d, shortRangeS, quantities: [quantity], digits: job.digits, onProgress, keepCoefficients: true };
+  const toVariants = (p: ScanPoint & { fixedPoint?: string | null; note?: string }): SeriesAt => atPoint(p, context);
+  if (model.couplings.length > 1) {
+    return (sValues) => scanFlow({ ...grid, model, flow, sValues, choose: (candidates) => chooseFixedPoint(candidates, job.fixedPoint, false) }).map(toVariants);
+  }
+  const point = chooseFixedPoint(findFixedPoints(model, flow, { eps: null }), job.fixedPoint, true);
+  const series = exponentSeries(flow, point);
+  const compiled = (k: Quantity) => ({ coefficients: (series[k] as LaurentSeries<Expression>).coefficients() });
+  return (sValues) =>
+    scanSeries({ ...grid, sValues, series: [compiled(quantity)], withPade: false }).map((p) => ({ ...toVariants(p), fixedPoint: point.name }));
+}
+
+/** The variants at one scan point: mean-field and exact long-range values for all, else truncations and Padé from the coefficients. */
+function atPoint(p: ScanPoint & { fixedPoint?: string | null; note?: string }, context: EvaluatorContext): SeriesAt {
+  const { job, variants } = context;
+  const base = { s: p.s, eps: p.eps, regime: p.regime as PointRegime, ...(p.note ? { note: p.note } : {}), ...(p.fixedPoint !== undefined ? { fixedPoint: p.fixedPoint } : {}) };
+  const all = (value: VariantValue) => Object.fromEntries(variants.map((v) => [v.key, value]));
+  if (p.regime === 'mean-field') return { ...base, values: all({ value: p.values[0] }) };
+  const exactValue = exactLongRange(job.quantity, p.s, job.digits + GUARD_DIGITS);
+  if (exactValue) return { ...base, values: all({ value: exactValue }) };
+  const coefficients = p.coefficients?.[0];
+  if (!coefficients) return { ...base, values: all({ value: null, defect: p.note ?? 'no series at this s' }) };
+  // values stay at working precision: residuals and pulls are rounded once, when written
+  const work = job.digits + GUARD_DIGITS;
+  return { ...base, values: variantValues(variants, coefficients, rationalToReal(p.eps, work), work) };
+}
+
+/** η = 2 − s + 2γ_φ with γ_φ = 0 to all orders for s < 2 (no field renormalization): every variant is 2 − s. */
+function exactLongRange(quantity: string, s: Q, digits: number): Real | null {
+  if (quantity !== 'eta' || qCompare(s, q(2)) >= 0) return null;
+  return rationalToReal(qSub(q(2), s), digits);
+}
+
+function outside(s: Q, d: Q): SeriesAt {
+  return { s, eps: qSub(qMul(q(2), s), d), regime: 'outside', values: {} };
+}
+
+function usedFixedPoint(points: SeriesAt[]): string | null {
+  return points.find((p) => p.fixedPoint && p.regime === 'long-range')?.fixedPoint ?? points.find((p) => p.fixedPoint)?.fixedPoint ?? null;
+}
+
+function defectsOf(at: SeriesAt, variants: VariantSpec[]): { defects?: Record<string, string> } {
+  const defects = Object.fromEntries(variants.flatMap((v) => (at.values[v.key]?.defect ? [[v.key, at.values[v.key].defect as string]] : [])));
+  return Object.keys(defects).length ? { defects } : {};
+}
+
+// ---- points ---------------------------------------------------------------------------------------
+
+function difference(value: Real | null | undefined, y: Real, digits: number): Real | null {
+  if (value === null || value === undefined) return null;
+  const R = realContext(digits + GUARD_DIGITS);
+  return new R(value).minus(y);
+}
+
+interface PointResult {
+  json: CompareResult['points'][number];
+  residual: Record<string, Real | null>;
+  pull: Record<string, Real | null>;
+}
+
+function pointResult(p: DataPoint, at: SeriesAt, variants: VariantSpec[], digits: number): PointResult {
+  const text = (r: Real | null) => (r === null ? null : (formatCoefficient(r, digits) as string));
+  const value = (key: string) => at.values[key]?.value ?? null;
+  const residual = Object.fromEntries(variants.map((v) => [v.key, difference(value(v.key), p.y, digits)]));
+  const hasErrors = p.errLow !== undefined && p.errHigh !== undefined;
+  const pull = Object.fromEntries(variants.map((v) => [v.key, hasErrors && residual[v.key] ? pullOf(residual[v.key] as Real, p.errLow as Real, p.errHigh as Real) : null]));
+  const json: CompareResult['points'][number] = {
+    x: p.x,
+    s: decimalText(p.s, digits),
+    y: p.text.y,
+    ...(hasErrors ? { errLow: p.text.errLow as string, errHigh: p.text.errHigh as string } : {}),
+    regime: at.regime,
+    series: Object.fromEntries(variants.map((v) => [v.key, text(value(v.key))])),
+    residual: Object.fromEntries(variants.map((v) => [v.key, text(residual[v.key])])),
+    ...(hasErrors ? { pull: Object.fromEntries(variants.map((v) => [v.key, text(pull[v.key])])) } : {}),
+    ...defectsOf(at, variants),
+  };
+  return { json, residual, pull };
+}
+
+// ---- notes ----------------------------------------------------------------------------------------
+
+interface NotesContext {
+  job: CompareJob;
+  d: Q;
+  axis: ComparisonAxis;
+  data: DataPoint[];
+  evaluated: SeriesAt[];
+  curveAt: SeriesAt[];
+  dataAt: Map<DataPoint, SeriesAt>;
+  shortRangeS: Q | null;
+  variants: VariantSpec[];
+}
+
+const listed = (items: string[]) => (items.length > 5 ? `${items.slice(0, 5).join(', ')} and ${items.length - 5} more` : items.join(', '));
+
+function comparisonNotes(c: NotesContext): string[] {
+  const notes: string[] = [];
+  const digits = c.job.digits;
+  if (c.axis === 'Delta_phi') notes.push(`The data's x is Δφ: each point is placed at s = d − 2Δφ (Δφ = (d − s)/2 holds exactly for s < 2, where the field is not renormalized).`);
+  const outsidePoints = c.data.filter((p) => !c.dataAt.has(p));
+  if (outsidePoints.length) notes.push(`${outsidePoints.length} data point(s) lie outside 0 < s ≤ 2, where the model is not defined (x = ${listed(outsidePoints.map((p) => p.x))}): no series there.`);
+  const byRegime = (regime: Regime) => [...c.dataAt.entries()].filter(([, at]) => at.regime === regime).map(([p]) => p.x);
+  const meanField = byRegime('mean-field');
+  if (meanField.length) notes.push(`${meanField.length} data point(s) have s ≤ d/2 = ${decimalText(meanFieldEnd(c.d), digits)} (x = ${listed(meanField)}): the series are compared with the exact mean-field value there.`);
+  const shortRange = byRegime('short-range');
+  if (shortRange.length && c.shortRangeS) notes.push(`${shortRange.length} data point(s) have s ≥ s* = ${decimalText(c.shortRangeS, digits)} (x = ${listed(shortRange)}), where the short-range fixed point takes over.`);
+  if (c.job.quantity === 'eta' && c.evaluated.some((at) => at.regime !== 'mean-field' && qCompare(at.s, q(2)) < 0)) {
+    notes.push('η = 2 − s exactly for s < 2 (γ_φ vanishes: no field renormalization): every variant takes this value there.');
+  }
+  for (const v of c.variants.filter((v) => v.kind === 'pade')) {
+    const curve = c.curveAt.filter((at) => at.values[v.key]?.defect).length;
+    const points = [...c.dataAt.values()].filter((at) => at.values[v.key]?.defect).length;
+    if (curve + points) notes.push(`${v.label} is left out at ${curve} curve point(s) and ${points} data point(s) (a pole in (0, ε] or a degenerate approximant; see defects).`);
+  }
+  const failures = [...new Set(c.evaluated.filter((at) => at.fixedPoint === null && at.note).map((at) => at.note as string))];
+  for (const message of failures) notes.push(`No fixed point at some s: ${message}`);
+  return notes;
+}
