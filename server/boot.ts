@@ -8,7 +8,7 @@ import type { ServerConfig } from './config';
 import { openDatabase } from './db/data-source';
 import { createMailer } from './mail/mailer';
 import { startSmtpFake, type SmtpFake } from './mail/smtp-fake';
-import { disarmPublishedDemoAccounts, seedDemoDataIfEmpty } from './seed/demo';
+import { attachDemoDatasets, disarmPublishedDemoAccounts, seedDemoDataIfEmpty } from './seed/demo';
 import { createWorkerPoolRunner } from './jobs/runner';
 import { createServices, type Services } from './services';
 import { failInterruptedRuns } from './services/runs';
@@ -37,6 +37,7 @@ export async function startRungbook(config: ServerConfig, logger: Logger, option
   const services = createServices(config, logger, dataSource, mailer, createWorkerPoolRunner({ threads: config.jobs.threads }));
   const demoSeed = config.localOnly ? {} : { reachable: { password: config.demoPassword } };
   const demoDataCreated = config.seedDemoData ? await seedDemoDataIfEmpty(dataSource, demoSeed) : false;
+  if (demoDataCreated) await attachDemoDatasets(dataSource, services.datasets);
   if (!config.localOnly) {
     const disarmed = await disarmPublishedDemoAccounts(dataSource);
     if (disarmed.length) logger.warn({ accounts: disarmed }, 'demo accounts still had their published passwords: given random passwords and no site-admin rights, because this start can be reached by others');

@@ -4,6 +4,9 @@ import { hashPassword, verifyPassword } from '../auth/passwords';
 import { Cell, GroupMembership, Notebook, NotebookMember, ResearchGroup, User } from '../db/entities';
 import type { CellInput } from '../../shared/notebook/cells';
 import { newId } from '../ids';
+import type { SignedInUser } from '../auth/sessions';
+import type { DatasetService } from '../services/datasets';
+import { demoDatasets } from './demoDatasets';
 import type { GroupRole, SiteRole } from '../../shared/api/schemas';
 
 /**
@@ -56,6 +59,19 @@ export const demoNotebook: { title: string; summary: string; cells: { label: str
       label: 'scan',
       input: { kind: 'scan', uses: 'params', from: '1.55', to: '1.95', points: 41, quantities: ['nuInv', 'omega'], deltaSigmaShortRange: '0.5181489' },
     },
+    {
+      label: 'datanote',
+      input: {
+        kind: 'note',
+        text:
+          '## Against (invented) numbers\n' +
+          'Both datasets of this notebook are **invented demo data** (open *Data*): a table of "lattice" values of $1/\\nu$ ' +
+          'with error bars, and an upper bound on $\\Delta_{\\phi^2}$ against $\\Delta_\\phi$ with a kink planted at ' +
+          '$\\Delta_\\phi = 0.625$, i.e. $s = d - 2\\Delta_\\phi = 1.75$. The cells below hold them against the series of `scan`.',
+      },
+    },
+    { label: 'vslattice', input: { kind: 'comparison', uses: 'scan', dataset: 'lattice', kinks: false } },
+    { label: 'vsbound', input: { kind: 'comparison', uses: 'scan', dataset: 'bound', quantity: 'Delta_phi2', show: 'boundary', kinks: true } },
   ],
 };
 
@@ -107,6 +123,18 @@ export async function seedDemoDataIfEmpty(dataSource: DataSource, options: DemoS
     }
   });
   return true;
+}
+
+/**
+ * Attach the invented demo datasets (server/seed/demoDatasets.ts) to the demo notebook, as its lead pasting
+ * them: through the dataset service, the one writer of datasets. Call after seedDemoDataIfEmpty created the data.
+ */
+export async function attachDemoDatasets(dataSource: DataSource, datasets: Pick<DatasetService, 'paste'>): Promise<void> {
+  const lead = demoPeople.find((person) => person.groupRole === 'lead')!;
+  const user = await dataSource.getRepository(User).findOneByOrFail({ emailKey: lead.email.toLowerCase() });
+  const notebook = await dataSource.getRepository(Notebook).findOneByOrFail({ ownerId: user.id, title: demoNotebook.title });
+  const author = { id: user.id, name: user.name, email: user.email, siteRole: user.siteRole, emailVerified: true } as SignedInUser;
+  for (const dataset of demoDatasets) await datasets.paste(author, notebook.id, { ...dataset.description, text: dataset.text });
 }
 
 /**

@@ -68,7 +68,7 @@ describe('platform: health, routing, body limits, database', () => {
     assert.equal(shared.length, 1, 'the demo notebook is shared with the demo group');
     assert.match(shared[0].title, /invented scenario/);
     const detail = (await member.get(`/api/notebooks/${shared[0].id}`).expect(200)).body.notebook;
-    assert.deepEqual(detail.cells.map((c: { kind: string }) => c.kind), ['note', 'setup', 'integral', 'flow', 'fixedpoints', 'exponents', 'scan']);
+    assert.deepEqual(detail.cells.map((c: { kind: string }) => c.kind), ['note', 'setup', 'integral', 'flow', 'fixedpoints', 'exponents', 'scan', 'note', 'comparison', 'comparison']);
   });
 });
 
