@@ -33,7 +33,7 @@ export const comparisonPlot = {
     { color: '#B23A3A', dash: '5 5' },
     { color: '#7A5C2E', dash: '14 4' },
   ],
-  data: '#1C2230',
+  data: '#7A8294',
   dataBand: '#EEF1F6',
   mark: '#9E6217',
   kink: '#B23A3A',

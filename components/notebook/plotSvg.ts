@@ -320,7 +320,7 @@ export function comparisonSvg(g: ComparisonGeometry, dataLabel: string): string 
     parts.push(`<text x="${mark.x + 4}" y="${g.plotTop + 12}" fill="${comparisonPlot.mark}">${escapeXml(mark.label)}</text>`);
   }
   if (g.data.show === 'boundary') {
-    parts.push(`<path d="${g.data.segments.join(' ')}" fill="none" stroke="${comparisonPlot.data}" stroke-width="1.5"/>`);
+    parts.push(`<path d="${g.data.segments.join(' ')}" fill="none" stroke="${comparisonPlot.data}" stroke-width="3" stroke-opacity="0.85"/>`);
   } else {
     for (const point of g.data.points) {
       if (point.barTop !== undefined && point.barBottom !== undefined) {

@@ -66,7 +66,9 @@ async function main() {
   let status = 1;
   try {
     await waitForHealth(baseUrl, server);
-    const specs = fs.readdirSync(path.join(ROOT, 'tests', 'e2e')).filter((f) => f.endsWith('.test.ts')).sort().map((f) => `tests/e2e/${f}`);
+    // `npm run test:e2e -- tests/e2e/datasets.test.ts` runs only the files named
+    const named = process.argv.slice(2);
+    const specs = named.length ? named : fs.readdirSync(path.join(ROOT, 'tests', 'e2e')).filter((f) => f.endsWith('.test.ts')).sort().map((f) => `tests/e2e/${f}`);
     const run = spawnSync(
       process.execPath,
       ['--import', 'tsx', '--test', '--test-reporter=spec', '--test-concurrency=1', ...specs],

@@ -51,7 +51,7 @@ export function ComparisonPlot({ geometry: g, dataLabel }: { geometry: Compariso
           </G>
         ))}
         {g.data.show === 'boundary' ? (
-          <Path d={g.data.segments.join(' ')} fill="none" stroke={comparisonPlot.data} strokeWidth={1.5} {...svgTestID('comparison-boundary')} />
+          <Path d={g.data.segments.join(' ')} fill="none" stroke={comparisonPlot.data} strokeWidth={3} strokeOpacity={0.85} {...svgTestID('comparison-boundary')} />
         ) : (
           <G {...svgTestID('comparison-data-points')}>
             {g.data.points.map((point, i) => (
