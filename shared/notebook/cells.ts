@@ -101,7 +101,7 @@ export const comparisonInput = z.strictObject({
   xFrom: decimal.optional(),
   xTo: decimal.optional(),
 }).refine((input) => input.xFrom === undefined || input.xTo === undefined || Number(input.xFrom) < Number(input.xTo), {
-  message: 'The x-range must start below its end',
+  message: 'The end of the range must be larger than its start',
   path: ['xTo'],
 });
 
