@@ -3,7 +3,9 @@ import { test } from 'node:test';
 import { COST_LIMITS, jobCostProblem } from '../../../shared/jobs/cost';
 import { JOB_LIMITS } from '../../../shared/jobs/limits';
 import { runBatch, runJob } from '../../../shared/jobs';
-import { jobForCell, type SetupInput } from '../../../shared/notebook/jobs';
+import { jobForCell, type DatasetForJob, type SetupInput } from '../../../shared/notebook/jobs';
+import { extractPoints, readTable } from '../../../shared/notebook/datasetParsing';
+import { demoDatasets } from '../../../server/seed/demoDatasets';
 import { demoNotebook } from '../../../server/seed/demo';
 
 const scan = (model: unknown, points: number, quantities: string[], digits: number) => ({
@@ -19,8 +21,15 @@ const six = ['nuInv', 'nu', 'eta', 'gamma', 'omega', 'Delta_phi2'];
 
 test('every job of the demo notebook is well within the limits', () => {
   const setups = new Map<string, SetupInput>(demoNotebook.cells.flatMap((c) => (c.input.kind === 'setup' ? [[c.label, c.input] as const] : [])));
-  const jobs = demoNotebook.cells.map((c) => jobForCell(c.input, setups)).filter((j) => j !== null);
-  assert.ok(jobs.length >= 3, 'the demo notebook runs jobs');
+  const cells = new Map(demoNotebook.cells.map((c) => [c.label, c.input]));
+  const datasets = new Map<string, DatasetForJob>(
+    demoDatasets.map(({ description, text }) => {
+      const { points } = extractPoints(readTable(text, { header: description.header }), description);
+      return [description.label, { label: description.label, shape: description.shape, xAxis: description.xAxis, yAxis: description.yAxis, points, contentHash: description.label }];
+    }),
+  );
+  const jobs = demoNotebook.cells.map((c) => jobForCell(c.input, setups, { cells, datasets })).filter((j) => j !== null);
+  assert.ok(jobs.filter((job) => job.job === 'compare').length === 2, 'the demo notebook compares both datasets');
   for (const job of jobs) assert.equal(jobCostProblem(job), null, JSON.stringify(job));
 });
 
