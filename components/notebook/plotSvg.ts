@@ -276,7 +276,7 @@ export function residualGeometry(result: CompareResult, xDomain: [number, number
     return { key: variant.key, style: styles[variant.key], segments: brokenLine(placed), dots };
   });
   return {
-    ...frame(x, y, width, height, RESIDUAL_MARGIN, { x: axisName(result.xAxis), y: measure === 'pull' ? '(series − data)/σ' : 'series − data' }),
+    ...frame(x, y, width, height, RESIDUAL_MARGIN, { x: axisName(result.xAxis), y: measure === 'pull' ? 'r / σ' : 'r' }),
     measure,
     zeroY: px(y(0)),
     series,

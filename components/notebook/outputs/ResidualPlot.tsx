@@ -8,7 +8,7 @@ import { PlotAxes, svgTestID } from './ComparisonPlot';
 export function ResidualPlot({ geometry: g }: { geometry: ResidualGeometry }) {
   return (
     <View>
-      <Text style={styles.caption}>{g.measure === 'pull' ? 'Residuals in units of the data’s error' : 'Residuals (series − data)'}</Text>
+      <Text style={styles.caption}>{g.measure === 'pull' ? 'Residuals in units of the data’s error, r / σ (r = series − data)' : 'Residuals r = series − data'}</Text>
       <Svg width={g.width} height={g.height} {...svgTestID('comparison-residual-plot')}>
         <Rect x={0} y={0} width={g.width} height={g.height} fill={colors.surface} />
         <PlotAxes geometry={g} />
