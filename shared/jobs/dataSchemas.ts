@@ -125,11 +125,16 @@ export const CompareResult = z.strictObject({
       defects: z.record(z.string(), z.string()).optional(),
     }),
   ),
-  /** Per variant: χ² = Σ pull² over the points with errors and a value, its point count, and the RMS residual. */
+  /**
+   * Per variant: `points` with a residual (the RMS and max |r| use them), χ² = Σ pull² over the
+   * `chi2Points` points that have a pull (a value and a non-zero error on the side of the series),
+   * χ²/point = χ²/chi2Points. Points in the short-range region count in neither.
+   */
   summary: z.array(
     z.strictObject({
       key: z.string(),
       points: z.number().int(),
+      chi2Points: z.number().int(),
       chi2: MaybeValue,
       chi2PerPoint: MaybeValue,
       rms: MaybeValue,

@@ -55,7 +55,7 @@ function parsePoints(raw: KinksJob['points']): ParsedPoint[] {
  * At least SIGNIFICANT_DIGITS significant digits, more when needed to show `resolution` (data on an
  * offset, such as x = 1.000000001 … 1.000000002, need more digits than their spread suggests).
  */
-function decimal(value: number, resolution = 0): string {
+export function decimal(value: number, resolution = 0): string {
   const needed = value !== 0 && resolution > 0 ? Math.ceil(Math.log10(Math.abs(value) / resolution)) + 1 : 0;
   const digits = Math.min(17, Math.max(SIGNIFICANT_DIGITS, needed));
   return String(Number(value.toPrecision(digits)));

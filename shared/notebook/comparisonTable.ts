@@ -76,17 +76,21 @@ export function comparisonTexTable(result: CompareResult, options: ComparisonTab
   ].join('\n');
 }
 
-/** χ² per variant (the sum of squared pulls), its count, χ² per point and the RMS residual, as a tabular. */
+/**
+ * Per variant: the points with a residual, the points χ² sums over (those with a usable error), χ²,
+ * χ² per such point, the RMS residual and the largest residual, as a tabular.
+ */
 export function comparisonSummaryTex(result: CompareResult, options: Pick<ComparisonTableOptions, 'digits'> = {}): string {
   const digits = options.digits ?? 4;
   const rows = result.summary.map((row) => {
     const variant = result.variants.find((v) => v.key === row.key);
-    return [variant ? variantTex(variant) : '--', numberTex(String(row.points)), ...[row.chi2, row.chi2PerPoint, row.rms, row.maxAbs].map((v) => mathCell(numberTex(v, digits)))];
+    const counts = [row.points, row.chi2Points].map((n) => numberTex(String(n)));
+    return [variant ? variantTex(variant) : '--', ...counts, ...[row.chi2, row.chi2PerPoint, row.rms, row.maxAbs].map((v) => mathCell(numberTex(v, digits)))];
   });
   return [
-    '\\begin{tabular}{lrrrrr}',
+    '\\begin{tabular}{lrrrrrr}',
     '\\hline',
-    'series & points & $\\chi^2$ & $\\chi^2$/point & RMS residual & max $|\\delta|$ \\\\',
+    'series & points & points in $\\chi^2$ & $\\chi^2$ & $\\chi^2$/point & RMS residual & max $|\\delta|$ \\\\',
     '\\hline',
     ...rows.map((row) => `${row.join(' & ')} \\\\`),
     '\\hline',

@@ -284,7 +284,7 @@ function comparisonToLatex(input: ComparisonCell, output: unknown, document: Not
     ...(result.marks.sStar ? [`${writer.inline('s^*')} at ${writer.inline(`${axis} = ${numberTex(result.marks.sStar.x)}`)}`] : []),
     `data from ${writer.inline(`${axis} = ${numberTex(result.marks.dataRange[0])}`)} to ${writer.inline(numberTex(result.marks.dataRange[1]))}`,
   ];
-  const chi2 = `${writer.inline('\\chi^2')} is the sum of squared pulls (residual series $-$ data over the data's error on the side of the series).\n\n\\begin{center}\n${comparisonSummaryTex(result)}\n\\end{center}`;
+  const chi2 = `${writer.inline('\\chi^2')} is the sum of squared pulls (residual series $-$ data over the data's error on the side of the series) over the points with a non-zero error there; ${writer.inline('\\chi^2')}/point divides by that count.\n\n\\begin{center}\n${comparisonSummaryTex(result)}\n\\end{center}`;
   const kinks = result.kinks?.length
     ? tabular(['kink', 'uncertainty', writer.inline(quantityTex(result.quantity)), ...result.variants.map((v) => `distance ${variantTex(v)}`)], result.kinks.map((k) => [k.x, k.uncertainty, k.y, ...result.variants.map((v) => k.distance[v.key] ?? null)].map((v) => mathNumber(v, 6))))
     : result.kinks ? 'No kink found in the boundary.' : '';

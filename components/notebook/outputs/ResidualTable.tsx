@@ -27,7 +27,7 @@ export function seriesText(point: Pick<ComparedPoint, 'series' | 'defects'>, key
   return point.defects?.[key] ?? shown(point.series[key]);
 }
 
-/** χ², χ² per point, RMS and the largest residual for each variant, one card each (they wrap on a phone). */
+/** χ² with the points it sums over, χ² per such point, RMS and the largest residual for each variant, one card each (they wrap on a phone). */
 export function ComparisonSummary({ result }: { result: CompareResult }) {
   const labels = new Map(result.variants.map((variant) => [variant.key, variant.label]));
   return (
@@ -40,6 +40,7 @@ export function ComparisonSummary({ result }: { result: CompareResult }) {
           <Fact name="RMS residual" value={shown(row.rms, 6)} />
           <Fact name="max |r|" value={shown(row.maxAbs, 6)} />
           <Fact name="points" value={String(row.points)} />
+          {row.chi2 === null ? null : <Fact name="points in χ²" value={String(row.chi2Points)} />}
         </View>
       ))}
     </View>

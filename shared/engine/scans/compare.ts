@@ -8,7 +8,7 @@ import { type Q, q, qMul, qSub } from '../symbolic/rational';
  * (truncations at each order, Padé approximants checked for poles), residuals, pulls and χ² summaries.
  */
 
-/** The axes data can be given on: s itself, or Δφ = (d − s)/2 (exact for s < 2, where φ is not renormalized). */
+/** The axes data can be given on: s itself, or Δφ = (d − s)/2 (exact in the long-range region, s < s* and s < 2, where φ is not renormalized). */
 export type ComparisonAxis = 's' | 'Delta_phi';
 
 export function deltaPhiFromS(d: Q, s: Q): Q {
@@ -127,6 +127,9 @@ export interface FitSummary {
   points: number;
   /** Σ pull² over the points with a pull; null when no point has one. */
   chi2: Real | null;
+  /** Points with a pull (a value and a non-zero error on the side of the series): the count χ² sums over. */
+  chi2Points: number;
+  /** χ² / chi2Points. */
   chi2PerPoint: Real | null;
   rms: Real | null;
   maxAbs: Real | null;
@@ -141,6 +144,7 @@ export function fitSummary(residuals: (Real | null)[], pulls: (Real | null)[] | 
   return {
     points: present.length,
     chi2,
+    chi2Points: counted.length,
     chi2PerPoint: chi2 ? chi2.div(counted.length) : null,
     rms: present.length ? squares.div(present.length).sqrt() : null,
     maxAbs: present.length ? present.reduce((m, r) => (r.abs().gt(m) ? r.abs() : m), new R(0)) : null,

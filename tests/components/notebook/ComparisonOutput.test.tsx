@@ -64,9 +64,9 @@ const pointsResult: CompareResult = {
     { x: '1.75', s: '1.75', y: '0.27', errLow: '0.01', errHigh: '0.01', regime: 'long-range', series: { order1: '0.25', order2: '0.26', pade_1_1: '0.255' }, residual: { order1: '-0.02', order2: '-0.01', pade_1_1: '-0.015' }, pull: { order1: '-2', order2: '-1', pade_1_1: '-1.5' } },
   ],
   summary: [
-    { key: 'order1', points: 3, chi2: '5', chi2PerPoint: '1.666667', rms: '0.0129099', maxAbs: '0.02' },
-    { key: 'order2', points: 3, chi2: '2.0625', chi2PerPoint: '0.6875', rms: '0.0081650', maxAbs: '0.01' },
-    { key: 'pade_1_1', points: 2, chi2: '2.5', chi2PerPoint: '1.25', rms: '0.0111803', maxAbs: '0.015' },
+    { key: 'order1', points: 3, chi2Points: 3, chi2: '5', chi2PerPoint: '1.666667', rms: '0.0129099', maxAbs: '0.02' },
+    { key: 'order2', points: 3, chi2Points: 3, chi2: '2.0625', chi2PerPoint: '0.6875', rms: '0.0081650', maxAbs: '0.01' },
+    { key: 'pade_1_1', points: 2, chi2Points: 2, chi2: '2.5', chi2PerPoint: '1.25', rms: '0.0111803', maxAbs: '0.015' },
   ],
   notes: ['Invented note: the Padé [1/1] has a pole in (0, ε) at s = 1.7.'],
 };
@@ -76,7 +76,7 @@ const boundaryResult: CompareResult = {
   quantity: 'Delta_phi2',
   xAxis: 'Delta_phi',
   points: pointsResult.points.map(({ errLow: _low, errHigh: _high, pull: _pull, ...point }) => point),
-  summary: pointsResult.summary.map((row) => ({ ...row, chi2: null, chi2PerPoint: null })),
+  summary: pointsResult.summary.map((row) => ({ ...row, chi2Points: 0, chi2: null, chi2PerPoint: null })),
   kinks: [{ x: '0.52', y: '1.41', uncertainty: '0.012', strength: '7.5', s: '1.96', distance: { order1: '-0.03', order2: '0.004', pade_1_1: null } }],
 };
 
@@ -130,6 +130,21 @@ describe('ComparisonOutput', () => {
     expect(cells).toEqual(['0.3 +0.04 −0.02', '0.3', '0', '0', '0.31', '0.01', '0.25', 'pole at ε = 0.4', '—', '—']);
   });
 
+  it('a point with no usable error: the card gives the count χ² sums over beside the count of residuals', () => {
+    // Invented: one of three points has a zero error on the side of the series, so χ² sums over two.
+    const summary = [{ ...pointsResult.summary[0], points: 3, chi2Points: 2, chi2: '4', chi2PerPoint: '2' }];
+    renderLaidOut({ ...pointsResult, summary });
+    const card = screen.getByTestId('comparison-summary-order1');
+    expect(card).toHaveTextContent(/points in χ²2/);
+    expect(card).toHaveTextContent(/χ²\/point2/);
+    expect(card).toHaveTextContent(/points3/);
+  });
+
+  it('without errors the card names no χ² count', () => {
+    renderLaidOut(boundaryResult);
+    expect(screen.getByTestId('comparison-summary-order1')).not.toHaveTextContent(/points in χ²/);
+  });
+
   it('lists χ², χ²/point, RMS and max |r| per variant as the result gives them', () => {
     renderLaidOut(pointsResult);
     for (const row of pointsResult.summary) {
@@ -138,6 +153,7 @@ describe('ComparisonOutput', () => {
       expect(card).toHaveTextContent(new RegExp(`RMS residual${row.rms}`));
       expect(card).toHaveTextContent(new RegExp(`max \\|r\\|${row.maxAbs}`));
       expect(card).toHaveTextContent(new RegExp(`points${row.points}`));
+      expect(card).toHaveTextContent(new RegExp(`points in χ²${row.chi2Points}`));
     }
     expect(screen.getByTestId('comparison-residual-plot')).toBeTruthy();
     expect(screen.getByTestId('comparison-notes')).toHaveTextContent(pointsResult.notes[0], { exact: false });

@@ -82,6 +82,7 @@ test('the pull uses the error on the side where the series lies (above the data:
 test('χ² = Σ pull², χ²/point, RMS and max |residual| on a hand-made list (missing values left out)', () => {
   const summary = fitSummary([real('0.2'), null, real('-0.1')], [real('0.5'), null, real('-2')], 20);
   assert.equal(summary.points, 2);
+  assert.equal(summary.chi2Points, 2);
   assert.equal(summary.chi2?.toString(), '4.25'); // 0.25 + 4
   assert.equal(summary.chi2PerPoint?.toString(), '2.125');
   assert.ok(summary.rms!.minus(real('0.025').sqrt()).abs().lt('1e-30'), 'sqrt((0.04 + 0.01)/2)');
@@ -89,4 +90,15 @@ test('χ² = Σ pull², χ²/point, RMS and max |residual| on a hand-made list (
   const noErrors = fitSummary([real('0.3')], null, 20);
   assert.equal(noErrors.chi2, null);
   assert.equal(noErrors.rms?.toString(), '0.3');
+});
+
+test('a residual without a pull (zero error on its side) counts in the RMS but not in χ²: χ²/point divides by the points with a pull', () => {
+  // residuals 0.2, −0.1, 0.3; the second has no pull. χ² = 0.5² + 1.5² = 2.5 over 2 points (by hand)
+  const summary = fitSummary([real('0.2'), real('-0.1'), real('0.3')], [real('0.5'), null, real('1.5')], 20);
+  assert.equal(summary.points, 3);
+  assert.equal(summary.chi2Points, 2);
+  assert.equal(summary.chi2?.toString(), '2.5');
+  assert.equal(summary.chi2PerPoint?.toString(), '1.25');
+  assert.ok(summary.rms!.minus(real('0.14').div(3).sqrt()).abs().lt('1e-30'), 'sqrt((0.04 + 0.01 + 0.09)/3)');
+  assert.equal(fitSummary([real('0.1')], [null], 20).chi2Points, 0);
 });

@@ -105,7 +105,11 @@ test('mean-field points: every variant is the exact Landau value (1/ν = s, η =
   assert.ok(Object.values(out.series).every((v) => v === null));
   assert.equal(mf.s, '1.4');
   assert.equal(mf.series.pade_0_2, '1.4');
-  assert.ok(result.notes.some((n) => n.includes('outside 0 < s ≤ 2')));
+  assert.deepEqual(out.defects?.order1, 'Δφ = (d − s)/2 holds only for s < 2; at the short-range point Δφ = (d − 2 + η)/2');
+  assert.ok(result.notes.some((n) => n.includes('x = 0.2') && n.includes('s ≥ 2')), JSON.stringify(result.notes));
+  const below = compare({ data: { xAxis: 's', x: ['-0.1'], y: ['1'] } });
+  assert.equal(below.points[0].regime, 'outside');
+  assert.ok(below.notes.some((n) => n.includes('outside 0 < s ≤ 2') && n.includes('x = -0.1')), JSON.stringify(below.notes));
   const eta = compare({ quantity: 'eta', s: { from: '1.2', to: '1.9', points: 8 }, data: { xAxis: 's', x: ['1.7'], y: ['0.3'] } });
   for (const point of eta.curve) for (const v of eta.variants) assert.equal(point.values[v.key], new R(2).minus(point.s).toString(), `η = 2 − s at s = ${point.s}`);
 });
@@ -142,7 +146,9 @@ test('a boundary: kinks of the invented curve with the series distance at the ki
   assert.ok(Math.abs(Number(kink.x) - 1.75) <= Number(kink.uncertainty), `planted at 1.75 (within the stated uncertainty), found ${kink.x} ± ${kink.uncertainty}`);
   assert.equal(kink.s, kink.x);
   const scan = runJob({ job: 'scan', model: ising, loops: 2, digits: 20, d: '3', s: { from: kink.s, to: kink.s, points: 2 }, quantities: ['nuInv'] }) as Any;
-  closeTo(kink.distance.order2, new R(scan.points[0].values.nuInv).minus(kink.y), '1e-18', 'distance at two loops');
+  // the distance uses the locator's y; the figure shown resolves a millionth of the data's spread (as the kinks job writes it)
+  const spread = Math.max(...y.map(Number)) - Math.min(...y.map(Number));
+  closeTo(kink.distance.order2, new R(scan.points[0].values.nuInv).minus(kink.y), String(spread * 1e-6), 'distance at two loops');
 });
 
 test('bad input is an invalid-job error through the dispatcher: unequal columns, negative errors, a symbolic N', () => {
@@ -173,4 +179,120 @@ test('progress is reported in order from the start to 1, as scans report it', ()
   assert.ok(seen.length > 50, `${seen.length} reports`);
   assert.deepEqual([...seen].sort((a, b) => a - b), seen, 'never backwards');
   assert.equal(seen.at(-1), 1);
+});
+
+// ---- the short-range region, Δφ placement, χ² counts and kink figures --------------------------
+
+const deltaSigma = '0.5181489'; // invented for the test (close to the 3d Ising value recalled from memory)
+const sStar = new R(3).minus(new R(deltaSigma).times(2)); // s* = 2 − η_SR = d − 2Δσ (exact relation)
+const etaShortRange = new R(deltaSigma).times(2).minus(3).plus(2); // η_SR = 2Δσ − d + 2 = 0.0362978 by hand
+
+test('η above s*: every variant is the short-range η = 2Δσ − d + 2, the point stays out of χ², and the notes agree with each other', () => {
+  const result = compare({ quantity: 'eta', digits: 6, s: { from: '1.6', to: '1.98', points: 2 }, shortRange: { Delta_sigma: deltaSigma }, data: { xAxis: 's', x: ['1.7', '1.98'], y: ['0.31', '0.0363'], yErrLow: ['0.01', '0.0005'] } });
+  assert.equal(result.error, undefined, JSON.stringify(result.error));
+  assert.equal(sStar.toString(), '1.9637022');
+  const [inside, beyond] = result.points;
+  assert.equal(inside.regime, 'long-range');
+  assert.equal(beyond.regime, 'short-range');
+  for (const v of result.variants) {
+    assert.equal(inside.series[v.key], '0.3', `${v.key}: η = 2 − s at s = 1.7 (long-range, exact)`);
+    assert.equal(beyond.series[v.key], etaShortRange.toString(), `${v.key}: η_SR at s = 1.98`);
+    assert.equal(result.curve[1].values[v.key], etaShortRange.toString(), `${v.key} on the curve at s = 1.98`);
+  }
+  assert.equal(result.curve[1].regime, 'short-range');
+  // only s = 1.7 counts: residual 0.3 − 0.31 = −0.01, pull −0.01/0.01 = −1 (by hand)
+  for (const row of result.summary) assert.deepEqual([row.points, row.chi2Points, row.chi2, row.rms], [1, 1, '1', '0.01'], row.key);
+  assert.ok(result.notes.some((n) => n.includes('short-range region') && n.includes('x = 1.98') && n.includes('left out of χ²')), JSON.stringify(result.notes));
+  assert.ok(!result.notes.some((n) => n.includes('takes over')), 'no note that the series still applies above s*');
+  assert.ok(!result.notes.some((n) => /for s < 2\b/.test(n) && n.includes('every variant')), 'the long-range η note stops at s*');
+  assert.ok(result.notes.some((n) => n.includes('η = 2 − s exactly for d/2 < s < s*')));
+});
+
+test('other quantities above s*, and η at s = 2 without s*: no value, a defect naming the short-range region, nothing in χ²', () => {
+  const nu = compare({ s: { from: '1.6', to: '1.98', points: 2 }, shortRange: { Delta_sigma: deltaSigma }, data: { xAxis: 's', x: ['1.97'], y: ['1.5'], yErrLow: ['0.01'] } });
+  assert.equal(nu.points[0].regime, 'short-range');
+  for (const v of nu.variants) {
+    assert.equal(nu.points[0].series[v.key], null);
+    assert.equal(nu.points[0].defects?.[v.key], 'short-range region (s ≥ s*): the long-range series does not apply');
+    assert.equal(nu.curve[1].values[v.key], null);
+  }
+  assert.deepEqual([nu.summary[0].points, nu.summary[0].chi2Points, nu.summary[0].chi2], [0, 0, null]);
+  // s = 2 is the short-range theory even when s* is not given (the scan grid alone calls it long-range)
+  const eta = compare({ quantity: 'eta', s: { from: '1.6', to: '2', points: 2 }, data: { xAxis: 's', x: ['2'], y: ['0.03'], yErrLow: ['0.01'] } });
+  assert.equal(eta.curve[1].regime, 'short-range');
+  assert.equal(eta.points[0].regime, 'short-range');
+  assert.equal(eta.points[0].series.order2, null);
+  assert.equal(eta.points[0].defects?.order2, 'short-range region (s = 2): the long-range series does not apply');
+  assert.equal(eta.summary[1].chi2, null);
+});
+
+test('Δφ data at s ≥ 2 or s ≥ s*: no series, a defect saying why Δφ = (d − s)/2 fails, out of χ² and listed in a note', () => {
+  const data = { xAxis: 'Delta_phi', x: ['0.4', '0.5', deltaSigma, '0.55'], y: ['1.4', '1.41', '1.41', '1.5'], yErrLow: ['0.01', '0.01', '0.01', '0.01'] };
+  const job = { quantity: 'Delta_phi2', s: { from: '1.6', to: '2', points: 2 } };
+  const plain = compare({ ...job, data });
+  assert.equal(plain.error, undefined, JSON.stringify(plain.error));
+  // s = 3 − 2Δφ: 2.2, 2, 1.9637022, 1.9 (by hand)
+  assert.deepEqual(plain.points.map((p) => p.s), ['2.2', '2', '1.9637022', '1.9']);
+  assert.deepEqual(plain.points.map((p) => p.regime), ['outside', 'short-range', 'long-range', 'long-range']);
+  assert.equal(plain.curve[1].regime, 'short-range', 's = 2 on the curve');
+  for (const p of plain.points.slice(0, 2)) {
+    for (const v of plain.variants) {
+      assert.equal(p.series[v.key], null);
+      assert.equal(p.defects?.[v.key], 'Δφ = (d − s)/2 holds only for s < 2; at the short-range point Δφ = (d − 2 + η)/2', `${v.key} at Δφ = ${p.x}`);
+    }
+  }
+  // χ² equals that of the two long-range points given directly in s
+  const inS = compare({ ...job, data: { xAxis: 's', x: ['1.9637022', '1.9'], y: ['1.41', '1.5'], yErrLow: ['0.01', '0.01'] } });
+  assert.deepEqual(plain.summary, inS.summary);
+  assert.equal(plain.summary[0].chi2Points, 2);
+  assert.ok(plain.notes.some((n) => n.includes('2 data point(s)') && n.includes('x = 0.4, 0.5') && n.includes('left out of χ²')), JSON.stringify(plain.notes));
+  assert.ok(!plain.notes.some((n) => n.includes('outside 0 < s ≤ 2')), 'Δφ = 0.4 is named once, with the Δφ reason');
+
+  const withStar = compare({ ...job, shortRange: { Delta_sigma: deltaSigma }, data });
+  assert.deepEqual(withStar.points.map((p) => p.regime), ['outside', 'short-range', 'short-range', 'long-range'], 'Δφ = Δσ sits at s* itself');
+  assert.equal(withStar.points[2].defects?.order1, 'Δφ = (d − s)/2 holds only for s < s*; at the short-range point Δφ = (d − 2 + η)/2');
+  const onlyLast = compare({ ...job, shortRange: { Delta_sigma: deltaSigma }, data: { xAxis: 's', x: ['1.9'], y: ['1.5'], yErrLow: ['0.01'] } });
+  assert.deepEqual(withStar.summary, onlyLast.summary);
+  assert.ok(withStar.notes.some((n) => n.includes('3 data point(s)') && n.includes('x = 0.4, 0.5, 0.5181489')), JSON.stringify(withStar.notes));
+});
+
+test('χ² counts only points with a usable error: chi2Points, χ²/point = χ²/chi2Points, and a note naming the point without one', () => {
+  // Invented data. One loop, 1/ν = s − (N+2)/(N+8) ε with ε = 2s − 3 (recalled from memory, as above):
+  // s = 1.6 → 1.5333…, below y = 1.6 where the lower error is 0 (no pull); s = 1.7 → 1.5666…, pull (1.5666… − 1.6)/0.01 = −10/3;
+  // s = 1.8 → 1.6, pull (1.6 − 1.5)/0.01 = 10. χ² = 100/9 + 100 = 1000/9, over 2 points.
+  const result = compare({ data: { xAxis: 's', x: ['1.6', '1.7', '1.8'], y: ['1.6', '1.6', '1.5'], yErrLow: ['0', '0.01', '0.01'], yErrHigh: ['0.01', '0.01', '0.01'] } });
+  const one = result.summary.find((row) => row.key === 'order1')!;
+  assert.equal(one.points, 3);
+  assert.equal(one.chi2Points, 2);
+  closeTo(one.chi2, new R(1000).div(9), '1e-17', 'χ²');
+  closeTo(one.chi2PerPoint, new R(500).div(9), '1e-17', 'χ²/point = χ²/2');
+  assert.equal(result.points[0].pull?.order1, null);
+  assert.ok(result.notes.some((n) => n.includes('1 data point(s) have a zero error on the side of the series (x = 1.6)')), JSON.stringify(result.notes));
+});
+
+test('kink figures are written as the kinks job writes them (enough digits for the uncertainty), and the distance uses the unrounded y', () => {
+  // Invented boundary (test only) on an offset: x steps of 1e-7 around s = 1.75, y = 1000 + a kinked shape 1e-3 high.
+  const x = Array.from({ length: 121 }, (_, i) => (1.75 + i * 1e-7).toFixed(8));
+  const y = x.map((v, i) => (1000 + 0.001 * (i / 120) + 0.002 * Math.max(0, i - 60) / 120).toFixed(9));
+  const result = compare({ data: { xAxis: 's', x, y, boundary: true } });
+  assert.equal(result.error, undefined, JSON.stringify(result.error));
+  const kinks = runJob({ job: 'kinks', points: x.map((v, i) => [v, y[i]]) }) as Any;
+  assert.ok(kinks.kinks.length >= 1 && result.kinks?.length === kinks.kinks.length, JSON.stringify(result.notes));
+  const [kink] = result.kinks!;
+  assert.deepEqual({ x: kink.x, y: kink.y, uncertainty: kink.uncertainty, strength: kink.strength }, kinks.kinks[0], 'the kinks job on the same points');
+  assert.ok(Math.abs(Number(kink.x) - Number(x[60])) <= 3 * Number(kink.uncertainty), `planted at ${x[60]}, found ${kink.x} ± ${kink.uncertainty}`);
+  assert.ok(kink.x.replace(/^\d\.|0+$/g, '').length > 5, `more than six digits to resolve ${kink.uncertainty}: ${kink.x}`);
+  // series − y at the kink: the scan value at the kink's s minus y, to the y resolution (spread × 1e-6 = 3e-9)
+  const scan = runJob({ job: 'scan', model: ising, loops: 2, digits: 20, d: '3', s: { from: kink.s, to: kink.s, points: 2 }, quantities: ['nuInv'] }) as Any;
+  closeTo(kink.distance.order2, new R(scan.points[0].values.nuInv).minus(kink.y), '3e-9', 'distance at two loops');
+  assert.ok(Number(kink.y) > 1000 && Number(kink.y) < 1000.003, `y within the data: ${kink.y}`);
+});
+
+test('a boundary with a repeated x: the note names the two rows as given (1-based, input order) and no kinks are reported', () => {
+  // Invented, unsorted: rows 3 and 8 both have x = 1.7.
+  const x = ['1.9', '1.62', '1.7', '1.8', '1.66', '1.74', '1.78', '1.7', '1.86', '1.6'];
+  const y = x.map((v) => String(Number(v) / 2));
+  const result = compare({ data: { xAxis: 's', x, y, boundary: true } });
+  assert.deepEqual(result.kinks, []);
+  assert.ok(result.notes.includes('No kinks: points 3 and 8 have the same x (1.7); a curve needs one y per x'), JSON.stringify(result.notes));
 });

@@ -8,7 +8,7 @@ import Papa from 'papaparse';
 import { runJob } from '../../../shared/jobs';
 import type { CompareResult } from '../../../shared/jobs/dataSchemas';
 import type { CellInput } from '../../../shared/notebook/cells';
-import { comparisonCsv, comparisonTexTable } from '../../../shared/notebook/comparisonTable';
+import { comparisonCsv, comparisonSummaryTex, comparisonTexTable } from '../../../shared/notebook/comparisonTable';
 import type { ExportedDataset } from '../../../shared/notebook/datasets';
 import { toLatexDocument, toNotebookDocument } from '../../../shared/notebook/exports';
 import { type DatasetForJob, jobForCell, type SetupInput } from '../../../shared/notebook/jobs';
@@ -89,11 +89,11 @@ test('the LaTeX export of a comparison cell names the setup and the dataset with
   assert.match(tex, /Series from scan cell \\texttt\{scan\}: the O\(1\) model at 2 loops/);
   assert.match(tex, /Invented lattice 1\/nu \(demo\) \\& co\\_1/, 'dataset name escaped');
   assert.match(tex, /Source: Invented: Monte Carlo \\\$10\\\^\{\}6\\\$ sweeps \\textbackslash\{\}input\\\{\/etc\/passwd\\\} 100\\%/, 'source escaped, never executed');
-  assert.match(tex, /series & points & \$\\chi\^2\$/);
+  assert.match(tex, /series & points & points in \$\\chi\^2\$ & \$\\chi\^2\$/);
   for (const label of ['$O(\\varepsilon)$', '$O(\\varepsilon^{2})$', "Pad\\'e $[1/1]$", "Pad\\'e $[0/2]$"]) assert.ok(tex.includes(`${label} & `), `summary row ${label}`);
   // χ² of the one-loop row as the job computed it, rounded to 4 digits in the table
   const one = result.summary.find((row) => row.key === 'order1')!;
-  assert.ok(tex.includes(`$O(\\varepsilon)$ & ${one.points} & $${String(Number(Number(one.chi2).toPrecision(4)))}$`), 'one-loop χ² row');
+  assert.ok(tex.includes(`$O(\\varepsilon)$ & ${one.points} & ${one.chi2Points} & $${String(Number(Number(one.chi2).toPrecision(4)))}$`), 'one-loop χ² row');
   compiles(tex);
 });
 
@@ -134,4 +134,14 @@ test('CSV: a formula-looking label is defused with an apostrophe, negative numbe
   assert.equal(header[0], 'Δφ');
   assert.equal(header[1], 's');
   assert.equal(rows[1][1], '1.8', 's = 3 − 2·0.6');
+});
+
+test('the TeX summary prints the count χ² sums over: a point with a zero error on the side of the series is in "points" but not in "points in χ²"', () => {
+  // Invented data: at s = 1.6 the one-loop 1/ν (1.5333…) lies below y = 1.6, where the lower error is 0 (see compare-job tests)
+  const job = { job: 'compare', model: { preset: 'on', N: 1 }, loops: 2, digits: 20, d: '3', s: { from: '1.6', to: '1.9', points: 2 }, quantity: 'nuInv', data: { xAxis: 's', x: ['1.6', '1.7', '1.8'], y: ['1.6', '1.6', '1.5'], yErrLow: ['0', '0.01', '0.01'], yErrHigh: ['0.01', '0.01', '0.01'] } };
+  const result = runJob(job) as unknown as CompareResult;
+  const tex = comparisonSummaryTex(result);
+  // χ² = 100/9 + 100 = 111.1 (4 digits), χ²/point = 55.56: over 2 points, not 3 (hand computation in the compare-job tests)
+  assert.ok(tex.includes('$O(\\varepsilon)$ & 3 & 2 & $111.1$ & $55.56$'), tex);
+  compiles(['\\documentclass{article}', '\\begin{document}', tex, '\\end{document}', ''].join('\n'));
 });
