@@ -7,26 +7,34 @@ import { evaluateSpline, fitSpline, gcvSpline, intervalOf, prepareSpline, type S
  *
  * 1. Fit: x and y rescaled to [0, 1]; cubic smoothing spline with λ by generalised cross-validation
  *    (spline.ts).
- * 2. Candidates: interior local maxima of the curvature κ = |f''| / (1 + f'²)^{3/2} of the fit in the
- *    data's own units, on a uniform grid of 4 points per data point (2 000 to 20 000).
- * 3. A candidate is a kink when it stands out from the noise:
- *    - strength = peak κ / median κ over the grid ≥ minStrength (the median is floored at 10⁻⁴ of the
- *      largest κ, so strengths stop at 10⁴ on straight stretches);
- *    - local prominence (peak κ over the higher of the lowest κ on either side, within
+ * 2. Candidates: interior local maxima of |F''| of the fit in the rescaled frame, on a uniform grid of
+ *    4 points per data point (2 000 to 20 000).
+ * 3. A candidate is a kink when it stands out from the noise. Every test below is made in the rescaled
+ *    frame, so the decision does not depend on the units (or offsets) of x and y: |f''| in any units is
+ *    a constant times |F''|, whereas κ in data units is not (its (1 + f'²)^{3/2} turns the extrema of a
+ *    sine into sharp κ peaks once x is measured in smaller units).
+ *    - |F''| at the peak / median |F''| over the grid ≥ minStrength (the median is floored at 10⁻⁴ of
+ *      the largest value);
+ *    - local prominence (peak over the higher of the lowest values on either side, within
  *      3.5 smoother bandwidths) ≥ minProminence;
  *    - not within 2 data spacings or 6 bandwidths of an end, where the natural end condition f'' = 0
- *      makes κ overshoot by itself;
+ *      makes |f''| overshoot by itself;
  *    - its turning (the slope change across it beyond the neighbouring background) is at least
  *      minTurningSignificance standard deviations of the turning that noise alone makes — noise of
- *      the data's level (a robust difference estimate) passed through the same smoother;
- *    - strongest first, and not on the rings (side lobes) of a stronger kink;
- *    - a κ peak above minStrength · median reappears within the match window in at least
+ *      the data's level (a robust difference estimate) passed through the same smoother; stretches
+ *      holding a taller candidate or an accepted kink are not background;
+ *    - tallest first, and not on the rings (side lobes) of a taller kink;
+ *    - a |F''| peak above minStrength · median reappears within the match window in at least
  *      minReappearance of the bootstrap resamples (pairs drawn with replacement; repeats are weights;
- *      same λ).
- * 4. Position: the maximum of |f''| next to the κ peak (see peakOfSecond). Uncertainty =
+ *      same λ), and the resamples and the full data agree on where it is (see agrees).
+ * 4. Position: the maximum of |f''| next to the peak (see peakOfSecond). Uncertainty =
  *    sqrt(sd_bootstrap² + sd_noise² + (h/2)² + bias²): the spread over the resamples, the spread when
  *    fresh noise is added to the fit, half the local data spacing h, and the smoothing bias estimated
  *    as the shift of the position when the smoother is applied to the fitted curve itself.
+ * 5. Strength, reported and used to order the kinks: the curvature κ = |y''| / (1 + y'²)^{3/2} in the
+ *    data's own units, its largest value within the match window over the median κ of the grid (the
+ *    median floored as above, so strengths stop at 10⁴ on straight stretches). It describes the kink
+ *    as plotted in those units and so changes with them; whether there is a kink does not.
  */
 
 export interface KinkFound { x: number; y: number; uncertainty: number; strength: number }
@@ -37,7 +45,7 @@ export const KINK_THRESHOLDS = {
   minProminence: 2,
   minReappearance: 0.7,
   /** The turning at the peak beyond the smooth background, in standard deviations of what noise makes. */
-  minTurningSignificance: 5,
+  minTurningSignificance: 4.5,
   edgeSpacings: 2,
   /** The match window: this many local data spacings, or the peak's half width if wider. */
   windowSpacings: 4,
@@ -66,8 +74,9 @@ interface Scaling { x0: number; xs: number; y0: number; ys: number }
 interface Peak {
   index: number;
   x: number;
-  kappa: number;
-  /** κ over the higher of the two flanking minima, at grid index `col`. */
+  /** |F''| at the peak (the unit-free frame). */
+  height: number;
+  /** The height over the higher of the two flanking minima, at grid index `col`. */
   prominence: number;
   col: number;
   halfWidth: number;
@@ -88,29 +97,31 @@ export function locateKinks(x: number[], y: number[], options: { resamples?: num
   const v = y.map((value) => (value - scaling.y0) / scaling.ys);
   const fit = gcvSpline(prepareSpline(u, v, weights));
   const grid = uniformGrid(n);
-  const kappa = curvatureOnGrid(fit, grid, scaling);
-  // A floor on the median, so that straight stretches (κ ≈ 0) do not make every ripple "infinitely strong".
-  const median = Math.max(medianOf(kappa), MEDIAN_FLOOR * maxOf(kappa), Number.MIN_VALUE);
-  const strengthOf = (peak: Peak) => peak.kappa / median;
+  const bend = bendOnGrid(fit, grid, secondMagnitude);
+  const medianBend = flooredMedian(bend);
   const noise = noiseProbes(u, v, weights, fit.lambda, seed);
   const reachOf = (t: number) => Math.max(PROMINENCE_SPACINGS * localSpacing(u, t), PROMINENCE_BANDWIDTHS * bandwidth(u, fit.lambda, meanWeight, t));
-  const peaks = localMaxima(kappa, grid, 1, grid.length - 2, reachOf).filter((peak) => !nearEnd(peak.x, u, fit.lambda, meanWeight));
+  const peaks = localMaxima(bend, grid, 1, grid.length - 2, reachOf).filter((peak) => !nearEnd(peak.x, u, fit.lambda, meanWeight));
+  const standing = peaks.filter((peak) => peak.height / medianBend >= KINK_THRESHOLDS.minStrength && peak.prominence >= KINK_THRESHOLDS.minProminence);
   const candidates = acceptTurning(
-    peaks.filter((peak) => strengthOf(peak) >= KINK_THRESHOLDS.minStrength && peak.prominence >= KINK_THRESHOLDS.minProminence),
-    (peak, accepted) => turningSignificance(peak.x, reachOf(peak.x), fit, noise, accepted),
-    u, fit.lambda, meanWeight,
+    standing,
+    (peak, taken) => turningSignificance(peak.x, reachOf(peak.x), fit, noise, taken, tallerThan(peak, standing)),
+    u, fit.lambda, meanWeight, reachOf,
   );
   const windows = candidates.map((peak) => matchWindow(peak, u));
-  const floor = KINK_THRESHOLDS.minStrength * median;
-  const positions = bootstrapPositions(u, v, weights, fit.lambda, grid, scaling, candidates, windows, floor, resamples, seed);
+  const floor = KINK_THRESHOLDS.minStrength * medianBend;
+  const positions = bootstrapPositions(u, v, weights, fit.lambda, grid, candidates, windows, floor, resamples, seed);
+  const kappa = bendOnGrid(fit, grid, curvatureIn(scaling));
+  const medianKappa = flooredMedian(kappa);
   const smoothedAgain = fitSpline(prepareSpline(u, fit.values, weights), fit.lambda, false);
   const kinks: KinkFound[] = [];
   candidates.forEach((peak, k) => {
     const found = positions[k];
     if (found.length < KINK_THRESHOLDS.minReappearance * resamples) return;
     const spread = standardDeviation(found);
-    const wobble = standardDeviation(noisePositions(fit, noise, peak, windows[k], grid, scaling));
+    const wobble = standardDeviation(noisePositions(fit, noise, peak, windows[k], grid));
     const position = peakOfSecond(fit, peak.x, windows[k]);
+    if (!agrees(found, peak.x, position, spread, localSpacing(u, position))) return;
     const spacing = localSpacing(u, position);
     const bias = peakOfSecond(smoothedAgain, peak.x, windows[k]) - position;
     const uncertainty = Math.sqrt(spread ** 2 + wobble ** 2 + (spacing / 2) ** 2 + bias ** 2);
@@ -118,7 +129,7 @@ export function locateKinks(x: number[], y: number[], options: { resamples?: num
       x: scaling.x0 + scaling.xs * position,
       y: scaling.y0 + scaling.ys * evaluateSpline(fit, position)[0],
       uncertainty: scaling.xs * uncertainty,
-      strength: strengthOf(peak),
+      strength: maxWithin(kappa, grid, position, windows[k]) / medianKappa,
     });
   });
   kinks.sort((a, b) => b.strength - a.strength);
@@ -129,17 +140,21 @@ export function locateKinks(x: number[], y: number[], options: { resamples?: num
  * Does the curve turn at the peak more than noise could make it? The turning C = f'(t + r) − f'(t − r)
  * across the peak, minus the turning over the neighbouring stretches of the same width (the smooth
  * background; one side only near an end):  T = C − (L + R) / 2. A kink puts its whole slope jump
- * into T, a smooth curve almost nothing. The answer is |T| in standard deviations of T over the noise
- * probes. Stretches that hold a kink already accepted (`taken`) are not background; a peak whose own
- * stretch holds one is a ring of that kink (0). It uses slopes only: f'' is far noisier than f' when
- * GCV picks a small λ, so a test on the height of the κ peak alone would miss clear kinks.
+ * into T, a smooth curve almost nothing (the average of both sides cancels a background whose f''
+ * changes linearly). The answer is |T| in standard deviations of T over the noise probes. A side that
+ * holds an accepted kink (`taken`) or a taller candidate (`taller`) is not background: a kink next door
+ * would lend its turning to a noise peak. A peak whose own stretch holds an accepted kink is a ring of
+ * that kink (0). It uses slopes only: f'' is far noisier than f' when GCV picks a small λ.
  */
-function turningSignificance(t: number, reach: number, fit: SplineFit, probes: SplineFit[], taken: Array<[number, number]> = []): number {
+function turningSignificance(
+  t: number, reach: number, fit: SplineFit, probes: SplineFit[], taken: Array<[number, number]>, taller: Array<[number, number]>,
+): number {
   const first = fit.x[0];
   const last = fit.x[fit.x.length - 1];
   const r = Math.min(reach, t - first, last - t);
-  const clear = (from: number, to: number) => taken.every(([lo, hi]) => hi < from || lo > to);
-  if (!clear(t - r, t + r)) return 0;
+  const outside = (stretches: Array<[number, number]>, from: number, to: number) => stretches.every(([lo, hi]) => hi < from || lo > to);
+  const clear = (from: number, to: number) => outside(taken, from, to) && outside(taller, from, to);
+  if (!outside(taken, t - r, t + r)) return 0;
   const hasLeft = t - 3 * r >= first && clear(t - 3 * r, t - r);
   const hasRight = t + 3 * r <= last && clear(t + r, t + 3 * r);
   const turning = (spline: Pick<SplineFit, 'x' | 'values' | 'second'>) => {
@@ -152,6 +167,11 @@ function turningSignificance(t: number, reach: number, fit: SplineFit, probes: S
   };
   const wobble = standardDeviation(probes.map(turning));
   return Math.abs(turning(fit)) / Math.max(wobble, Number.MIN_VALUE);
+}
+
+/** The stretches around candidates taller than `peak`: not background for it. */
+function tallerThan(peak: Peak, candidates: Peak[]): Array<[number, number]> {
+  return candidates.filter((other) => other.height > peak.height).map((other) => [other.x - other.halfWidth, other.x + other.halfWidth]);
 }
 
 /**
@@ -189,7 +209,7 @@ function noiseProbes(u: number[], v: number[], weights: number[], lambda: number
  * linear, so fit + smoothed noise is the fit of data + noise). The pairs bootstrap keeps the data's own
  * noise in every resample, so it alone understates how far noise can move a peak.
  */
-function noisePositions(fit: SplineFit, probes: SplineFit[], peak: Peak, window: number, grid: Float64Array, scaling: Scaling): number[] {
+function noisePositions(fit: SplineFit, probes: SplineFit[], peak: Peak, window: number, grid: Float64Array): number[] {
   const step = grid[1] - grid[0];
   const from = Math.max(1, Math.floor((peak.x - window) / step) - 1);
   const to = Math.min(grid.length - 2, Math.ceil((peak.x + window) / step) + 1);
@@ -200,8 +220,8 @@ function noisePositions(fit: SplineFit, probes: SplineFit[], peak: Peak, window:
       values: fit.values.map((value, i) => value + probe.values[i]),
       second: fit.second.map((value, i) => value + probe.second[i]),
     };
-    const kappa = curvatureOnGrid(perturbed, grid, scaling, from - 1, to + 1);
-    const match = strongestPeakWithin(localMaxima(kappa, grid, from, to), peak.x, window);
+    const bend = bendOnGrid(perturbed, grid, secondMagnitude, from - 1, to + 1);
+    const match = strongestPeakWithin(localMaxima(bend, grid, from, to), peak.x, window);
     if (match) positions.push(peakOfSecond(perturbed, peak.x, window));
   }
   return positions;
@@ -236,29 +256,29 @@ function peakOfSecond(fit: Pick<SplineFit, 'x' | 'second'>, center: number, wind
 }
 
 /**
- * Strongest first: a peak is a kink when its turning stands out from the noise, judged against the
- * kinks accepted before it (their stretches are excluded). The smoother rings around a sharp peak (its
- * kernel's first side lobe, ~6 % of the peak, lies about 4.4 bandwidths out): peaks within reach of an
- * accepted kink's rings are skipped.
+ * Tallest first: a peak is a kink when its turning stands out from the noise, judged against the
+ * kinks accepted before it (their stretches are excluded from its background). Height decides the
+ * order, not significance: the smoother rings around a sharp peak (its kernel's first side lobe,
+ * ~6 % of the peak, lies about 4.4 bandwidths out; near-interpolating fits ring at every knot), and a
+ * ring can turn as significantly as the kink itself. Peaks within reach of an accepted kink's rings are
+ * skipped.
  */
 function acceptTurning(
   peaks: Peak[], significanceOf: (peak: Peak, taken: Array<[number, number]>) => number,
-  knots: number[], lambda: number, meanWeight: number,
+  knots: number[], lambda: number, meanWeight: number, reachOf: (t: number) => number,
 ): Peak[] {
   const accepted: Peak[] = [];
   const taken: Array<[number, number]> = [];
   const ringReach = (kink: Peak) =>
     Math.max(SIDE_LOBE_SPACINGS * localSpacing(knots, kink.x), SIDE_LOBE_WIDTHS * kink.halfWidth, SIDE_LOBE_BANDWIDTHS * bandwidth(knots, lambda, meanWeight, kink.x));
-  for (const peak of [...peaks].sort((a, b) => b.kappa - a.kappa)) {
+  for (const peak of [...peaks].sort((a, b) => b.height - a.height)) {
     if (accepted.some((kink) => Math.abs(kink.x - peak.x) <= ringReach(kink))) continue;
     if (significanceOf(peak, taken) < KINK_THRESHOLDS.minTurningSignificance) continue;
     accepted.push(peak);
-    const reach = Math.max(PROMINENCE_SPACINGS * localSpacing(knots, peak.x), PROMINENCE_BANDWIDTHS * bandwidth(knots, lambda, meanWeight, peak.x));
-    taken.push([peak.x - reach, peak.x + reach]);
+    taken.push([peak.x - reachOf(peak.x), peak.x + reachOf(peak.x)]);
   }
   return accepted;
 }
-
 
 function scalingOf(x: number[], y: number[]): Scaling {
   const x0 = x[0];
@@ -277,28 +297,62 @@ function uniformGrid(n: number): Float64Array {
   return Float64Array.from({ length: size + 1 }, (_, i) => i / size);
 }
 
+type Bend = (slope: number, second: number) => number;
+
+/** |F''| in the rescaled frame: proportional to |f''| in any units, so its ratios do not depend on them. */
+const secondMagnitude: Bend = (_slope, second) => Math.abs(second);
+
 /**
  * κ in the original units up to a constant factor (only ratios of κ are used). With the aspect
  * m = y-scale / x-scale, f' = m F' and f'' = (y-scale / x-scale²) F'', so
  *   κ ∝ |F''| / (1 + m² F'²)^{3/2}          for m ≤ 1,
  *   κ ∝ |F''| / (m⁻² + F'²)^{3/2}           for m > 1 (the same up to m³, without overflow).
  */
-function curvatureOnGrid(fit: Pick<SplineFit, 'x' | 'values' | 'second'>, grid: Float64Array, scaling: Scaling, from = 0, to = grid.length - 1): Float64Array {
-  const kappa = new Float64Array(grid.length);
+function curvatureIn(scaling: Scaling): Bend {
   const aspect = scaling.ys / scaling.xs;
-  const steep = aspect > 1;
-  const inverseSquare = 1 / (aspect * aspect);
+  if (aspect > 1) {
+    const inverseSquare = 1 / (aspect * aspect);
+    return (slope, second) => Math.abs(second) / (inverseSquare + slope * slope) ** 1.5;
+  }
   const squared = aspect * aspect;
+  return (slope, second) => Math.abs(second) / (1 + squared * slope * slope) ** 1.5;
+}
+
+function bendOnGrid(fit: Pick<SplineFit, 'x' | 'values' | 'second'>, grid: Float64Array, measure: Bend, from = 0, to = grid.length - 1): Float64Array {
+  const values = new Float64Array(grid.length);
   let interval = intervalOf(fit.x, grid[from]);
   const last = fit.x.length - 2;
   for (let j = from; j <= to; j++) {
     const t = grid[j];
     while (interval < last && t > fit.x[interval + 1]) interval++;
     const [, slope, second] = evaluateSpline(fit, t, interval);
-    const denominator = steep ? inverseSquare + slope * slope : 1 + squared * slope * slope;
-    kappa[j] = Math.abs(second) / denominator ** 1.5;
+    values[j] = measure(slope, second);
   }
-  return kappa;
+  return values;
+}
+
+/** The median, floored at MEDIAN_FLOOR of the largest value, so that straight stretches (≈ 0) do not make every ripple "infinitely strong". */
+function flooredMedian(values: Float64Array): number {
+  return Math.max(medianOf(values), MEDIAN_FLOOR * maxOf(values), Number.MIN_VALUE);
+}
+
+function maxWithin(values: Float64Array, grid: Float64Array, center: number, window: number): number {
+  let max = 0;
+  for (let j = 0; j < grid.length; j++) if (Math.abs(grid[j] - center) <= window) max = Math.max(max, values[j]);
+  return max;
+}
+
+/**
+ * A kink is where the largest |f''| around it is: the knot maximum (`position`) lies within a data
+ * spacing of the grid peak, and the resamples put it there too (their median within two of its
+ * standard errors: spread and half the spacing). A ripple on a rising |f''| has its window's maximum
+ * at the window's edge instead, and a noise peak that borrowed height from a neighbour moves about.
+ */
+function agrees(found: number[], peakAt: number, position: number, spread: number, spacing: number): boolean {
+  if (Math.abs(position - peakAt) > spacing) return false;
+  if (found.length === 0) return true;
+  const middle = medianOf(Float64Array.from(found));
+  return Math.abs(middle - position) <= 2 * Math.hypot(spread, spacing / 2);
 }
 
 function maxOf(values: Float64Array): number {
@@ -322,7 +376,7 @@ function localMaxima(kappa: Float64Array, grid: Float64Array, from = 1, to = kap
     const curvature = kappa[j - 1] - 2 * kappa[j] + kappa[j + 1];
     const offset = curvature < 0 ? Math.max(-0.5, Math.min(0.5, (0.5 * (kappa[j - 1] - kappa[j + 1])) / curvature)) : 0;
     const shape = reachOf ? shapeOf(kappa, grid, j, Math.ceil(reachOf(grid[j]) / step)) : { prominence: NaN, col: j, halfWidth: 0 };
-    peaks.push({ index: j, x: grid[j] + offset * step, kappa: kappa[j], ...shape });
+    peaks.push({ index: j, x: grid[j] + offset * step, height: kappa[j], ...shape });
   }
   return peaks;
 }
@@ -393,14 +447,14 @@ function matchWindow(peak: Peak, knots: number[]): number {
 function strongestPeakWithin(peaks: Peak[], center: number, window: number): Peak | undefined {
   let best: Peak | undefined;
   for (const peak of peaks) {
-    if (Math.abs(peak.x - center) <= window && (!best || peak.kappa > best.kappa)) best = peak;
+    if (Math.abs(peak.x - center) <= window && (!best || peak.height > best.height)) best = peak;
   }
   return best;
 }
 
-/** For each candidate, the positions of its peak over the resamples in which it reappears (a local maximum above `floor`). */
+/** For each candidate, the positions of its peak over the resamples in which it reappears (a local maximum of |F''| above `floor`). */
 function bootstrapPositions(
-  u: number[], v: number[], weights: number[], lambda: number, grid: Float64Array, scaling: Scaling,
+  u: number[], v: number[], weights: number[], lambda: number, grid: Float64Array,
   candidates: Peak[], windows: number[], floor: number, resamples: number, seed: number,
 ): number[][] {
   const positions: number[][] = candidates.map(() => []);
@@ -419,9 +473,9 @@ function bootstrapPositions(
     candidates.forEach((peak, k) => {
       const from = Math.max(1, Math.floor((peak.x - windows[k]) / step) - 1);
       const to = Math.min(grid.length - 2, Math.ceil((peak.x + windows[k]) / step) + 1);
-      const kappa = curvatureOnGrid(fit, grid, scaling, from - 1, to + 1);
-      const match = strongestPeakWithin(localMaxima(kappa, grid, from, to), peak.x, windows[k]);
-      if (match && match.kappa >= floor) positions[k].push(peakOfSecond(fit, peak.x, windows[k]));
+      const bend = bendOnGrid(fit, grid, secondMagnitude, from - 1, to + 1);
+      const match = strongestPeakWithin(localMaxima(bend, grid, from, to), peak.x, windows[k]);
+      if (match && match.height >= floor) positions[k].push(peakOfSecond(fit, peak.x, windows[k]));
     });
   }
   return positions;

@@ -43,3 +43,20 @@ export function sample(curve: Curve, points: number, relativeNoise: number, seed
   const range = Math.max(...exact) - Math.min(...exact);
   return { x, y: exact.map((value) => value + relativeNoise * range * gaussian()) };
 }
+
+/** A sine over almost a period on [0, 1] with y spanning 2: its |f''| peaks are broad, not kinks. */
+export const FAST_SINE: Curve = { name: 'sin(6x) on [0, 1]', f: (x) => Math.sin(6 * x), from: 0, to: 1, kinks: [] };
+
+/** A change of units: x → a·x + b, y → c·y. */
+export interface Units { name: string; a: number; b: number; c: number }
+
+export const UNIT_CHANGES: Units[] = [
+  { name: 'x / 2π', a: 1 / (2 * Math.PI), b: 0, c: 1 },
+  { name: 'x · 0.01', a: 0.01, b: 0, c: 1 },
+  { name: 'y · 1e6', a: 1, b: 0, c: 1e6 },
+  { name: 'x + 1e6', a: 1, b: 1e6, c: 1 },
+];
+
+export function inUnits(values: { x: number[]; y: number[] }, units: Units): { x: number[]; y: number[] } {
+  return { x: values.x.map((x) => units.a * x + units.b), y: values.y.map((y) => units.c * y) };
+}

@@ -1,7 +1,8 @@
 import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import { locateKinks } from '../../../shared/engine/data/kinks';
-import { KINKED, NOISE_LEVELS, POINT_COUNTS, SMOOTH, sample } from './curves';
+import { mulberry32 } from '../../../shared/engine/data/random';
+import { FAST_SINE, KINKED, NOISE_LEVELS, POINT_COUNTS, SMOOTH, UNIT_CHANGES, inUnits, sample } from './curves';
 
 // The planted positions are the independent values: each curve is built with its kinks there (curves.ts).
 const NOISE_SEED = 20261202;
@@ -72,3 +73,61 @@ test('doubling every weight doubles the chosen λ and keeps the kinks', () => {
   // λ multiplies a penalty that the doubled weights double: the same fit needs twice the λ.
   assert.ok(Math.abs(doubled.lambda / plain.lambda - 2) < 0.05, `λ ratio ${doubled.lambda / plain.lambda}`);
 });
+
+// Whether there is a kink must not depend on the units of x and y: a change of units is an affine map
+// of each axis, and the rescaled frame the decision is made in is the same for all of them (exact).
+for (const curve of [SMOOTH[1], FAST_SINE]) {
+  for (const units of UNIT_CHANGES) {
+    test(`${curve.name}, 100 points, noise 1e-3, in units ${units.name} → no kink`, () => {
+      const search = locateKinks(...xy(inUnits(sample(curve, 100, 1e-3, NOISE_SEED), units)), { resamples: 50 });
+      assert.deepEqual(search.kinks.map((k) => k.x), []);
+    });
+  }
+}
+
+for (const units of UNIT_CHANGES) {
+  test(`slope jump in the middle in units ${units.name}: the same kink, its position and uncertainty mapped`, () => {
+    const values = sample(KINKED[0], 200, 1e-3, NOISE_SEED);
+    const plain = locateKinks(values.x, values.y, { resamples: 50 });
+    const mapped = locateKinks(...xy(inUnits(values, units)), { resamples: 50 });
+    assert.equal(plain.kinks.length, 1);
+    assert.equal(mapped.kinks.length, 1);
+    const [before, after] = [plain.kinks[0], mapped.kinks[0]];
+    const back = (after.x - units.b) / units.a;
+    // The planted position (curves.ts) is the independent value.
+    assert.ok(Math.abs(back - 0.55) <= after.uncertainty / units.a, `${back} ± ${after.uncertainty / units.a}`);
+    // Affine maps commute with the locator up to rounding of the mapped x (an offset of 1e6 keeps ~1e-10).
+    assert.ok(Math.abs(back - before.x) < 1e-6, `${back} against ${before.x}`);
+    assert.ok(Math.abs(after.uncertainty / units.a - before.uncertainty) < 1e-6 * before.uncertainty + 1e-9);
+    assert.ok(Math.abs(after.y / units.c - before.y) < 1e-6 * Math.abs(before.y));
+  });
+}
+
+// Invented data: 30 noise draws of one slope jump (1 at x = 0.4317 on a line of slope 0.5, 80 points,
+// σ = 0.01, about 1 % of the y-range). A stated uncertainty should cover the planted position in most
+// draws and never be off by more than 3 of itself; a clear kink should rarely be missed.
+test('coverage over 30 noise draws: at most 1 miss, none beyond 3σ, planted within 1σ in ≥ 80 %', (t) => {
+  const planted = 0.4317;
+  const f = (x: number) => 1 + 0.5 * x + Math.max(0, x - planted);
+  let missed = 0;
+  let within = 0;
+  for (let draw = 0; draw < 30; draw++) {
+    const random = mulberry32(1000 + draw);
+    const gaussian = () => Math.sqrt(-2 * Math.log(1 - random())) * Math.cos(2 * Math.PI * random());
+    const x = Array.from({ length: 80 }, (_, i) => i / 79);
+    const search = locateKinks(x, x.map((v) => f(v) + 0.01 * gaussian()), { resamples: 100, seed: draw + 1 });
+    if (search.kinks.length === 0) {
+      missed++;
+      continue;
+    }
+    for (const kink of search.kinks) assert.ok(Math.abs(kink.x - planted) <= 3 * kink.uncertainty, `draw ${draw}: ${kink.x} ± ${kink.uncertainty}`);
+    if (Math.abs(search.kinks[0].x - planted) <= search.kinks[0].uncertainty) within++;
+  }
+  t.diagnostic(`missed ${missed} of 30, planted within 1σ in ${within}`);
+  assert.ok(missed <= 1, `missed ${missed}`);
+  assert.ok(within >= 0.8 * 30, `within 1σ in ${within} of 30`);
+});
+
+function xy(values: { x: number[]; y: number[] }): [number[], number[]] {
+  return [values.x, values.y];
+}
