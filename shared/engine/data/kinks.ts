@@ -55,6 +55,8 @@ export const KINK_THRESHOLDS = {
 
 /** The median κ is at least this fraction of the largest κ (strengths are capped at its inverse). */
 const MEDIAN_FLOOR = 1e-4;
+/** At most this many kinks are reported (the tallest in |F''|). */
+export const MAX_KINKS = 20;
 const NOISE_PROBES = 60;
 const SIDE_LOBE_SPACINGS = 8;
 const SIDE_LOBE_WIDTHS = 6;
@@ -103,11 +105,15 @@ export function locateKinks(x: number[], y: number[], options: { resamples?: num
   const reachOf = (t: number) => Math.max(PROMINENCE_SPACINGS * localSpacing(u, t), PROMINENCE_BANDWIDTHS * bandwidth(u, fit.lambda, meanWeight, t));
   const peaks = localMaxima(bend, grid, 1, grid.length - 2, reachOf).filter((peak) => !nearEnd(peak.x, u, fit.lambda, meanWeight));
   const standing = peaks.filter((peak) => peak.height / medianBend >= KINK_THRESHOLDS.minStrength && peak.prominence >= KINK_THRESHOLDS.minProminence);
+  // The bootstrap refits every resample once but looks for each candidate in it: the tallest MAX_KINKS
+  // are followed, so a zigzag boundary cannot multiply the work beyond what the job's cost estimate allows.
   const candidates = acceptTurning(
     standing,
     (peak, taken) => turningSignificance(peak.x, reachOf(peak.x), fit, noise, taken, tallerThan(peak, standing)),
     u, fit.lambda, meanWeight, reachOf,
-  );
+  )
+    .sort((a, b) => b.height - a.height)
+    .slice(0, MAX_KINKS);
   const windows = candidates.map((peak) => matchWindow(peak, u));
   const floor = KINK_THRESHOLDS.minStrength * medianBend;
   const positions = bootstrapPositions(u, v, weights, fit.lambda, grid, candidates, windows, floor, resamples, seed);
