@@ -1,12 +1,13 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import cors from 'cors';
-import express, { type Express } from 'express';
+import express, { type Express, type Request, type RequestHandler } from 'express';
 import { pinoHttp } from 'pino-http';
 import { acceptedBodyEncodings, boundedBodyDepth, loopbackHostOnly, noStore, rejectMalformedPath, securityHeaders, webNotFound } from './http/hardening';
-import { apiNotFound, errorHandler, sameOriginGuard, sessionLoader } from './http/middleware';
+import { apiNotFound, errorHandler, sameOriginGuard, sessionLoader, signedInBeforeBody } from './http/middleware';
 import { authRequestLimiters, signInLimiters } from './http/rateLimits';
 import { mount, type AnyRouteSpec } from './http/route';
+import { createUploadGate, type UploadGate } from './http/upload';
 import { versionSaveLimiter } from './http/versionSaveLimit';
 import { activityRoutes } from './routes/activity';
 import { adminRoutes } from './routes/admin';
@@ -23,10 +24,24 @@ import { sharingRoutes } from './routes/sharing';
 import { sharedLinkOpenLimiter } from './http/senderLimits';
 import type { Services } from './services';
 
-/** Largest exchange file POST /notebooks/import accepts (other JSON bodies: BODY_LIMIT). */
-export const IMPORT_BODY_LIMIT = '12mb';
-/** A pasted table may hold DATASET_LIMITS.maxPastedChars characters, up to 4 bytes each in UTF-8 plus JSON escapes. */
-export const PASTED_TABLE_BODY_LIMIT = '1mb';
+/**
+ * Routes whose bodies may be larger than BODY_LIMIT. Their bodies are read only after the Origin check and
+ * the session: nobody signed out (or from another site) makes the server buffer or parse megabytes.
+ */
+const LARGE_BODY_ROUTES: { path: string; pattern: RegExp; parser(config: Services['config']): RequestHandler }[] = [
+  // the exchange file is read as text and parsed and checked in the document pool, not on the request thread
+  { path: '/notebooks/import', pattern: /^\/notebooks\/import\/?$/i, parser: (config) => express.text({ type: 'application/json', limit: config.importBodyLimit }) },
+  { path: '/notebooks/:notebookId/datasets/pasted', pattern: /^\/notebooks\/[^/]+\/datasets\/pasted\/?$/i, parser: (config) => express.json({ limit: config.pastedBodyLimit }) },
+  { path: '/calc', pattern: /^\/calc\/?$/i, parser: (config) => express.json({ limit: config.calcBodyLimit }) },
+];
+
+const isLargeBodyRoute = (req: Request) => req.method === 'POST' && LARGE_BODY_ROUTES.some((route) => route.pattern.test(req.path));
+
+/** BODY_LIMIT for every JSON body but those of LARGE_BODY_ROUTES, which are left unread here. */
+function smallJsonBodies(limit: string): RequestHandler {
+  const parse = express.json({ limit });
+  return (req, res, next) => (isLargeBodyRoute(req) ? next() : parse(req, res, next));
+}
 
 /** Every API route, in mounting order: the single table the router, the OpenAPI document and the access-matrix test read. */
 export function apiRouteTable(services: Services): AnyRouteSpec[] {
@@ -46,16 +61,13 @@ export function apiRouteTable(services: Services): AnyRouteSpec[] {
   return [...specs, ...openApiRoutes(() => specs)];
 }
 
-function apiRouter(services: Services) {
+function apiRouter(services: Services, uploads: UploadGate) {
   const router = express.Router();
   const { publicUrl, extraAppOrigins } = services.config;
   router.use(noStore);
   if (extraAppOrigins.length) router.use(cors({ origin: extraAppOrigins, credentials: true }));
   router.use(acceptedBodyEncodings);
-  // an exchange file carries its datasets' points (a 200 000-row table is several MB): only the import route takes that much
-  router.post('/notebooks/import', express.json({ limit: IMPORT_BODY_LIMIT }));
-  router.post('/notebooks/:notebookId/datasets/pasted', express.json({ limit: PASTED_TABLE_BODY_LIMIT }));
-  router.use(express.json({ limit: services.config.bodyLimit }));
+  router.use(smallJsonBodies(services.config.bodyLimit));
   router.use(boundedBodyDepth);
   router.use(sameOriginGuard([publicUrl, ...extraAppOrigins], services.sessions.cookieName));
   const authLimits = authRequestLimiters(services.config.authLimits);
@@ -66,10 +78,11 @@ function apiRouter(services: Services) {
   router.post('/auth/verify', authLimits.verify);
   router.use('/shared', sharedLinkOpenLimiter(services.config.authLimits.sharedLinkOpensPerIpPer15Min));
   router.use(sessionLoader(services.sessions));
+  for (const route of LARGE_BODY_ROUTES) router.post(route.path, signedInBeforeBody, route.parser(services.config), boundedBodyDepth);
   router.post('/auth/verify/resend', authLimits.resendVerification);
   router.post('/groups/:groupId/members', authLimits.groupAdds);
   router.post('/notebooks/:notebookId/versions', versionSaveLimiter(services.config.authLimits.versionSavesPerUserPerHour));
-  mount(router, apiRouteTable(services));
+  mount(router, apiRouteTable(services), uploads);
   router.use(apiNotFound);
   return router;
 }
@@ -105,7 +118,10 @@ export function createApp(services: Services): Express {
   app.use(securityHeaders(services.config.publicUrl));
   app.use(rejectMalformedPath);
   if (services.config.localOnly) app.use(loopbackHostOnly);
-  app.use('/api', apiRouter(services));
+  const uploads = createUploadGate(services.config.uploadsInFlight);
+  // how many uploads are being read, for operators (and tests) to look at
+  app.locals.uploads = uploads;
+  app.use('/api', apiRouter(services, uploads));
   app.use(webApp(services.config.webRoot));
   app.use(webNotFound);
   app.use(errorHandler(services.logger));

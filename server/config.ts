@@ -31,6 +31,14 @@ export interface ServerConfig {
   /** LaTeX exports and version comparisons that may wait for a document thread; more are refused (429). */
   documentQueueLimit: number;
   bodyLimit: string;
+  /** Largest exchange file POST /notebooks/import reads (it carries its datasets' points); read only for a signed-in, same-origin request. */
+  importBodyLimit: string;
+  /** Largest body of a pasted table (DATASET_LIMITS.maxPastedChars characters, up to 4 bytes each in UTF-8, plus JSON escapes). */
+  pastedBodyLimit: string;
+  /** Largest body of POST /calc (a kinks or compare job carries up to DATASET_LIMITS.maxComparedPoints points). */
+  calcBodyLimit: string;
+  /** Dataset uploads being read at once, server-wide (each buffers up to DATASET_LIMITS.maxFileBytes); more get 429. */
+  uploadsInFlight: number;
 }
 
 export interface JobQueueConfig {
@@ -142,6 +150,10 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     },
     documentQueueLimit: Math.max(0, intFrom(env.DOCUMENT_QUEUE_LIMIT, 16)),
     bodyLimit: env.BODY_LIMIT ?? '100kb',
+    importBodyLimit: env.IMPORT_BODY_LIMIT ?? '12mb',
+    pastedBodyLimit: env.PASTED_BODY_LIMIT ?? '1mb',
+    calcBodyLimit: env.CALC_BODY_LIMIT ?? '1mb',
+    uploadsInFlight: Math.max(1, intFrom(env.UPLOADS_IN_FLIGHT, 4)),
   };
   if (production && config.trustProxy === true) {
     throw new ConfigError(

@@ -68,6 +68,12 @@ export function sessionLoader(sessions: SessionService): RequestHandler {
   };
 }
 
+/** Before a large body is read: whoever is not signed in is refused without it (every such route is for signed-in people). */
+export const signedInBeforeBody: RequestHandler = (_req, res, next) => {
+  if (res.locals.user) return next();
+  next(new AppError('unauthenticated', 'Sign in to continue.'));
+};
+
 export const apiNotFound: RequestHandler = (req, _res, next) => {
   next(new AppError('not_found', `No API route ${req.method} ${req.path}`));
 };

@@ -2,7 +2,7 @@ import type { Request, Response, Router } from 'express';
 import type { z } from 'zod';
 import type { SignedInUser } from '../auth/sessions';
 import { AppError } from './errors';
-import { readUpload, type UploadedFile } from './upload';
+import { assertDeclaredSizeFits, createUploadGate, readUpload, type UploadedFile, type UploadGate } from './upload';
 import { parseInput } from './validation';
 
 export type Access = 'public' | 'signed-in' | 'admin';
@@ -104,6 +104,8 @@ export interface RouteContext<Body, Params, Query = unknown> {
   req: Request;
   /** The uploaded file of an `upload: 'file'` route (null when the form had none). */
   file: UploadedFile | null;
+  /** The body as text, for a `bodyAsText` route (null when none was sent as JSON). */
+  text: string | null;
   /** Queue a Set-Cookie header for the reply. */
   setCookie(serialized: string): void;
 }
@@ -126,6 +128,11 @@ export interface RouteSpec<BodySchema extends z.ZodType, ParamsSchema extends z.
    */
   upload?: 'file';
   beforeUpload?(ctx: { params: z.output<ParamsSchema>; user: SignedInUser | null }): Promise<void>;
+  /**
+   * The JSON body is handed over as text (ctx.text), unparsed: the handler has it parsed and checked
+   * off the request thread. `body` then only documents its shape; ctx.body is undefined.
+   */
+  bodyAsText?: boolean;
   handler(ctx: RouteContext<z.output<BodySchema>, z.output<ParamsSchema>, z.output<QuerySchema>>): Promise<unknown>;
 }
 
@@ -153,21 +160,34 @@ function descriptionField(form: unknown): unknown {
   }
 }
 
-export function mount(router: Router, specs: AnyRouteSpec[]): void {
+/**
+ * An upload's checks come before any byte of it is read: its declared size, a reading slot (one per
+ * person, a few server-wide; taken first so that a refused attempt costs no quota), then the route's
+ * own check (role, hourly quota).
+ */
+async function readUploadOnce(spec: AnyRouteSpec, req: Request, res: Response, params: unknown, user: SignedInUser | null, uploads: UploadGate): Promise<UploadedFile | null> {
+  assertDeclaredSizeFits(req);
+  const release = uploads.enter(user?.id ?? req.ip ?? 'anonymous');
+  // the file stays in memory until the reply is sent (or the client goes away): the slot is held as long
+  res.once('finish', release);
+  res.once('close', release);
+  await spec.beforeUpload?.({ params, user });
+  return readUpload(req, res);
+}
+
+export function mount(router: Router, specs: AnyRouteSpec[], uploads: UploadGate = createUploadGate(4)): void {
   for (const spec of specs) {
     router[spec.method](spec.path, async (req: Request, res: Response) => {
       const user = res.locals.user as SignedInUser | null;
       authorize(spec.access, user);
       const params = spec.params ? parseInput(spec.params, req.params) : req.params;
       let file: UploadedFile | null = null;
-      if (spec.upload) {
-        await spec.beforeUpload?.({ params, user });
-        file = await readUpload(req, res);
-      }
-      const body = spec.body ? parseInput(spec.body, spec.upload ? descriptionField(req.body) : req.body) : undefined;
+      if (spec.upload) file = await readUploadOnce(spec, req, res, params, user, uploads);
+      const text = spec.bodyAsText && typeof req.body === 'string' ? req.body : null;
+      const body = spec.body && !spec.bodyAsText ? parseInput(spec.body, spec.upload ? descriptionField(req.body) : req.body) : undefined;
       const query = spec.query ? parseInput(spec.query, req.query) : undefined;
       const cookies: string[] = [];
-      const result = await spec.handler({ body, params, query, user, sessionId: (res.locals.sessionId as string | null) ?? null, req, file, setCookie: (c) => cookies.push(c) });
+      const result = await spec.handler({ body, params, query, user, sessionId: (res.locals.sessionId as string | null) ?? null, req, file, text, setCookie: (c) => cookies.push(c) });
       if (cookies.length) res.append('Set-Cookie', cookies);
       if (result instanceof EventStreamReply) {
         openEventStream(req, res, result);

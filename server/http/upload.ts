@@ -54,3 +54,41 @@ export function readUpload(req: Request, res: Response): Promise<UploadedFile | 
     });
   });
 }
+
+/** Room a multipart form needs besides the file: boundaries, part headers and the "description" field. */
+export const FORM_OVERHEAD_BYTES = 128 * 1024;
+
+/** A form that says it is larger than a file may be is refused before it is read (413). */
+export function assertDeclaredSizeFits(req: Request): void {
+  const declared = Number(req.get('content-length'));
+  if (Number.isFinite(declared) && declared > DATASET_LIMITS.maxFileBytes + FORM_OVERHEAD_BYTES) {
+    throw new AppError('payload_too_large', `The upload is larger than ${megabytesOf(DATASET_LIMITS.maxFileBytes)}; a dataset file may be at most ${megabytesOf(DATASET_LIMITS.maxFileBytes)}.`);
+  }
+}
+
+/** Uploads being read: each is buffered whole, so only one per person and `maxInFlight` server-wide at once. */
+export interface UploadGate {
+  /** Take a reading slot (429 queue_full when none is free); returns its release. */
+  enter(person: string): () => void;
+  readonly inFlight: number;
+}
+
+export function createUploadGate(maxInFlight: number): UploadGate {
+  const reading = new Set<string>();
+  return {
+    enter(person) {
+      if (reading.has(person)) throw new AppError('queue_full', 'You are already uploading a table; wait for it to finish.');
+      if (reading.size >= maxInFlight) throw new AppError('queue_full', 'The server is busy reading other uploads; try again in a moment.');
+      reading.add(person);
+      let released = false;
+      return () => {
+        if (released) return;
+        released = true;
+        reading.delete(person);
+      };
+    },
+    get inFlight() {
+      return reading.size;
+    },
+  };
+}

@@ -5,9 +5,13 @@ import { createHash } from 'node:crypto';
 import { compareSnapshots, type VersionSnapshot } from '../../shared/notebook/comparison';
 import type { CellComparison } from '../../shared/notebook/api';
 import type { CellInput } from '../../shared/notebook/cells';
-import { toLatexDocument, type NotebookDocument } from '../../shared/notebook/exports';
+import { notebookDocument, toLatexDocument, type NotebookDocument } from '../../shared/notebook/exports';
+import type { ErrorCode } from '../../shared/api/errors';
+import { AppError } from '../http/errors';
+import { parseInput } from '../http/validation';
+import { MAX_BODY_DEPTH, nestsDeeperThan } from '../http/hardening';
 import { canonicalJson } from '../../shared/notebook/dependencies';
-import { DATASET_LIMITS, type AxisSpec, type ColumnMapping, type DatasetPoints, type RowProblem } from '../../shared/notebook/datasets';
+import { DATASET_LIMITS, type ExportedDataset, type AxisSpec, type ColumnMapping, type DatasetPoints, type RowProblem } from '../../shared/notebook/datasets';
 import { extractPoints, readTable, TableError } from '../../shared/notebook/datasetParsing';
 import { isPlainNumber, toCsv } from '../../shared/notebook/csv';
 
@@ -22,8 +26,17 @@ export function compareVersions({ fromJson, toJson }: { fromJson: string; toJson
   return compareSnapshots(JSON.parse(fromJson) as VersionSnapshot, JSON.parse(toJson) as VersionSnapshot);
 }
 
+/** A dataset as the LaTeX export is sent it: `rowCount` in place of its points (the document names it and counts its points, nothing more). */
+type CountedDataset = Omit<ExportedDataset, 'points'> & { rowCount: number };
+
 export function latex(documentJson: string): string {
-  return toLatexDocument(JSON.parse(documentJson) as NotebookDocument);
+  const document = JSON.parse(documentJson) as Omit<NotebookDocument, 'datasets'> & { datasets?: (ExportedDataset | CountedDataset)[] };
+  const datasets = document.datasets?.map((dataset) => {
+    if ('points' in dataset) return dataset;
+    const { rowCount, ...rest } = dataset;
+    return { ...rest, points: { x: new Array<string>(rowCount), y: [] } };
+  });
+  return toLatexDocument({ ...document, datasets } as NotebookDocument);
 }
 
 export function restorable(snapshotJson: string): RestorableSnapshot {
@@ -101,6 +114,62 @@ export function importedDataset(task: { points: DatasetPoints; shape: string; xA
     if (Number(points.y[row]) > Number(points.y[high])) high = row;
   }
   return stored(points, task, rows, [points.x[0], points.x[rows - 1]], [points.y[low], points.y[high]]);
+}
+
+/** A dataset of an imported file, checked and ready to store. */
+export interface CheckedDataset {
+  description: Pick<ExportedDataset, 'label' | 'name' | 'source' | 'note' | 'shape' | 'xAxis' | 'yAxis'>;
+  yErrors: 'none' | 'symmetric' | 'asymmetric';
+  xErrors: boolean;
+  fileName: string | null;
+  outcome: Extract<ReadDatasetOutcome, { ok: true }>;
+}
+
+/** An exchange file read and checked, or the error to answer with (an AppError does not survive the way out of the thread). */
+export type ImportOutcome =
+  | { ok: true; title: string; summary: string; cells: { label: string; input: CellInput }[]; datasets: CheckedDataset[] }
+  | { ok: false; code: ErrorCode; message: string; fields?: Record<string, string>; table?: { problems: RowProblem[]; problemCount: number } };
+
+function checkedDataset(dataset: ExportedDataset): CheckedDataset | Extract<ReadDatasetOutcome, { ok: false }> {
+  const outcome = importedDataset({ points: dataset.points, shape: dataset.shape, xAxis: dataset.xAxis, yAxis: dataset.yAxis, label: dataset.label });
+  if (!outcome.ok) return outcome;
+  const { points } = dataset;
+  const symmetric = points.yErrLow && points.yErrHigh && points.yErrLow.every((value, i) => value === points.yErrHigh![i]);
+  const { label, name, source, note, shape, xAxis, yAxis } = dataset;
+  return {
+    description: { label, name, source, note, shape, xAxis, yAxis },
+    yErrors: points.yErrLow ? (symmetric ? 'symmetric' : 'asymmetric') : 'none',
+    xErrors: Boolean(points.xErr),
+    fileName: dataset.fileName ?? null,
+    outcome,
+  };
+}
+
+/** An exchange file's text parsed, validated as the import route's body and its datasets checked as uploads are. */
+export function importDocument(text: string): ImportOutcome {
+  let value: unknown;
+  try {
+    value = JSON.parse(text);
+  } catch {
+    return { ok: false, code: 'malformed_json', message: 'The request body is not valid JSON.' };
+  }
+  // as for every other body (boundedBodyDepth): deeper nesting is refused before anything walks it
+  if (nestsDeeperThan(value, MAX_BODY_DEPTH)) return { ok: false, code: 'validation_failed', message: `The request body nests more than ${MAX_BODY_DEPTH} levels deep.` };
+  let document: NotebookDocument;
+  try {
+    document = parseInput(notebookDocument, value);
+  } catch (error) {
+    if (error instanceof AppError) return { ok: false, code: error.code, message: error.message, fields: error.fields };
+    throw error;
+  }
+  const datasets: CheckedDataset[] = [];
+  for (const dataset of document.datasets ?? []) {
+    const checked = checkedDataset(dataset);
+    if ('ok' in checked) return { ok: false, code: 'invalid_table', message: checked.message, table: { problems: checked.problems, problemCount: checked.problemCount } };
+    datasets.push(checked);
+  }
+  // outputs are not imported: only the inputs go back to the request thread
+  return { ok: true, title: document.title, summary: document.summary, cells: document.cells.map(({ label, input }) => ({ label, input })), datasets };
 }
 
 /** The stored columns as a CSV file (cells a spreadsheet would run as formulas are escaped by toCsv). */

@@ -2,7 +2,7 @@ import path from 'node:path';
 import { Piscina } from 'piscina';
 import type { CellComparison } from '../../shared/notebook/api';
 import type { DatasetPoints } from '../../shared/notebook/datasets';
-import type { ReadDatasetOutcome, ReadDatasetTask, RestorableSnapshot } from './documentWorker';
+import type { ImportOutcome, ReadDatasetOutcome, ReadDatasetTask, RestorableSnapshot } from './documentWorker';
 import { AppError } from '../http/errors';
 
 export type { RestorableSnapshot } from './documentWorker';
@@ -13,15 +13,15 @@ export type { RestorableSnapshot } from './documentWorker';
  * documents outstanding.
  */
 export interface DocumentRenderer {
-  /** The LaTeX file of a notebook document given as JSON text (see shared/notebook/exports.ts). */
+  /** The LaTeX file of a notebook document given as JSON text (see shared/notebook/exports.ts; datasets with `rowCount` in place of their points). */
   latex(documentJson: string, person: string): Promise<string>;
   compare(fromJson: string, toJson: string, person: string): Promise<CellComparison[]>;
   /** A version snapshot's title, summary and cell inputs, without its outputs. */
   restorable(snapshotJson: string, person: string): Promise<RestorableSnapshot>;
   /** A table (uploaded file or pasted text) read, checked and turned into stored points. */
   readDataset(task: ReadDatasetTask, person: string): Promise<ReadDatasetOutcome>;
-  /** A dataset of an exchange file checked and turned into stored points. */
-  importedDataset(task: { points: DatasetPoints; shape: string; xAxis: ReadDatasetTask['xAxis']; yAxis: ReadDatasetTask['yAxis']; label: string }, person: string): Promise<ReadDatasetOutcome>;
+  /** An exchange file's text parsed and checked (its datasets turned into stored points). */
+  importDocument(text: string, person: string): Promise<ImportOutcome>;
   /** The stored columns of a dataset as CSV under the given header. */
   datasetCsv(pointsJson: string, columns: { key: keyof DatasetPoints; title: string }[], person: string): Promise<string>;
   /** The points with x in [from, to] (none, with their count, when more than a comparison takes). */
@@ -57,7 +57,7 @@ const FAILURE: Record<string, string> = {
   compareVersions: 'These versions could not be compared',
   restorable: 'This version could not be read',
   readDataset: 'This table could not be read',
-  importedDataset: 'A dataset of this file could not be read',
+  importDocument: 'This notebook file could not be read',
   datasetCsv: 'This dataset could not be written as CSV',
   datasetPointsInRange: 'This dataset could not be read',
 };
@@ -141,7 +141,7 @@ export function createDocumentRenderer(options: DocumentPoolOptions = {}): Docum
     compare: (fromJson, toJson, person) => run<CellComparison[]>({ fromJson, toJson }, 'compareVersions', person),
     restorable: (snapshotJson, person) => run<RestorableSnapshot>(snapshotJson, 'restorable', person),
     readDataset: (task, person) => run<ReadDatasetOutcome>(task, 'readDataset', person),
-    importedDataset: (task, person) => run<ReadDatasetOutcome>(task, 'importedDataset', person),
+    importDocument: (text, person) => run<ImportOutcome>(text, 'importDocument', person),
     datasetCsv: (pointsJson, columns, person) => run<string>({ pointsJson, columns }, 'datasetCsv', person),
     datasetPointsInRange: (task, person) => run<{ points: DatasetPoints; kept: number }>(task, 'datasetPointsInRange', person),
     async close() {

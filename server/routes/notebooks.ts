@@ -26,8 +26,8 @@ export function notebookRoutes({ notebooks, versions, documents }: Services) {
       handler: async ({ user, query }) => ({ notebooks: await notebooks.list(user!, query) }) }),
     route({ method: 'post', path: '/notebooks', access: 'signed-in', summary: 'Create a notebook', body: createNotebookInput, status: 201,
       handler: async ({ user, body }) => ({ notebook: await notebooks.create(user!, body) }) }),
-    route({ method: 'post', path: '/notebooks/import', access: 'signed-in', summary: 'Create a notebook from an exported JSON file', body: notebookDocument, status: 201,
-      handler: async ({ user, body }) => ({ notebook: await versions.importDocument(user!, body) }) }),
+    route({ method: 'post', path: '/notebooks/import', access: 'signed-in', summary: 'Create a notebook from an exported JSON file (read only when signed in, up to IMPORT_BODY_LIMIT; parsed and checked in the document pool: 429 queue_full while it is busy)', body: notebookDocument, bodyAsText: true, status: 201,
+      handler: async ({ user, text }) => ({ notebook: await versions.importDocument(user!, text) }) }),
     route({ method: 'get', path: '/notebooks/:notebookId', access: 'signed-in', summary: 'A notebook with its cells and their states', params: notebookParams,
       handler: async ({ user, params }) => ({ notebook: await notebooks.detail(user!, params.notebookId) }) }),
     route({ method: 'patch', path: '/notebooks/:notebookId', access: 'signed-in', summary: 'Rename, describe or share a notebook', params: notebookParams, body: updateNotebookInput,
@@ -66,7 +66,7 @@ export function notebookRoutes({ notebooks, versions, documents }: Services) {
       } }),
     route({ method: 'get', path: '/notebooks/:notebookId/export.tex', access: 'signed-in', summary: 'The notebook as a LaTeX document (429 queue_full while the document pool is busy)', params: notebookParams,
       handler: async ({ user, params }) => {
-        const document = await versions.exportDocument(user!, params.notebookId);
+        const document = await versions.exportDocument(user!, params.notebookId, 'count');
         return new FileReply('application/x-tex', fileName(document.title, 'tex'), await documents.latex(document.json, user!.id));
       } }),
   ];

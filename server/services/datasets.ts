@@ -1,5 +1,5 @@
 import type { DataSource, EntityManager } from 'typeorm';
-import { AXIS_NAMES, DATASET_LIMITS, type AxisSpec, type DatasetDescription, type DatasetPoints, type DatasetView, type ExportedDataset } from '../../shared/notebook/datasets';
+import { AXIS_NAMES, DATASET_LIMITS, type AxisSpec, type DatasetDescription, type DatasetPoints, type DatasetView } from '../../shared/notebook/datasets';
 import type { NotebookDetail } from '../../shared/notebook/api';
 import type { DatasetForJob } from '../../shared/notebook/jobs';
 import type { SignedInUser } from '../auth/sessions';
@@ -9,7 +9,8 @@ import type { SenderLimit } from '../http/senderLimits';
 import type { UploadedFile } from '../http/upload';
 import { newId } from '../ids';
 import type { DocumentRenderer } from '../jobs/documents';
-import type { ReadDatasetOutcome } from '../jobs/documentWorker';
+import type { CheckedDataset, ReadDatasetOutcome } from '../jobs/documentWorker';
+import { megabytes } from '../../shared/jobs/cost';
 import type { NotebookService } from './notebooks';
 
 /** Every column of a dataset but its points, which may be megabytes. */
@@ -57,30 +58,45 @@ export async function currentDatasetHashes(manager: EntityManager, notebookId: s
   return new Map(rows.map((row) => [row.label, row.contentHash]));
 }
 
-/** Stored points below this many characters are parsed where they are needed; larger ones in the document pool. */
-const PARSE_INLINE_CHARS = 1_000_000;
+/** Stored points below this many characters are parsed where they are needed (a few ms); larger ones in the document pool. */
+const PARSE_INLINE_CHARS = 100_000;
+
+type JobDatasetRow = Pick<Dataset, 'label' | 'shape' | 'xAxisJson' | 'yAxisJson' | 'pointsJson' | 'contentHash'>;
+
+/** Reads the datasets comparison cells name; one reader serves one operation (a run, run-all, a restore). */
+export type DatasetReader = (cell: { dataset: string; xFrom?: string; xTo?: string }) => Promise<DatasetForJob | null>;
 
 /**
- * The current dataset a comparison cell names, with only the points inside its x-range (at most what a
- * comparison takes); null when the notebook has no such dataset.
+ * A reader for one operation: each dataset's points are parsed once (small ones here, kept by label and
+ * content hash), and each x-range of a large one is cut once in the document pool.
+ * `documents` null: only datasets small enough to read here (inside a transaction nothing waits for the pool).
  */
-export async function datasetForJob(
-  manager: EntityManager,
-  /** null: only datasets small enough to read here (inside a transaction nothing waits for the pool). */
-  documents: DocumentRenderer | null,
-  notebookId: string,
-  cell: { dataset: string; xFrom?: string; xTo?: string },
-  person: string,
-): Promise<DatasetForJob | null> {
-  const [row]: Pick<Dataset, 'label' | 'shape' | 'xAxisJson' | 'yAxisJson' | 'pointsJson' | 'contentHash'>[] = await manager.query(
-    `SELECT "label", "shape", "xAxisJson", "yAxisJson", "pointsJson", "contentHash" FROM "datasets" WHERE "notebookId" = ? AND "label" = ? AND "removedAt" IS NULL`,
-    [notebookId, cell.dataset],
-  );
-  if (!row) return null;
-  const task = { pointsJson: row.pointsJson, from: cell.xFrom, to: cell.xTo };
-  const small = row.pointsJson.length < PARSE_INLINE_CHARS;
-  if (!small && !documents) return null;
-  const { points, kept } = small ? pointsInRange(task) : await documents!.datasetPointsInRange(task, person);
+export function datasetReader(manager: EntityManager, documents: DocumentRenderer | null, notebookId: string, person: string): DatasetReader {
+  const parsed = new Map<string, DatasetPoints>();
+  const cut = new Map<string, { points: DatasetPoints; kept: number }>();
+  return async (cell) => {
+    const [row]: JobDatasetRow[] = await manager.query(
+      `SELECT "label", "shape", "xAxisJson", "yAxisJson", "pointsJson", "contentHash" FROM "datasets" WHERE "notebookId" = ? AND "label" = ? AND "removedAt" IS NULL`,
+      [notebookId, cell.dataset],
+    );
+    if (!row) return null;
+    const small = row.pointsJson.length < PARSE_INLINE_CHARS;
+    if (!small && !documents) return null;
+    const key = `${row.label}\n${row.contentHash}`;
+    let inRange: { points: DatasetPoints; kept: number };
+    if (small) {
+      if (!parsed.has(key)) parsed.set(key, JSON.parse(row.pointsJson) as DatasetPoints);
+      inRange = pointsInRange(parsed.get(key)!, cell.xFrom, cell.xTo);
+    } else {
+      const rangeKey = `${key}\n${cell.xFrom ?? ''}\n${cell.xTo ?? ''}`;
+      if (!cut.has(rangeKey)) cut.set(rangeKey, await documents!.datasetPointsInRange({ pointsJson: row.pointsJson, from: cell.xFrom, to: cell.xTo }, person));
+      inRange = cut.get(rangeKey)!;
+    }
+    return jobDataset(row, inRange);
+  };
+}
+
+function jobDataset(row: JobDatasetRow, { points, kept }: { points: DatasetPoints; kept: number }): DatasetForJob {
   if (kept > DATASET_LIMITS.maxComparedPoints) {
     const message = `${kept.toLocaleString('en')} data points lie in this x-range; a comparison takes at most ${DATASET_LIMITS.maxComparedPoints.toLocaleString('en')}: narrow the range`;
     throw new AppError('validation_failed', message, { xFrom: message });
@@ -89,8 +105,7 @@ export async function datasetForJob(
 }
 
 /** Same rule as the document worker's datasetPointsInRange, for small datasets. */
-function pointsInRange({ pointsJson, from, to }: { pointsJson: string; from?: string; to?: string }): { points: DatasetPoints; kept: number } {
-  const points = JSON.parse(pointsJson) as DatasetPoints;
+function pointsInRange(points: DatasetPoints, from?: string, to?: string): { points: DatasetPoints; kept: number } {
   const inside = (x: string) => (from === undefined || Number(x) >= Number(from)) && (to === undefined || Number(x) <= Number(to));
   const kept = points.x.flatMap((x, i) => (inside(x) ? [i] : []));
   if (kept.length > DATASET_LIMITS.maxComparedPoints) return { points: { x: [], y: [] }, kept: kept.length };
@@ -138,34 +153,32 @@ export async function restoreVersionDatasets(manager: EntityManager, notebookId:
   return Number(count);
 }
 
-/** The `"datasets":[…]` members of an exchange file, spliced from stored text (points never parsed here). */
-export async function exportedDatasetsText(manager: EntityManager, notebookId: string): Promise<string> {
-  const rows: Pick<Dataset, 'label' | 'name' | 'source' | 'note' | 'shape' | 'xAxisJson' | 'yAxisJson' | 'fileName' | 'pointsJson'>[] = await manager.query(
-    `SELECT "label", "name", "source", "note", "shape", "xAxisJson", "yAxisJson", "fileName", "pointsJson" FROM "datasets" WHERE "notebookId" = ? AND "removedAt" IS NULL ORDER BY "label" ASC`,
+/**
+ * The `"datasets":[…]` members of an exchange file, spliced from stored text (points never parsed here);
+ * with `pointsAs: 'count'` each carries `rowCount` instead of its points (what the LaTeX export needs).
+ */
+export async function exportedDatasetsText(manager: EntityManager, notebookId: string, pointsAs: 'points' | 'count' = 'points'): Promise<string> {
+  const pointsColumn = pointsAs === 'points' ? '"pointsJson"' : 'NULL AS "pointsJson"';
+  const rows: (Pick<Dataset, 'label' | 'name' | 'source' | 'note' | 'shape' | 'xAxisJson' | 'yAxisJson' | 'fileName' | 'rowCount'> & { pointsJson: string | null })[] = await manager.query(
+    `SELECT "label", "name", "source", "note", "shape", "xAxisJson", "yAxisJson", "fileName", "rowCount", ${pointsColumn} FROM "datasets" WHERE "notebookId" = ? AND "removedAt" IS NULL ORDER BY "label" ASC`,
     [notebookId],
   );
   return rows
     .map((row) => {
       const head = { label: row.label, name: row.name, source: row.source, note: row.note, shape: row.shape, fileName: row.fileName };
-      return `${JSON.stringify(head).slice(0, -1)},"xAxis":${row.xAxisJson},"yAxis":${row.yAxisJson},"points":${row.pointsJson}}`;
+      const points = row.pointsJson === null ? `"rowCount":${Number(row.rowCount)}` : `"points":${row.pointsJson}`;
+      return `${JSON.stringify(head).slice(0, -1)},"xAxis":${row.xAxisJson},"yAxis":${row.yAxisJson},${points}}`;
     })
     .join(',');
 }
 
 /** A dataset checked and stored as text, ready to insert. */
-interface ReadyDataset {
-  description: Pick<DatasetDescription, 'label' | 'name' | 'source' | 'note' | 'shape' | 'xAxis' | 'yAxis'>;
-  yErrors: DatasetView['hasYErrors'];
-  xErrors: boolean;
-  fileName: string | null;
-  outcome: Extract<ReadDatasetOutcome, { ok: true }>;
-}
+type ReadyDataset = CheckedDataset;
 
-async function insertDataset(manager: EntityManager, notebookId: string, author: { id: string; name: string }, ready: ReadyDataset): Promise<string> {
-  const id = newId();
+function datasetRow(notebookId: string, author: { id: string; name: string }, ready: ReadyDataset) {
   const { description, outcome } = ready;
-  await manager.insert(Dataset, {
-    id,
+  return {
+    id: newId(),
     notebookId,
     label: description.label,
     name: description.name,
@@ -184,38 +197,29 @@ async function insertDataset(manager: EntityManager, notebookId: string, author:
     createdById: author.id,
     createdByName: author.name.slice(0, 120),
     removedAt: null,
-  });
-  return id;
+  };
+}
+
+async function insertDataset(manager: EntityManager, notebookId: string, author: { id: string; name: string }, ready: ReadyDataset): Promise<string> {
+  const row = datasetRow(notebookId, author, ready);
+  await manager.insert(Dataset, row);
+  return row.id;
 }
 
 function refuseTable(outcome: ReadDatasetOutcome): asserts outcome is Extract<ReadDatasetOutcome, { ok: true }> {
   if (!outcome.ok) throw new AppError('invalid_table', outcome.message, undefined, { problems: outcome.problems, problemCount: outcome.problemCount });
 }
 
-/**
- * The datasets of an imported exchange file, checked in the document pool, then inserted with the new
- * notebook (inside its creating transaction: `insert` is called there).
- */
-export async function checkedImportedDatasets(documents: DocumentRenderer, datasets: ExportedDataset[], person: string): Promise<ReadyDataset[]> {
-  const ready: ReadyDataset[] = [];
-  for (const dataset of datasets) {
-    const outcome = await documents.importedDataset({ points: dataset.points, shape: dataset.shape, xAxis: dataset.xAxis, yAxis: dataset.yAxis, label: dataset.label }, person);
-    refuseTable(outcome);
-    const { points } = dataset;
-    const symmetric = points.yErrLow && points.yErrHigh && points.yErrLow.every((value, i) => value === points.yErrHigh![i]);
-    ready.push({
-      description: dataset,
-      yErrors: points.yErrLow ? (symmetric ? 'symmetric' : 'asymmetric') : 'none',
-      xErrors: Boolean(points.xErr),
-      fileName: dataset.fileName ?? null,
-      outcome,
-    });
+/** The imported datasets must fit a notebook as uploads do (their total points, DATASET_LIMITS.maxNotebookBytes). */
+export function assertImportedDatasetsFit(ready: ReadyDataset[]): void {
+  const bytes = ready.reduce((sum, dataset) => sum + dataset.outcome.pointsJson.length, 0);
+  if (bytes > DATASET_LIMITS.maxNotebookBytes) {
+    throw new AppError('conflict', `The datasets of this file hold ${megabytes(bytes)} of points; a notebook holds at most ${megabytes(DATASET_LIMITS.maxNotebookBytes)}.`);
   }
-  return ready;
 }
 
 export async function insertImportedDatasets(manager: EntityManager, notebookId: string, author: SignedInUser, ready: ReadyDataset[]): Promise<void> {
-  for (const dataset of ready) await insertDataset(manager, notebookId, author, dataset);
+  if (ready.length) await manager.insert(Dataset, ready.map((dataset) => datasetRow(notebookId, author, dataset)));
 }
 
 export interface DatasetServiceDeps {
@@ -238,14 +242,36 @@ const plural = (n: number, word: string) => `${n.toLocaleString('en')} ${word}${
 export function createDatasetService({ dataSource, notebooks, documents, uploadLimit, resolveLink }: DatasetServiceDeps) {
   const datasets = dataSource.getRepository(Dataset);
 
-  /** Label free and room left among the notebook's current datasets. */
-  async function assertRoomFor(manager: EntityManager, notebookId: string, label: string) {
+  /** Label free and room left among the notebook's current datasets (and its stored ones) for `bytes` more points. */
+  async function assertRoomFor(manager: EntityManager, notebookId: string, label: string, bytes = 0) {
     const rows: { label: string }[] = await manager.query(`SELECT "label" AS label FROM "datasets" WHERE "notebookId" = ? AND "removedAt" IS NULL`, [notebookId]);
     if (rows.some((row) => row.label === label)) {
       throw new AppError('conflict', `A dataset labelled "${label}" is already in this notebook; choose another label or remove that dataset first.`, { label: 'Label already used' });
     }
     if (rows.length >= DATASET_LIMITS.maxPerNotebook) {
       throw new AppError('conflict', `A notebook holds at most ${DATASET_LIMITS.maxPerNotebook} datasets; remove one first.`);
+    }
+    await assertBytesFit(manager, notebookId, bytes);
+  }
+
+  async function assertBytesFit(manager: EntityManager, notebookId: string, bytes: number) {
+    const [{ current, stored }]: { current: number | null; stored: number | null }[] = await manager.query(
+      `SELECT SUM(CASE WHEN "removedAt" IS NULL THEN length("pointsJson") ELSE 0 END) AS current, SUM(length("pointsJson")) AS stored FROM "datasets" WHERE "notebookId" = ?`,
+      [notebookId],
+    );
+    const currentBytes = Number(current ?? 0) + bytes;
+    const storedBytes = Number(stored ?? 0) + bytes;
+    if (currentBytes > DATASET_LIMITS.maxNotebookBytes || (bytes === 0 && currentBytes >= DATASET_LIMITS.maxNotebookBytes)) {
+      throw new AppError(
+        'conflict',
+        `The datasets of a notebook hold at most ${megabytes(DATASET_LIMITS.maxNotebookBytes)} of points (so that its exchange file imports again); ${bytes ? `with this one they would hold ${megabytes(currentBytes)}` : 'this notebook is full'}: remove a dataset or keep fewer points.`,
+      );
+    }
+    if (storedBytes > DATASET_LIMITS.maxStoredNotebookBytes || (bytes === 0 && storedBytes >= DATASET_LIMITS.maxStoredNotebookBytes)) {
+      throw new AppError(
+        'conflict',
+        `This notebook keeps earlier datasets for its versions: ${bytes ? `with this one it would store ${megabytes(storedBytes)}` : `it stores ${megabytes(storedBytes)}`} of points, at most ${megabytes(DATASET_LIMITS.maxStoredNotebookBytes)}. Export it and import the file as a new notebook (only its current datasets travel), and add the dataset there.`,
+      );
     }
   }
 
@@ -259,7 +285,8 @@ export function createDatasetService({ dataSource, notebooks, documents, uploadL
       action: 'edit',
       prepare: async () => {
         await assertRoomFor(dataSource.manager, notebookId, description.label);
-        await uploadLimit.takeOrRefuse(viewer.id);
+        // an upload took its quota before its bytes were read (assertMayUpload)
+        if (!('file' in table)) await uploadLimit.takeOrRefuse(viewer.id);
         const fileName = 'file' in table ? table.file.originalname.slice(0, 200) : null;
         const outcome = await documents.readDataset(
           {
@@ -277,8 +304,8 @@ export function createDatasetService({ dataSource, notebooks, documents, uploadL
         return { outcome, fileName };
       },
       apply: async ({ manager }, { outcome, fileName }) => {
-        // checked again inside the transaction: another upload may have taken the label meanwhile
-        await assertRoomFor(manager, notebookId, description.label);
+        // checked again inside the transaction: another upload may have taken the label (or the room) meanwhile
+        await assertRoomFor(manager, notebookId, description.label, outcome.pointsJson.length);
         const ready: ReadyDataset = { description, yErrors: description.mapping.yError.kind, xErrors: description.mapping.xError !== undefined, fileName, outcome };
         const id = await insertDataset(manager, notebookId, viewer, ready);
         return { value: id, change: { kind: 'dataset-added', text: `added dataset "${description.label}" (${plural(outcome.rowCount, 'point')})` } };
@@ -319,9 +346,10 @@ export function createDatasetService({ dataSource, notebooks, documents, uploadL
   }
 
   return {
-    /** Before an upload's bytes are read: only an editor may send them. */
+    /** Before an upload's bytes are read: only an editor may send them, within the hourly quota (taken here, whatever becomes of the file). */
     async assertMayUpload(viewer: SignedInUser, notebookId: string): Promise<void> {
       await notebooks.requireRole(viewer, notebookId, 'edit');
+      await uploadLimit.takeOrRefuse(viewer.id);
     },
 
     upload: (viewer: SignedInUser, notebookId: string, description: DatasetDescription, file: UploadedFile | null) => {
@@ -344,10 +372,12 @@ export function createDatasetService({ dataSource, notebooks, documents, uploadL
       return withPointsJson(await readable(viewer, notebookId, datasetId, 'read'));
     },
 
-    /** Through a share link: the notebook the link opens, and only datasets of it. */
+    /** Through a share link: the notebook the link opens, and only its current datasets (not those only its versions hold). */
     async sharedJson(token: string, datasetId: string): Promise<string> {
       const { notebookId } = await resolveLink(token);
-      return withPointsJson(await held(notebookId, datasetId));
+      const row = await held(notebookId, datasetId);
+      if (row.removedAt) throw new AppError('not_found', 'No such dataset in this notebook.');
+      return withPointsJson(row);
     },
 
     async csv(viewer: SignedInUser, notebookId: string, datasetId: string): Promise<{ fileName: string; csv: string }> {

@@ -15,7 +15,7 @@ import { assertCellAccepted } from './cellChecks';
 import { resultHolderId, resultsOf, type RunService } from './runs';
 import type { NotebookEventBus } from './notebookEvents';
 import { createNotebookWriter, type WrittenChange } from './notebookWriter';
-import { currentDatasetHashes, currentDatasetViews, datasetForJob } from './datasets';
+import { currentDatasetHashes, currentDatasetViews, datasetReader, type DatasetReader } from './datasets';
 import type { DocumentRenderer } from '../jobs/documents';
 
 export const MAX_CELLS_PER_NOTEBOOK = 200;
@@ -41,6 +41,8 @@ interface NotebookAtRun {
   resultBytes: Map<string, number>;
   /** Content hash of each current dataset by label. */
   datasetHashes: Map<string, string>;
+  /** Reads the datasets comparison cells name, each parsed once for this operation. */
+  readDataset: DatasetReader;
 }
 
 export interface NotebookAccess {
@@ -334,11 +336,18 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
     return new Map(rows.map((row) => [row.cellId, row.pendingJob ? estimatedResultBytes(JSON.parse(row.pendingJob)) : Number(row.bytes ?? 0)]));
   }
 
-  async function notebookAtRun(notebookId: string, cellsWithInputs: CellToRun[]): Promise<NotebookAtRun> {
+  async function notebookAtRun(viewer: SignedInUser, notebookId: string, cellsWithInputs: CellToRun[]): Promise<NotebookAtRun> {
     const setups = new Map<string, SetupInput>();
     for (const cell of cellsWithInputs) if (cell.input.kind === 'setup') setups.set(cell.label, cell.input);
     const byLabel = new Map(cellsWithInputs.map((cell) => [cell.label, { label: cell.label, input: cell.input }]));
-    return { notebookId, setups, byLabel, resultBytes: await resultBytesByCell(notebookId), datasetHashes: await currentDatasetHashes(dataSource.manager, notebookId) };
+    return {
+      notebookId,
+      setups,
+      byLabel,
+      resultBytes: await resultBytesByCell(notebookId),
+      datasetHashes: await currentDatasetHashes(dataSource.manager, notebookId),
+      readDataset: datasetReader(dataSource.manager, documents, notebookId, viewer.id),
+    };
   }
 
   /**
@@ -377,10 +386,10 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
 
   /** Queue the cell's job within the notebook's result budget; null when the cell has nothing to run. */
   /** What a comparison cell's job needs besides setups: the cells by label and the one dataset it names (with its hash as loaded). */
-  async function jobContext(viewer: SignedInUser, cell: CellToRun, notebook: NotebookAtRun): Promise<{ context: CellJobContext; datasetHashes: Map<string, string> }> {
+  async function jobContext(cell: CellToRun, notebook: NotebookAtRun): Promise<{ context: CellJobContext; datasetHashes: Map<string, string> }> {
     if (cell.input.kind !== 'comparison') return { context: {}, datasetHashes: notebook.datasetHashes };
     const cells = new Map([...notebook.byLabel.values()].map((other) => [other.label, other.input]));
-    const dataset = await datasetForJob(dataSource.manager, documents, notebook.notebookId, cell.input, viewer.id);
+    const dataset = await notebook.readDataset(cell.input);
     if (!dataset) return { context: { cells, datasets: new Map() }, datasetHashes: notebook.datasetHashes };
     return { context: { cells, datasets: new Map([[dataset.label, dataset]]) }, datasetHashes: new Map(notebook.datasetHashes).set(dataset.label, dataset.contentHash) };
   }
@@ -389,7 +398,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
     let job: Record<string, unknown> | null;
     let datasetHashes = notebook.datasetHashes;
     try {
-      const context = await jobContext(viewer, cell, notebook);
+      const context = await jobContext(cell, notebook);
       datasetHashes = context.datasetHashes;
       job = jobForCell(cell.input, notebook.setups, context.context);
     } catch (error) {
@@ -647,7 +656,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
           const all = (await orderedCells(notebookId)).map((row) => ({ id: row.id, label: row.label, input: parseCellInput(row.inputJson) }));
           const cell = all.find((c) => c.id === cellId);
           if (!cell) throw new AppError('not_found', 'No such cell.');
-          const started = await startCellRun(viewer, cell, await notebookAtRun(notebookId, all));
+          const started = await startCellRun(viewer, cell, await notebookAtRun(viewer, notebookId, all));
           if (!started) throw new AppError('validation_failed', `A ${cell.input.kind} cell has nothing to run.`);
           return started;
         },
@@ -669,7 +678,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
         prepare: async () => {
           // the views carry every cell's parsed input: the notebook is read and parsed once for the whole request
           const views = await cellViews(notebookId);
-          const notebook = await notebookAtRun(notebookId, views);
+          const notebook = await notebookAtRun(viewer, notebookId, views);
           const started: StartedRun[] = [];
           const waiting: string[] = [];
           for (const view of views) {

@@ -3,7 +3,7 @@ import type { VersionComparison, VersionSummary } from '../../shared/notebook/ap
 import type { DocumentRenderer } from '../jobs/documents';
 import type { CellInput } from '../../shared/notebook/cells';
 import { fingerprintOf } from '../../shared/notebook/dependencies';
-import { NOTEBOOK_FORMAT, NOTEBOOK_FORMAT_VERSION, type NotebookDocument } from '../../shared/notebook/exports';
+import { NOTEBOOK_FORMAT, NOTEBOOK_FORMAT_VERSION } from '../../shared/notebook/exports';
 import { megabytes } from '../../shared/jobs/cost';
 import { RESULT_LIMITS } from '../../shared/jobs/limits';
 import { CellJobError, jobForCell, type CellJobContext, type SetupInput } from '../../shared/notebook/jobs';
@@ -14,7 +14,7 @@ import { newId } from '../ids';
 import { assertCellsAccepted } from './cellChecks';
 import { MAX_CELLS_PER_NOTEBOOK, type NotebookService } from './notebooks';
 import { jobHash } from './runs';
-import { checkedImportedDatasets, currentDatasetHashes, datasetForJob, deleteUnheldDatasets, exportedDatasetsText, insertImportedDatasets, restoreVersionDatasets } from './datasets';
+import { assertImportedDatasetsFit, currentDatasetHashes, datasetReader, deleteUnheldDatasets, exportedDatasetsText, insertImportedDatasets, restoreVersionDatasets, type DatasetReader } from './datasets';
 import { cellText, resultBudget, storedCells, toSummary, writeCellsByLabel, SUMMARY_COLUMNS, type StoredCell } from './notebookWriter';
 
 export { MAX_VERSIONS_PER_NOTEBOOK } from './notebookWriter';
@@ -42,10 +42,11 @@ async function cachedResults(manager: EntityManager, notebookId: string, cells: 
   const fits = resultBudget();
   const datasetHashes = await currentDatasetHashes(manager, notebookId);
   const inputs = new Map(cells.map((c) => [c.label, c.input]));
+  const readDataset = datasetReader(manager, null, notebookId, '');
   for (const cell of cells) {
     let job: Record<string, unknown> | null;
     try {
-      job = jobForCell(cell.input, setups, await comparisonContext(manager, notebookId, cell.input, inputs));
+      job = jobForCell(cell.input, setups, await comparisonContext(readDataset, cell.input, inputs));
     } catch (error) {
       if (error instanceof CellJobError) continue;
       throw error;
@@ -69,10 +70,10 @@ async function cachedResults(manager: EntityManager, notebookId: string, cells: 
 }
 
 /** A comparison cell's cells and dataset, when the dataset is small enough to read inside the transaction (else the cell is left to run). */
-async function comparisonContext(manager: EntityManager, notebookId: string, input: CellInput, cells: Map<string, CellInput>): Promise<CellJobContext> {
+async function comparisonContext(readDataset: DatasetReader, input: CellInput, cells: Map<string, CellInput>): Promise<CellJobContext> {
   if (input.kind !== 'comparison') return {};
   try {
-    const dataset = await datasetForJob(manager, null, notebookId, input, '');
+    const dataset = await readDataset(input);
     return { cells, datasets: new Map(dataset ? [[dataset.label, dataset]] : []) };
   } catch (error) {
     if (error instanceof AppError) return { cells };
@@ -184,19 +185,26 @@ export function createVersionService(dataSource: DataSource, notebooks: Notebook
       return notebooks.detail(viewer, notebookId);
     },
 
-    /** The exchange file as JSON text (compact), and the title for its file name. */
-    async exportDocument(viewer: SignedInUser, notebookId: string): Promise<{ title: string; json: string }> {
+    /**
+     * The exchange file as JSON text (compact), and the title for its file name. For LaTeX (`pointsAs:
+     * 'count'`) the datasets carry their row counts instead of their points: the document only counts them.
+     */
+    async exportDocument(viewer: SignedInUser, notebookId: string, pointsAs: 'points' | 'count' = 'points'): Promise<{ title: string; json: string }> {
       await notebooks.requireRole(viewer, notebookId, 'export');
       const { notebook, cells } = await notebookText(notebookId);
-      return { title: notebook.title, json: documentText(notebook.title, notebook.summary, cells, await exportedDatasetsText(dataSource.manager, notebookId), new Date()) };
+      return { title: notebook.title, json: documentText(notebook.title, notebook.summary, cells, await exportedDatasetsText(dataSource.manager, notebookId, pointsAs), new Date()) };
     },
 
-    async importDocument(viewer: SignedInUser, document: NotebookDocument) {
+    /** A notebook from an exchange file's text: parsed and checked in the document pool, never on the request thread. */
+    async importDocument(viewer: SignedInUser, text: string | null) {
+      if (text === null) throw new AppError('validation_failed', 'Send the notebook file as JSON (Content-Type: application/json).', { _: 'Required' });
+      const document = await documents.importDocument(text, viewer.id);
+      if (!document.ok) throw new AppError(document.code, document.message, document.fields, document.table);
       if (document.cells.length > MAX_CELLS_PER_NOTEBOOK) throw new AppError('conflict', `A notebook holds at most ${MAX_CELLS_PER_NOTEBOOK} cells.`);
       assertCellsAccepted(document.cells);
-      const datasets = await checkedImportedDatasets(documents, document.datasets ?? [], viewer.id);
+      assertImportedDatasetsFit(document.datasets);
       const notebookId = await notebooks.writer.create(viewer, { title: document.title, summary: document.summary, groupId: null }, document.cells, 'imported', (manager, id) =>
-        insertImportedDatasets(manager, id, viewer, datasets),
+        insertImportedDatasets(manager, id, viewer, document.datasets),
       );
       return notebooks.detail(viewer, notebookId);
     },

@@ -18,6 +18,10 @@ export const DATASET_LIMITS = {
   maxColumns: 64,
   /** Datasets a notebook holds at once. */
   maxPerNotebook: 20,
+  /** Characters of stored points (JSON) of a notebook's current datasets together: its exchange file stays importable. */
+  maxNotebookBytes: 10 * 1024 * 1024,
+  /** Characters of stored points of all a notebook keeps, with removed datasets its versions still hold. */
+  maxStoredNotebookBytes: 60 * 1024 * 1024,
   /** Points a comparison or kink job takes (choose an x-range to compare part of a larger dataset). */
   maxComparedPoints: 5000,
   /** Fewest points a smoothing spline and the kink locator accept. */

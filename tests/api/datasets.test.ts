@@ -1,14 +1,18 @@
 // Datasets through the API: uploads and pasted tables, their limits, roles, versions, the exchange file,
 // the CSV download and comparison cells that read them. All tables here are invented test data.
 import assert from 'node:assert/strict';
+import http from 'node:http';
+import type { AddressInfo } from 'node:net';
 import { after, before, describe, test } from 'node:test';
 import { Dataset, NotebookVersion } from '../../server/db/entities';
 import { newId } from '../../server/ids';
 import { MAX_VERSIONS_PER_NOTEBOOK } from '../../server/services/versions';
 import { CompareResult } from '../../shared/jobs/dataSchemas';
-import type { CellView, NotebookDetail, RunView, VersionSummary } from '../../shared/notebook/api';
+import type { CellView, NotebookDetail, RunAllReply, RunView, VersionSummary } from '../../shared/notebook/api';
 import { DATASET_LIMITS, type DatasetView, type DatasetWithPoints } from '../../shared/notebook/datasets';
-import { startHarness, type Harness } from './harness';
+import { FORM_OVERHEAD_BYTES, type UploadGate } from '../../server/http/upload';
+import { ORIGIN, startHarness, type Harness } from './harness';
+import { insertInventedDataset, pointsOfLength } from './inventedDatasets';
 import { collaborationFixture, createPerson, INVENTED_TABLE, settleRun, type Client, type TestPerson } from './people';
 
 /** A description as the mapping form sends it: x = s, y = Δφ² with a symmetric error column. */
@@ -35,6 +39,59 @@ function columnsOf(text: string, delimiter: string): string[][] {
   const rows = text.trim().split('\n').slice(1).map((line) => line.split(delimiter));
   rows.sort((a, b) => Number(a[0]) - Number(b[0]));
   return rows[0].map((_cell, column) => rows.map((row) => row[column]));
+}
+
+const BOUNDARY = 'invented-boundary-7c1f';
+
+/** The multipart form an upload sends (fields "description" and "file"), written out by hand. */
+function multipartBody(desc: object, content: string): Buffer {
+  return Buffer.from(
+    `--${BOUNDARY}\r\nContent-Disposition: form-data; name="description"\r\n\r\n${JSON.stringify(desc)}\r\n` +
+      `--${BOUNDARY}\r\nContent-Disposition: form-data; name="file"; filename="table.csv"\r\nContent-Type: text/csv\r\n\r\n${content}\r\n--${BOUNDARY}--\r\n`,
+  );
+}
+
+/** The session cookie of a fresh sign-in, for requests made without supertest. */
+async function sessionCookie(h: Harness, who: TestPerson): Promise<string> {
+  const reply = await h.raw.post('/api/auth/sign-in').set('Origin', ORIGIN).send({ email: who.email, password: who.password }).expect(200);
+  return (reply.headers['set-cookie'] as unknown as string[]).map((cookie) => cookie.split(';')[0]).join('; ');
+}
+
+/**
+ * An upload whose headers are sent at once and whose body is held back until `finish()` (or never): a
+ * reply that comes while the body is held back was decided without reading it.
+ */
+function heldUpload(port: number, cookie: string, notebookId: string, body: Buffer, declaredLength = body.length) {
+  const request = http.request({
+    host: '127.0.0.1',
+    port,
+    method: 'POST',
+    path: `/api/notebooks/${notebookId}/datasets`,
+    headers: { Origin: ORIGIN, Cookie: cookie, 'Content-Type': `multipart/form-data; boundary=${BOUNDARY}`, 'Content-Length': declaredLength },
+  });
+  const reply = new Promise<{ status: number; body: { error?: { code: string; message: string }; dataset?: DatasetView } }>((resolve, reject) => {
+    request.on('response', (res) => {
+      let text = '';
+      res.setEncoding('utf8');
+      res.on('data', (chunk: string) => (text += chunk));
+      res.on('end', () => resolve({ status: res.statusCode!, body: text ? JSON.parse(text) : {} }));
+    });
+    request.on('error', reject);
+  });
+  request.flushHeaders();
+  return { reply, finish: () => request.end(body), abort: () => request.destroy() };
+}
+
+/** Wait (a bounded number of turns) until `condition` holds; the check is of state, not of time. */
+async function until(condition: () => boolean, what: string): Promise<void> {
+  for (let turn = 0; turn < 1000 && !condition(); turn += 1) await new Promise((resolve) => setTimeout(resolve, 10));
+  assert.ok(condition(), what);
+}
+
+function listen(h: Harness): Promise<http.Server> {
+  return new Promise((resolve) => {
+    const server = http.createServer(h.rungbook.app).listen(0, '127.0.0.1', () => resolve(server));
+  });
 }
 
 describe('datasets', () => {
@@ -343,13 +400,245 @@ describe('datasets', () => {
     const refused = await owner.client.post(`/api/notebooks/${target}/cells/${cmp.id}/run`).expect(400);
     assert.ok(refused.body.error.fields.dataset, JSON.stringify(refused.body));
   });
+  test('a share link reads only the notebook\'s current datasets: a removed one (still held by a version) is 404 through it', async () => {
+    const dataset = (await owner.client.post(`/api/notebooks/${notebookId}/datasets/pasted`).send({ ...description('short_lived'), text: INVENTED_TABLE }).expect(201)).body.dataset as DatasetView;
+    await h.browser().get(`/api/shared/${viewerToken}/datasets/${dataset.id}`).expect(200);
+    await owner.client.delete(`/api/notebooks/${notebookId}/datasets/${dataset.id}`).expect(200);
+    // the version kept before the removal still holds it, and members may read it there
+    await owner.client.get(`/api/notebooks/${notebookId}/datasets/${dataset.id}`).expect(200);
+    assert.equal((await h.browser().get(`/api/shared/${viewerToken}/datasets/${dataset.id}`).expect(404)).body.error.code, 'not_found');
+  });
+
+  test('large bodies (import, pasted table, calc) are not read for people signed out (401) or requests from another site (403)', async () => {
+    // Malformed JSON: had the body been parsed before these checks, the answer would be 400 malformed_json.
+    const malformed = `{${' '.repeat(2 * 1024 * 1024)}`;
+    const paths = ['/api/notebooks/import', `/api/notebooks/${notebookId}/datasets/pasted`, '/api/calc'];
+    for (const path of paths) {
+      const signedOut = await h.raw.post(path).set('Origin', ORIGIN).set('Content-Type', 'application/json').send(malformed);
+      assert.equal(signedOut.status, 401, path);
+      assert.equal(signedOut.body.error.code, 'unauthenticated', path);
+      const crossSite = await owner.client.post(path).set('Origin', 'https://elsewhere.example').set('Content-Type', 'application/json').send(malformed);
+      assert.equal(crossSite.status, 403, path);
+      assert.equal(crossSite.body.error.code, 'cross_site_request', path);
+    }
+    // signed in, from the app: the body is read and found malformed
+    const read = await owner.client.post('/api/notebooks/import').set('Content-Type', 'application/json').send('{"title": ').expect(400);
+    assert.equal(read.body.error.code, 'malformed_json');
+  });
+
+  test('an imported file is parsed and checked in the document pool; a field at fault is named as before', async () => {
+    const { documents } = h.rungbook.services;
+    const original = documents.importDocument;
+    let pooled = 0;
+    documents.importDocument = (text, person) => {
+      pooled += 1;
+      return original(text, person);
+    };
+    try {
+      const target = await newNotebook('Invented pooled import');
+      await owner.client.post(`/api/notebooks/${target}/datasets/pasted`).send({ ...description('lattice'), text: INVENTED_TABLE }).expect(201);
+      const file = (await owner.client.get(`/api/notebooks/${target}/export.json`).expect(200)).text;
+      const imported = (await owner.client.post('/api/notebooks/import').set('Content-Type', 'application/json').send(file).expect(201)).body.notebook as NotebookDetail;
+      assert.deepEqual(imported.datasets.map((d) => d.contentHash), (await detail(target)).datasets.map((d) => d.contentHash));
+      const refused = await owner.client.post('/api/notebooks/import').send({ ...JSON.parse(file), title: 7 }).expect(400);
+      assert.equal(refused.body.error.code, 'validation_failed');
+      assert.ok(refused.body.error.fields.title, JSON.stringify(refused.body));
+      assert.equal(pooled, 2);
+    } finally {
+      documents.importDocument = original;
+    }
+  });
+
+  test('the LaTeX export sends the document pool the datasets\' row counts, not their points', async () => {
+    const target = await newNotebook('Invented LaTeX counts');
+    await owner.client.post(`/api/notebooks/${target}/datasets/pasted`).send({ ...description('lattice'), text: INVENTED_TABLE }).expect(201);
+    const add = (label: string, input: object) => owner.client.post(`/api/notebooks/${target}/cells`).send({ label, input }).expect(201);
+    await add('setup', { kind: 'setup', model: { preset: 'on', N: 1 }, d: '3', s: '1.75', loops: 2, digits: 20 });
+    await add('scan', { kind: 'scan', uses: 'setup', from: '1.55', to: '1.95', points: 5, quantities: ['Delta_phi2'] });
+    await add('cmp', { kind: 'comparison', uses: 'scan', dataset: 'lattice', kinks: false });
+    const { documents } = h.rungbook.services;
+    const original = documents.latex;
+    const sent: string[] = [];
+    documents.latex = (json, person) => {
+      sent.push(json);
+      return original(json, person);
+    };
+    try {
+      const tex = (await owner.client.get(`/api/notebooks/${target}/export.tex`).expect(200)).text;
+      const rows = INVENTED_TABLE.trim().split('\n').length - 1;
+      assert.equal(sent.length, 1);
+      const [dataset] = JSON.parse(sent[0]).datasets;
+      assert.equal(dataset.points, undefined);
+      assert.equal(dataset.rowCount, rows);
+      assert.match(tex, new RegExp(`${rows} points`));
+    } finally {
+      documents.latex = original;
+    }
+  });
+
+  test('run-all reads a dataset two comparison cells share once, in the document pool when it is over 100 kB', async () => {
+    const target = await newNotebook('Invented shared dataset');
+    const { points, json } = pointsOfLength(130_000);
+    assert.ok(points.x.length <= DATASET_LIMITS.maxComparedPoints);
+    await insertInventedDataset(h.rungbook.services.dataSource, { notebookId: target, label: 'shared', createdById: owner.id, points, json });
+    const add = (label: string, input: object) => owner.client.post(`/api/notebooks/${target}/cells`).send({ label, input }).expect(201);
+    await add('setup', { kind: 'setup', model: { preset: 'on', N: 1 }, d: '3', s: '1.75', loops: 2, digits: 20 });
+    await add('scan', { kind: 'scan', uses: 'setup', from: '1.55', to: '1.95', points: 5, quantities: ['Delta_phi2'] });
+    // a narrow x-range: the jobs carry a few points, the dataset is read whole
+    const range = { xFrom: points.x[0], xTo: points.x[40] };
+    await add('cmp1', { kind: 'comparison', uses: 'scan', dataset: 'shared', kinks: false, ...range });
+    await add('cmp2', { kind: 'comparison', uses: 'scan', dataset: 'shared', kinks: false, ...range });
+    const { documents } = h.rungbook.services;
+    const original = documents.datasetPointsInRange;
+    let reads = 0;
+    documents.datasetPointsInRange = (task, person) => {
+      reads += 1;
+      return original(task, person);
+    };
+    try {
+      const reply = (await owner.client.post(`/api/notebooks/${target}/run-all`).expect(202)).body as RunAllReply;
+      assert.deepEqual(reply.waiting, []);
+      const started = (await detail(target)).cells.filter((cell) => cell.kind === 'comparison' && cell.lastRun);
+      assert.deepEqual(started.map((cell) => cell.label).sort(), ['cmp1', 'cmp2']);
+      assert.equal(reads, 1);
+    } finally {
+      documents.datasetPointsInRange = original;
+    }
+  });
+
+  test(`a notebook's current datasets hold at most ${DATASET_LIMITS.maxNotebookBytes / 1024 / 1024} MB of points: one more is a 409, and so is an import over it`, async () => {
+    const target = await newNotebook('Invented full points');
+    const half = pointsOfLength(DATASET_LIMITS.maxNotebookBytes / 2 - 10);
+    for (const label of ['first_half', 'second_half']) await insertInventedDataset(h.rungbook.services.dataSource, { notebookId: target, label, createdById: owner.id, ...half });
+    const before = await datasetRows();
+    // INVENTED_TABLE's points take more than the 20 characters left
+    const refused = await owner.client.post(`/api/notebooks/${target}/datasets/pasted`).send({ ...description('one_more'), text: INVENTED_TABLE }).expect(409);
+    assert.match(refused.body.error.message, /at most 10 MB of points/);
+    assert.equal(await datasetRows(), before);
+    // the same in an exchange file: the two halves and the small one do not fit one notebook
+    const small = await newNotebook('Invented small');
+    await owner.client.post(`/api/notebooks/${small}/datasets/pasted`).send({ ...description('one_more'), text: INVENTED_TABLE }).expect(201);
+    const smallFile = JSON.parse((await owner.client.get(`/api/notebooks/${small}/export.json`).expect(200)).text);
+    const file = JSON.parse((await owner.client.get(`/api/notebooks/${target}/export.json`).expect(200)).text);
+    const over = await owner.client.post('/api/notebooks/import').send({ ...file, title: 'Invented over the cap', datasets: [...file.datasets, ...smallFile.datasets] });
+    assert.equal(over.status, 409, JSON.stringify(over.body).slice(0, 500));
+    assert.match(over.body.error.message, /at most 10 MB/);
+  });
+
+  test(`a notebook stores at most ${DATASET_LIMITS.maxStoredNotebookBytes / 1024 / 1024} MB of points with the removed datasets its versions hold`, async () => {
+    const target = await newNotebook('Invented many removed');
+    const removed = pointsOfLength(DATASET_LIMITS.maxStoredNotebookBytes / 6 - 5);
+    for (let i = 0; i < 6; i += 1) await insertInventedDataset(h.rungbook.services.dataSource, { notebookId: target, label: `old${i}`, createdById: owner.id, ...removed, removed: true });
+    const before = await datasetRows();
+    const refused = await owner.client.post(`/api/notebooks/${target}/datasets/pasted`).send({ ...description('new'), text: INVENTED_TABLE }).expect(409);
+    assert.match(refused.body.error.message, /keeps earlier datasets for its versions/);
+    assert.equal(await datasetRows(), before);
+  });
+
+  test('/api/calc takes kinks and compare jobs; a bad kinks job fails with the job error', async () => {
+    // y = |x − 1/2| sampled on a grid: a kink at x = 1/2 by construction
+    const grid = Array.from({ length: 41 }, (_v, i) => i / 40);
+    const kinks = { job: 'kinks', points: grid.map((x) => [x.toFixed(3), Math.abs(x - 0.5).toFixed(3)]), resamples: 20 };
+    const run = (await owner.client.post('/api/calc').send({ job: kinks }).expect(200)).body.run as RunView;
+    assert.equal(run.status, 'done', JSON.stringify(run));
+    const found = (run.result as { kinks: { x: string }[] }).kinks;
+    assert.ok(found.length >= 1 && Math.abs(Number(found[0].x) - 0.5) < 0.05, JSON.stringify(found));
+
+    const data = { xAxis: 's', x: ['1.6', '1.7', '1.8'], y: ['1.42', '1.45', '1.49'] };
+    const compare = { job: 'compare', model: { preset: 'on', N: 1 }, loops: 2, digits: 20, d: '3', s: { from: '1.55', to: '1.95', points: 5 }, quantity: 'Delta_phi2', data };
+    const compared = (await owner.client.post('/api/calc').send({ job: compare }).expect(200)).body.run as RunView;
+    assert.equal(compared.status, 'done', JSON.stringify(compared));
+    assert.ok(CompareResult.safeParse(compared.result).success);
+
+    const bad = (await owner.client.post('/api/calc').send({ job: { job: 'kinks', points: kinks.points.slice(0, 3) } }).expect(200)).body.run as RunView;
+    assert.equal(bad.status, 'failed');
+    assert.match(JSON.stringify(bad.error), new RegExp(`at least ${DATASET_LIMITS.minKinkPoints} points`));
+  });
+
+  test('/api/calc runs a kinks job of 5 000 points of 20-character decimals (over the 100 kB of other JSON bodies)', async () => {
+    const long = { job: 'kinks', points: Array.from({ length: DATASET_LIMITS.maxComparedPoints }, (_v, i) => [(1 + i / 1e4).toFixed(18), (2 + Math.abs(i - 2500) / 1e4).toFixed(18)]), resamples: 20, seed: 3 };
+    assert.ok(JSON.stringify({ job: long }).length > 200 * 1024);
+    const accepted = await owner.client.post('/api/calc').send({ job: long });
+    assert.equal(accepted.status, 200, JSON.stringify(accepted.body).slice(0, 300));
+    assert.equal(accepted.body.run.status, 'done', JSON.stringify(accepted.body.run).slice(0, 300));
+  });
+});
+
+describe('configured body limits: IMPORT_BODY_LIMIT, PASTED_BODY_LIMIT, CALC_BODY_LIMIT', () => {
+  let h: Harness | undefined;
+  after(() => h?.close());
+
+  test('each large-body route refuses a body over its configured limit with 413', async () => {
+    h = await startHarness({ IMPORT_BODY_LIMIT: '64kb', PASTED_BODY_LIMIT: '16kb', CALC_BODY_LIMIT: '8kb' });
+    const owner = await createPerson(h, { tag: 'owner' });
+    const notebookId = (await owner.client.post('/api/notebooks').send({ title: 'Invented limits', summary: '' }).expect(201)).body.notebook.id;
+    const over = (kb: number) => `"${'x'.repeat(kb * 1024)}"`;
+    const bodies: [string, string][] = [
+      ['/api/notebooks/import', over(65)],
+      [`/api/notebooks/${notebookId}/datasets/pasted`, over(17)],
+      ['/api/calc', over(9)],
+    ];
+    for (const [path, body] of bodies) {
+      const reply = await owner.client.post(path).set('Content-Type', 'application/json').send(body);
+      assert.equal(reply.status, 413, path);
+      assert.equal(reply.body.error.code, 'payload_too_large', path);
+    }
+    // under the limit the import is read (and found to be no notebook file)
+    const under = await owner.client.post('/api/notebooks/import').set('Content-Type', 'application/json').send(`{"title":${over(40)}}`).expect(400);
+    assert.equal(under.body.error.code, 'validation_failed');
+  });
+});
+
+describe('uploads being read: one per person, UPLOADS_IN_FLIGHT server-wide, refused by declared size before reading', () => {
+  let h: Harness | undefined;
+  let server: http.Server | undefined;
+  after(async () => {
+    server?.closeAllConnections();
+    server?.close();
+    await h?.close();
+  });
+
+  test('while one upload is read, the same person and (over the cap) others get 429 queue_full; afterwards both upload; a form declared too large is refused unread', { timeout: 60_000 }, async () => {
+    h = await startHarness({ UPLOADS_IN_FLIGHT: '1', SIGNIN_LIMIT_PER_IP: '100000', DATASET_UPLOAD_LIMIT_PER_USER: '100000' });
+    server = await listen(h);
+    const { port } = server.address() as AddressInfo;
+    const uploads = h.rungbook.app.locals.uploads as UploadGate;
+    const owner = await createPerson(h, { tag: 'owner' });
+    const other = await createPerson(h, { tag: 'other' });
+    const notebookId = (await owner.client.post('/api/notebooks').send({ title: 'Invented busy uploads', summary: '' }).expect(201)).body.notebook.id;
+    const otherNotebookId = (await other.client.post('/api/notebooks').send({ title: 'Invented other uploads', summary: '' }).expect(201)).body.notebook.id;
+
+    // larger than the declared maximum: refused before a byte of the body is sent
+    const tooLarge = heldUpload(port, await sessionCookie(h, owner), notebookId, Buffer.alloc(0), DATASET_LIMITS.maxFileBytes + FORM_OVERHEAD_BYTES + 1);
+    const refused = await tooLarge.reply;
+    tooLarge.abort();
+    assert.equal(refused.status, 413);
+    assert.equal(refused.body.error?.code, 'payload_too_large');
+
+    const held = heldUpload(port, await sessionCookie(h, owner), notebookId, multipartBody(description('held'), INVENTED_TABLE));
+    await until(() => uploads.inFlight === 1, 'the held upload is being read');
+    const same = await upload(owner.client, notebookId, description('second'), INVENTED_TABLE).expect(429);
+    assert.equal(same.body.error.code, 'queue_full');
+    assert.match(same.body.error.message, /already uploading/);
+    const busy = await upload(other.client, otherNotebookId, description('other'), INVENTED_TABLE).expect(429);
+    assert.equal(busy.body.error.code, 'queue_full');
+    assert.match(busy.body.error.message, /busy reading other uploads/);
+
+    held.finish();
+    const stored = await held.reply;
+    assert.equal(stored.status, 201, JSON.stringify(stored.body));
+    assert.equal(stored.body.dataset?.label, 'held');
+    await upload(owner.client, notebookId, description('second'), INVENTED_TABLE).expect(201);
+    await upload(other.client, otherNotebookId, description('other'), INVENTED_TABLE).expect(201);
+    assert.equal(uploads.inFlight, 0);
+  });
 });
 
 describe('dataset uploads per person per hour', () => {
-  let h: Harness;
-  after(() => h.close());
+  let h: Harness | undefined;
+  after(() => h?.close());
 
-  test('beyond DATASET_UPLOAD_LIMIT_PER_USER the upload gets 429 and nothing is stored', async () => {
+  test('beyond DATASET_UPLOAD_LIMIT_PER_USER the upload gets 429 and nothing is stored', { timeout: 60_000 }, async () => {
     h = await startHarness({ DATASET_UPLOAD_LIMIT_PER_USER: '2' });
     const owner = await createPerson(h, { tag: 'owner' });
     const notebookId = (await owner.client.post('/api/notebooks').send({ title: 'Invented limit', summary: '' }).expect(201)).body.notebook.id;
@@ -359,5 +648,17 @@ describe('dataset uploads per person per hour', () => {
     assert.equal(refused.body.error.code, 'rate_limited');
     assert.match(refused.body.error.message, /at most 2 dataset uploads per hour/);
     assert.equal(await h.rungbook.services.dataSource.getRepository(Dataset).count(), 2);
+    // the quota is checked before the file is read: the answer comes while the body is held back
+    const server = await listen(h);
+    try {
+      const held = heldUpload((server.address() as AddressInfo).port, await sessionCookie(h, owner), notebookId, multipartBody(description('fourth'), INVENTED_TABLE));
+      const early = await held.reply;
+      held.abort();
+      assert.equal(early.status, 429);
+      assert.equal(early.body.error?.code, 'rate_limited');
+    } finally {
+      server.closeAllConnections();
+      server.close();
+    }
   });
 });
