@@ -1,3 +1,4 @@
+import { mulberry32 } from '../../shared/engine/data/random';
 import type { DatasetDescription } from '../../shared/notebook/datasets';
 
 /**
@@ -12,21 +13,10 @@ export const PLANTED_KINK = { x: 0.625, y: 1.5265 } as const;
 /** Slopes of the invented bound left and right of the kink, its curvature term, and the noise's standard deviation. */
 const BOUND_SHAPE = { slopeLeft: -0.45, slopeRight: -1.4, curvature: 0.5, noise: 3e-4 } as const;
 
-/** mulberry32: a small deterministic generator, so every installation gets the same demo curve. */
-function seededUniform(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
 /** Standard normal deviates by Box–Muller. */
 function seededNormal(seed: number): () => number {
-  const uniform = seededUniform(seed);
+  // the engine's seeded generator, so every installation gets the same demo curve
+  const uniform = mulberry32(seed);
   return () => Math.sqrt(-2 * Math.log(1 - uniform())) * Math.cos(2 * Math.PI * uniform());
 }
 
