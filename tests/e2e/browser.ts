@@ -48,3 +48,21 @@ export async function signIn(page: Page, email: string, password: string) {
   await page.getByTestId('sign-in-submit').click();
   await page.waitForURL(`${BASE_URL}/notebooks`);
 }
+
+export interface ApiReply {
+  status: number;
+  json: any;
+}
+
+/** A request from inside the page: the person's own cookies and our Origin, as the app itself sends them. */
+export async function api(page: Page, method: 'GET' | 'POST' | 'PATCH' | 'DELETE', url: string, body?: unknown): Promise<ApiReply> {
+  return page.evaluate(
+    async ({ method, url, body }) => {
+      const headers: Record<string, string> = { Accept: 'application/json' };
+      if (body !== undefined) headers['Content-Type'] = 'application/json';
+      const reply = await fetch(url, { method, credentials: 'include', headers, body: body === undefined ? undefined : JSON.stringify(body) });
+      return { status: reply.status, json: await reply.json().catch(() => null) };
+    },
+    { method, url, body },
+  );
+}

@@ -3,7 +3,7 @@ import path from 'node:path';
 import { after, before, describe, test } from 'node:test';
 import type { Browser, Page } from 'playwright-core';
 import type { CapturedMessage } from '../../shared/api/schemas';
-import { ARTIFACTS, BASE_URL, launchBrowser, personPage, signIn, viewports } from './browser';
+import { ARTIFACTS, BASE_URL, api, launchBrowser, personPage, signIn, viewports } from './browser';
 
 /** Person A: the demo lead (seeded); the mention handle is the part of the address before the @. */
 const LEAD = { email: 'lead@demo.rungbook.example', password: 'demo-lead-pass', name: 'Teodor Vashti (demo lead)', handle: 'lead' };
@@ -13,23 +13,6 @@ const PATIENCE_MS = 30_000;
 
 const escapeRegExp = (text: string) => text.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
 
-interface ApiReply {
-  status: number;
-  json: any;
-}
-
-/** A request from inside the page: the person's own cookies and our Origin, as the app itself sends them. */
-async function api(page: Page, method: 'GET' | 'POST' | 'PATCH', url: string, body?: unknown): Promise<ApiReply> {
-  return page.evaluate(
-    async ({ method, url, body }) => {
-      const headers: Record<string, string> = { Accept: 'application/json' };
-      if (body !== undefined) headers['Content-Type'] = 'application/json';
-      const reply = await fetch(url, { method, credentials: 'include', headers, body: body === undefined ? undefined : JSON.stringify(body) });
-      return { status: reply.status, json: await reply.json().catch(() => null) };
-    },
-    { method, url, body },
-  );
-}
 
 async function waitUntil<T>(what: string, probe: () => Promise<T | undefined | null | false>): Promise<T> {
   const deadline = Date.now() + PATIENCE_MS;

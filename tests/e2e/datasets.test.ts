@@ -4,24 +4,12 @@ import path from 'node:path';
 import { after, before, describe, test } from 'node:test';
 import type { Browser, Page } from 'playwright-core';
 import { PLANTED_KINK, inventedBoundCsv } from '../../server/seed/demoDatasets';
-import { ARTIFACTS, BASE_URL, launchBrowser, personPage, signIn, viewports } from './browser';
+import { ARTIFACTS, BASE_URL, api, launchBrowser, personPage, signIn, viewports } from './browser';
 
 /** The demo lead (seeded on a local start). */
 const LEAD = { email: 'lead@demo.rungbook.example', password: 'demo-lead-pass' };
 const PATIENCE_MS = 90_000;
 
-/** A request from inside the page, with the person's cookies and our Origin, as the app sends them. */
-async function api(page: Page, method: 'GET' | 'POST', url: string, body?: unknown): Promise<{ status: number; json: any }> {
-  return page.evaluate(
-    async ({ method, url, body }) => {
-      const headers: Record<string, string> = { Accept: 'application/json' };
-      if (body !== undefined) headers['Content-Type'] = 'application/json';
-      const reply = await fetch(url, { method, credentials: 'include', headers, body: body === undefined ? undefined : JSON.stringify(body) });
-      return { status: reply.status, json: await reply.json().catch(() => null) };
-    },
-    { method, url, body },
-  );
-}
 
 /** A notebook with a model & parameters cell and a scan over s, made through the API (the notebook e2e test covers making cells by hand). */
 async function notebookWithScan(page: Page, title: string): Promise<string> {
