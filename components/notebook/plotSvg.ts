@@ -1,6 +1,6 @@
 import { scaleLinear } from 'd3-scale';
 import { colors, comparisonPlot } from '../../constants/theme';
-import type { CompareResult, SeriesVariant } from '../../shared/jobs/dataSchemas';
+import type { CompareResult, SeriesVariant } from '../../shared/jobs/contract';
 import { AXIS_NAMES } from '../../shared/notebook/datasets';
 
 /**

@@ -1,4 +1,4 @@
-import type { CompareResult } from '../../shared/jobs/dataSchemas';
+import type { CompareResult } from '../../shared/jobs/contract';
 import { isCoefficient, isDecimal, type Coefficient } from './texFormat';
 
 /** Recognisers for the engine's result shapes. Each returns null for anything it does not know. */

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { idParam } from '../../shared/api/schemas';
 import { CalcJob, FlowCalcJob } from '../../shared/jobs';
-import { CompareJob, KinksJob } from '../../shared/jobs/dataSchemas';
+import { CompareJob, KinksJob } from '../../shared/jobs/contract';
 import { route } from '../http/route';
 import type { Services } from '../services';
 

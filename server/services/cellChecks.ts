@@ -2,7 +2,7 @@ import type { CellInput } from '../../shared/notebook/cells';
 import { CellJobError, jobForCell, type SetupInput } from '../../shared/notebook/jobs';
 import { customModel } from '../../shared/engine/models/custom';
 import { jobCostProblem } from '../../shared/jobs/cost';
-import { builtInNameIn } from '../../shared/jobs/schemas';
+import { builtInNameIn } from '../../shared/jobs/contract';
 import { AppError } from '../http/errors';
 
 /** The expression fields of a cell input, by the path the editor shows errors at. */

@@ -2,7 +2,7 @@ import type { DataSource, EntityManager } from 'typeorm';
 import type { VersionSummary } from '../../shared/notebook/api';
 import type { CellInput, CellKind } from '../../shared/notebook/cells';
 import { canonicalJson } from '../../shared/notebook/dependencies';
-import { RESULT_LIMITS } from '../../shared/jobs/limits';
+import { RESULT_LIMITS } from '../../shared/jobs/contract';
 import type { NotebookAction, NotebookEventKind } from '../../shared/notebook/sharing';
 import type { SignedInUser } from '../auth/sessions';
 import { Cell, Notebook, NotebookMember, NotebookVersion } from '../db/entities';

@@ -9,7 +9,7 @@ import { Cell, GroupMembership, JobRun, Notebook, NotebookMember, ResearchGroup,
 import { AppError } from '../http/errors';
 import { newId } from '../ids';
 import { estimatedResultBytes, jobCostProblem, megabytes } from '../../shared/jobs/cost';
-import { RESULT_LIMITS } from '../../shared/jobs/limits';
+import { RESULT_LIMITS } from '../../shared/jobs/contract';
 import { WeightedLru } from './boundedCache';
 import { assertCellAccepted } from './cellChecks';
 import { resultHolderId, resultsOf, type RunService } from './runs';

@@ -1,10 +1,10 @@
 import { createHash } from 'node:crypto';
-import { isDataJob } from '../../shared/jobs/dataSchemas';
+import { isDataJob } from '../../shared/jobs/contract';
 import { IsNull, type DataSource } from 'typeorm';
 import type { Logger } from 'pino';
 import { canonicalJson } from '../../shared/notebook/dependencies';
 import { estimatedResultBytes, jobCostProblem, megabytes } from '../../shared/jobs/cost';
-import { RESULT_LIMITS } from '../../shared/jobs/limits';
+import { RESULT_LIMITS } from '../../shared/jobs/contract';
 import type { QueueStanding, RunView } from '../../shared/notebook/api';
 import type { JobQueueConfig } from '../config';
 import { JobRun } from '../db/entities';

@@ -5,7 +5,7 @@ import type { CellInput } from '../../shared/notebook/cells';
 import { fingerprintOf } from '../../shared/notebook/dependencies';
 import { NOTEBOOK_FORMAT, NOTEBOOK_FORMAT_VERSION } from '../../shared/notebook/exports';
 import { megabytes } from '../../shared/jobs/cost';
-import { RESULT_LIMITS } from '../../shared/jobs/limits';
+import { RESULT_LIMITS } from '../../shared/jobs/contract';
 import { CellJobError, jobForCell, type CellJobContext, type SetupInput } from '../../shared/notebook/jobs';
 import type { SignedInUser } from '../auth/sessions';
 import { Cell, JobRun, Notebook, NotebookVersion } from '../db/entities';

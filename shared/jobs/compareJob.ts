@@ -13,7 +13,7 @@ import { type LaurentSeries } from '../engine/series/laurent';
 import { type Expression } from '../engine/symbolic/expression';
 import { type Q, q, qAdd, qCompare, qMul, qSub } from '../engine/symbolic/rational';
 import { DATASET_LIMITS } from '../notebook/datasets';
-import { type CompareJob, type CompareResult } from './dataSchemas';
+import { type CompareJob, type CompareResult } from './contract';
 import { decimal } from './kinksJob';
 import { type JobHooks, checkDimension, chooseFixedPoint, decimalText, deriveFor, exactPositive, formatCoefficient, modelFrom } from './flowJobs';
 

@@ -13,11 +13,11 @@ import {
 } from '../engine/index';
 import { customModel } from '../engine/models/custom';
 import { type Q } from '../engine/symbolic/rational';
-import { CompareJob, KinksJob, isDataJob } from './dataSchemas';
+import { CompareJob, KinksJob, isDataJob } from './contract';
 import { checkParameterName, parseAffine, parseDefinitions, parseGammaProduct } from './expressions';
 import { FlowCalcJob, isFlowJob } from './flowJobs';
-import { JOB_LIMITS, RESULT_LIMITS } from './limits';
-import { CalcJob } from './schemas';
+import { JOB_LIMITS, RESULT_LIMITS } from './contract';
+import { CalcJob } from './contract';
 
 /**
  * Engine time is estimated in units of about one millisecond on the development machine (2 cores,

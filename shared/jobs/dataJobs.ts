@@ -2,10 +2,10 @@ import { z } from 'zod';
 import { ConsistencyError } from '../engine/diagrams/subtraction';
 import { EngineError } from '../engine/precision/errors';
 import { runCompareJob } from './compareJob';
-import { CompareJob, KinksJob } from './dataSchemas';
+import { CompareJob, KinksJob } from './contract';
 import { type JobHooks } from './flowJobs';
 import { runKinksJob } from './kinksJob';
-import { type JobError } from './schemas';
+import { type JobError } from './contract';
 
 type ErrorCode = JobError['error']['code'];
 const jobError = (code: ErrorCode, message: string): JobError => ({ error: { code, message } });

@@ -15,7 +15,7 @@ import {
   toExactRational,
 } from '../engine/index';
 import { isObjectPropertyName } from '../engine/models/custom';
-import { JOB_LIMITS } from './limits';
+import { JOB_LIMITS } from './contract';
 
 const math = create({ parseDependencies }, { number: 'BigNumber', precision: 64 });
 // The first parse instantiates mathjs's lazy factories (about 0.1 s): pay it at load, not inside a request.

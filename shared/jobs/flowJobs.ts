@@ -9,7 +9,7 @@ import { type AnyFlow, checkPropagatorPower, flowFor } from '../engine/flows/flo
 import { type CouplingPolynomial } from '../engine/models/couplingPolynomial';
 import { customModel } from '../engine/models/custom';
 import { type ModelSpec } from '../engine/models/model';
-import { MAX_FIELDS, cubicFamily, cubicModel, onFamily, onModel } from '../engine/models/presets';
+import { cubicFamily, cubicModel, onFamily, onModel } from '../engine/models/presets';
 import { EngineError, fail } from '../engine/precision/errors';
 import { type Real, realContext, toExactRational } from '../engine/precision/real';
 import { crossoverS, meanFieldEnd, padeValue, scanSeries } from '../engine/scans/scan';
@@ -19,45 +19,8 @@ import { type Expression } from '../engine/symbolic/expression';
 import { expressionToLatex, expressionToString } from '../engine/symbolic/format';
 import { polyToString } from '../engine/symbolic/polynomial';
 import { type Q, q, qAdd, qCompare, qMul, qSub, qToString } from '../engine/symbolic/rational';
-import { DecimalString, Digits, ExpressionText, type JobError } from './schemas';
+import { ExponentsJob, FixedPointsJob, FlowJob, ModelInput, ScanJob, type JobError } from './contract';
 
-// ---- schemas ------------------------------------------------------------------------------------
-
-const FieldCount = z.number().int().min(1).max(MAX_FIELDS);
-const SymbolicN = z.literal('N');
-
-export const ModelInput = z.discriminatedUnion('preset', [
-  z.strictObject({ preset: z.literal('on'), N: z.union([FieldCount, SymbolicN]) }),
-  z.strictObject({ preset: z.literal('cubic'), N: z.union([FieldCount, SymbolicN]) }),
-  z.strictObject({ preset: z.literal('custom'), fields: FieldCount, potential: ExpressionText }),
-]);
-
-const Loops = z.union([z.literal(1), z.literal(2)]).default(2);
-const FlowDigits = Digits.max(200).default(30);
-
-export const FlowJob = z.strictObject({ job: z.literal('flow'), model: ModelInput, loops: Loops, s: DecimalString.optional(), digits: FlowDigits });
-export const FixedPointsJob = z.strictObject({ job: z.literal('fixedpoints'), model: ModelInput, d: DecimalString.optional(), s: DecimalString.optional(), loops: Loops, digits: FlowDigits });
-export const ExponentsJob = z.strictObject({
-  job: z.literal('exponents'),
-  model: ModelInput,
-  d: DecimalString.optional(),
-  s: DecimalString.optional(),
-  loops: Loops,
-  digits: FlowDigits,
-  fixedPoint: z.string().max(100).optional(),
-});
-export const MAX_SCAN_POINTS = 1000;
-export const ScanJob = z.strictObject({
-  job: z.literal('scan'),
-  model: ModelInput,
-  d: DecimalString,
-  s: z.strictObject({ from: DecimalString, to: DecimalString, points: z.number().int().min(2).max(MAX_SCAN_POINTS) }),
-  quantities: z.array(z.enum(SERIES_QUANTITIES)).min(1).max(SERIES_QUANTITIES.length).default(['nuInv', 'omega']),
-  loops: Loops,
-  digits: FlowDigits,
-  shortRange: z.strictObject({ Delta_sigma: DecimalString }).optional(),
-  fixedPoint: z.string().max(100).optional(),
-});
 export const FlowCalcJob = z.discriminatedUnion('job', [FlowJob, FixedPointsJob, ExponentsJob, ScanJob]);
 export type FlowCalcJob = z.infer<typeof FlowCalcJob>;
 export const FLOW_JOB_NAMES: readonly string[] = ['flow', 'fixedpoints', 'exponents', 'scan'];

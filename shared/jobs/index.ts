@@ -1,4 +1,4 @@
-export * from './schemas';
-export { JOB_LIMITS } from './limits';
+export * from './contract';
+
 export { runJob, runBatch, jobError, isJobError } from './run';
-export { FlowCalcJob, FlowJob, FixedPointsJob, ExponentsJob, ScanJob, ModelInput, isFlowJob, runFlowJob, type JobHooks } from './flowJobs';
+export { FlowCalcJob, isFlowJob, runFlowJob, type JobHooks } from './flowJobs';

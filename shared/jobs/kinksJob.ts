@@ -1,7 +1,7 @@
 import { locateKinks } from '../engine/data/kinks';
 import { fail } from '../engine/precision/errors';
 import { DATASET_LIMITS } from '../notebook/datasets';
-import type { KinksJob, KinksResult } from './dataSchemas';
+import type { KinksJob, KinksResult } from './contract';
 
 const SIGNIFICANT_DIGITS = 6;
 

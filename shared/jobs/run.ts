@@ -30,9 +30,9 @@ import {
 import { batchWorkProblem, padeWorkProblem, parameterValues, seriesWorkProblem, specialWorkProblem } from './cost';
 import { parseAffine, parseDefinitions, parseGammaProduct } from './expressions';
 import { runDataJob } from './dataJobs';
-import { isDataJob } from './dataSchemas';
+import { isDataJob } from './contract';
 import { isFlowJob, runFlowJob, type JobHooks } from './flowJobs';
-import { JOB_LIMITS } from './limits';
+import { JOB_LIMITS } from './contract';
 import {
   type BubbleJob,
   CalcJob,
@@ -47,7 +47,7 @@ import {
   type SpecialJob,
   type SpecialResult,
   type StarTriangleJob,
-} from './schemas';
+} from './contract';
 
 type ErrorCode = JobError['error']['code'];
 

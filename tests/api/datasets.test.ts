@@ -7,7 +7,7 @@ import { after, before, describe, test } from 'node:test';
 import { Dataset, NotebookVersion } from '../../server/db/entities';
 import { newId } from '../../server/ids';
 import { MAX_VERSIONS_PER_NOTEBOOK } from '../../server/services/versions';
-import { CompareResult } from '../../shared/jobs/dataSchemas';
+import { CompareResult } from '../../shared/jobs/contract';
 import type { CellView, NotebookDetail, RunAllReply, RunView, VersionSummary } from '../../shared/notebook/api';
 import { DATASET_LIMITS, type DatasetView, type DatasetWithPoints } from '../../shared/notebook/datasets';
 import { FORM_OVERHEAD_BYTES, type UploadGate } from '../../server/http/upload';

@@ -1,6 +1,6 @@
 import assert from 'node:assert/strict';
 import { after, before, describe, test } from 'node:test';
-import type { CompareResult } from '../../shared/jobs/dataSchemas';
+import type { CompareResult } from '../../shared/jobs/contract';
 import type { CellView, NotebookDetail } from '../../shared/notebook';
 import { INVENTED_LATTICE_CSV, PLANTED_KINK } from '../../server/seed/demoDatasets';
 import { startHarness, type Harness } from './harness';

@@ -7,7 +7,7 @@ import { jobHash } from '../../server/services/runs';
 import { MAX_VERSIONS_PER_NOTEBOOK } from '../../server/services/versions';
 // The documented default of VERSION_SAVE_LIMIT_PER_USER (README configuration table).
 const VERSION_SAVES_PER_USER_PER_HOUR = 60;
-import { RESULT_LIMITS } from '../../shared/jobs/limits';
+import { RESULT_LIMITS } from '../../shared/jobs/contract';
 import { jobForCell, type SetupInput } from '../../shared/notebook/jobs';
 import { signUpVerified, startHarness, type Harness } from './harness';
 import { createPerson, settleRun as settle } from './people';

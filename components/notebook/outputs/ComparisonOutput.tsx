@@ -1,7 +1,7 @@
 import { useMemo, useState } from 'react';
 import { StyleSheet, Text, View, type LayoutChangeEvent } from 'react-native';
 import { colors, fonts, spacing } from '../../../constants/theme';
-import type { CompareResult } from '../../../shared/jobs/dataSchemas';
+import type { CompareResult } from '../../../shared/jobs/contract';
 import { comparisonCsv, comparisonTexTable } from '../../../shared/notebook/comparisonTable';
 import type { CellInput, DatasetView } from '../../../shared/notebook';
 import { ChipButton } from '../ChipButton';

@@ -1,7 +1,7 @@
 import { useState } from 'react';
 import { ScrollView, StyleSheet, Text, View, type LayoutChangeEvent } from 'react-native';
 import { colors, fonts, spacing } from '../../../constants/theme';
-import type { CompareResult } from '../../../shared/jobs/dataSchemas';
+import type { CompareResult } from '../../../shared/jobs/contract';
 import { ChipButton } from '../ChipButton';
 import { monoFont } from '../monoFont';
 import { shortDecimal } from '../texFormat';

@@ -9,8 +9,9 @@ import { Expression } from '../symbolic/expression';
 import { polyFromAffine } from '../symbolic/polynomial';
 import { ratFromPoly } from '../symbolic/ratfunc';
 
-export const SERIES_QUANTITIES = ['nuInv', 'omega', 'eta', 'Delta_phi', 'Delta_phi2', 'Delta_phi3', 'Delta_phi4', 'nu', 'gamma', 'alpha', 'beta', 'delta'] as const;
-export type Quantity = (typeof SERIES_QUANTITIES)[number];
+import { SERIES_QUANTITIES, type Quantity } from '../../jobs/contract/exponents';
+
+export { SERIES_QUANTITIES, type Quantity };
 
 /** How each exponent follows from the RG functions (stated in results). */
 export const RELATIONS: Record<Quantity, string> = {

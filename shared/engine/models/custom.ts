@@ -1,4 +1,5 @@
 import { type MathNode, create, parseDependencies } from 'mathjs';
+import { isObjectPropertyName } from '../../jobs/contract/primitives';
 import { fail } from '../precision/errors';
 import { toExactRational } from '../precision/real';
 import { type Poly, polyAdd, polyConstant, polyConstantValue, polyMul, polyPow, polyScale, polyVariable } from '../symbolic/polynomial';
@@ -26,15 +27,7 @@ interface NodeLike {
   value?: unknown;
 }
 
-/**
- * Names every JavaScript object already carries (constructor, toString, __proto__, …). Engine code keys
- * plain objects by symbol name, so such a name would read a built-in instead of a value: refused everywhere.
- */
-const OBJECT_PROPERTY_NAMES: ReadonlySet<string> = new Set([...Object.getOwnPropertyNames(Object.prototype), 'prototype']);
-
-export function isObjectPropertyName(name: string): boolean {
-  return OBJECT_PROPERTY_NAMES.has(name);
-}
+export { isObjectPropertyName };
 
 /** What a potential may ask of the expansion; checked on the parse tree before anything is multiplied out. */
 export const POTENTIAL_LIMITS = {

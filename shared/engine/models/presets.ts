@@ -3,7 +3,9 @@ import { q } from '../symbolic/rational';
 import { type ModelFamily, type QuarticModel, NEGLIGIBLE_COUPLING } from './model';
 import { type Tensor, tensorFrom } from './tensor';
 
-export const MAX_FIELDS = 6;
+import { MAX_FIELDS } from '../../jobs/contract/limits';
+
+export { MAX_FIELDS };
 
 const delta = (a: number, b: number) => (a === b ? 1 : 0);
 

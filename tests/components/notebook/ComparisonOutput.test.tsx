@@ -5,7 +5,7 @@ import { copyText } from '../../../components/notebook/clipboard';
 import { ComparisonOutput, comparisonDisplay } from '../../../components/notebook/outputs/ComparisonOutput';
 import { ResultView } from '../../../components/notebook/outputs/ResultView';
 import { saveTextFile } from '../../../components/notebook/saveFile';
-import type { CompareResult } from '../../../shared/jobs/dataSchemas';
+import type { CompareResult } from '../../../shared/jobs/contract';
 
 // Formulas are KaTeX in a web view on native; here their TeX source is enough.
 jest.mock('../../../components/formula', () => {

@@ -4,7 +4,7 @@ import { runJob } from '../../../shared/jobs';
 import { mulberry32 } from '../../../shared/engine/data/random';
 import { realContext } from '../../../shared/engine/precision/real';
 import { estimatedResultBytes, jobCostProblem } from '../../../shared/jobs/cost';
-import type { CompareResult } from '../../../shared/jobs/dataSchemas';
+import type { CompareResult } from '../../../shared/jobs/contract';
 
 type Any = Record<string, any>;
 const R = realContext(60);

@@ -2,7 +2,7 @@ import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import { spawnSync } from 'node:child_process';
 import { join } from 'node:path';
-import { KinksResult } from '../../../shared/jobs/dataSchemas';
+import { KinksResult } from '../../../shared/jobs/contract';
 import { runKinksJob } from '../../../shared/jobs/kinksJob';
 import { runJob } from '../../../shared/jobs/run';
 import { DATASET_LIMITS } from '../../../shared/notebook/datasets';

@@ -1,7 +1,7 @@
 import assert from 'node:assert/strict';
 import { test } from 'node:test';
 import { COST_LIMITS, jobCostProblem } from '../../../shared/jobs/cost';
-import { JOB_LIMITS } from '../../../shared/jobs/limits';
+import { JOB_LIMITS } from '../../../shared/jobs/contract';
 import { runBatch, runJob } from '../../../shared/jobs';
 import { jobForCell, type DatasetForJob, type SetupInput } from '../../../shared/notebook/jobs';
 import { extractPoints, readTable } from '../../../shared/notebook/datasetParsing';

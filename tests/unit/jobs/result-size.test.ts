@@ -2,7 +2,7 @@ import assert from 'node:assert/strict';
 import { test } from 'node:test';
 import { runJob } from '../../../shared/jobs';
 import { estimatedResultBytes, jobCostProblem } from '../../../shared/jobs/cost';
-import { RESULT_LIMITS } from '../../../shared/jobs/limits';
+import { RESULT_LIMITS } from '../../../shared/jobs/contract';
 
 const SIX = ['nuInv', 'nu', 'eta', 'gamma', 'omega', 'Delta_phi2'];
 const ALL_TWELVE = ['nuInv', 'omega', 'eta', 'Delta_phi', 'Delta_phi2', 'Delta_phi3', 'Delta_phi4', 'nu', 'gamma', 'alpha', 'beta', 'delta'];

@@ -6,7 +6,7 @@ import path from 'node:path';
 import { test } from 'node:test';
 import Papa from 'papaparse';
 import { runJob } from '../../../shared/jobs';
-import type { CompareResult } from '../../../shared/jobs/dataSchemas';
+import type { CompareResult } from '../../../shared/jobs/contract';
 import type { CellInput } from '../../../shared/notebook/cells';
 import { comparisonCsv, comparisonSummaryTex, comparisonTexTable } from '../../../shared/notebook/comparisonTable';
 import type { ExportedDataset } from '../../../shared/notebook/datasets';

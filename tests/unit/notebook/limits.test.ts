@@ -9,7 +9,7 @@ test('the notebook refuses exactly the field counts the engine refuses', () => {
 });
 
 test('the notebook refuses exactly the scan sizes the engine refuses', async () => {
-  const { MAX_SCAN_POINTS } = await import('../../../shared/jobs/flowJobs');
+  const { MAX_SCAN_POINTS } = await import('../../../shared/jobs/contract');
   const { scanInput } = await import('../../../shared/notebook/cells');
   const scan = (points: number) => scanInput.safeParse({ kind: 'scan', uses: 'setup', from: '1.5', to: '1.9', points, quantities: ['nuInv'] }).success;
   assert.equal(scan(MAX_SCAN_POINTS), true);

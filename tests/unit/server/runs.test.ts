@@ -10,7 +10,7 @@ import { FairQueue } from '../../../server/jobs/scheduler';
 import { AppError } from '../../../server/http/errors';
 import { createRunService, failInterruptedRuns, jobHash } from '../../../server/services/runs';
 import { JobRun } from '../../../server/db/entities';
-import { RESULT_LIMITS } from '../../../shared/jobs/limits';
+import { RESULT_LIMITS } from '../../../shared/jobs/contract';
 
 const queueLimits = (overrides: Partial<JobQueueConfig> = {}): JobQueueConfig => ({
   threads: 1, timeLimitMs: 10_000, perUserQueued: 3, perUserRunning: 1, queueWaitLimitMs: 60_000, ...overrides,

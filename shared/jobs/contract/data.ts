@@ -1,7 +1,8 @@
 import { z } from 'zod';
-import { DATASET_LIMITS, COMPARABLE_X_AXES, COMPARABLE_Y_AXES } from '../notebook/datasets';
-import { ModelInput } from './flowJobs';
-import { DecimalString, Digits } from './schemas';
+import { DATASET_LIMITS, COMPARABLE_X_AXES, COMPARABLE_Y_AXES } from '../../notebook/datasets';
+import { MAX_SCAN_POINTS } from './limits';
+import { ModelInput } from './model';
+import { DecimalString, Digits, Loops } from './primitives';
 
 /**
  * The jobs that hold series against numerical data — the same contract as every other job (CLI,
@@ -65,11 +66,11 @@ export type SeriesVariant = z.infer<typeof SeriesVariant>;
 export const CompareJob = z.strictObject({
   job: z.literal('compare'),
   model: ModelInput,
-  loops: z.union([z.literal(1), z.literal(2)]).default(2),
+  loops: Loops,
   digits: Digits.max(50).default(20),
   d: DecimalString,
   /** The curve: the scan's range of s. */
-  s: z.strictObject({ from: DecimalString, to: DecimalString, points: z.number().int().min(2).max(1000) }),
+  s: z.strictObject({ from: DecimalString, to: DecimalString, points: z.number().int().min(2).max(MAX_SCAN_POINTS) }),
   quantity: z.enum(COMPARABLE_Y_AXES),
   fixedPoint: z.string().max(100).optional(),
   shortRange: z.strictObject({ Delta_sigma: DecimalString }).optional(),

@@ -1,45 +1,8 @@
 import { z } from 'zod';
-import { isObjectPropertyName } from '../engine/models/custom';
 import { JOB_LIMITS } from './limits';
+import { AffineText, DecimalString, Digits, ExpressionText, JobError, ParameterValues, SymbolicCoefficient } from './primitives';
 
-/**
- * The calculation job contract, shared by the CLI, the API and the notebook.
- * Every object is strict: unknown fields are rejected.
- */
-export const DecimalString = z
-  .string()
-  .max(1100)
-  .regex(/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d{1,6})?$/, 'expected a decimal number as a string, e.g. "1.5"');
-
-export const Digits = z.number().int().min(JOB_LIMITS.minDigits).max(JOB_LIMITS.maxDigits);
-
-/** The first name in an expression that every JavaScript object already carries (constructor, __proto__, …), if any. */
-export function builtInNameIn(text: string): string | null {
-  for (const [name] of text.matchAll(/[A-Za-z_$][A-Za-z0-9_$]*/g)) if (isObjectPropertyName(name)) return name;
-  return null;
-}
-
-/** Expression text; names such as `constructor` would read built-ins instead of values, so they are refused here. */
-export const ExpressionText = z
-  .string()
-  .min(1)
-  .max(JOB_LIMITS.maxExpressionLength)
-  .superRefine((text, ctx) => {
-    const name = builtInNameIn(text);
-    if (name) ctx.addIssue({ code: 'custom', message: `"${name}" cannot be used as a name (it is a built-in property name); choose another name` });
-  });
-
-/** An affine expression in eps and parameters, e.g. "2*s - eps". */
-export const AffineText = ExpressionText;
-
-export const ParameterValues = z.record(
-  z
-    .string()
-    .regex(/^[A-Za-z][A-Za-z0-9_]*$/)
-    .refine((name) => !isObjectPropertyName(name), 'this name is a built-in property name; choose another parameter name'),
-  DecimalString,
-);
-
+/** The calculation jobs on numbers and series: special functions, Laurent expansions, one-loop integrals, Padé. */
 export const SpecialJob = z.strictObject({
   job: z.literal('special'),
   fn: z.enum(['gamma', 'lngamma', 'psi', 'zeta']),
@@ -110,15 +73,7 @@ export type CalcJob = z.infer<typeof CalcJob>;
 
 // ---- results --------------------------------------------------------------------------------
 
-export const ErrorCode = z.enum(['invalid-job', 'pole', 'domain', 'not-affine', 'not-representable', 'singular', 'limit', 'parse', 'internal']);
-
-export const JobError = z.strictObject({
-  error: z.strictObject({ code: ErrorCode, message: z.string() }),
-});
-
 export const SpecialResult = z.strictObject({ value: z.string() });
-
-export const SymbolicCoefficient = z.strictObject({ expr: z.string(), latex: z.string() });
 
 /** Coefficient of eps^lowest first, through eps^order (coeffs.length = order − lowest + 1). */
 export const SeriesResult = z.strictObject({
@@ -144,7 +99,6 @@ export const PadeResult = z.union([PadeEntry, z.strictObject({ table: z.array(Pa
 
 export const CalcResult = z.union([SpecialResult, SeriesResult, PadeResult, JobError]);
 
-export type JobError = z.infer<typeof JobError>;
 export type SpecialResult = z.infer<typeof SpecialResult>;
 export type SeriesResult = z.infer<typeof SeriesResult>;
 export type PadeEntry = z.infer<typeof PadeEntry>;

@@ -39,3 +39,9 @@ export const RESULT_LIMITS = {
   maxResultBytes: 4_000_000,
   maxNotebookResultBytes: 16_000_000,
 } as const;
+
+/** Fields of a model with explicit tensors (custom potentials and presets with a numeric N). */
+export const MAX_FIELDS = 6;
+
+/** Points of one scan. */
+export const MAX_SCAN_POINTS = 1000;

@@ -1,0 +1,45 @@
+import { z } from 'zod';
+import { Quantity, SERIES_QUANTITIES } from './exponents';
+import { MAX_SCAN_POINTS } from './limits';
+import { ModelInput } from './model';
+import { DecimalString, FlowDigits, Loops } from './primitives';
+
+/** `scan`: exponents along a range of s at fixed d (ε = 2s − d changes along the scan). */
+export const ScanJob = z.strictObject({
+  job: z.literal('scan'),
+  model: ModelInput,
+  d: DecimalString,
+  s: z.strictObject({ from: DecimalString, to: DecimalString, points: z.number().int().min(2).max(MAX_SCAN_POINTS) }),
+  quantities: z.array(Quantity).min(1).max(SERIES_QUANTITIES.length).default(['nuInv', 'omega']),
+  loops: Loops,
+  digits: FlowDigits,
+  shortRange: z.strictObject({ Delta_sigma: DecimalString }).optional(),
+  fixedPoint: z.string().max(100).optional(),
+});
+export type ScanJob = z.infer<typeof ScanJob>;
+
+export const ScanRegime = z.enum(['mean-field', 'long-range', 'short-range']);
+
+export const ScanPointResult = z.strictObject({
+  s: z.string(),
+  eps: z.string(),
+  regime: ScanRegime,
+  /** True outside the long-range window (mean-field or beyond s*). */
+  flagged: z.boolean(),
+  /** Several couplings: the fixed point followed at this s (null when none could be chosen). */
+  fixedPoint: z.string().nullable().optional(),
+  values: z.partialRecord(Quantity, z.string().nullable()),
+  pade: z.partialRecord(Quantity, z.string().nullable()),
+  note: z.string().optional(),
+});
+export type ScanPointResult = z.infer<typeof ScanPointResult>;
+
+export const ScanResult = z.strictObject({
+  d: z.string(),
+  fixedPoint: z.string().nullable(),
+  quantities: z.array(Quantity),
+  /** s = d/2 (end of the mean-field region) and s* (short-range crossover) when known. */
+  marks: z.strictObject({ meanFieldEnd: z.string(), sStar: z.string().optional() }),
+  points: z.array(ScanPointResult),
+});
+export type ScanResult = z.infer<typeof ScanResult>;
