@@ -27,6 +27,13 @@ export interface FixedPoint<C> {
   eigenvalueFull?: ComplexReal[];
   stable: boolean | null;
   notes: string[];
+  /** What a result using this point must say at its top (complex at the physical ε, a stability sign that depends on resummation, …). */
+  caveats?: FixedPointCaveat[];
+}
+
+export interface FixedPointCaveat {
+  kind: 'complex-at-eps' | 'stability-sign-disagrees' | 'degenerate-one-loop' | 'complex-one-loop';
+  message: string;
 }
 
 const toNumber = (c: unknown): number => Number(String(c));
