@@ -1,43 +1,122 @@
-import type { CompareResult } from '../../shared/jobs/contract';
-import { isCoefficient, isDecimal, type Coefficient } from './texFormat';
+import { z } from 'zod';
+import {
+  CompareResult,
+  CouplingTerm,
+  ExponentsResult,
+  FixedPointsResult,
+  FlowResult,
+  ScanResult,
+  SeriesCoefficients,
+  SeriesResult,
+} from '../../shared/jobs/contract';
+import { isCoefficient, type Coefficient } from './texFormat';
 
-/** Recognisers for the engine's result shapes. Each returns null for anything it does not know. */
+/**
+ * A result is read with the job contract's result schema (shared/jobs/contract), never by guessing key
+ * names. A result that does not match today's schema (an earlier engine version wrote it) is read with
+ * the same schema loosened field by field: a field that does not match today's schema is left out,
+ * unknown fields are kept. Such a reading says `earlier: true`, so the view can say that parts may be
+ * missing. Each recogniser returns null for a result that lacks what its view needs.
+ */
 
 type Json = Record<string, unknown>;
 const isObject = (value: unknown): value is Json => typeof value === 'object' && value !== null && !Array.isArray(value);
+
+/** Every field of T optional, down to the leaves; what a loosened schema gives back. */
+export type Earlier<T> = T extends readonly (infer E)[] ? Earlier<E>[] : T extends object ? { [K in keyof T]?: Earlier<T[K]> } : T;
+
+/** The contract's schema loosened: object fields optional and dropped when they do not match, unknown fields kept, records keyed by any name. */
+function loosen(schema: z.ZodType): z.ZodType {
+  if (schema instanceof z.ZodObject) return looseObject([schema]);
+  if (schema instanceof z.ZodUnion) {
+    const options = schema.options as z.ZodType[];
+    return options.every((option) => option instanceof z.ZodObject) ? looseObject(options as z.ZodObject[]) : z.union(options.map(loosen));
+  }
+  if (schema instanceof z.ZodArray) return z.array(loosen(schema.element as z.ZodType));
+  if (schema instanceof z.ZodRecord) return z.record(z.string(), loosen(schema.valueType as z.ZodType));
+  if (schema instanceof z.ZodOptional) return loosen(schema.unwrap() as z.ZodType).optional();
+  if (schema instanceof z.ZodNullable) return loosen(schema.unwrap() as z.ZodType).nullable();
+  return schema;
+}
+
+/** One loose object with the fields of all the given objects (the variants of a result, such as mean-field and series exponents). */
+function looseObject(variants: z.ZodObject[]): z.ZodType {
+  const fields = new Map<string, z.ZodType[]>();
+  for (const variant of variants) for (const [key, field] of Object.entries(variant.shape as Record<string, z.ZodType>)) fields.set(key, [...(fields.get(key) ?? []), loosen(field)]);
+  const shape = Object.fromEntries([...fields].map(([key, options]) => [key, (options.length === 1 ? options[0] : z.union(options)).optional().catch(undefined)]));
+  return z.looseObject(shape);
+}
+
+/** A result read with its contract schema, or with the loosened schema (`earlier`); null when neither reads it. */
+export type Reading<T> = { earlier: false; result: T } | { earlier: true; result: Earlier<T> };
+
+const loosened = new Map<z.ZodType, z.ZodType>();
+
+export function readResult<S extends z.ZodType>(schema: S, value: unknown): Reading<z.infer<S>> | null {
+  const exact = schema.safeParse(value);
+  if (exact.success) return { earlier: false, result: exact.data };
+  if (!loosened.has(schema)) loosened.set(schema, loosen(schema));
+  const loose = loosened.get(schema)!.safeParse(value);
+  return loose.success && isObject(loose.data) ? { earlier: true, result: loose.data as Earlier<z.infer<S>> } : null;
+}
+
+/** Why a result does not match its contract schema (zod's issues, one per line), or null when it does. */
+export function contractProblem(schema: z.ZodType, value: unknown): string | null {
+  const parsed = schema.safeParse(value);
+  return parsed.success ? null : z.prettifyError(parsed.error);
+}
+
+/** Coefficients of a series; in a loosely read result, entries that are not coefficients are left out. */
+const coefficients = (list: readonly unknown[] | null | undefined): Coefficient[] => (Array.isArray(list) ? list.filter(isCoefficient) : []);
+
+// ---- series ---------------------------------------------------------------------------------------
 
 export interface SeriesShape {
   lowest: number;
   coeffs: Coefficient[];
   prefactor?: { piExponent: string; twoExponent?: string };
+  earlier?: boolean;
 }
 
+/** An integral's series (laurent, bubble, fourier, startriangle) or a series inside a flow's trail. */
+const AnySeries = z.union([SeriesResult, SeriesCoefficients]);
+
 export function asSeries(result: unknown): SeriesShape | null {
-  if (!isObject(result) || typeof result.lowest !== 'number' || !Array.isArray(result.coeffs) || !result.coeffs.every(isCoefficient)) return null;
-  const prefactor = isObject(result.prefactor) && typeof result.prefactor.piExponent === 'string' ? (result.prefactor as SeriesShape['prefactor']) : undefined;
-  return { lowest: result.lowest, coeffs: result.coeffs as Coefficient[], prefactor };
+  const reading = readResult(AnySeries, result);
+  if (!reading || typeof reading.result.lowest !== 'number' || !Array.isArray(reading.result.coeffs)) return null;
+  const { lowest, coeffs } = reading.result;
+  const prefactor = 'prefactor' in reading.result && reading.result.prefactor?.piExponent !== undefined ? (reading.result.prefactor as SeriesShape['prefactor']) : undefined;
+  return { lowest, coeffs: coefficients(coeffs), prefactor, earlier: reading.earlier };
 }
+
+// ---- exponents ------------------------------------------------------------------------------------
 
 export interface ExponentsShape {
   eps: string | null;
   /** Quantity → coefficients of ε^0, ε^1, … */
   series: Record<string, Coefficient[]>;
   values: Record<string, string>;
+  /** Every other field of the result (fixed point, relations, Padé values, statement …). */
   extra: Json;
+  /** The result as the contract types it (null when read with the loosened schema). */
+  contract: ExponentsResult | null;
+  earlier: boolean;
 }
 
 export function asExponents(result: unknown): ExponentsShape | null {
-  if (!isObject(result) || !isObject(result.series)) return null;
+  const reading = readResult(ExponentsResult, result);
+  if (!reading) return null;
+  const { series: rawSeries, values: rawValues, eps } = reading.result as Earlier<z.infer<typeof ExponentsResult>> & { series?: Record<string, unknown[]> };
+  const { series: _series, values: _values, eps: _eps, ...extra } = result as Json;
   const series: Record<string, Coefficient[]> = {};
-  for (const [key, coefficients] of Object.entries(result.series)) {
-    if (Array.isArray(coefficients) && coefficients.every(isCoefficient)) series[key] = coefficients as Coefficient[];
-  }
+  for (const [key, list] of Object.entries(rawSeries ?? {})) if (list) series[key] = coefficients(list);
   const values: Record<string, string> = {};
-  if (isObject(result.values)) for (const [key, value] of Object.entries(result.values)) if (typeof value === 'string') values[key] = value;
+  for (const [key, value] of Object.entries(rawValues ?? {})) if (typeof value === 'string') values[key] = value;
   if (Object.keys(series).length === 0 && Object.keys(values).length === 0) return null;
-  const { series: _series, values: _values, eps, ...extra } = result;
-  return { eps: typeof eps === 'string' ? eps : null, series, values, extra };
+  return { eps: eps ?? null, series, values, extra, contract: reading.earlier ? null : reading.result, earlier: reading.earlier };
 }
+
+// ---- scans ----------------------------------------------------------------------------------------
 
 /** Scan quantities from Padé approximants carry this prefix: "pade:nuInv". */
 export const PADE_PREFIX = 'pade:';
@@ -54,70 +133,72 @@ export interface ScanShape {
   quantities: string[];
   sStar: number | null;
   meanField: number | null;
+  /** The result as the contract types it (null when read with the loosened schema). */
+  contract?: ScanResult | null;
+  earlier?: boolean;
 }
 
-const numberOf = (value: unknown): number | null => {
-  if (typeof value === 'number' && Number.isFinite(value)) return value;
-  if (isDecimal(value)) return Number(value);
-  if (isObject(value) && 'value' in value) return numberOf(value.value);
-  return null;
+const numberOf = (text: string | null | undefined): number | null => {
+  if (typeof text !== 'string' || text.trim() === '') return null;
+  const value = Number(text);
+  return Number.isFinite(value) ? value : null;
 };
 
-function firstNumber(source: Json, keys: string[]): number | null {
-  for (const key of keys) {
-    const found = numberOf(source[key]);
-    if (found !== null) return found;
-  }
-  return null;
-}
-
-/** Points with an abscissa (s or d) and numeric values per quantity; `meanFieldD` fills in s = d/2 when the result omits it. */
+/** Points of s with numeric values per quantity (Padé values as "pade:…"); `meanFieldD` gives s = d/2 when the result has no mark. */
 export function asScan(result: unknown, meanFieldD?: string): ScanShape | null {
-  if (!isObject(result) || !Array.isArray(result.points)) return null;
-  const variable = typeof result.variable === 'string' ? result.variable : 's';
+  const reading = readResult(ScanResult, result);
+  if (!reading || !Array.isArray(reading.result.points)) return null;
+  const scan = reading.result as Earlier<ScanResult>;
   const points: ScanPoint[] = [];
   const quantities = new Set<string>();
-  for (const raw of result.points) {
-    if (!isObject(raw)) continue;
-    const x = firstNumber(raw, [variable, 's', 'd', 'x']);
-    if (x === null) continue;
-    const source = isObject(raw.values) ? raw.values : raw;
+  for (const raw of scan.points ?? []) {
+    const x = numberOf(raw?.s);
+    if (!raw || x === null) continue;
     const values: Record<string, number> = {};
-    const take = (entries: Json, prefix: string) => {
-      for (const [key, value] of Object.entries(entries)) {
-        if (key === variable || key === 's' || key === 'd' || key === 'x' || key === 'eps') continue;
-        const number = numberOf(value);
-        if (number !== null) {
-          values[prefix + key] = number;
-          quantities.add(prefix + key);
-        }
+    const take = (entries: Record<string, string | null | undefined> | undefined, prefix: string) => {
+      for (const [key, text] of Object.entries(entries ?? {})) {
+        const value = numberOf(text);
+        if (value === null) continue;
+        values[prefix + key] = value;
+        quantities.add(prefix + key);
       }
     };
-    take(source, '');
-    if (isObject(raw.pade)) take(raw.pade, PADE_PREFIX);
-    points.push({ x, values, flagged: raw.flagged === true || raw.outside === true });
+    take(raw.values, '');
+    take(raw.pade, PADE_PREFIX);
+    points.push({ x, values, flagged: raw.flagged === true });
   }
   if (points.length === 0) return null;
-  const d = numberOf(result.d) ?? numberOf(meanFieldD);
-  const marks = isObject(result.marks) ? result.marks : result;
-  const meanField = firstNumber(marks, ['meanFieldEnd', 'meanField', 'sMeanField']) ?? (d !== null ? d / 2 : null);
-  const sStar = firstNumber(marks, ['sStar', 's_star', 'crossover']);
+  const d = numberOf(scan.d) ?? numberOf(meanFieldD);
+  const meanField = numberOf(scan.marks?.meanFieldEnd) ?? (d !== null ? d / 2 : null);
   const ordered = [...quantities].sort((a, b) => Number(a.startsWith(PADE_PREFIX)) - Number(b.startsWith(PADE_PREFIX)));
-  return { variable, points, quantities: ordered, sStar, meanField };
+  return { variable: 's', points, quantities: ordered, sStar: numberOf(scan.marks?.sStar), meanField, contract: reading.earlier ? null : reading.result, earlier: reading.earlier };
 }
 
 export { isObject };
+
+// ---- flows ----------------------------------------------------------------------------------------
 
 export interface PolynomialTerm {
   monomial: string;
   coeff: Coefficient;
 }
 
+const Polynomial = z.array(CouplingTerm);
+
 /** A polynomial in the couplings (and ε) as the flow job writes it: [{monomial: "u^2", coeff: "3"}, …]. */
 export function asPolynomial(value: unknown): PolynomialTerm[] | null {
-  if (!Array.isArray(value) || !value.every((term) => isObject(term) && typeof term.monomial === 'string' && isCoefficient(term.coeff))) return null;
-  return value as PolynomialTerm[];
+  const parsed = Polynomial.safeParse(value);
+  return parsed.success ? parsed.data : null;
 }
+
+/** A flow result (β-functions, anomalous dimensions, trail); loosely read results must still have β. */
+export function asFlow(result: unknown): { result: Json; earlier: boolean } | null {
+  const reading = readResult(FlowResult, result);
+  if (!reading || !isObject(reading.result.beta)) return null;
+  return { result: reading.result as Json, earlier: reading.earlier };
+}
+
+// ---- fixed points ---------------------------------------------------------------------------------
 
 export interface FixedPointShape {
   name: string;
@@ -129,42 +210,33 @@ export interface FixedPointShape {
   notes: string[];
 }
 
-export function asFixedPoints(result: unknown): { eps: string | null; points: FixedPointShape[] } | null {
-  if (!isObject(result) || !Array.isArray(result.fixedPoints)) return null;
+const coefficientText = (value: Earlier<Coefficient> | null | undefined): string | null =>
+  typeof value === 'string' ? value : value && typeof value.expr === 'string' ? value.expr : null;
+
+export function asFixedPoints(result: unknown): { eps: string | null; points: FixedPointShape[]; contract: FixedPointsResult | null; earlier: boolean } | null {
+  const reading = readResult(FixedPointsResult, result);
+  if (!reading || !Array.isArray(reading.result.fixedPoints)) return null;
+  const found = reading.result as Earlier<FixedPointsResult>;
   const points: FixedPointShape[] = [];
-  for (const raw of result.fixedPoints) {
-    if (!isObject(raw) || typeof raw.name !== 'string') return null;
-    const couplings = isObject(raw.couplings)
-      ? Object.entries(raw.couplings).map(([name, entry]) => ({
-          name,
-          series: isObject(entry) && Array.isArray(entry.series) ? (entry.series.filter(isCoefficient) as Coefficient[]) : [],
-          value: isObject(entry) && typeof entry.value === 'string' ? entry.value : null,
-        }))
-      : [];
-    const stability = isObject(raw.stability) ? raw.stability : {};
+  for (const raw of found.fixedPoints ?? []) {
+    if (!raw || typeof raw.name !== 'string') return null;
     points.push({
       name: raw.name,
-      status: typeof raw.status === 'string' ? raw.status : '',
+      status: raw.status ?? '',
       stable: typeof raw.stable === 'boolean' ? raw.stable : null,
-      couplings,
-      stabilityValues: Array.isArray(stability.values) ? stability.values.map(String) : null,
-      stabilitySeries: Array.isArray(stability.series) ? (stability.series.filter(Array.isArray) as Coefficient[][]) : [],
-      notes: Array.isArray(raw.notes) ? raw.notes.map(String) : [],
+      couplings: Object.entries(raw.couplings ?? {}).map(([name, entry]) => ({ name, series: coefficients(entry?.series as Coefficient[] | null | undefined), value: coefficientText(entry?.value) })),
+      stabilityValues: raw.stability?.values ? raw.stability.values.filter((v): v is string => typeof v === 'string') : null,
+      stabilitySeries: (raw.stability?.series ?? []).filter(Array.isArray).map((row) => coefficients(row as Coefficient[])),
+      notes: (raw.notes ?? []).filter((note): note is string => typeof note === 'string'),
     });
   }
-  return { eps: typeof result.eps === 'string' ? result.eps : null, points };
+  return { eps: found.eps ?? null, points, contract: reading.earlier ? null : reading.result, earlier: reading.earlier };
 }
 
-const isStringRecord = (value: unknown) => isObject(value) && Object.values(value).every((entry) => entry === null || typeof entry === 'string');
+// ---- comparisons ----------------------------------------------------------------------------------
 
-/** The compare job's result (series variants against a dataset); null for anything else. */
+/** The compare job's result (series variants against a dataset), exactly as the contract has it; null for anything else. */
 export function asComparison(result: unknown): CompareResult | null {
-  if (!isObject(result) || typeof result.xAxis !== 'string' || typeof result.quantity !== 'string' || !isObject(result.marks)) return null;
-  const { variants, curve, points, summary, notes, marks } = result;
-  if (!Array.isArray(variants) || !variants.every((v) => isObject(v) && typeof v.key === 'string' && typeof v.label === 'string')) return null;
-  if (!Array.isArray(curve) || !curve.every((row) => isObject(row) && typeof row.x === 'string' && isStringRecord(row.values))) return null;
-  if (!Array.isArray(points) || !points.every((row) => isObject(row) && typeof row.x === 'string' && typeof row.y === 'string' && isStringRecord(row.series) && isStringRecord(row.residual))) return null;
-  if (!Array.isArray(summary) || !Array.isArray(notes) || !isObject(marks.meanFieldEnd) || !Array.isArray(marks.dataRange)) return null;
-  if (result.kinks !== undefined && !(Array.isArray(result.kinks) && result.kinks.every((kink) => isObject(kink) && typeof kink.x === 'string' && isObject(kink.distance)))) return null;
-  return result as unknown as CompareResult;
+  const parsed = CompareResult.safeParse(result);
+  return parsed.success ? parsed.data : null;
 }

@@ -1,13 +1,12 @@
 import { z } from 'zod';
 import { idParam } from '../../shared/api/schemas';
-import { CalcJob, FlowCalcJob } from '../../shared/jobs';
-import { CompareJob, KinksJob } from '../../shared/jobs/contract';
+import { AnyJob } from '../../shared/jobs/contract';
 import { route } from '../http/route';
 import type { Services } from '../services';
 
 const runParams = z.object({ runId: idParam });
 /** Any job of the calc CLI contract; validated here, so malformed jobs never reach a worker. */
-const calcRequest = z.strictObject({ job: z.union([CalcJob, FlowCalcJob, KinksJob, CompareJob]) });
+export const calcRequest = z.strictObject({ job: AnyJob });
 const CALC_WAIT_MS = 30_000;
 
 export function runRoutes({ runs, notebooks }: Services) {

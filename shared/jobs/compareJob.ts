@@ -1,6 +1,7 @@
 import { type DerivedFlow } from '../engine/diagrams/renormalization';
 import { locateKinks } from '../engine/data/kinks';
-import { exponentSeries, type Quantity } from '../engine/exponents/exponents';
+import { exponentSeriesPartial, powerCoefficients, type Quantity } from '../engine/exponents/exponents';
+import { type Crossover, crossoverFor } from '../engine/exponents/shortRange';
 import { findFixedPoints } from '../engine/fixedpoints/fixedPoints';
 import { checkPropagatorPower } from '../engine/flows/flow';
 import { type ModelSpec } from '../engine/models/model';
@@ -8,7 +9,7 @@ import { EngineError, fail } from '../engine/precision/errors';
 import { type Real, GUARD_DIGITS, rationalToReal, realContext, toExactRational } from '../engine/precision/real';
 import { type ComparisonAxis, type VariantSpec, type VariantValue, axisFromS, deltaPhiFromS, fitSummary, pullOf, sFromAxis, seriesVariants, variantValues } from '../engine/scans/compare';
 import { scanFlow } from '../engine/scans/flowScan';
-import { type ScanPoint, crossoverS, meanFieldEnd, scanSeries } from '../engine/scans/scan';
+import { type ScanPoint, meanFieldEnd, printedValues, scanSeries } from '../engine/scans/scan';
 import { type LaurentSeries } from '../engine/series/laurent';
 import { type Expression } from '../engine/symbolic/expression';
 import { type Q, q, qAdd, qCompare, qMul, qSub } from '../engine/symbolic/rational';
@@ -58,15 +59,16 @@ export function runCompareJob(job: CompareJob, hooks: JobHooks = {}): CompareRes
   const curveS = curveGrid(job);
   const data = dataPoints(job, d);
   const axis: ComparisonAxis = job.data.xAxis;
-  const shortRangeS = job.shortRange ? crossoverS(d, toExactRational(job.shortRange.Delta_sigma)) : null;
+  const crossover = crossoverFor(job.model, d, job.shortRange?.Delta_sigma);
+  const shortRangeS = crossover?.sStar ?? null;
   const variants = seriesVariants(job.loops);
-  const notes: string[] = [];
+  const notes: string[] = crossover?.builtIn ? [`s* = ${decimalText(crossover.sStar, job.digits)} = d − 2Δσ with Δσ ${crossover.source.replace(/^built in: /, 'built in (')})`] : [];
   hooks.onProgress?.(0.01);
   const found = job.data.boundary ? kinksOf(data, notes) : [];
   // the series are evaluated at the kink position as reported, so distance and position agree
   const kinkS = found.map((k) => sFromAxis(axis, d, toExactRational(k.text.x)));
 
-  const evaluate = seriesEvaluator({ job, model, d, shortRangeS, variants, hooks });
+  const evaluate = seriesEvaluator({ job, model, d, shortRangeS, crossover, variants, hooks });
   const insideData = data.filter((p) => insideWindow(p.s));
   const insideKinks = kinkS.filter(insideWindow);
   const evaluated = evaluate([...curveS, ...insideData.map((p) => p.s), ...insideKinks]);
@@ -226,28 +228,31 @@ interface EvaluatorContext {
   model: ModelSpec;
   d: Q;
   shortRangeS: Q | null;
+  crossover: Crossover | null;
   variants: VariantSpec[];
   hooks: JobHooks;
 }
 
 /** Derives the flow once (symbolic in s) and returns a function giving every variant at many s, as runScan does. */
 function seriesEvaluator(context: EvaluatorContext): (sValues: Q[]) => SeriesAt[] {
-  const { job, model, d, shortRangeS, variants, hooks } = context;
+  const { job, model, d, shortRangeS, crossover, hooks } = context;
   const quantity = job.quantity as Quantity;
   const any = deriveFor(model, null, job.loops, job.digits);
   const flow = any.flow as DerivedFlow<Expression>;
   hooks.onProgress?.(BACKGROUND_PROGRESS);
   const onProgress = hooks.onProgress ? (f: number) => hooks.onProgress!(BACKGROUND_PROGRESS + (1 - 2 * BACKGROUND_PROGRESS) * f) : undefined;
-  const grid = { d, shortRangeS, quantities: [quantity], digits: job.digits, onProgress, keepCoefficients: true };
+  const grid = { d, shortRangeS, crossover, quantities: [quantity], digits: job.digits, onProgress, keepCoefficients: true };
   const toVariants = (p: ScanPoint & { fixedPoint?: string | null; note?: string }): SeriesAt => atPoint(p, context);
   if (model.couplings.length > 1) {
     return (sValues) => scanFlow({ ...grid, model, flow, sValues, choose: (candidates) => chooseFixedPoint(candidates, job.fixedPoint, false) }).map(toVariants);
   }
   const point = chooseFixedPoint(findFixedPoints(model, flow, { eps: null }), job.fixedPoint, true);
-  const series = exponentSeries(flow, point);
-  const compiled = (k: Quantity) => ({ coefficients: (series[k] as LaurentSeries<Expression>).coefficients() });
+  const { series, unavailable } = exponentSeriesPartial(flow, point);
+  if (unavailable[quantity]) fail('not-representable', unavailable[quantity] as string);
+  const compiled = (k: Quantity) => ({ coefficients: powerCoefficients(series[k] as LaurentSeries<Expression>) });
+  const primaries = { nuInv: series.nuInv ? compiled('nuInv') : null, omega: compiled('omega'), eta: compiled('eta') };
   return (sValues) =>
-    scanSeries({ ...grid, sValues, series: [compiled(quantity)], withPade: false }).map((p) => ({ ...toVariants(p), fixedPoint: point.name }));
+    scanSeries({ ...grid, sValues, series: [compiled(quantity)], primaries, withPade: false }).map((p) => ({ ...toVariants(p), fixedPoint: point.name }));
 }
 
 /**
@@ -265,10 +270,14 @@ function atPoint(p: ScanPoint & { fixedPoint?: string | null; note?: string }, c
   const exactValue = exactLongRange(job.quantity, p.s, job.digits + GUARD_DIGITS);
   if (exactValue) return { ...base, values: all({ value: exactValue }) };
   const coefficients = p.coefficients?.[0];
-  if (!coefficients) return { ...base, values: all({ value: null, defect: p.note ?? 'no series at this s' }) };
+  if (!coefficients || coefficients.length === 0) return { ...base, values: all({ value: null, defect: p.note ?? 'no series at this s' }) };
   // values stay at working precision: residuals and pulls are rounded once, when written
   const work = job.digits + GUARD_DIGITS;
-  return { ...base, values: variantValues(variants, coefficients, rationalToReal(p.eps, work), work) };
+  const eps = rationalToReal(p.eps, work);
+  const primaries = p.primaryCoefficients;
+  // a truncation is the printed value from 1/ν, ω and η truncated at that order (as scans and exponents print it)
+  const truncatedAt = primaries ? (order: number) => printedValues([job.quantity as Quantity], primaries, context.d, p.s, eps, work, order)[0] : undefined;
+  return { ...base, values: variantValues(variants, coefficients, eps, work, truncatedAt) };
 }
 
 /** s = 2 is the short-range theory whether or not s* is known; the scan grid marks it short-range only from s* on. */

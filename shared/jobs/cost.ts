@@ -16,7 +16,7 @@ import { type Q } from '../engine/symbolic/rational';
 import { CompareJob, KinksJob, isDataJob } from './contract';
 import { checkParameterName, parseAffine, parseDefinitions, parseGammaProduct } from './expressions';
 import { FlowCalcJob, isFlowJob } from './flowJobs';
-import { JOB_LIMITS, RESULT_LIMITS } from './contract';
+import { JOB_LIMITS, MAX_FIELDS, RESULT_LIMITS } from './contract';
 import { CalcJob } from './contract';
 
 /**
@@ -207,7 +207,9 @@ function modelSize(model: FlowCalcJob['model'] | CompareJob['model']): ModelSize
     const built = customModel(model.fields, model.potential);
     return { fields: model.fields, couplings: built.couplings.length, custom: true, label: `a ${model.fields}-field model with ${built.couplings.length} couplings` };
   }
-  const fields = model.N === 'N' ? 1 : model.N;
+  // integer N from 1 to MAX_FIELDS use explicit tensors; symbolic and any other N the symbolic-N family (sized as one field)
+  const n = model.N === 'N' ? NaN : Number(model.N);
+  const fields = Number.isInteger(n) && n >= 1 && n <= MAX_FIELDS ? n : 1;
   const couplings = model.preset === 'cubic' && fields > 1 ? 2 : 1;
   return { fields, couplings, custom: false, label: `the ${model.preset === 'on' ? 'O' : 'cubic'}(${model.N}) model` };
 }

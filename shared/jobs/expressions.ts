@@ -1,4 +1,3 @@
-import { type MathNode, create, parseDependencies } from 'mathjs';
 import {
   type Affine,
   type GammaFactor,
@@ -12,38 +11,23 @@ import {
   isConstantAffine,
   q,
   splitEps,
-  toExactRational,
 } from '../engine/index';
 import { isObjectPropertyName } from '../engine/models/custom';
+import { type ExpressionNode, exactConstant, functionName, parseExpression } from '../engine/symbolic/parse';
 import { JOB_LIMITS } from './contract';
 
-const math = create({ parseDependencies }, { number: 'BigNumber', precision: 64 });
-// The first parse instantiates mathjs's lazy factories (about 0.1 s): pay it at load, not inside a request.
-math.parse('0');
 
 const RESERVED = new Set(['pi', 'e', 'i', 'gamma', 'psi', 'zeta', 'log', 'eulergamma', 'Infinity', 'NaN']);
 
-function parseText(text: string): MathNode {
+function parseText(text: string): NodeLike {
   if (text.length > JOB_LIMITS.maxExpressionLength) fail('limit', 'expression too long');
-  try {
-    return math.parse(text);
-  } catch (e) {
-    return fail('parse', `cannot parse ${JSON.stringify(text.slice(0, 80))}: ${(e as Error).message}`);
-  }
+  return parseExpression(text, JSON.stringify(text.slice(0, 80)));
 }
 
-interface NodeLike {
-  type: string;
-  op?: string;
-  fn?: string | { name?: string };
-  name?: string;
-  args?: MathNode[];
-  content?: MathNode;
-  value?: unknown;
-}
+type NodeLike = ExpressionNode;
 
 function constantValue(node: NodeLike): Q {
-  return sizedQ(toExactRational(String(node.value)));
+  return sizedQ(exactConstant(node));
 }
 
 const bitsOf = (n: bigint): number => (n < 0n ? -n : n).toString(2).length;
@@ -68,7 +52,7 @@ export function checkParameterName(name: string): string {
 
 /** Affine expression in eps and parameters; `definitions` substitutes names such as d. */
 export function parseAffine(text: string, definitions: Readonly<Record<string, Affine>> = {}): Affine {
-  return toAffine(parseText(text) as unknown as NodeLike, definitions, text);
+  return toAffine(parseText(text), definitions, text);
 }
 
 function toAffine(node: NodeLike, defs: Readonly<Record<string, Affine>>, source: string): Affine {
@@ -87,9 +71,9 @@ function affineOf(node: NodeLike, defs: Readonly<Record<string, Affine>>, source
       return affineParameter(name);
     }
     case 'ParenthesisNode':
-      return toAffine(node.content as unknown as NodeLike, defs, source);
+      return toAffine(node.content as NodeLike, defs, source);
     case 'OperatorNode': {
-      const args = (node.args ?? []) as unknown as NodeLike[];
+      const args = node.args ?? [];
       const parts = args.map((a) => toAffine(a, defs, source));
       if (node.fn === 'unaryMinus') return affineNeg(parts[0]);
       if (node.fn === 'unaryPlus') return parts[0];
@@ -119,7 +103,7 @@ export interface GammaProduct {
 
 /** A product/quotient/integer power of gamma(…) factors and numbers. */
 export function parseGammaProduct(text: string, definitions: Readonly<Record<string, Affine>> = {}): GammaProduct {
-  const product = toProduct(parseText(text) as unknown as NodeLike, definitions, text);
+  const product = toProduct(parseText(text), definitions, text);
   if (product.factors.length > JOB_LIMITS.maxGammaFactors) fail('limit', `at most ${JOB_LIMITS.maxGammaFactors} gamma factors`);
   return product;
 }
@@ -130,15 +114,15 @@ function toProduct(node: NodeLike, defs: Readonly<Record<string, Affine>>, sourc
     case 'ConstantNode':
       return { prefactor: constantValue(node), factors: [] };
     case 'ParenthesisNode':
-      return toProduct(node.content as unknown as NodeLike, defs, source);
+      return toProduct(node.content as NodeLike, defs, source);
     case 'FunctionNode': {
-      const name = typeof node.fn === 'object' ? node.fn?.name : node.fn;
+      const name = functionName(node);
       if (name !== 'gamma' || node.args?.length !== 1) return shapeError();
-      const arg = toAffine(node.args[0] as unknown as NodeLike, defs, source);
+      const arg = toAffine(node.args[0], defs, source);
       return { prefactor: q(1), factors: [{ arg: splitEps(arg), power: 1 }] };
     }
     case 'OperatorNode': {
-      const args = (node.args ?? []) as unknown as NodeLike[];
+      const args = node.args ?? [];
       if (node.fn === 'unaryMinus') {
         const inner = toProduct(args[0], defs, source);
         return { prefactor: q(-inner.prefactor.num, inner.prefactor.den), factors: inner.factors };

@@ -2,20 +2,26 @@ import { z } from 'zod';
 import { ConsistencyError } from '../engine/diagrams/subtraction';
 import { type DerivedFlow, type TrailEntry } from '../engine/diagrams/renormalization';
 import { quadraticAtRoot, quadraticSpectrum } from '../engine/exponents/quadratic';
-import { exactLongRangeValue, exponentSeries, meanFieldValues, RELATIONS, SERIES_QUANTITIES, type Quantity } from '../engine/exponents/exponents';
+import { fieldAnomalousSpectrum } from '../engine/exponents/fieldMatrix';
+import { exponentRegime, exponentSeriesPartial, meanFieldValues, powerCoefficients, relationsFor, SERIES_QUANTITIES, sourcesFor, type Quantity } from '../engine/exponents/exponents';
+import { type PhysicalPoint, exponentsAtPoint, fieldGammaOf } from '../engine/exponents/atPoint';
+import { fixedPointNotices, noSingletNotice, regimeNotices, scanNotices } from '../engine/exponents/notices';
+import { crossoverFor } from '../engine/exponents/shortRange';
+import { type CheckedPade } from '../engine/pade/pade';
 import { type FixedPoint, baseName, findFixedPoints } from '../engine/fixedpoints/fixedPoints';
 import { type ComplexReal } from '../engine/fixedpoints/complexRoots';
 import { type AnyFlow, checkPropagatorPower, flowFor } from '../engine/flows/flow';
 import { type CouplingPolynomial } from '../engine/models/couplingPolynomial';
 import { customModel } from '../engine/models/custom';
 import { type ModelSpec } from '../engine/models/model';
-import { cubicFamily, cubicModel, onFamily, onModel } from '../engine/models/presets';
+import { cubicFamily, onFamily, presetModel } from '../engine/models/presets';
+import { type PoleSource } from '../engine/flows/family';
 import { EngineError, fail } from '../engine/precision/errors';
 import { type Real, realContext, toExactRational } from '../engine/precision/real';
-import { crossoverS, meanFieldEnd, padeValue, scanSeries } from '../engine/scans/scan';
+import { type ExternalPoint, type ScanPoint, meanFieldEnd, padeFields, scanSeries } from '../engine/scans/scan';
 import { scanFlow } from '../engine/scans/flowScan';
 import { type LaurentSeries } from '../engine/series/laurent';
-import { type Expression } from '../engine/symbolic/expression';
+import { Expression } from '../engine/symbolic/expression';
 import { expressionToLatex, expressionToString } from '../engine/symbolic/format';
 import { polyToString } from '../engine/symbolic/polynomial';
 import { type Q, q, qAdd, qCompare, qMul, qSub, qToString } from '../engine/symbolic/rational';
@@ -65,8 +71,8 @@ export function runFlowJob(input: unknown, hooks: JobHooks = {}): unknown {
 
 export function modelFrom(input: z.infer<typeof ModelInput>): ModelSpec {
   if (input.preset === 'custom') return customModel(input.fields, input.potential);
-  if (input.preset === 'on') return input.N === 'N' ? onFamily : onModel(input.N);
-  return input.N === 'N' ? cubicFamily : cubicModel(input.N);
+  if (input.N === 'N') return input.preset === 'on' ? onFamily : cubicFamily;
+  return presetModel(input.preset, toExactRational(input.N));
 }
 
 export function exactPositive(text: string, what: string): Q {
@@ -103,7 +109,7 @@ function formatPolynomial<C>(p: CouplingPolynomial<C>, couplings: readonly strin
 
 function formatTrail<C>(entry: TrailEntry<C>, couplings: readonly string[], digits: number) {
   const sg = entry.subtracted;
-  const width = entry.graph.function === 'vertex' ? couplings : ['δ_ab'];
+  const width = entry.weightLabels ?? (entry.graph.function === 'vertex' ? couplings : ['δ_ab']);
   return {
     graph: entry.graph.id,
     title: entry.graph.title,
@@ -133,11 +139,20 @@ function flowSummary<C>(flow: DerivedFlow<C>, digits: number) {
     convention: 'β_k = −ε g_k + Σ terms; u = λ μ^{−ε}/((4π)^{d/2} Γ(s)); minimal subtraction at fixed s, d = 2s − ε',
     beta: Object.fromEntries(c.map((name, k) => [name, [{ monomial: `eps*${name}`, coeff: formatCoefficient(flow.calculus.ctx.ring.fromRational(-1n), digits) }, ...formatPolynomial(flow.beta[k], c, digits)]])),
     gamma_phi: formatPolynomial(flow.gammaPhi, c, digits),
+    ...(flow.gammaPhiMatrix
+      ? {
+          gamma_phi_matrix: {
+            convention: 'γ_φ is a matrix (field renormalization not ∝ δ_ab, φ₀ = Z_φ^{1/2} φ): entry (a,b) below; gamma_phi above is tr γ_φ / n. η = 2 − s + 2γ per eigen-direction of γ_φ at a fixed point; β_{abcd} contains Σ_legs γ_ae λ_ebcd',
+            fields: flow.gammaPhiMatrix.map((_, a) => `phi${a + 1}`),
+            matrix: flow.gammaPhiMatrix.map((row) => row.map((p) => formatPolynomial(p, c, digits))),
+          },
+        }
+      : {}),
     gamma_phi2: flow.gammaPhi2 ? formatPolynomial(flow.gammaPhi2, c, digits) : { note: flow.gammaPhi2Note },
     ...(flow.quadratic
       ? {
           gamma_quadratic: {
-            convention: 'γ_{(kl),(ij)}: insertion t_ij φ_iφ_j (i ≤ j) → counterterm Σ γ_{(kl),(ij)} t_ij φ_kφ_l; Δ = d − s + eigenvalue',
+            convention: 'γ_{(kl),(ij)}: insertion t_ij φ_iφ_j (i ≤ j) → counterterm Σ γ_{(kl),(ij)} t_ij φ_kφ_l, field renormalization included (γ_φ t + t γ_φ); Δ = d − s + eigenvalue',
             operators: flow.quadratic.pairs.map(([i, j]) => (i === j ? `phi${i + 1}^2` : `phi${i + 1}*phi${j + 1}`)),
             matrix: flow.quadratic.gamma.map((row) => row.map((p) => formatPolynomial(p, c, digits))),
           },
@@ -151,7 +166,18 @@ function flowSummary<C>(flow: DerivedFlow<C>, digits: number) {
 // ---- jobs ------------------------------------------------------------------------------------------
 
 export function deriveFor(model: ModelSpec, s: Q | null, loops: 1 | 2, digits: number): AnyFlow {
-  return flowFor({ model, s, loops, digits });
+  return flowFor({ model, s, loops, digits, poleSources: (flow) => familyPoleSources(model, flow) });
+}
+
+/** Every ε-series of every non-Gaussian fixed point of a symbolic-N family flow (a pole in N there means no data at that N). */
+function familyPoleSources(model: ModelSpec, flow: DerivedFlow<Expression>): PoleSource[] {
+  return findFixedPoints(model, flow, { eps: null })
+    .filter((p) => p.name !== 'Gaussian')
+    .map((p) => {
+      const exponents = p.couplingSeries ? Object.values(exponentSeriesPartial(flow, p).series) : [];
+      const series = [...(p.couplingSeries ?? []), ...(p.eigenvalueSeries ?? []).filter((e) => e !== null), ...exponents];
+      return { point: p.name, coefficients: series.flatMap((e) => (e as LaurentSeries<Expression>).coefficients()) };
+    });
 }
 
 function runFlow(job: z.infer<typeof FlowJob>) {
@@ -217,6 +243,7 @@ function formatFixedPoint<C>(p: FixedPoint<C>, couplings: readonly string[], dig
     },
     stable: p.stable,
     notes: p.notes,
+    caveats: p.caveats ?? [],
   };
 }
 
@@ -224,7 +251,7 @@ function gaussianOnly(model: ModelSpec, d: string, s: string) {
   return {
     meanField: true,
     statement: meanFieldValues(d, s).statement,
-    fixedPoints: [{ name: 'Gaussian', status: 'real', couplings: Object.fromEntries(model.couplings.map((c) => [c, { series: ['0'], value: '0' }])), stability: { series: null, values: model.couplings.map(() => String(Number(d) - 2 * Number(s))) }, stable: true, notes: [] }],
+    fixedPoints: [{ name: 'Gaussian', status: 'real', couplings: Object.fromEntries(model.couplings.map((c) => [c, { series: ['0'], value: '0' }])), stability: { series: null, values: model.couplings.map(() => String(Number(d) - 2 * Number(s))) }, stable: true, notes: [], caveats: [] }],
   };
 }
 
@@ -258,12 +285,44 @@ function formatQuadratic(flow: DerivedFlow<Real>, point: FixedPoint<Real>, s: Q,
   }));
 }
 
+/**
+ * γ_φ per eigen-direction of the field matrix at a fixed point and η = 2 − s + 2γ_φ for each
+ * (schema FieldAnomalousSpectrum in contract/flow.ts); one direction "every field" when γ_φ ∝ δ there.
+ */
+export function formatFieldAnomalous(flow: DerivedFlow<Real>, point: FixedPoint<Real>, s: Q, eps: Q | null, fields: number, digits: number) {
+  const { ring } = flow.calculus.ctx;
+  const e = eps ? ring.fromRational(eps.num, eps.den) : null;
+  const spectrum = fieldAnomalousSpectrum(flow, point, e);
+  const twoMinusS = ring.fromRational(2n * s.den - s.num, s.den);
+  const eta = (g: Real) => twoMinusS.plus(g.times(2));
+  const text = (x: Real) => formatCoefficient(x, digits) as string;
+  return {
+    proportional: spectrum.proportional,
+    directions: spectrum.directions.map((d) => {
+      const gamma = d.gammaSeries.coefficients();
+      return {
+        field: d.field,
+        multiplicity: d.multiplicity ?? fields,
+        series: { gamma: gamma.map(text), eta: gamma.map((g, m) => text(m === 0 ? eta(g) : g.times(2))) },
+        values: d.value ? { gamma: text(d.value), eta: text(eta(d.value)) } : null,
+        atRoot: d.atRoot ? { gamma: d.atRoot.map(text), eta: d.atRoot.map((g) => text(eta(g))) } : null,
+      };
+    }),
+  };
+}
+
 export function decimalText(x: Q, digits: number): string {
   const R = realContext(digits);
   return new R(x.num.toString()).div(x.den.toString()).toSignificantDigits(digits).toString();
 }
 
-/** The IR-stable non-Gaussian fixed point (or a named one). */
+/**
+ * The IR-stable non-Gaussian fixed point (or a named one). Rule: the first point with stable = true
+ * (IR-stable at the physical ε). Otherwise the first point whose stability-eigenvalue series all
+ * start (first non-zero coefficient) positive — never one found unstable at the physical ε, but
+ * possibly one that is complex there or whose stability is undecided; with a physical ε that choice
+ * is added to the point's caveats.
+ */
 export function chooseFixedPoint<C>(points: FixedPoint<C>[], name: string | undefined, symbolic: boolean): FixedPoint<C> {
   if (name !== undefined) {
     const byBase = points.filter((p) => baseName(p.name) === name);
@@ -272,14 +331,26 @@ export function chooseFixedPoint<C>(points: FixedPoint<C>[], name: string | unde
     return found;
   }
   // a point complex only at the physical ε still has a real ε-series (the exponents are its truncations)
-  const candidates = points.filter((p) => p.name !== 'Gaussian' && (p.status === 'real' || (p.status === 'complex' && p.couplingSeries !== null)));
-  const stableByLeadingOrder = (p: FixedPoint<C>) => !!p.eigenvalueSeries && p.eigenvalueSeries.every((e) => e !== null && Number(String(symbolic ? (e.coefficient(1) as unknown as Expression).rationalValue()?.num ?? NaN : e.coefficient(1))) > 0);
-  const stable = candidates.find((p) => p.stable === true) ?? candidates.find(stableByLeadingOrder);
+  const candidates = points.filter((p) => p.name !== 'Gaussian' && p.couplingSeries !== null);
+  const sign = (c: C) => Number(String(symbolic ? (c as unknown as Expression).rationalValue()?.num ?? NaN : c));
+  const leadingSign = (e: LaurentSeries<C>) => sign(e.coefficients().slice(1).find((c) => sign(c) !== 0) ?? e.coefficient(0));
+  const stableByLeadingOrder = (p: FixedPoint<C>) => (p.stable !== false || p.status === 'complex') && !!p.eigenvalueSeries && p.eigenvalueSeries.every((e) => e !== null && leadingSign(e) > 0);
+  const stable = candidates.find((p) => p.stable === true && p.status !== 'complex') ?? candidates.find(stableByLeadingOrder);
   if (!stable) {
     const names = candidates.map((p) => p.name).join(', ');
     fail('not-representable', symbolic ? `which fixed point is IR-stable depends on the symbolic parameters; name one with "fixedPoint" (${names}) or give N and s as numbers` : `no IR-stable non-Gaussian fixed point; name one with "fixedPoint" (${names})`);
   }
+  if (stable.stable !== true && (stable.couplingValues || stable.complexValues)) noteChoice(stable);
   return stable;
+}
+
+/** States in the caveats of a point chosen by its ε-series that it is not IR-stable (or not real) at the physical ε. */
+function noteChoice<C>(point: FixedPoint<C>): void {
+  const caveats = (point.caveats ??= []);
+  const kind = point.status === 'complex' ? 'complex-at-eps' : caveats.some((c) => c.kind === 'stability-sign-disagrees') || !caveats.length ? 'stability-sign-disagrees' : caveats[0].kind;
+  const why = point.status === 'complex' ? 'it is complex at the physical ε' : 'its stability at the physical ε is undecided';
+  const message = `chosen as the IR-stable point by its ε-series (every stability eigenvalue starts positive) although ${why}: no real fixed point is IR-stable there`;
+  if (!caveats.some((c) => c.message === message)) caveats.push({ kind, message });
 }
 
 /**
@@ -296,40 +367,64 @@ function singletAtPoint(any: AnyFlow, point: FixedPoint<unknown>, s: Q | null, m
 function runExponents(job: z.infer<typeof ExponentsJob>) {
   const model = modelFrom(job.model);
   const { s, d, eps } = expansionPoint(job);
-  if (eps && qCompare(eps, q(0)) <= 0) {
-    const { statement, ...values } = meanFieldValues(job.d as string, job.s as string);
-    return { eps: qToString(eps), meanField: true, statement, fixedPoint: 'Gaussian', values };
+  const crossover = d ? crossoverFor(job.model, d, job.shortRange?.Delta_sigma) : null;
+  const shortRange = crossover ? { shortRange: { sStar: decimalText(crossover.sStar, job.digits), Delta_sigma: crossover.deltaSigma, source: crossover.source } } : {};
+  if (eps && d && s && qCompare(eps, q(0)) <= 0) {
+    const { statement, ...values } = meanFieldValues(job.d as string, job.s as string, job.digits);
+    return { notices: regimeNotices(d, s, crossover), eps: qToString(eps), meanField: true, statement, fixedPoint: 'Gaussian', values, relations: relationsFor('mean-field'), sources: sourcesFor('mean-field'), ...shortRange };
   }
   const any = deriveFor(model, s, job.loops, job.digits);
+  const text = (c: unknown) => formatCoefficient(c, job.digits);
+  const seriesText = (series: Partial<Record<Quantity, LaurentSeries<unknown>>>) => Object.fromEntries(SERIES_QUANTITIES.flatMap((k) => (series[k] ? [[k, (series[k] as LaurentSeries<unknown>).coefficients().map(text)]] : [])));
+  const unavailableText = (unavailable: Partial<Record<Quantity, string>>) => (Object.keys(unavailable).length ? { unavailable } : {});
+  const quadraticOf = (point: FixedPoint<unknown>) => (any.mode === 'numeric' && s && !('member' in model) ? formatQuadratic(any.flow, point as FixedPoint<Real>, s, eps, model.fields, job.digits) : null);
+  if (any.mode === 'numeric' && s && d && eps) {
+    const { point, at } = exponentsAtS(any, model, job.fixedPoint, { d, s, eps, crossover }, job.digits);
+    const quadratic = quadraticOf(point);
+    const padeText = (entry: CheckedPade) => ({ L: entry.L, M: entry.M, value: entry.value ? (text(entry.value) as string) : null, flagged: entry.flagged, poles: entry.poles.map((p) => text(p) as string), signChange: entry.signChange, reason: entry.reason });
+    return {
+      notices: at.notices,
+      eps: decimalText(eps, job.digits),
+      meanField: false,
+      fixedPoint: point.name,
+      series: seriesText(at.series),
+      relations: relationsFor(at.regime),
+      sources: sourcesFor(at.regime),
+      ...unavailableText(at.unavailable),
+      ...(quadratic ? { quadraticOperators: quadratic } : {}),
+      ...(at.fieldSpectrum && !('member' in model) ? { fieldAnomalous: formatFieldAnomalous(any.flow, point, s, eps, model.fields, job.digits) } : {}),
+      values: Object.fromEntries(SERIES_QUANTITIES.map((k) => [k, at.values[k] === null ? null : text(at.values[k])])),
+      pade: Object.fromEntries(SERIES_QUANTITIES.flatMap((k) => (at.pade[k] ? [[k, (at.pade[k] as CheckedPade[]).map(padeText)]] : []))),
+      ...shortRange,
+    };
+  }
+  // series only: no physical ε, or symbolic N or s
   const flow = any.flow as DerivedFlow<unknown>;
-  const numeric = any.mode === 'numeric';
-  const epsCoefficient = numeric && eps ? any.flow.calculus.ctx.ring.fromRational(eps.num, eps.den) : null;
-  const points = findFixedPoints(model, flow, { eps: epsCoefficient });
-  const point = chooseFixedPoint(points, job.fixedPoint, !numeric);
-  const series = exponentSeries(flow, point, singletAtPoint(any, point, s, model));
-  const out: Record<string, unknown> = {
+  const point = chooseFixedPoint(findFixedPoints(model, flow, { eps: null }), job.fixedPoint, any.mode !== 'numeric');
+  const fieldGamma = flow.gammaPhiMatrix ? fieldGammaOf(fieldAnomalousSpectrum(flow, point), point.name) : undefined;
+  const { series, unavailable } = exponentSeriesPartial(flow, point, singletAtPoint(any, point, s, model), fieldGamma);
+  const quadratic = quadraticOf(point);
+  return {
+    notices: [...fixedPointNotices(point, false), ...(d && s ? regimeNotices(d, s, crossover) : []), ...(unavailable.nuInv ? [noSingletNotice(point.name, unavailable.nuInv)] : [])],
     eps: eps ? decimalText(eps, job.digits) : 'eps',
     meanField: false,
     fixedPoint: point.name,
-    series: Object.fromEntries(SERIES_QUANTITIES.map((k) => [k, series[k].coefficients().map((c) => formatCoefficient(c, job.digits))])),
-    relations: RELATIONS,
+    series: seriesText(series),
+    relations: relationsFor(exponentRegime(s, eps)),
+    ...unavailableText(unavailable),
+    ...(quadratic ? { quadraticOperators: quadratic } : {}),
+    ...shortRange,
   };
-  if (numeric && s && !('member' in model)) {
-    const quadratic = formatQuadratic(any.flow as DerivedFlow<Real>, point as FixedPoint<Real>, s, eps, model.fields, job.digits);
-    if (quadratic) out.quadraticOperators = quadratic;
-  }
-  if (numeric && eps && epsCoefficient) {
-    const e = epsCoefficient as Real;
-    const { ring } = (any.flow as DerivedFlow<Real>).calculus.ctx;
-    const nu = () => (series.nu as LaurentSeries<Real>).evaluate(e);
-    const exact = (k: Quantity) => (d && s ? exactLongRangeValue(k, ring.fromRational(d.num, d.den), ring.fromRational(s.num, s.den), nu) : null);
-    out.values = Object.fromEntries(SERIES_QUANTITIES.map((k) => [k, formatCoefficient(exact(k) ?? (series[k] as LaurentSeries<Real>).evaluate(e), job.digits)]));
-    out.pade = Object.fromEntries(SERIES_QUANTITIES.map((k) => {
-      const v = padeValue((series[k] as LaurentSeries<Real>).coefficients(), e, job.digits);
-      return [k, v ? formatCoefficient(v, job.digits) : null];
-    }));
-  }
-  return out;
+}
+
+/**
+ * The exponents at a numeric s and physical ε: fixed points solved at ε, the chosen one's series,
+ * values, checked Padé table and notices. The exponents job and a scan's s = 2 point both use it.
+ */
+function exponentsAtS(any: Extract<AnyFlow, { mode: 'numeric' }>, model: ModelSpec, fixedPoint: string | undefined, at: PhysicalPoint, digits: number) {
+  const e = any.flow.calculus.ctx.ring.fromRational(at.eps.num, at.eps.den);
+  const point = chooseFixedPoint(findFixedPoints(model, any.flow, { eps: e }), fixedPoint, false);
+  return { point, at: exponentsAtPoint(any.flow, point, at, digits, singletAtPoint(any, point, at.s, model)) };
 }
 
 function runScan(job: z.infer<typeof ScanJob>, hooks: JobHooks) {
@@ -344,42 +439,64 @@ function runScan(job: z.infer<typeof ScanJob>, hooks: JobHooks) {
   const sValues = Array.from({ length: job.s.points }, (_, i) => qAdd(from, qMul(qSub(to, from), q(i, job.s.points - 1))));
   const any = deriveFor(model, null, job.loops, job.digits);
   const flow = any.flow as DerivedFlow<Expression>;
-  const shortRangeS = job.shortRange ? crossoverS(d, toExactRational(job.shortRange.Delta_sigma)) : null;
+  const crossover = crossoverFor(job.model, d, job.shortRange?.Delta_sigma);
+  const shortRangeS = crossover?.sStar ?? null;
   // The derivation is a small share of a long scan; the points carry the rest of the progress.
   const onProgress = hooks.onProgress ? (f: number) => hooks.onProgress!(0.05 + 0.95 * f) : undefined;
   hooks.onProgress?.(0.05);
-  const marks = { meanFieldEnd: decimalText(meanFieldEnd(d), job.digits), ...(shortRangeS ? { sStar: decimalText(shortRangeS, job.digits) } : {}) };
-  const pointText = (p: { s: Q; eps: Q; regime: string }) => ({ s: decimalText(p.s, job.digits), eps: decimalText(p.eps, job.digits), regime: p.regime, flagged: p.regime !== 'long-range' });
+  const marks = {
+    meanFieldEnd: decimalText(meanFieldEnd(d), job.digits),
+    meanFieldEndNote: 'd = 2s: the upper critical dimension (mean-field exponents with logarithmic corrections)',
+    ...(crossover ? { sStar: decimalText(crossover.sStar, job.digits), sStarSource: crossover.source } : {}),
+  };
+  // s = 2 is the short-range theory: that point uses the flow derived at s = 2, exactly as the exponents job does
+  let shortRangeFlow: Extract<AnyFlow, { mode: 'numeric' }> | null = null;
+  const shortRangePoint = (eps: Q): ExternalPoint => {
+    shortRangeFlow ??= deriveFor(model, q(2), job.loops, job.digits) as Extract<AnyFlow, { mode: 'numeric' }>;
+    const { point, at } = exponentsAtS(shortRangeFlow, model, job.fixedPoint, { d, s: q(2), eps, crossover }, job.digits);
+    const padeEntry = (k: Quantity) => at.pade[k]?.find((entry) => entry.M === 1 && entry.L === job.loops - 1) ?? null;
+    return { ...padeFields(job.quantities.map(padeEntry)), padeDefects: job.quantities.map((k) => padeEntry(k)?.reason ?? null), values: job.quantities.map((k) => at.values[k]), notices: at.notices, fixedPoint: point.name };
+  };
+  const text = (r: Real | null | undefined) => (r === null || r === undefined ? null : (formatCoefficient(r, job.digits) as string));
+  const pointText = (p: ScanPoint) => {
+    const defects = p.padeDefects ? Object.fromEntries(job.quantities.flatMap((k: Quantity, i: number) => (p.padeDefects?.[i] ? [[k, p.padeDefects[i]]] : []))) : {};
+    return {
+      s: decimalText(p.s, job.digits),
+      eps: decimalText(p.eps, job.digits),
+      regime: p.regime,
+      flagged: p.regime !== 'long-range',
+      values: Object.fromEntries(job.quantities.map((k: Quantity, i: number) => [k, text(p.values[i])])),
+      pade: Object.fromEntries(job.quantities.map((k: Quantity, i: number) => [k, text(p.pade[i])])),
+      ...(Object.keys(defects).length ? { padeDefects: defects } : {}),
+      ...(p.notices.length ? { notices: [...new Set(p.notices.map((n) => n.kind))] } : {}),
+    };
+  };
+  const grid = { d, sValues, quantities: job.quantities, digits: job.digits, shortRangeS, crossover, onProgress, shortRangePoint };
   if (model.couplings.length > 1) {
     // several couplings: fixed points solved numerically at each ε (flow derived once in s)
-    const points = scanFlow({ model, flow, d, sValues, quantities: job.quantities, digits: job.digits, shortRangeS, onProgress, choose: (candidates) => chooseFixedPoint(candidates, job.fixedPoint, false) });
+    const points = scanFlow({ ...grid, model, flow, choose: (candidates) => chooseFixedPoint(candidates, job.fixedPoint, false) });
     const used = points.find((p) => p.fixedPoint !== null && p.regime === 'long-range')?.fixedPoint ?? points.find((p) => p.fixedPoint !== null)?.fixedPoint ?? null;
     return {
+      notices: scanNotices(points, job.digits),
       d: job.d,
       fixedPoint: job.fixedPoint ?? used,
       quantities: job.quantities,
       marks,
-      points: points.map((p) => ({
-        ...pointText(p),
-        fixedPoint: p.fixedPoint,
-        values: Object.fromEntries(job.quantities.map((k: Quantity, i: number) => [k, p.fixedPoint === null ? null : formatCoefficient(p.values[i], job.digits)])),
-        pade: Object.fromEntries(job.quantities.map((k: Quantity, i: number) => [k, p.pade[i] ? formatCoefficient(p.pade[i], job.digits) : null])),
-        ...(p.note ? { note: p.note } : {}),
-      })),
+      points: points.map((p) => ({ ...pointText(p), fixedPoint: p.fixedPoint, ...(p.note ? { note: p.note } : {}) })),
     };
   }
   const point = chooseFixedPoint(findFixedPoints(model, flow, { eps: null }), job.fixedPoint, true);
-  const series = exponentSeries(flow, point);
-  const points = scanSeries({ d, sValues, series: job.quantities.map((k: Quantity) => ({ coefficients: (series[k] as LaurentSeries<Expression>).coefficients() })), quantities: job.quantities, nu: { coefficients: (series.nu as LaurentSeries<Expression>).coefficients() }, digits: job.digits, shortRangeS, onProgress });
+  const { series } = exponentSeriesPartial(flow, point);
+  const compiled = (k: Quantity) => (series[k] ? { coefficients: powerCoefficients(series[k] as LaurentSeries<Expression>) } : { coefficients: [] });
+  const primaries = { nuInv: series.nuInv ? compiled('nuInv') : null, omega: compiled('omega'), eta: compiled('eta') };
+  const beta = { quadratic: flow.beta[0].terms.get('2')?.coeff ?? Expression.rational(q(0)), cubic: flow.beta[0].terms.get('3')?.coeff ?? null };
+  const points = scanSeries({ ...grid, series: job.quantities.map(compiled), primaries, beta });
   return {
+    notices: scanNotices(points, job.digits),
     d: job.d,
     fixedPoint: point.name,
     quantities: job.quantities,
     marks,
-    points: points.map((p) => ({
-      ...pointText(p),
-      values: Object.fromEntries(job.quantities.map((k: Quantity, i: number) => [k, formatCoefficient(p.values[i], job.digits)])),
-      pade: Object.fromEntries(job.quantities.map((k: Quantity, i: number) => [k, p.pade[i] ? formatCoefficient(p.pade[i], job.digits) : null])),
-    })),
+    points: points.map(pointText),
   };
 }

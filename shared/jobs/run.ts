@@ -30,23 +30,27 @@ import {
 import { batchWorkProblem, padeWorkProblem, parameterValues, seriesWorkProblem, specialWorkProblem } from './cost';
 import { parseAffine, parseDefinitions, parseGammaProduct } from './expressions';
 import { runDataJob } from './dataJobs';
-import { isDataJob } from './contract';
-import { isFlowJob, runFlowJob, type JobHooks } from './flowJobs';
-import { JOB_LIMITS } from './contract';
+import { runFlowJob, type JobHooks } from './flowJobs';
 import {
+  type AnyJob,
   type BubbleJob,
-  CalcJob,
-  type CalcResult,
+  type CalcJob,
   type FourierJob,
+  JOBS,
+  JOB_LIMITS,
   type JobError,
   type LaurentJob,
   type PadeEntry,
   type PadeJob,
   type PadeResult,
+  type ResultOf,
+  type JobKind,
   type SeriesResult,
   type SpecialJob,
   type SpecialResult,
   type StarTriangleJob,
+  jobKindOf,
+  unknownJobMessage,
 } from './contract';
 
 type ErrorCode = JobError['error']['code'];
@@ -59,24 +63,35 @@ export function isJobError(r: unknown): r is JobError {
   return typeof r === 'object' && r !== null && 'error' in r;
 }
 
-/** Validate and run one calculation job. Never throws: failures come back as `{error:{code,message}}`. */
-export function runJob(input: unknown, hooks: JobHooks = {}): CalcResult {
-  // RG-flow jobs (flow, fixedpoints, exponents, scan) have their own schemas and runner.
-  if (isFlowJob(input)) return runFlowJob(input, hooks) as CalcResult;
-  if (isDataJob(input)) return runDataJob(input, hooks) as CalcResult;
-  const parsed = CalcJob.safeParse(input);
+/** What a job answers: its kind's result (JOBS[kind].result) or JobError. */
+export type JobOutput = ResultOf<JobKind> | JobError;
+
+/**
+ * Validate a job against the contract (JOBS[kind].input) and run it. Never throws: failures come back
+ * as `{error:{code,message}}`; a job naming no known kind gets a message listing every kind.
+ */
+export function runJob(input: unknown, hooks: JobHooks = {}): JobOutput {
+  const kind = jobKindOf(input);
+  if (kind === null) return jobError('invalid-job', unknownJobMessage(input));
+  const parsed = JOBS[kind].input.safeParse(input);
   if (!parsed.success) return jobError('invalid-job', z.prettifyError(parsed.error));
-  try {
-    return dispatch(parsed.data);
-  } catch (e) {
-    if (e instanceof EngineError) return jobError(e.code === 'invalid' ? 'invalid-job' : e.code, e.message);
-    if (e instanceof RangeError) return jobError('limit', `computation exceeded a limit: ${e.message}`);
-    return jobError('internal', `internal error: ${(e as Error)?.message ?? String(e)}`);
+  const job = parsed.data as AnyJob;
+  switch (job.job) {
+    case 'flow':
+    case 'fixedpoints':
+    case 'exponents':
+    case 'scan':
+      return runFlowJob(job, hooks) as JobOutput;
+    case 'kinks':
+    case 'compare':
+      return runDataJob(job, hooks) as JobOutput;
+    default:
+      return runCalcJob(job);
   }
 }
 
 /** One job or an array of jobs (results in the same order). */
-export function runBatch(input: unknown): CalcResult | CalcResult[] {
+export function runBatch(input: unknown): JobOutput | JobOutput[] {
   if (Array.isArray(input)) {
     const problem = batchWorkProblem(input);
     if (problem) return jobError('limit', problem);
@@ -85,7 +100,17 @@ export function runBatch(input: unknown): CalcResult | CalcResult[] {
   return runJob(input);
 }
 
-function dispatch(job: CalcJob): CalcResult {
+function runCalcJob(job: CalcJob): JobOutput {
+  try {
+    return dispatch(job);
+  } catch (e) {
+    if (e instanceof EngineError) return jobError(e.code === 'invalid' ? 'invalid-job' : e.code, e.message);
+    if (e instanceof RangeError) return jobError('limit', `computation exceeded a limit: ${e.message}`);
+    return jobError('internal', `internal error: ${(e as Error)?.message ?? String(e)}`);
+  }
+}
+
+function dispatch(job: CalcJob): SpecialResult | SeriesResult | PadeResult {
   switch (job.job) {
     case 'special':
       return runSpecial(job);

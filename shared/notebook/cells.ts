@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { COMPARABLE_Y_AXES, DATASET_SHAPES, datasetLabel } from './datasets';
+import { MAX_ABS_N, MAX_FIELDS, MAX_SCAN_POINTS } from '../jobs/contract';
 
 /**
  * Cell kinds of a notebook and their inputs. Inputs are validated here, at the edge, before any job
@@ -27,13 +28,14 @@ export const cellLabel = z
 const decimal = z.string().trim().regex(/^[+-]?(\d+\.?\d*|\.\d+)$/, 'Enter a decimal number, e.g. 1.75');
 const symbolOrNumber = z.string().trim().regex(/^([A-Za-z]\w*|[+-]?\d+(\.\d+)?)$/, 'Enter a number, or a symbol name such as N');
 
-/** The engine's limit on field components (shared/engine/models/presets MAX_FIELDS; a test keeps them equal). */
-export const MAX_MODEL_FIELDS = 6;
-const fieldCount = z.number().int().min(1, 'At least one field').max(MAX_MODEL_FIELDS, `At most ${MAX_MODEL_FIELDS} field components`);
+const fieldCount = z.number().int().min(1, 'At least one field').max(MAX_FIELDS, `At most ${MAX_FIELDS} field components`);
+
+/** N of a preset: any real number (a decimal is read exactly by the engine) with |N| ≤ MAX_ABS_N; "N" keeps O(N) symbolic. */
+const numericN = z.union([z.number(), decimal]).refine((N) => Math.abs(Number(N)) <= MAX_ABS_N, `N must lie between −${MAX_ABS_N} and ${MAX_ABS_N}`);
 
 export const modelSpec = z.discriminatedUnion('preset', [
-  z.strictObject({ preset: z.literal('on'), N: z.union([fieldCount, z.literal('N')]) }),
-  z.strictObject({ preset: z.literal('cubic'), N: fieldCount }),
+  z.strictObject({ preset: z.literal('on'), N: z.union([numericN, z.literal('N')], { error: 'Enter a number (e.g. 3, 0.5, −1) or N' }) }),
+  z.strictObject({ preset: z.literal('cubic'), N: numericN }),
   z.strictObject({
     preset: z.literal('custom'),
     fields: fieldCount,
@@ -81,7 +83,7 @@ export const scanInput = z.strictObject({
   uses,
   from: decimal,
   to: decimal,
-  points: z.number().int().min(2).max(1000),
+  points: z.number().int().min(2).max(MAX_SCAN_POINTS),
   quantities: z.array(z.enum(['nuInv', 'nu', 'eta', 'gamma', 'omega', 'Delta_phi2', 'Delta_phi4'])).min(1).max(6),
   deltaSigmaShortRange: decimal.optional(),
 });

@@ -1,4 +1,4 @@
-import type { CompareResult } from '../jobs/dataSchemas';
+import type { CompareResult } from '../jobs/contract';
 import { toCsv, isPlainNumber } from './csv';
 import { AXIS_NAMES, AXIS_TEX } from './datasets';
 

@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { cellInput, cellKindTitles, cellLabel, type CellInput } from './cells';
 import { DATASET_LIMITS, exportedDataset } from './datasets';
 import { FormulaFilter, withoutControlCharacters } from './latexSafety';
-import type { CompareResult } from '../jobs/dataSchemas';
+import { CompareResult } from '../jobs/contract';
 import { comparisonSummaryTex, numberTex, variantTex } from './comparisonTable';
 
 /**
@@ -205,8 +205,9 @@ function scanToLatex(value: Record<string, unknown>, writer: LatexWriter): strin
   const quantities = Array.isArray(value.quantities) ? value.quantities.map(String) : [];
   const points = Array.isArray(value.points) ? value.points.filter(isRecord) : [];
   const rows = points.map((point) => [textCell(point.s), ...quantities.map((q) => textCell(isRecord(point.values) ? point.values[q] : null)), point.flagged ? textCell(point.regime) : '']);
-  const markName = (name: string) => (name === 'sStar' ? '$s^*$' : name === 'meanFieldEnd' ? '$s = d/2$' : textCell(name));
-  const marks = isRecord(value.marks) ? Object.entries(value.marks).map(([name, v]) => `${markName(name)} ${writer.inline(`= ${String(v)}`)}`).join(', ') : '';
+  const given = isRecord(value.marks) ? value.marks : {};
+  const mark = (name: string, at: unknown, note: unknown) => (typeof at === 'string' ? [`${name} ${writer.inline(`= ${numberTex(at)}`)}${typeof note === 'string' ? ` (${textCell(note)})` : ''}`] : []);
+  const marks = [...mark('$s = d/2$', given.meanFieldEnd, given.meanFieldEndNote), ...mark('$s^*$', given.sStar, given.sStarSource)].join(', ');
   return [marks ? `Marks: ${marks}.` : '', tabular(['$s$', ...quantities.map((q) => writer.inline(quantityTex(q))), 'outside window'], rows)].filter(Boolean).join('\n\n');
 }
 
@@ -219,17 +220,17 @@ function seriesTermsTex(lowest: number, coeffs: unknown[], order?: number): stri
   return [...terms, `O(\\varepsilon^{${(order ?? lowest + coeffs.length - 1) + 1}})`].join(' + ');
 }
 
-function outputToLatex(output: unknown, writer: LatexWriter): string {
+/** A cell's result by its kind (the job contract's result of that kind; readers tolerate earlier-shaped results). */
+function outputToLatex(output: unknown, kind: CellInput['kind'], writer: LatexWriter): string {
   if (!isRecord(output)) return '';
   if ('error' in output) return `\\emph{This cell failed: ${textCell(isRecord(output.error) ? output.error.message : '')}}`;
-  if (typeof output.lowest === 'number' && Array.isArray(output.coeffs)) {
+  if (kind === 'integral' && typeof output.lowest === 'number' && Array.isArray(output.coeffs)) {
     return writer.multline(seriesTermsTex(output.lowest, output.coeffs, output.order as number | undefined).split(' + ').join('\n + '));
   }
-  if (isRecord(output.series) && isRecord(output.values)) return exponentsToLatex(output, writer);
-  if (isRecord(output.beta)) return flowToLatex(output, writer);
-  if (Array.isArray(output.fixedPoints)) return fixedPointsToLatex(output);
-  if (Array.isArray(output.points)) return scanToLatex(output, writer);
-  if (isRecord(output.values)) return tabular(['quantity', 'value'], Object.entries(output.values).map(([name, v]) => [textCell(name), textCell(v)]));
+  if (kind === 'exponents') return exponentsToLatex(output, writer);
+  if (kind === 'flow') return flowToLatex(output, writer);
+  if (kind === 'fixedpoints') return fixedPointsToLatex(output);
+  if (kind === 'scan') return scanToLatex(output, writer);
   return monospaceBlock(asciiText(JSON.stringify(output, null, 2)).slice(0, 20_000));
 }
 
@@ -257,25 +258,20 @@ function comparisonDatasetText(input: ComparisonCell, document: NotebookDocument
   return `Data: \\emph{${textCell(dataset.name)}} (dataset \\texttt{${escapeLatexText(dataset.label)}}, ${dataset.points.x.length} points).${source}`;
 }
 
-const isText = (value: unknown): value is string => typeof value === 'string';
 const mathNumber = (value: string | null | undefined, digits?: number) => {
   const tex = numberTex(value, digits);
   return tex === '--' ? '--' : `$${tex}$`;
 };
 
-/** The fields of a comparison result this export reads (the view is imported by the app, so no zod schema of the engine here). */
+/** A comparison result exactly as the job contract has it (an earlier-shaped one is exported as plain fields). */
 function isComparisonResult(output: unknown): output is CompareResult {
-  if (!isRecord(output) || !isRecord(output.marks) || !isRecord(output.marks.meanFieldEnd) || !Array.isArray(output.marks.dataRange)) return false;
-  const variantsOk = Array.isArray(output.variants) && output.variants.every((v) => isRecord(v) && isText(v.key) && isText(v.label) && typeof v.order === 'number');
-  const summaryOk = Array.isArray(output.summary) && output.summary.every((row) => isRecord(row) && isText(row.key));
-  const kinksOk = output.kinks === undefined || (Array.isArray(output.kinks) && output.kinks.every((k) => isRecord(k) && isRecord(k.distance)));
-  return variantsOk && summaryOk && kinksOk && Array.isArray(output.notes) && isText(output.quantity) && isText(output.xAxis) && isText(output.d);
+  return CompareResult.safeParse(output).success;
 }
 
 /** A comparison: the setup of its series, the dataset with its source, the χ² summary per variant, marks, kinks and notes. */
 function comparisonToLatex(input: ComparisonCell, output: unknown, document: NotebookDocument, writer: LatexWriter): string {
   const intro = [comparisonSetupText(input, document, writer), comparisonDatasetText(input, document)].join(' ');
-  if (!isComparisonResult(output)) return [intro, outputToLatex(output, writer)].filter(Boolean).join('\n\n');
+  if (!isComparisonResult(output)) return [intro, outputToLatex(output, input.kind, writer)].filter(Boolean).join('\n\n');
   const result = output;
   const axis = result.xAxis === 's' ? 's' : '\\Delta_{\\phi}';
   const heading = `${writer.inline(quantityTex(result.quantity))} against ${writer.inline(axis)} at ${writer.inline(`d = ${numberTex(result.d)}`)}${result.fixedPoint ? `, fixed point ${textCell(result.fixedPoint)}` : ''}.`;
@@ -309,7 +305,7 @@ export function toLatexDocument(document: NotebookDocument): string {
     if (cell.input.kind === 'note') return noteToLatex(cell.input.text, writer);
     const heading = `\\subsection*{${escapeLatexText(cellKindTitles[cell.input.kind])}: \\texttt{${escapeLatexText(cell.label)}}}`;
     if (cell.input.kind === 'comparison') return [heading, inputToLatex(cell.input), comparisonToLatex(cell.input, cell.output, document, writer)].filter(Boolean).join('\n\n');
-    return [heading, inputToLatex(cell.input), outputToLatex(cell.output, writer)].filter(Boolean).join('\n\n');
+    return [heading, inputToLatex(cell.input), outputToLatex(cell.output, cell.input.kind, writer)].filter(Boolean).join('\n\n');
   });
   const removals = writer.report.empty ? null : writer.report.summary();
   return [

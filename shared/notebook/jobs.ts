@@ -1,4 +1,5 @@
 import type { CellInput, ModelSpec } from './cells';
+import { JOB_LIMITS } from '../jobs/contract';
 import { COMPARABLE_X_AXES, COMPARABLE_Y_AXES, DATASET_LIMITS, type AxisSpec, type DatasetPoints } from './datasets';
 
 export type SetupInput = Extract<CellInput, { kind: 'setup' }>;
@@ -119,7 +120,7 @@ function comparisonJob(input: ComparisonInput, setups: Map<string, SetupInput>, 
   return {
     job: 'compare',
     ...curve,
-    digits: Math.min(Number(digits), 20),
+    digits: Math.min(Number(digits), JOB_LIMITS.defaultCompareDigits),
     quantity,
     data: {
       xAxis: dataset.xAxis.kind,

@@ -1,10 +1,13 @@
 /**
  * `npm run bench:engine`: per-call time of Γ, ψ, ψ′ at 30, 50 and 100 digits, for the Rungbook
- * engine and for mpmath (Debian python3-mpmath, installed if missing) on the same 1000 points.
- * A script, not a timed test: it prints a table and the memory used by each side.
+ * engine and for mpmath on the same 1000 points; then Γ, ψ and ζ at 1000 digits, cold (first call in
+ * a fresh process) and warm (median of repeated calls). mpmath runs under Debian's /usr/bin/python3
+ * when present; as root with apt-get available, python3-gmpy2 (mpmath's GMP backend) is installed
+ * first if missing. A script, not a timed test: it prints tables, the memory used by each side and
+ * which mpmath backend it measured. `npm run bench:engine -- --1000-only` runs the 1000-digit part alone.
  */
 import { execFileSync, spawnSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import Decimal from 'decimal.js';
@@ -39,11 +42,27 @@ function benchmarkPoints(): string[] {
   return Array.from({ length: POINT_COUNT }, () => (0.1 + 10 * next()).toPrecision(15));
 }
 
-function ensureMpmath(): void {
-  const probe = spawnSync('python3', ['-c', 'import mpmath'], { encoding: 'utf8' });
-  if (probe.status === 0) return;
-  // Benchmarks, like tests, never install system packages themselves.
-  throw new Error('The reference run needs mpmath: install Debian\'s python3-mpmath.');
+/** Debian's interpreter (where python3-gmpy2 and python3-mpmath install) when present. */
+const PYTHON = existsSync('/usr/bin/python3') ? '/usr/bin/python3' : 'python3';
+
+function pythonCan(statement: string): boolean {
+  return spawnSync(PYTHON, ['-c', statement], { encoding: 'utf8' }).status === 0;
+}
+
+function aptInstall(packages: string[]): void {
+  const isRoot = typeof process.getuid === 'function' && process.getuid() === 0;
+  if (!isRoot || spawnSync('sh', ['-c', 'command -v apt-get']).status !== 0) return;
+  const install = () => spawnSync('apt-get', ['install', '-y', ...packages], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } }).status === 0;
+  if (install()) return;
+  spawnSync('apt-get', ['update'], { stdio: 'inherit' });
+  install(); // a failure is tolerated: the run falls back to mpmath's pure-Python backend
+}
+
+/** mpmath with its GMP backend where it can be had; returns the backend mpmath reports. */
+function ensureMpmath(): string {
+  if (PYTHON === '/usr/bin/python3' && !pythonCan('import gmpy2, mpmath')) aptInstall(['python3-gmpy2', 'python3-mpmath']);
+  if (!pythonCan('import mpmath')) throw new Error(`The reference run needs mpmath for ${PYTHON}: install Debian's python3-mpmath.`);
+  return execFileSync(PYTHON, ['-c', 'import mpmath; print(mpmath.libmp.BACKEND)'], { encoding: 'utf8' }).trim();
 }
 
 const MPMATH_SCRIPT = `
@@ -83,7 +102,7 @@ function runMpmath(points: string[]): MpmathReport {
   const dir = mkdtempSync(join(tmpdir(), 'rungbook-bench-'));
   const script = join(dir, 'mpmath_bench.py');
   writeFileSync(script, MPMATH_SCRIPT);
-  const out = execFileSync('python3', [script], { input: JSON.stringify(points), encoding: 'utf8', maxBuffer: 64 << 20 });
+  const out = execFileSync(PYTHON, [script], { input: JSON.stringify(points), encoding: 'utf8', maxBuffer: 64 << 20 });
   return JSON.parse(out) as MpmathReport;
 }
 
@@ -124,7 +143,11 @@ function disagreements(a: string[], b: string[], digits: number): number {
 }
 
 function main(): void {
-  ensureMpmath();
+  if (process.argv[2] === '--single') return runSingle(process.argv.slice(3));
+  const backend = ensureMpmath();
+  console.log(`mpmath backend: ${backend === 'gmpy' ? 'gmpy' : 'python'} (${PYTHON}, mpmath.libmp.BACKEND = ${backend})`);
+  console.log('');
+  if (process.argv.includes('--1000-only')) return highPrecisionTable(backend);
   const points = benchmarkPoints();
   const engine = timeOurs(points);
   const reference = runMpmath(points);
@@ -147,6 +170,92 @@ function main(): void {
   }
   console.log('');
   console.log(`Memory: Rungbook heap ${engine.heapMB.toFixed(1)} MB, rss ${engine.rssMB.toFixed(1)} MB; mpmath process max rss ${(reference.maxrss_kb / 1024).toFixed(1)} MB`);
+  console.log('');
+  highPrecisionTable(reference.backend);
+}
+
+// ---- 1000 digits: cold and warm, each case in fresh processes ------------------------------------
+
+const HIGH_DIGITS = 1000;
+type HighFunction = 'gamma' | 'psi' | 'zeta';
+const HIGH_CASES: { fn: HighFunction; points: string[]; repeats: number }[] = [
+  { fn: 'gamma', points: ['7.25', '0.3', '123.456', '-2.5', '-3.7'], repeats: 21 },
+  { fn: 'psi', points: ['7.25', '0.3', '123.456', '-3.7'], repeats: 11 },
+  { fn: 'zeta', points: ['2.5', '0.5', '-2.5'], repeats: 3 },
+];
+const HIGH_OURS: Record<HighFunction, (x: string, digits: number) => Decimal> = {
+  gamma: (x, d) => special.gamma(x, d),
+  psi: (x, d) => special.digamma(x, d),
+  zeta: (x, d) => special.zeta(x, d),
+};
+
+interface SingleTiming {
+  coldMs: number;
+  warmMs: number;
+  value: string;
+}
+
+/** Child mode `--single fn x digits repeats`: first call (cold) and the median of the repeats (warm). */
+function runSingle([fn, x, digits, repeats]: string[]): void {
+  const f = HIGH_OURS[fn as HighFunction];
+  const d = Number(digits);
+  let start = performance.now();
+  const value = f(x, d).toString();
+  const coldMs = performance.now() - start;
+  const times: number[] = [];
+  for (let i = 0; i < Number(repeats); i++) {
+    start = performance.now();
+    f(x, d);
+    times.push(performance.now() - start);
+  }
+  const result: SingleTiming = { coldMs, warmMs: median(times), value };
+  process.stdout.write(JSON.stringify(result));
+}
+
+const MPMATH_SINGLE = `
+import json, sys, time
+import mpmath
+fn, x, dps, repeats = sys.argv[1], sys.argv[2], int(sys.argv[3]), int(sys.argv[4])
+f = {'gamma': mpmath.gamma, 'psi': lambda v: mpmath.psi(0, v), 'zeta': mpmath.zeta}[fn]
+mpmath.mp.dps = dps
+v = mpmath.mpf(x)
+t = time.perf_counter(); f(v); cold = time.perf_counter() - t
+times = []
+for _ in range(repeats):
+    t = time.perf_counter(); f(v); times.append(time.perf_counter() - t)
+times.sort()
+mpmath.mp.dps = dps + 20
+value = mpmath.nstr(f(mpmath.mpf(x)), dps + 15)
+print(json.dumps({'coldMs': cold * 1e3, 'warmMs': times[len(times) // 2] * 1e3, 'value': value}))
+`;
+
+function oursSingle(fn: HighFunction, x: string, repeats: number): SingleTiming {
+  const out = execFileSync(process.execPath, ['--import', 'tsx', __filename, '--single', fn, x, String(HIGH_DIGITS), String(repeats)], { encoding: 'utf8', maxBuffer: 1 << 24 });
+  return JSON.parse(out) as SingleTiming;
+}
+
+function mpmathSingle(script: string, fn: HighFunction, x: string, repeats: number): SingleTiming {
+  const out = execFileSync(PYTHON, [script, fn, x, String(HIGH_DIGITS), String(repeats)], { encoding: 'utf8', maxBuffer: 1 << 24 });
+  return JSON.parse(out) as SingleTiming;
+}
+
+function highPrecisionTable(backend: string): void {
+  const dir = mkdtempSync(join(tmpdir(), 'rungbook-bench-'));
+  const script = join(dir, 'mpmath_single.py');
+  writeFileSync(script, MPMATH_SINGLE);
+  console.log(`${HIGH_DIGITS} digits, every case in a fresh process on each side: cold = first call (tables and constants built), warm = median of the repeats; mpmath backend ${backend}; value check against mpmath at ${HIGH_DIGITS}+20 digits.`);
+  console.log('');
+  console.log('| function | x | digits | Rungbook cold ms | Rungbook warm ms | mpmath cold ms | mpmath warm ms | warm ratio | value check |');
+  console.log('|---|---|---|---|---|---|---|---|---|');
+  for (const { fn, points, repeats } of HIGH_CASES) {
+    for (const x of points) {
+      const ours = oursSingle(fn, x, repeats);
+      const ref = mpmathSingle(script, fn, x, repeats);
+      const wrong = disagreements([ours.value], [ref.value], HIGH_DIGITS);
+      const label = fn === 'gamma' ? 'Γ' : fn === 'psi' ? 'ψ' : 'ζ';
+      console.log(`| ${label} | ${x} | ${HIGH_DIGITS} | ${ours.coldMs.toFixed(1)} | ${ours.warmMs.toFixed(2)} | ${ref.coldMs.toFixed(1)} | ${ref.warmMs.toFixed(2)} | ${(ours.warmMs / ref.warmMs).toFixed(2)} | ${wrong === 0 ? 'correct' : 'WRONG'} |`);
+    }
+  }
 }
 
 main();

@@ -69,4 +69,4 @@ console.log('| task | ours (s) | reference (s) | ratio | target |');
 console.log('|---|---|---|---|---|');
 for (const [task, ours, ref, target] of rows) console.log(`| ${task} | ${ours.toFixed(3)} | ${ref.toFixed(3)} | ${(ours / ref).toFixed(3)} | ${Number.isFinite(target) ? `≤ ${target}` : '—'} |`);
 console.log(`memory: rss ${(process.memoryUsage().rss / 2 ** 20).toFixed(0)} MiB, scan heap growth ${((heapAfter - heapBefore) / 2 ** 20).toFixed(1)} MiB`);
-console.log(`check: first scan point ours 1/ν = ${scan.value[0].values[0].toFixed(25)}, mpmath ${reference.sample[0]}`);
+console.log(`check: first scan point ours 1/ν = ${scan.value[0].values[0]?.toFixed(25)}, mpmath ${reference.sample[0]}`);

@@ -3,7 +3,7 @@ import { spacing } from '../../../constants/theme';
 import type { CellInput, ModelSpec } from '../../../shared/notebook';
 import { TextField } from '../../ui/TextField';
 import { ChoiceRow } from '../ChoiceRow';
-import { optionalText, WholeNumberField, type EditorProps } from './fields';
+import { optionalText, PresetNField, WholeNumberField, type EditorProps } from './fields';
 
 type SetupInput = Extract<CellInput, { kind: 'setup' }>;
 
@@ -26,10 +26,10 @@ export function SetupEditor({ input, errors, onChange, testPrefix }: EditorProps
         testID={`${testPrefix}-preset`}
       />
       {model.preset === 'on' ? (
-        <WholeNumberField label="N (components)" value={model.N} allowSymbol="N" hint="A whole number, or N to keep it symbolic" onChange={(N) => setModel({ preset: 'on', N: N as number })} error={errors['model.N']} testID={`${testPrefix}-N`} />
+        <PresetNField label="N (components)" value={model.N} allowSymbol="N" hint="Any real number (0: self-avoiding walk, 0.5, −1, 1000000), or N to keep it symbolic" onChange={(N) => setModel({ preset: 'on', N })} error={errors['model.N']} testID={`${testPrefix}-N`} />
       ) : null}
       {model.preset === 'cubic' ? (
-        <WholeNumberField label="N (components)" value={model.N} onChange={(N) => setModel({ preset: 'cubic', N: N as number })} error={errors['model.N']} testID={`${testPrefix}-N`} />
+        <PresetNField label="N (components)" value={model.N} hint="Any real number except 1, e.g. 3 or 2.5" onChange={(N) => setModel({ preset: 'cubic', N })} error={errors['model.N']} testID={`${testPrefix}-N`} />
       ) : null}
       {model.preset === 'custom' ? (
         <>

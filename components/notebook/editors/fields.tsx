@@ -15,8 +15,7 @@ export interface EditorProps<Input> {
   testPrefix: string;
 }
 
-/** A whole-number field that keeps what was typed (even half-typed) while the input holds a number. */
-export function WholeNumberField({ label, value, onChange, error, hint, testID, allowSymbol }: {
+interface NumberFieldProps {
   label: string;
   value: number | string;
   onChange: (value: number | string) => void;
@@ -25,9 +24,32 @@ export function WholeNumberField({ label, value, onChange, error, hint, testID, 
   testID?: string;
   /** A symbol accepted in place of a number, e.g. "N". */
   allowSymbol?: string;
+}
+
+/** A whole-number field that keeps what was typed (even half-typed) while the input holds a number. */
+export function WholeNumberField(props: NumberFieldProps) {
+  return <TypedNumberField {...props} read={wholeNumber} keyboardType={props.allowSymbol ? 'default' : 'number-pad'} />;
+}
+
+/**
+ * The N of a preset: any real number. A whole number is kept as a number, anything else as the typed
+ * text (a decimal, read exactly by the engine; the schema names what is wrong with other text).
+ */
+export function PresetNField(props: NumberFieldProps) {
+  return <TypedNumberField {...props} read={presetNumber} keyboardType={props.allowSymbol ? 'default' : 'numbers-and-punctuation'} />;
+}
+
+export function presetNumber(typed: string): number | string {
+  const text = typed.trim();
+  return /^-?\d+$/.test(text) ? Number(text) : text;
+}
+
+function TypedNumberField({ label, value, onChange, error, hint, testID, allowSymbol, read, keyboardType }: NumberFieldProps & {
+  read: (typed: string) => number | string;
+  keyboardType: 'default' | 'number-pad' | 'numbers-and-punctuation';
 }) {
   const [text, setText] = useState(String(value));
-  const parse = (typed: string) => (allowSymbol && typed.trim() === allowSymbol ? allowSymbol : wholeNumber(typed));
+  const parse = (typed: string) => (allowSymbol && typed.trim() === allowSymbol ? allowSymbol : read(typed));
   useEffect(() => {
     const parsed = parse(text);
     if (parsed !== value && !(Number.isNaN(parsed) && Number.isNaN(value))) setText(String(value));
@@ -42,7 +64,7 @@ export function WholeNumberField({ label, value, onChange, error, hint, testID, 
         setText(typed);
         onChange(parse(typed));
       }}
-      keyboardType={allowSymbol ? 'default' : 'number-pad'}
+      keyboardType={keyboardType}
       error={error}
       hint={hint}
       testID={testID}

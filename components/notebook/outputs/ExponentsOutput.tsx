@@ -6,30 +6,103 @@ import { coefficientText, nameOfQuantity, seriesTex, texOfQuantity } from '../te
 import { CoefficientTable } from './CoefficientTable';
 import { StructuredResult } from './StructuredResult';
 
-/** Critical exponents: each ε-series typeset, then one table of coefficients and values at the physical ε. */
+export interface ResultNotice {
+  kind: string;
+  message: string;
+}
+
+/** The `notices` list a job result starts with (caveats of the fixed point, the regime); empty when absent. */
+export function noticesOf(result: unknown): ResultNotice[] {
+  if (!isObject(result) || !Array.isArray(result.notices)) return [];
+  return result.notices.filter((n): n is ResultNotice => isObject(n) && typeof n.kind === 'string' && typeof n.message === 'string');
+}
+
+/** What a result must be read with, shown before anything else. */
+export function Notices({ notices, testID }: { notices: ResultNotice[]; testID?: string }) {
+  if (notices.length === 0) return null;
+  return (
+    <View style={styles.notices} testID={testID} accessibilityRole="alert">
+      {notices.map((notice, index) => (
+        <Text key={`${notice.kind}-${index}`} style={styles.notice} testID={testID ? `${testID}-${index}` : undefined}>
+          {notice.message}
+        </Text>
+      ))}
+    </View>
+  );
+}
+
+interface PadeEntry {
+  L: number;
+  M: number;
+  value: string | null;
+  flagged: boolean;
+  reason: string | null;
+}
+
+const isPadeEntry = (value: unknown): value is PadeEntry => isObject(value) && typeof value.L === 'number' && typeof value.M === 'number' && typeof value.flagged === 'boolean';
+
+/** Quantity → its checked Padé approximants (the exponents job's table); null for any other shape. */
+function padeTableOf(pade: unknown): Record<string, PadeEntry[]> | null {
+  if (!isObject(pade)) return null;
+  const table: Record<string, PadeEntry[]> = {};
+  for (const [key, entries] of Object.entries(pade)) if (Array.isArray(entries) && entries.every(isPadeEntry)) table[key] = entries;
+  return Object.keys(table).length ? table : null;
+}
+
+const padeCell = (entry: PadeEntry | undefined) => (!entry ? '' : entry.flagged || entry.value === null ? `flagged: ${entry.reason ?? 'defective'}` : entry.value);
+
+const stringRecord = (value: unknown): Record<string, string> => (isObject(value) ? Object.fromEntries(Object.entries(value).filter((e): e is [string, string] => typeof e[1] === 'string')) : {});
+
+/**
+ * Critical exponents: notices first, each ε-series typeset, one table of coefficients and values at
+ * the physical ε with what each value is computed from, the checked Padé table, and the relations.
+ */
 export function ExponentsOutput({ result, fileName, testID }: { result: ExponentsShape; fileName: string; testID?: string }) {
   const seriesKeys = Object.keys(result.series);
   const order = Math.max(0, ...seriesKeys.map((key) => result.series[key].length));
-  const keys = [...seriesKeys, ...Object.keys(result.values).filter((key) => !seriesKeys.includes(key))];
-  const { pade, relations, fixedPoint, meanField, ...extra } = result.extra;
-  const padeValues = isObject(pade) ? pade : null;
-  const header = ['quantity', ...Array.from({ length: order }, (_, k) => `ε^${k}`), result.eps ? `value at ε = ${result.eps}` : 'value', ...(padeValues ? ['Padé'] : [])];
+  const { pade, relations, fixedPoint, meanField, notices, sources, unavailable, shortRange, ...extra } = result.extra;
+  const sourceOf = stringRecord(sources);
+  const missing = stringRecord(unavailable);
+  const keys = [...seriesKeys, ...Object.keys(result.values).filter((key) => !seriesKeys.includes(key)), ...Object.keys(missing).filter((key) => !seriesKeys.includes(key) && !(key in result.values))];
+  const hasSources = Object.keys(sourceOf).length > 0;
+  const header = ['quantity', ...Array.from({ length: order }, (_, k) => `ε^${k}`), result.eps ? `value at ε = ${result.eps}` : 'value', ...(hasSources ? ['computed from'] : [])];
   const rows = keys.map((key) => [
     nameOfQuantity(key),
     ...Array.from({ length: order }, (_, k) => (result.series[key]?.[k] !== undefined ? coefficientText(result.series[key][k]) : '')),
-    result.values[key] ?? '',
-    ...(padeValues ? [typeof padeValues[key] === 'string' ? (padeValues[key] as string) : '—'] : []),
+    result.values[key] ?? (missing[key] ? 'not available' : ''),
+    ...(hasSources ? [sourceOf[key] ?? ''] : []),
   ]);
+  const padeTable = padeTableOf(pade);
+  const padeColumns = padeTable ? [...new Map(Object.values(padeTable).flat().map((e) => [`[${e.L}/${e.M}]`, e])).keys()] : [];
+  const crossover = isObject(shortRange) && typeof shortRange.sStar === 'string' ? `s* = ${shortRange.sStar} (${String(shortRange.source ?? '')}).` : null;
   const hasExtra = Object.keys(extra).length > 0;
   return (
     <View style={styles.wrap} testID={testID}>
+      <Notices notices={noticesOf({ notices })} testID={testID ? `${testID}-notices` : undefined} />
       <Text style={styles.caption}>
-        {[typeof fixedPoint === 'string' ? `At the ${fixedPoint} fixed point.` : null, meanField === true ? 'Mean-field: the Gaussian fixed point is stable and these values are exact.' : null, result.eps && result.eps !== 'eps' ? `Series in ε at fixed s; values at ε = ${result.eps}.` : 'Series in ε at fixed s.'].filter(Boolean).join(' ')}
+        {[typeof fixedPoint === 'string' ? `At the ${fixedPoint} fixed point.` : null, meanField === true ? 'Mean-field: the Gaussian fixed point is stable and these values are exact.' : null, result.eps && result.eps !== 'eps' ? `Series in ε at fixed s; values at ε = ${result.eps}.` : 'Series in ε at fixed s.', crossover].filter(Boolean).join(' ')}
       </Text>
       {seriesKeys.map((key) => (
         <CopyableFormula key={key} tex={`${texOfQuantity(key)} = ${seriesTex(0, result.series[key])}`} testID={`exponent-${key}`} />
       ))}
       <CoefficientTable header={header} rows={rows} fileName={fileName} testID={testID ? `${testID}-table` : undefined} />
+      {Object.keys(missing).length ? (
+        <View style={styles.relations} testID={testID ? `${testID}-unavailable` : undefined}>
+          <Text style={styles.heading}>Not available</Text>
+          {Object.entries(missing).map(([key, reason]) => <Text key={key} style={styles.caption}>{`${nameOfQuantity(key)}: ${reason}`}</Text>)}
+        </View>
+      ) : null}
+      {padeTable ? (
+        <View style={styles.relations}>
+          <Text style={styles.heading}>Padé approximants at ε (each checked for poles between 0 and ε; a flagged one has no value)</Text>
+          <CoefficientTable
+            header={['quantity', ...padeColumns]}
+            rows={Object.entries(padeTable).map(([key, entries]) => [nameOfQuantity(key), ...padeColumns.map((column) => padeCell(entries.find((e) => `[${e.L}/${e.M}]` === column)))])}
+            fileName={`${fileName}-pade`}
+            testID={testID ? `${testID}-pade` : undefined}
+          />
+        </View>
+      ) : null}
       {isObject(relations) ? (
         <View style={styles.relations}>
           <Text style={styles.heading}>Relations used</Text>
@@ -46,4 +119,6 @@ const styles = StyleSheet.create({
   caption: { fontFamily: fonts.regular, fontSize: 13, color: colors.inkFaint },
   relations: { gap: 2 },
   heading: { fontFamily: fonts.semibold, fontSize: 13, color: colors.inkSoft },
+  notices: { gap: spacing.xs, padding: spacing.sm, borderRadius: 6, borderWidth: 1, borderColor: colors.amber, backgroundColor: colors.amberWash },
+  notice: { fontFamily: fonts.medium, fontSize: 13, color: colors.amberDeep },
 });

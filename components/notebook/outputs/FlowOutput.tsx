@@ -2,24 +2,33 @@ import { StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, spacing } from '../../../constants/theme';
 import { CopyableFormula } from '../CopyableFormula';
 import { asPolynomial, isObject } from '../resultShapes';
-import { quadraticMatrixTex } from '../quadraticMatrix';
+import { fieldMatrixTex, quadraticMatrixTex } from '../quadraticMatrix';
 import { polynomialTex } from '../texFormat';
 import { StructuredResult } from './StructuredResult';
 
 const anomalousNames: Record<string, string> = { gamma_phi: '\\gamma_{\\phi}', gamma_phi2: '\\gamma_{\\phi^2}' };
+/** gamma_phi when γ_φ is a matrix: its trace over the number of fields. */
+const TRACE_GAMMA_PHI = '\\tfrac{1}{n}\\operatorname{tr}\\gamma_{\\phi}';
 const couplingTex = (name: string) => (name.length > 1 ? `${name[0]}_{${name.slice(1)}}` : name);
 
 /** β-functions and anomalous dimensions typeset, the checks the derivation passed, the diagram trail folded. */
 export function FlowOutput({ result, fileName, testID }: { result: Record<string, unknown>; fileName: string; testID?: string }) {
-  const { beta, gamma_phi, gamma_phi2, gamma_quadratic, convention, checks, trail, ...rest } = result;
+  const { beta, gamma_phi, gamma_phi_matrix, gamma_phi2, gamma_quadratic, convention, checks, trail, ...rest } = result;
   const matrixTex = quadraticMatrixTex(gamma_quadratic);
+  const fieldTex = fieldMatrixTex(gamma_phi_matrix);
   const betas = isObject(beta) ? Object.entries(beta).flatMap(([name, terms]) => { const p = asPolynomial(terms); return p ? [{ name, p }] : []; }) : [];
   const anomalous = Object.entries({ gamma_phi, gamma_phi2 }).flatMap(([name, terms]) => { const p = asPolynomial(terms); return p ? [{ name, p }] : []; });
   return (
     <View style={styles.wrap} testID={testID}>
       {typeof convention === 'string' ? <Text style={styles.caption}>{convention}</Text> : null}
       {betas.map(({ name, p }) => <CopyableFormula key={name} tex={`\\beta_{${couplingTex(name)}} = ${polynomialTex(p)}`} testID={`beta-${name}`} />)}
-      {anomalous.map(({ name, p }) => <CopyableFormula key={name} tex={`${anomalousNames[name]} = ${polynomialTex(p)}`} testID={`anomalous-${name}`} />)}
+      {anomalous.map(({ name, p }) => <CopyableFormula key={name} tex={`${fieldTex && name === 'gamma_phi' ? TRACE_GAMMA_PHI : anomalousNames[name]} = ${polynomialTex(p)}`} testID={`anomalous-${name}`} />)}
+      {fieldTex ? (
+        <View style={styles.checks}>
+          <Text style={styles.heading}>Field anomalous dimension: a matrix (not ∝ δ_ab); η follows per eigen-direction at a fixed point</Text>
+          <CopyableFormula tex={fieldTex} testID="anomalous-field-matrix" />
+        </View>
+      ) : null}
       {matrixTex ? (
         <View style={styles.checks}>
           <Text style={styles.heading}>Quadratic operators: anomalous-dimension matrix (row: counterterm φ_kφ_l, column: insertion φ_iφ_j)</Text>
@@ -32,7 +41,7 @@ export function FlowOutput({ result, fileName, testID }: { result: Record<string
           {checks.map((check, index) => <Text key={index} style={styles.check}>✓ {String(check)}</Text>)}
         </View>
       ) : null}
-      <StructuredResult value={{ ...rest, ...(gamma_quadratic !== undefined && !matrixTex ? { gamma_quadratic } : {}), ...(trail !== undefined ? { trail } : {}) }} fileName={fileName} />
+      <StructuredResult value={{ ...rest, ...(gamma_phi_matrix !== undefined && !fieldTex ? { gamma_phi_matrix } : {}), ...(gamma_quadratic !== undefined && !matrixTex ? { gamma_quadratic } : {}), ...(trail !== undefined ? { trail } : {}) }} fileName={fileName} />
     </View>
   );
 }

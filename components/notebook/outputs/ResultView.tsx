@@ -1,6 +1,8 @@
 import { Component, type ReactNode } from 'react';
+import { StyleSheet, Text, View } from 'react-native';
+import { colors, fonts, spacing } from '../../../constants/theme';
 import type { CellKind } from '../../../shared/notebook';
-import { asComparison, asExponents, asFixedPoints, asScan, asSeries, isObject } from '../resultShapes';
+import { asComparison, asExponents, asFixedPoints, asFlow, asScan, asSeries } from '../resultShapes';
 import { ComparisonOutput } from './ComparisonOutput';
 import { FixedPointsOutput } from './FixedPointsOutput';
 import { FlowOutput } from './FlowOutput';
@@ -31,31 +33,56 @@ export function ResultView(props: ResultViewProps) {
   );
 }
 
+/** Each result is read with its job's result schema (components/notebook/resultShapes.ts); what no schema reads is shown field by field. */
 function KnownResult({ kind, result, label, setupD, show, dataName }: ResultViewProps) {
   const testID = `cell-${label}-result`;
-  if (kind === 'integral') {
-    const series = asSeries(result);
-    if (series) return <SeriesOutput series={series} name={`I_{\\mathrm{${label.replace(/_/g, '\\_')}}}`} fileName={label} testID={testID} />;
-  }
-  if (kind === 'exponents') {
-    const exponents = asExponents(result);
-    if (exponents) return <ExponentsOutput result={exponents} fileName={label} testID={testID} />;
-  }
-  if (kind === 'flow' && isObject(result) && isObject(result.beta)) return <FlowOutput result={result} fileName={label} testID={testID} />;
-  if (kind === 'fixedpoints') {
-    const fixedPoints = asFixedPoints(result);
-    if (fixedPoints) return <FixedPointsOutput eps={fixedPoints.eps} points={fixedPoints.points} fileName={label} testID={testID} />;
-  }
-  if (kind === 'scan') {
-    const scan = asScan(result, setupD);
-    if (scan) return <ScanOutput scan={scan} fileName={label} testID={testID} />;
-  }
-  if (kind === 'comparison') {
-    const comparison = asComparison(result);
-    if (comparison) return <ComparisonOutput result={comparison} show={show} dataName={dataName} fileName={label} testID={testID} />;
-  }
+  const view = knownView({ kind, result, label, setupD, show, dataName }, testID);
+  if (view) return view.earlier ? <EarlierResult label={label}>{view.node}</EarlierResult> : view.node;
   if (result !== null && typeof result === 'object') return <StructuredResult value={result} fileName={label} />;
   return <JsonBlock value={result} testID={`cell-${label}-json`} />;
+}
+
+function knownView({ kind, result, label, setupD, show, dataName }: ResultViewProps, testID: string): { node: ReactNode; earlier: boolean } | null {
+  switch (kind) {
+    case 'integral': {
+      const series = asSeries(result);
+      return series ? { node: <SeriesOutput series={series} name={`I_{\\mathrm{${label.replace(/_/g, '\\_')}}}`} fileName={label} testID={testID} />, earlier: !!series.earlier } : null;
+    }
+    case 'exponents': {
+      const exponents = asExponents(result);
+      return exponents ? { node: <ExponentsOutput result={exponents} fileName={label} testID={testID} />, earlier: exponents.earlier } : null;
+    }
+    case 'flow': {
+      const flow = asFlow(result);
+      return flow ? { node: <FlowOutput result={flow.result} fileName={label} testID={testID} />, earlier: flow.earlier } : null;
+    }
+    case 'fixedpoints': {
+      const fixedPoints = asFixedPoints(result);
+      return fixedPoints ? { node: <FixedPointsOutput eps={fixedPoints.eps} points={fixedPoints.points} fileName={label} testID={testID} />, earlier: fixedPoints.earlier } : null;
+    }
+    case 'scan': {
+      const scan = asScan(result, setupD);
+      return scan ? { node: <ScanOutput scan={scan} fileName={label} testID={testID} />, earlier: !!scan.earlier } : null;
+    }
+    case 'comparison': {
+      const comparison = asComparison(result);
+      return comparison ? { node: <ComparisonOutput result={comparison} show={show} dataName={dataName} fileName={label} testID={testID} />, earlier: false } : null;
+    }
+    default:
+      return null;
+  }
+}
+
+/** A result that does not have the shape today's engine writes (an earlier engine version wrote it): shown as far as it can be read. */
+function EarlierResult({ label, children }: { label: string; children: ReactNode }) {
+  return (
+    <View style={styles.earlier}>
+      <Text style={styles.caption} testID={`cell-${label}-earlier`}>
+        This result has an earlier shape than the engine writes today; parts may be missing. Run the cell again for the full view.
+      </Text>
+      {children}
+    </View>
+  );
 }
 
 class ResultBoundary extends Component<{ fallback: ReactNode; children: ReactNode }, { failed: boolean }> {
@@ -67,3 +94,8 @@ class ResultBoundary extends Component<{ fallback: ReactNode; children: ReactNod
     return this.state.failed ? this.props.fallback : this.props.children;
   }
 }
+
+const styles = StyleSheet.create({
+  earlier: { gap: spacing.sm },
+  caption: { fontFamily: fonts.regular, fontSize: 13, color: colors.inkFaint },
+});

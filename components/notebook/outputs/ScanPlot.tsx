@@ -11,8 +11,11 @@ import { nearestPoint, plotGeometry, plotSvg, tickText } from './plotGeometry';
 
 const PLOT_HEIGHT = 280;
 
-/** Exponents against s: axes, ticks, legend, s = d/2 and s* marked, a read-out where you tap or point. */
-export function ScanPlot({ scan, fileName, testID }: { scan: ScanShape; fileName: string; testID?: string }) {
+/**
+ * Exponents against s: axes, ticks, legend, s = d/2 and s* marked, a read-out where you tap or point
+ * (with the kinds of notice that apply at that point, from `pointNotices` keyed by s).
+ */
+export function ScanPlot({ scan, pointNotices, fileName, testID }: { scan: ScanShape; pointNotices?: Map<number, string[]>; fileName: string; testID?: string }) {
   const [width, setWidth] = useState(0);
   const [picked, setPicked] = useState<ScanPoint | null>(null);
   const onLayout = (event: LayoutChangeEvent) => setWidth(Math.round(event.nativeEvent.layout.width));
@@ -72,13 +75,15 @@ export function ScanPlot({ scan, fileName, testID }: { scan: ScanShape; fileName
       </View>
       <Text style={styles.readout} testID={testID ? `${testID}-readout` : undefined}>
         {picked
-          ? `${scan.variable} = ${tickText(picked.x)}: ${scan.quantities.map((key) => `${nameOfQuantity(key)} = ${picked.values[key] !== undefined ? tickText(picked.values[key]) : '—'}`).join(', ')}${picked.flagged ? ' (outside d/2 < s < s*)' : ''}`
+          ? `${scan.variable} = ${tickText(picked.x)}: ${scan.quantities.map((key) => `${nameOfQuantity(key)} = ${picked.values[key] !== undefined ? tickText(picked.values[key]) : '—'}`).join(', ')}${picked.flagged ? ' (outside d/2 < s < s*)' : ''}${noticeText(pointNotices?.get(picked.x))}`
           : 'Tap or point at the plot to read values.'}
       </Text>
       {geometry ? <ChipButton label="Save SVG" onPress={() => void saveTextFile(`${fileName}.svg`, plotSvg(scan, geometry), 'image/svg+xml')} testID={testID ? `${testID}-svg` : undefined} /> : null}
     </View>
   );
 }
+
+const noticeText = (kinds: string[] | undefined) => (kinds && kinds.length ? ` — see notices: ${kinds.join(', ')}` : '');
 
 /** Pointer hover where there is a pointer (web); RN's types do not list these props on View. */
 function hoverProps(pick: (event: GestureResponderEvent) => void): object {

@@ -31,15 +31,15 @@ function accumulate(terms: RationalTerms, powers: number[], values: Q[]): void {
   else terms.set(key, { powers, values });
 }
 
-function couplingTuples(couplings: number, length: number): number[][] {
+export function couplingTuples(couplings: number, length: number): number[][] {
   if (length === 0) return [[]];
   return couplingTuples(couplings, length - 1).flatMap((t) => Array.from({ length: couplings }, (_, k) => [...t, k]));
 }
 
-const powersOf = (tuple: number[], couplings: number) => Array.from({ length: couplings }, (_, k) => tuple.filter((i) => i === k).length);
+export const powersOf = (tuple: number[], couplings: number) => Array.from({ length: couplings }, (_, k) => tuple.filter((i) => i === k).length);
 
 /** Σ over all orderings of the external labels of the contracted graph. */
-function summedOverLabellings(model: QuarticModel, graph: Graph, tuple: number[]): Tensor {
+export function summedOverLabellings(model: QuarticModel, graph: Graph, tuple: number[]): Tensor {
   let next = 0;
   const factors: LabelledTensor[] = graph.vertices.map((v) => ({ tensor: v.kind === 'insertion' ? kronecker(model.fields) : model.basis[tuple[next++]], labels: v.legs }));
   const contracted = contract(factors, graph.externals);
@@ -51,7 +51,7 @@ function summedOverLabellings(model: QuarticModel, graph: Graph, tuple: number[]
   return sum as Tensor;
 }
 
-function prefactor(model: QuarticModel, graph: Graph, tuple: number[]): Q {
+export function prefactor(model: QuarticModel, graph: Graph, tuple: number[]): Q {
   let f = q(graphSign(graph), automorphismCount(graph, true));
   for (const i of tuple) f = qMul(f, model.scales[i]);
   return f;
@@ -118,7 +118,10 @@ export function interpolate(points: readonly number[], values: readonly Q[]): Po
 
 /** Weights of a family: computed at N = N0 … N0+FIT_DEGREE, fitted, verified at one more N. */
 function familyWeight(spec: ModelSpec, compute: (m: QuarticModel) => RationalTerms, id: string, degree: number): GraphWeight {
-  if (!isFamily(spec)) return asPolynomials(id, degree, compute(spec));
+  if (!isFamily(spec)) {
+    if (spec.atN) fail('invalid', `${spec.label} has no explicit tensors: its flow is the family's evaluated at N (flows/family.ts)`);
+    return asPolynomials(id, degree, compute(spec));
+  }
   const points = Array.from({ length: FIT_DEGREE + 2 }, (_, i) => spec.smallestMember + i);
   const samples = points.map((N) => compute(spec.member(N)));
   const fitPoints = points.slice(0, -1);
@@ -185,7 +188,7 @@ function rationalInsertionMatrix(model: QuarticModel, graph: Graph): RationalTer
     const f = prefactor(model, graph, tuple);
     const at = (a: number, b: number, e: number, g: number) => sym.data[((a * n + b) * n + e) * n + g];
     const values: Q[] = [];
-    for (const [kk, l] of pairs) for (const [i, j] of pairs) values.push(qMul(q(at(kk, l, i, j) + (i === j ? 0 : at(kk, l, j, i))), f));
+    for (const [kk, l] of pairs) for (const [i, j] of pairs) values.push(qMul(q(at(kk, l, i, j) + (i === j ? 0n : at(kk, l, j, i))), f));
     accumulate(terms, powersOf(tuple, k), values);
   }
   return terms;

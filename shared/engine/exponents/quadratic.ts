@@ -1,5 +1,6 @@
 import { type DerivedFlow } from '../diagrams/renormalization';
 import { type FixedPoint } from '../fixedpoints/fixedPoints';
+import { symmetricEigen } from '../linalg/index';
 import { type Real, realContext } from '../precision/real';
 import { LaurentSeries } from '../series/laurent';
 import { onSeries } from './exponents';
@@ -8,6 +9,12 @@ import { onSeries } from './exponents';
  * Quadratic operators at a fixed point: eigenvalues of the anomalous-dimension matrix γ_{(kl),(ij)}
  * of φ_iφ_j, as ε-series (degenerate perturbation theory: the ε² coefficients are the eigenvalues
  * of M₂ restricted to each eigenspace of M₁) and as numbers, with Δ = d − s + γ.
+ *
+ * Field renormalization (s = 2): γ already contains the legs' part γ_φ t + t γ_φ (built in
+ * diagrams/renormalization.ts, quadraticWithField), with γ_φ the full n×n matrix. Hence
+ * Δ = d − s + γ = 2Δ_φ-part + (insertion graphs): for an operator φ_iφ_j of two fields that are
+ * γ_φ eigen-directions with eigenvalues γ_i, γ_j and no mixing through the graphs,
+ * Δ = (d − s)/2 + γ_i + (d − s)/2 + γ_j = Δ_{φ_i} + Δ_{φ_j}. For s < 2 γ_φ = 0 and Δ = d − s + γ.
  *
  * γ is self-adjoint for the Frobenius product ⟨s, t⟩ = Σ_ab s_ab t_ab, which in the coordinates
  * t_ij (i ≤ j) has weights w = 1 (i = j), 2 (i < j). In t̂ = √w t the matrix is symmetric and is
@@ -34,51 +41,6 @@ export interface QuadraticSpectrum {
 }
 
 const toNumber = (x: Real) => Number(x.toString());
-
-/** Eigenvalues and orthonormal eigenvectors (columns of V) of a real symmetric matrix (cyclic Jacobi). */
-export function symmetricEigen(a0: Real[][], digits: number): { values: Real[]; vectors: Real[][] } {
-  const R = realContext(digits);
-  const n = a0.length;
-  const a = a0.map((row) => row.map((x) => new R(x)));
-  const v = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => new R(i === j ? 1 : 0)));
-  let norm = new R(0);
-  for (const row of a) for (const x of row) norm = norm.plus(x.times(x));
-  const tol = norm.sqrt().times(new R(10).pow(-(digits - 6)));
-  for (let sweep = 0; sweep < 60; sweep++) {
-    let off = new R(0);
-    for (let p = 0; p < n; p++) for (let q = p + 1; q < n; q++) off = off.plus(a[p][q].abs());
-    if (off.lte(tol)) break;
-    for (let p = 0; p < n; p++) {
-      for (let q = p + 1; q < n; q++) {
-        if (a[p][q].abs().lte(tol.div(n * n))) continue;
-        const theta = a[q][q].minus(a[p][p]).div(a[p][q].times(2));
-        const sign = theta.isNegative() ? -1 : 1;
-        const t = new R(sign).div(theta.abs().plus(theta.times(theta).plus(1).sqrt()));
-        const c = new R(1).div(t.times(t).plus(1).sqrt());
-        const s = t.times(c);
-        for (let k = 0; k < n; k++) {
-          const akp = a[k][p];
-          const akq = a[k][q];
-          a[k][p] = c.times(akp).minus(s.times(akq));
-          a[k][q] = s.times(akp).plus(c.times(akq));
-        }
-        for (let k = 0; k < n; k++) {
-          const apk = a[p][k];
-          const aqk = a[q][k];
-          a[p][k] = c.times(apk).minus(s.times(aqk));
-          a[q][k] = s.times(apk).plus(c.times(aqk));
-        }
-        for (let k = 0; k < n; k++) {
-          const vkp = v[k][p];
-          const vkq = v[k][q];
-          v[k][p] = c.times(vkp).minus(s.times(vkq));
-          v[k][q] = s.times(vkp).plus(c.times(vkq));
-        }
-      }
-    }
-  }
-  return { values: a.map((row, i) => row[i]), vectors: v };
-}
 
 const weightOf = ([i, j]: [number, number]) => (i === j ? 1 : 2);
 
@@ -115,8 +77,8 @@ function clusters(values: Real[], scale: number): number[][] {
   return out;
 }
 
-/** The eigenspaces of γ(ε) = M₁ε + M₂ε² (M₂ optional), each with its basis and (γ₁, γ₂). */
-function eigenspaces(m1: Real[][], m2: Real[][] | null, digits: number): { basis: Real[][]; g1: Real; g2: Real | null }[] {
+/** The eigenspaces of γ(ε) = M₁ε + M₂ε² (M₂ optional), each with its basis and (γ₁, γ₂); M₁, M₂ symmetric. */
+export function eigenspaces(m1: Real[][], m2: Real[][] | null, digits: number): { basis: Real[][]; g1: Real; g2: Real | null }[] {
   const first = symmetricEigen(m1, digits);
   const scale = Math.max(...first.values.map((x) => Math.abs(toNumber(x))), 1e-30);
   const out: { basis: Real[][]; g1: Real; g2: Real | null }[] = [];
@@ -206,10 +168,15 @@ export function quadraticSpectrum(flow: DerivedFlow<Real>, point: FixedPoint<Rea
   return { operators, pairs };
 }
 
+/** Eigenvalues (ascending) of the symmetric matrix m restricted to the span of the orthonormal `basis`. */
+export function restrictedEigenvalues(m: Real[][], basis: Real[][], digits: number): Real[] {
+  return symmetricEigen(restrict(m, basis, digits), digits).values.sort((x, y) => toNumber(x) - toNumber(y));
+}
+
 /** γ at numeric couplings restricted to each operator's eigenspace: its eigenvalues (one per operator, the smallest). */
 export function quadraticAtRoot(flow: DerivedFlow<Real>, spectrum: QuadraticSpectrum, g: Real[]): Real[][] {
   const quad = flow.quadratic as NonNullable<DerivedFlow<Real>['quadratic']>;
   const digits = flow.calculus.digits;
   const m = symmetrized(quad.gamma.map((row) => row.map((p) => p.evaluate(g))), spectrum.pairs, digits);
-  return spectrum.operators.map((op) => symmetricEigen(restrict(m, op.basis, digits), digits).values.sort((x, y) => toNumber(x) - toNumber(y)));
+  return spectrum.operators.map((op) => restrictedEigenvalues(m, op.basis, digits));
 }

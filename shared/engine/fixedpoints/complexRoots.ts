@@ -1,33 +1,13 @@
 import { type DerivedFlow } from '../diagrams/renormalization';
 import { jacobianPolynomials } from '../flows/flow';
+import { type Complex, type ComplexReal, cabs, cadd, cmul, complexOps, csub, solveComplex, solveComplexReal } from '../linalg/index';
 import { type CouplingPolynomial } from '../models/couplingPolynomial';
 import { type Real } from '../precision/real';
-import { type Complex, cabs, cadd, cmul, complexPolynomialRoots, csub, solveComplex } from './linear';
 
-/** A complex number with arbitrary-precision parts. */
-export interface ComplexReal {
-  re: Real;
-  im: Real;
-}
+export type { ComplexReal };
 
 type Ring = DerivedFlow<Real>['calculus']['ctx']['ring'];
 const num = (x: Real): number => Number(x.toString());
-
-/** Complex arithmetic over the flow's real ring. */
-export function complexOps(ring: Ring) {
-  const of = (re: Real, im: Real = ring.zero()): ComplexReal => ({ re, im });
-  const fromDouble = (z: Complex): ComplexReal => of(ring.fromRational(BigInt(Math.round(z.re * 1e17)), 10n ** 17n), ring.fromRational(BigInt(Math.round(z.im * 1e17)), 10n ** 17n));
-  const add = (a: ComplexReal, b: ComplexReal): ComplexReal => of(ring.add(a.re, b.re), ring.add(a.im, b.im));
-  const sub = (a: ComplexReal, b: ComplexReal): ComplexReal => of(ring.sub(a.re, b.re), ring.sub(a.im, b.im));
-  const mul = (a: ComplexReal, b: ComplexReal): ComplexReal => of(ring.sub(ring.mul(a.re, b.re), ring.mul(a.im, b.im)), ring.add(ring.mul(a.re, b.im), ring.mul(a.im, b.re)));
-  const div = (a: ComplexReal, b: ComplexReal): ComplexReal => {
-    const inv = ring.inverse(ring.add(ring.mul(b.re, b.re), ring.mul(b.im, b.im)));
-    return of(ring.mul(ring.add(ring.mul(a.re, b.re), ring.mul(a.im, b.im)), inv), ring.mul(ring.sub(ring.mul(a.im, b.re), ring.mul(a.re, b.im)), inv));
-  };
-  const abs = (a: ComplexReal): number => Math.hypot(num(a.re), num(a.im));
-  const toDouble = (a: ComplexReal): Complex => ({ re: num(a.re), im: num(a.im) });
-  return { of, fromDouble, add, sub, mul, div, abs, toDouble, zero: () => of(ring.zero()), one: () => of(ring.one()) };
-}
 
 /** p(g) at complex couplings. */
 export function evaluateComplex(ring: Ring, p: CouplingPolynomial<Real>, g: readonly ComplexReal[]): ComplexReal {
@@ -41,25 +21,6 @@ export function evaluateComplex(ring: Ring, p: CouplingPolynomial<Real>, g: read
     sum = c.add(sum, term);
   }
   return sum;
-}
-
-/** Complex Gaussian elimination over the real ring (partial pivoting by magnitude). */
-export function solveComplexReal(ring: Ring, matrix: ComplexReal[][], rhs: ComplexReal[]): ComplexReal[] | null {
-  const c = complexOps(ring);
-  const m = matrix.length;
-  const a = matrix.map((row, i) => [...row, rhs[i]]);
-  for (let col = 0; col < m; col++) {
-    let pivot = col;
-    for (let r = col + 1; r < m; r++) if (c.abs(a[r][col]) > c.abs(a[pivot][col])) pivot = r;
-    if (c.abs(a[pivot][col]) === 0) return null;
-    [a[col], a[pivot]] = [a[pivot], a[col]];
-    for (let r = 0; r < m; r++) {
-      if (r === col) continue;
-      const f = c.div(a[r][col], a[col][col]);
-      for (let k = col; k <= m; k++) a[r][k] = c.sub(a[r][k], c.mul(f, a[col][k]));
-    }
-  }
-  return a.map((row, i) => c.div(row[m], row[i]));
 }
 
 /** β_i(g; ε) = beta_i(g) − ε g_i and its Jacobian at complex g. */
@@ -77,7 +38,8 @@ export function complexStabilityMatrix(flow: DerivedFlow<Real>, g: ComplexReal[]
   return betaAndJacobian(flow, g, eps).jac;
 }
 
-function polish(flow: DerivedFlow<Real>, start: ComplexReal[], eps: Real): ComplexReal[] | null {
+/** Newton on the truncated β at complex couplings, in full precision. */
+export function polishComplexRoot(flow: DerivedFlow<Real>, start: ComplexReal[], eps: Real): ComplexReal[] | null {
   const { ring } = flow.calculus.ctx;
   const c = complexOps(ring);
   let g = start;
@@ -122,7 +84,7 @@ export function complexRootNear(flow: DerivedFlow<Real>, seriesAt: (eps: number)
     if (tracked) seeds.push(tracked.map((z) => c.fromDouble(z)));
   }
   for (const seed of seeds) {
-    const root = polish(flow, seed, eps);
+    const root = polishComplexRoot(flow, seed, eps);
     if (!root) continue;
     const first = root.find((z) => Math.abs(num(z.im)) > 1e-20 * (1 + c.abs(z)));
     if (!first) continue;
@@ -131,51 +93,6 @@ export function complexRootNear(flow: DerivedFlow<Real>, seriesAt: (eps: number)
   return null;
 }
 
-
-/**
- * Eigenvalues of a (real or complex) matrix in full precision: characteristic polynomial by
- * Faddeev–LeVerrier over the ring, roots located in double precision and polished by Newton.
- * Real eigenvalues of a real matrix come back with an exactly zero imaginary part.
- */
-export function eigenvaluesFullPrecision(ring: Ring, a: ComplexReal[][], isNegligible: (c: Real) => boolean): ComplexReal[] {
-  const c = complexOps(ring);
-  const k = a.length;
-  const realMatrix = a.every((row) => row.every((z) => z.im.isZero()));
-  const isZeroC = (z: ComplexReal) => isNegligible(z.re) && isNegligible(z.im);
-  const triangular = (t: ComplexReal[][]) => t.every((row, i) => row.every((x, j) => j >= i || isZeroC(x)));
-  if (k === 1 || triangular(a) || triangular(a[0].map((_, j) => a.map((row) => row[j])))) return a.map((row, i) => row[i]);
-  const times = (x: ComplexReal[][], y: ComplexReal[][]) => x.map((row) => y[0].map((_, j) => row.reduce((s, v, l) => c.add(s, c.mul(v, y[l][j])), c.zero())));
-  const coeffs: ComplexReal[] = new Array(k + 1);
-  coeffs[k] = c.one();
-  let m: ComplexReal[][] = a.map((row) => row.map(() => c.zero()));
-  for (let step = 1; step <= k; step++) {
-    m = times(a, m).map((row, i) => row.map((x, j) => (i === j ? c.add(x, coeffs[k - step + 1]) : x)));
-    const am = times(a, m);
-    let trace = c.zero();
-    for (let i = 0; i < k; i++) trace = c.add(trace, am[i][i]);
-    coeffs[k - step] = c.of(ring.scale(trace.re, -1n, BigInt(step)), ring.scale(trace.im, -1n, BigInt(step)));
-  }
-  const approx = complexPolynomialRoots(coeffs.map(c.toDouble));
-  const scale = 1 + Math.max(...approx.map(cabs));
-  return approx.map((z0) => {
-    const realRoot = realMatrix && Math.abs(z0.im) < 1e-7 * scale;
-    let z = c.fromDouble(realRoot ? { re: z0.re, im: 0 } : z0);
-    for (let iter = 0; iter < 100; iter++) {
-      let value = c.zero();
-      let slope = c.zero();
-      for (let j = k; j >= 0; j--) {
-        slope = c.add(c.mul(slope, z), value);
-        value = c.add(c.mul(value, z), coeffs[j]);
-      }
-      if (isZeroC(slope)) break;
-      const step = c.div(value, slope);
-      z = c.sub(z, step);
-      if (realRoot) z = c.of(z.re);
-      if (isZeroC(step)) break;
-    }
-    return z;
-  });
-}
 
 /** β and its Jacobian in double precision at complex couplings and complex ε. */
 function doubleSystem(flow: DerivedFlow<Real>) {

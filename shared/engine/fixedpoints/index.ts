@@ -1,3 +1,3 @@
 /** Fixed points of the truncated flow: ε-series, numeric roots, stability matrix and eigenvalues. */
-export * from './linear';
 export * from './fixedPoints';
+export * from './complexRoots';

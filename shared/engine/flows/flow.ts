@@ -1,11 +1,12 @@
 import { type Calculus, numericCalculus, symbolicCalculus } from '../diagrams/calculus';
 import { type DerivedFlow, deriveFlow } from '../diagrams/renormalization';
 import { CouplingPolynomial } from '../models/couplingPolynomial';
-import { type ModelSpec, isFamily } from '../models/model';
+import { type ModelSpec, familyPointOf, isFamily } from '../models/model';
 import { fail } from '../precision/errors';
 import { type Real } from '../precision/real';
 import { type Expression } from '../symbolic/expression';
 import { type Q, q, qCompare } from '../symbolic/rational';
+import { type PoleSource, familyFlow, familyPointFlow } from './family';
 
 export interface FlowRequest {
   model: ModelSpec;
@@ -13,6 +14,8 @@ export interface FlowRequest {
   s: Q | null;
   loops: 1 | 2;
   digits: number;
+  /** For a preset at a numeric N without tensors: the ε-series of its family's fixed points, checked for poles at N. */
+  poleSources?: (flow: DerivedFlow<Expression>) => PoleSource[];
 }
 
 export type AnyFlow = { mode: 'numeric'; flow: DerivedFlow<Real> } | { mode: 'symbolic'; flow: DerivedFlow<Expression> };
@@ -23,10 +26,16 @@ export function checkPropagatorPower(s: Q): void {
   if (qCompare(s, q(2)) > 0) fail('domain', 's must be at most 2 (s = 2 is the short-range theory)');
 }
 
-/** Numbers when s and N are given, exact expressions otherwise. */
+/**
+ * Numbers when s and N are given, exact expressions otherwise. Symbolic-N families are derived once
+ * and kept; a preset at a numeric N without tensors is its family evaluated exactly at N.
+ */
 export function flowFor(request: FlowRequest): AnyFlow {
   if (request.s) checkPropagatorPower(request.s);
-  if (request.s && !isFamily(request.model)) {
+  const point = familyPointOf(request.model);
+  if (point) return familyPointFlow({ point, s: request.s, loops: request.loops, digits: request.digits, poleSources: request.poleSources });
+  if (isFamily(request.model)) return { mode: 'symbolic', flow: familyFlow(request.model, request.s, request.loops) };
+  if (request.s) {
     const calc: Calculus<Real> = numericCalculus(request.s, request.digits);
     return { mode: 'numeric', flow: deriveFlow(request.model, calc, request.loops) };
   }

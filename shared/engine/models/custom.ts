@@ -1,7 +1,7 @@
-import { type MathNode, create, parseDependencies } from 'mathjs';
 import { isObjectPropertyName } from '../../jobs/contract/primitives';
 import { fail } from '../precision/errors';
-import { toExactRational } from '../precision/real';
+import { rationalToReal } from '../precision/real';
+import { type ExpressionNode, exactConstant, parseExpression } from '../symbolic/parse';
 import { type Poly, polyAdd, polyConstant, polyConstantValue, polyMul, polyPow, polyScale, polyVariable } from '../symbolic/polynomial';
 import { type Q, Q0, q, qDiv, qMul } from '../symbolic/rational';
 import { type QuarticModel, NEGLIGIBLE_COUPLING } from './model';
@@ -9,23 +9,12 @@ import { MAX_FIELDS } from './presets';
 import { assertIndependentCouplings } from './projection';
 import { type Tensor, forEachIndex, zeroTensor } from './tensor';
 
-const math = create({ parseDependencies });
-// The first parse instantiates mathjs's lazy factories (about 0.1 s): pay it at load, not inside a request.
-math.parse('0');
 const FIELD = /^phi([1-9][0-9]*)$/;
 const COUPLING = /^[A-Za-z][A-Za-z0-9_]*$/;
 const RESERVED = new Set(['pi', 'e', 'i', 'E', 'PI', 'Infinity', 'NaN', 'phi', 'eps', 'N', 's', 'd']);
 export const MAX_POTENTIAL_LENGTH = 2000;
 
-interface NodeLike {
-  type: string;
-  op?: string;
-  fn?: string | { name?: string };
-  name?: string;
-  args?: NodeLike[];
-  content?: NodeLike;
-  value?: unknown;
-}
+type NodeLike = ExpressionNode;
 
 export { isObjectPropertyName };
 
@@ -91,7 +80,7 @@ function collectSymbols(node: NodeLike, fields: number, couplings: Set<string>):
 function boundOf(node: NodeLike, fields: number, visit: (n: NodeLike) => ExpansionBound, budget: { work: number }): ExpansionBound {
   switch (node.type) {
     case 'ConstantNode': {
-      const c = toExactRational(String(node.value));
+      const c = exactConstant(node);
       return { fieldDegree: 0, couplingDegree: 0, terms: 1, numeratorBits: bitsOf(c.num), denominatorBits: bitsOf(c.den) };
     }
     case 'SymbolNode': {
@@ -176,7 +165,7 @@ function binomial(n: number, k: number): number {
 function toPolynomial(node: NodeLike, fields: number): Poly {
   switch (node.type) {
     case 'ConstantNode':
-      return polyConstant(toExactRational(String(node.value)));
+      return polyConstant(exactConstant(node));
     case 'SymbolNode':
       return symbol(node.name as string, fields);
     case 'ParenthesisNode':
@@ -270,14 +259,9 @@ function expandCustomModel(fields: number, potential: string): QuarticModel {
   if (!Number.isInteger(fields) || fields < 1) fail('invalid', 'fields must be a positive integer');
   if (fields > MAX_FIELDS) fail('limit', `at most ${MAX_FIELDS} fields`);
   if (potential.length > MAX_POTENTIAL_LENGTH) fail('limit', 'potential too long');
-  let tree: MathNode;
-  try {
-    tree = math.parse(potential);
-  } catch (e) {
-    return fail('parse', `cannot parse the potential: ${(e as Error).message}`);
-  }
-  assertExpansionBounded(tree as unknown as NodeLike, fields);
-  const polynomial = toPolynomial(tree as unknown as NodeLike, fields);
+  const tree = parseExpression(potential, 'the potential');
+  assertExpansionBounded(tree, fields);
+  const polynomial = toPolynomial(tree, fields);
   const byCoupling = new Map<string, Map<string, { exponents: number[]; coeff: Q }>>();
   for (const term of polynomial.values()) {
     const fieldPowers = new Array<number>(fields).fill(0);
@@ -329,14 +313,23 @@ function integerTensor(fields: number, monomials: Map<string, { exponents: numbe
     entries.set(exponents.join(','), value);
     commonDen = lcm(commonDen, value.den);
   }
+  let content = 0n;
+  for (const value of entries.values()) content = gcd(content, (value.num * commonDen) / value.den);
   const tensor = zeroTensor(fields, 4);
   forEachIndex(fields, 4, (indices, flat) => {
     const counts = new Array<number>(fields).fill(0);
     for (const i of indices) counts[i]++;
     const value = entries.get(counts.join(',')) ?? Q0;
-    tensor.data[flat] = Number((value.num * commonDen) / value.den);
+    tensor.data[flat] = (value.num * commonDen) / value.den / content;
   });
-  return { tensor, scale: q(1n, commonDen) };
+  return { tensor, scale: q(content, commonDen) };
+}
+
+function gcd(a: bigint, b: bigint): bigint {
+  let x = a < 0n ? -a : a;
+  let y = b < 0n ? -b : b;
+  while (y) [x, y] = [y, x % y];
+  return x;
 }
 
 function lcm(a: bigint, b: bigint): bigint {
@@ -358,12 +351,15 @@ function nameCustomPoint(couplings: readonly string[], values: readonly number[]
  * λ = Σ g_k scale_k basis_k is O(n)-symmetric (n = all fields) when λ_abcd = c(δ_ab δ_cd + δ_ac δ_bd + δ_ad δ_bc)
  * for one c ≠ 0 (checked entry by entry, relative tolerance 1e-9).
  */
+const qToNumber = (x: Q): number => Number(rationalToReal(x, 17).toString());
+
 export function isONSymmetric(model: QuarticModel, values: readonly number[]): boolean {
   const n = model.fields;
   const lambda = new Array<number>(n ** 4).fill(0);
   model.basis.forEach((b, k) => {
-    const f = values[k] * (Number(model.scales[k].num) / Number(model.scales[k].den));
-    b.data.forEach((x, i) => (lambda[i] += f * x));
+    b.data.forEach((x, i) => {
+      if (x !== 0n) lambda[i] += values[k] * qToNumber(qMul(model.scales[k], q(x)));
+    });
   });
   const size = Math.max(...lambda.map(Math.abs));
   if (!(size > 0)) return false;

@@ -1,9 +1,10 @@
 import { fail } from '../precision/errors';
-import { q } from '../symbolic/rational';
-import { type ModelFamily, type QuarticModel, NEGLIGIBLE_COUPLING } from './model';
+import { type Q, q, qCompare } from '../symbolic/rational';
+import { type ModelFamily, type QuarticModel, NEGLIGIBLE_COUPLING, exactNumberText, familyPointLabel } from './model';
 import { type Tensor, tensorFrom } from './tensor';
 
 import { MAX_FIELDS } from '../../jobs/contract/limits';
+import { MAX_ABS_N } from '../../jobs/contract/model';
 
 export { MAX_FIELDS };
 
@@ -82,3 +83,33 @@ export const cubicFamily: ModelFamily = {
   member: cubicModel,
   classify: nameCubicPoint,
 };
+
+export { MAX_ABS_N };
+
+/** Whether a preset at this N is built from explicit tensors (an integer 1…MAX_FIELDS, cubic from 2). */
+export function hasExplicitTensors(preset: 'on' | 'cubic', N: Q): boolean {
+  return N.den === 1n && N.num >= (preset === 'cubic' ? 2n : 1n) && N.num <= BigInt(MAX_FIELDS);
+}
+
+/**
+ * The O(N) or cubic preset at any real N: explicit tensors for small integers (they also give the
+ * quadratic-operator matrix), otherwise the symbolic-N family evaluated exactly at N.
+ */
+export function presetModel(preset: 'on' | 'cubic', N: Q): QuarticModel {
+  if (qCompare(N, q(MAX_ABS_N)) > 0 || qCompare(N, q(-MAX_ABS_N)) < 0) fail('limit', `|N| must be at most ${MAX_ABS_N} (got N = ${exactNumberText(N)})`);
+  if (hasExplicitTensors(preset, N)) return preset === 'on' ? onModel(Number(N.num)) : cubicModel(Number(N.num));
+  if (preset === 'cubic' && N.num === 1n && N.den === 1n) fail('invalid', 'the cubic model needs N ≠ 1 (at N = 1 its two couplings multiply the same structure); use the O(N) preset with N = 1');
+  return familyPointModel(preset, N);
+}
+
+/** The preset's symbolic-N family at N, without tensors (presetModel uses it for every N without explicit tensors). */
+export function familyPointModel(preset: 'on' | 'cubic', N: Q): QuarticModel {
+  const family = preset === 'on' ? onFamily : cubicFamily;
+  const atN = { family, N };
+  const ising = preset === 'on' && N.num === 1n && N.den === 1n;
+  return { label: familyPointLabel(atN), fields: 0, couplings: family.couplings, basis: [], scales: [], classify: (values) => nameONPointOr(ising, family, values), atN };
+}
+
+function nameONPointOr(ising: boolean, family: ModelFamily, values: readonly number[]): string {
+  return ising ? nameONPoint(1, values) : family.classify(values);
+}

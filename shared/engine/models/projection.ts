@@ -48,7 +48,7 @@ export function projectOntoCouplings(model: QuarticModel, x: Tensor, what: strin
   const weights = c.map((ck, k) => qMul(ck, model.scales[k]));
   for (let i = 0; i < x.data.length; i++) {
     let fitted = Q0;
-    for (let k = 0; k < weights.length; k++) if (model.basis[k].data[i] !== 0) fitted = qAdd(fitted, qMul(weights[k], q(model.basis[k].data[i])));
+    for (let k = 0; k < weights.length; k++) if (model.basis[k].data[i] !== 0n) fitted = qAdd(fitted, qMul(weights[k], q(model.basis[k].data[i])));
     if (!qIsZero(qSub(q(x.data[i]), fitted))) {
       fail('invalid', `${what} generates a quartic structure outside the couplings ${model.couplings.join(', ')} of ${model.label}; add a coupling for it`);
     }
@@ -59,7 +59,7 @@ export function projectOntoCouplings(model: QuarticModel, x: Tensor, what: strin
 /** Coefficient c with X = c·δ for a two-index tensor; fails if X is not proportional to δ. */
 export function projectOntoIdentity(x: Tensor, what: string): Q {
   const n = x.n;
-  let trace = 0;
+  let trace = 0n;
   for (let a = 0; a < n; a++) trace += x.data[a * n + a];
   const c = q(trace, n);
   for (let a = 0; a < n; a++) for (let b = 0; b < n; b++) {

@@ -1,5 +1,4 @@
-import { type PadeApproximant, evaluatePade, padeApproximant, polesInInterval } from '../pade/pade';
-import { EngineError } from '../precision/errors';
+import { checkedPade } from '../pade/pade';
 import { type Real, GUARD_DIGITS, realContext } from '../precision/real';
 import { type Q, q, qMul, qSub } from '../symbolic/rational';
 
@@ -67,50 +66,27 @@ export function truncatedValue(coefficients: Real[], eps: Real, order: number, d
   return new (realContext(digits))(sum).toSignificantDigits(digits);
 }
 
-const shortNumber = (x: Real) => new (realContext(6))(x).toSignificantDigits(6).toString();
-
 /**
- * The [L/M] approximant at ε > 0, or null with the reason: an approximant with a pole in (0, ε] is not
- * continued from ε = 0 to the physical ε, so its value there means nothing.
+ * The [L/M] approximant at ε, or null with the reason: an approximant with a pole between 0 and ε (or a
+ * denominator changing sign there) is not continued from ε = 0 to the physical ε, so its value there
+ * means nothing. The same check as every other Padé value (checkedPade).
  */
 export function padeVariant(coefficients: Real[], L: number, M: number, eps: Real, digits: number): VariantValue {
-  try {
-    const approximant = padeApproximant(coefficients.slice(0, L + M + 1), L, M, digits);
-    const pole = eps.gt(0) ? poleIn(approximant, eps, digits) : null;
-    if (pole) return { value: null, defect: `pole at ε = ${shortNumber(pole)}` };
-    return { value: evaluatePade(approximant, eps, digits) };
-  } catch (error) {
-    if (!(error instanceof EngineError)) throw error;
-    return { value: null, defect: error.code === 'singular' ? 'degenerate approximant (a vanishing coefficient)' : error.message };
-  }
-}
-
-function denominatorAt(approximant: PadeApproximant, x: Real): Real {
-  return approximant.denominator.reduceRight((sum, c) => sum.times(x).plus(c), x.mul(0));
+  const checked = checkedPade(coefficients, L, M, eps, digits);
+  return checked.value !== null ? { value: checked.value } : { value: null, defect: checked.reason ?? 'defective approximant' };
 }
 
 /**
- * The first zero of the denominator Q in (0, ε], or null. Q(0) = 1, so for M ≤ 2 a zero lies there
- * exactly when Q(ε) ≤ 0 or, for a convex quadratic, when its minimum inside is ≤ 0; only then is it
- * located (by polesInInterval, or at the minimum for a double zero the sign-change search cannot see).
+ * Every variant at one ε from the series coefficients c_0 … c_loops at that s. `truncatedAt(order)`
+ * gives a truncation's value when the printed value is not the quantity's own truncated series
+ * (e.g. ν = 1/(1/ν truncated at that order)); without it the series is truncated.
  */
-function poleIn(approximant: PadeApproximant, eps: Real, digits: number): Real | null {
-  const located = () => polesInInterval(approximant, 0, eps, digits).find((p) => p.gt(0)) ?? null;
-  if (approximant.M > 2) return located();
-  if (!denominatorAt(approximant, eps).gt(0)) return located() ?? eps;
-  if (approximant.M < 2) return null;
-  const [, q1, q2] = approximant.denominator;
-  if (!q2.gt(0)) return null;
-  const vertex = q1.neg().div(q2.times(2));
-  if (!vertex.gt(0) || !vertex.lt(eps) || denominatorAt(approximant, vertex).gt(0)) return null;
-  return located() ?? vertex;
-}
-
-/** Every variant at one ε from the series coefficients c_0 … c_loops at that s. */
-export function variantValues(variants: VariantSpec[], coefficients: Real[], eps: Real, digits: number): Record<string, VariantValue> {
-  return Object.fromEntries(
-    variants.map((v) => [v.key, v.kind === 'truncated' ? { value: truncatedValue(coefficients, eps, v.order, digits) } : padeVariant(coefficients, v.L ?? 0, v.M ?? 1, eps, digits)]),
-  );
+export function variantValues(variants: VariantSpec[], coefficients: Real[], eps: Real, digits: number, truncatedAt?: (order: number) => Real | null): Record<string, VariantValue> {
+  const truncation = (order: number): VariantValue => {
+    const value = truncatedAt ? truncatedAt(order) : truncatedValue(coefficients, eps, order, digits);
+    return value === null ? { value: null, defect: 'undefined at this order (its relation divides by zero)' } : { value };
+  };
+  return Object.fromEntries(variants.map((v) => [v.key, v.kind === 'truncated' ? truncation(v.order) : padeVariant(coefficients, v.L ?? 0, v.M ?? 1, eps, digits)]));
 }
 
 /**

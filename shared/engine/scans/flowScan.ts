@@ -1,14 +1,17 @@
 import { numericCalculus } from '../diagrams/calculus';
 import { type DerivedFlow } from '../diagrams/renormalization';
-import { exactLongRangeValue, exponentSeries, meanFieldReals, type Quantity } from '../exponents/exponents';
+import { type Quantity, exponentSeriesPartial, powerCoefficients } from '../exponents/exponents';
+import { fixedPointNotices, scanRegimeNotices } from '../exponents/notices';
+import { type Crossover } from '../exponents/shortRange';
 import { type FixedPoint, findFixedPoints } from '../fixedpoints/fixedPoints';
 import { type CouplingPolynomial } from '../models/couplingPolynomial';
 import { type ModelSpec } from '../models/model';
 import { EngineError } from '../precision/errors';
-import { type Real, GUARD_DIGITS, rationalToReal, realContext } from '../precision/real';
+import { type Real } from '../precision/real';
+import { type LaurentSeries } from '../series/laurent';
 import { type Expression } from '../symbolic/expression';
 import { type Q, q, qCompare } from '../symbolic/rational';
-import { type ScanPoint, evaluateAtPoint, padeValue, walkGrid } from './scan';
+import { type ExternalPoint, type PrimaryCoefficients, type ScanPoint, evaluateAtPoint, isShortRangePoint, meanFieldPoint, padeFields, printedValues, scanPade, walkGrid } from './scan';
 
 /**
  * Scans of models with several couplings: the flow is derived once symbolically in s; at each
@@ -25,6 +28,10 @@ export interface FlowScanRequest {
   quantities: readonly Quantity[];
   digits: number;
   shortRangeS: Q | null;
+  /** Where s* came from (for the notices). */
+  crossover?: Crossover | null;
+  /** The point s = 2 (the short-range theory), from the flow derived there. */
+  shortRangePoint?: (eps: Q) => ExternalPoint;
   /** Picks the fixed point at a grid point (throws EngineError when none fits). */
   choose: (points: FixedPoint<Real>[]) => FixedPoint<Real>;
   onProgress?: (fraction: number) => void;
@@ -63,35 +70,48 @@ export function flowAtS(flow: DerivedFlow<Expression>, s: Q, digits: number): De
 }
 
 export function scanFlow(request: FlowScanRequest): FlowScanPoint[] {
-  const out = realContext(request.digits);
-  return walkGrid(request, (s, eps, regime) => {
+  const crossover = request.crossover ?? null;
+  return walkGrid(request, (s, eps, regime): FlowScanPoint => {
     if (regime === 'mean-field') {
       // s ≤ d/2: the Gaussian point is IR-stable and the mean-field values are exact (no series at ε ≤ 0)
-      const work = request.digits + GUARD_DIGITS;
-      const mf = meanFieldReals(rationalToReal(request.d, work), rationalToReal(s, work));
-      return { s, eps, regime, values: request.quantities.map((k) => new out(mf[k]).toSignificantDigits(request.digits)), pade: request.quantities.map(() => null), fixedPoint: 'Gaussian', note: 'mean-field (Gaussian) values, exact for s ≤ d/2' };
+      return { ...meanFieldPoint(request.d, s, eps, request.quantities, request.digits, crossover), fixedPoint: 'Gaussian', note: 'mean-field (Gaussian) values, exact for s ≤ d/2' };
+    }
+    const regimeNotices = scanRegimeNotices(request.d, s, crossover);
+    if (request.shortRangePoint && isShortRangePoint(s)) {
+      try {
+        const { fixedPoint, ...external } = request.shortRangePoint(eps);
+        return { s, eps, regime, ...external, notices: [...regimeNotices, ...external.notices], fixedPoint };
+      } catch (e) {
+        if (!(e instanceof EngineError)) throw e;
+        return { s, eps, regime, values: request.quantities.map(() => null), pade: request.quantities.map(() => null), notices: regimeNotices, fixedPoint: null, note: e.message };
+      }
     }
     const flow = flowAtS(request.flow, s, request.digits);
     const { ring } = flow.calculus.ctx;
     const epsReal = ring.fromRational(eps.num, eps.den);
-    const empty = { s, eps, regime, values: [] as Real[], pade: [] as (Real | null)[] } as const;
+    const empty = { s, eps, regime, values: request.quantities.map(() => null), pade: request.quantities.map(() => null), notices: regimeNotices };
     try {
       // at ε ≤ 0 there is no non-trivial root to polish: choose by the ε-series (leading-order stability)
       const positive = qCompare(eps, q(0)) > 0;
       const points = findFixedPoints(request.model, flow, { eps: positive ? epsReal : null });
       const point = request.choose(points);
-      const series = exponentSeries(flow, point);
-      const values: Real[] = [];
-      const pade: (Real | null)[] = [];
-      const kept: Real[][] = [];
-      for (const k of request.quantities) {
-        const coeffs = series[k].coefficients();
-        if (request.keepCoefficients) kept.push(coeffs);
-        const exact = exactLongRangeValue(k, ring.fromRational(request.d.num, request.d.den), ring.fromRational(s.num, s.den), () => series.nu.evaluate(epsReal));
-        values.push(new out(exact ?? series[k].evaluate(epsReal)).toSignificantDigits(request.digits));
-        pade.push(padeValue(coeffs, epsReal, request.digits));
-      }
-      return { ...empty, values, pade, fixedPoint: point.name, ...(request.keepCoefficients ? { coefficients: kept } : {}) };
+      const { series, unavailable } = exponentSeriesPartial(flow, point);
+      const coefficient = (k: Quantity) => (series[k] ? powerCoefficients(series[k] as LaurentSeries<Real>) : null);
+      const primaries: PrimaryCoefficients = { nuInv: coefficient('nuInv'), omega: coefficient('omega') as Real[], eta: coefficient('eta') as Real[] };
+      const values = printedValues(request.quantities, primaries, request.d, s, epsReal, request.digits);
+      const kept = request.quantities.map((k) => coefficient(k));
+      const checked = kept.map((c) => (c ? scanPade(c, epsReal, request.digits) : null));
+      const notices = [...regimeNotices, ...fixedPointNotices(point, positive)];
+      const missing = request.quantities.find((k) => unavailable[k]);
+      return {
+        ...empty,
+        values,
+        ...padeFields(checked),
+        notices,
+        fixedPoint: point.name,
+        ...(missing ? { note: unavailable[missing] } : {}),
+        ...(request.keepCoefficients ? { coefficients: kept.map((c) => c ?? []), primaryCoefficients: primaries } : {}),
+      };
     } catch (e) {
       if (!(e instanceof EngineError)) throw e;
       return { ...empty, fixedPoint: null, note: e.message };

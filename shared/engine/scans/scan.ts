@@ -3,8 +3,12 @@ import { evaluateAtom } from '../symbolic/evaluate';
 import { type Expression, atomKey } from '../symbolic/expression';
 import { type Q, qCompare, qSub, qMul, q } from '../symbolic/rational';
 import { ratEvaluate } from '../symbolic/ratfunc';
-import { evaluatePade, padeApproximant } from '../pade/pade';
-import { type Quantity, exactLongRangeValue, meanFieldReals } from '../exponents/exponents';
+import { type CheckedPade, checkedPade } from '../pade/pade';
+import { type Quantity, meanFieldReals, valuesFromPrimaries } from '../exponents/exponents';
+import { type Notice, scanRegimeNotices } from '../exponents/notices';
+import { type Crossover, crossoverS } from '../exponents/shortRange';
+
+export { crossoverS };
 
 /**
  * Evaluate exponent series whose coefficients are symbolic in s at many values of s: derived
@@ -17,12 +21,41 @@ export interface CompiledSeries {
 export interface ScanPoint {
   s: Q;
   eps: Q;
-  /** 'mean-field' for s ≤ d/2, 'short-range' for s ≥ s*, otherwise 'long-range'. */
+  /** 'mean-field' for s ≤ d/2, 'short-range' for s ≥ s* and at s = 2, otherwise 'long-range'. */
   regime: 'mean-field' | 'long-range' | 'short-range';
-  values: Real[];
+  values: (Real | null)[];
+  /** The [L/1] approximant with L = order − 1 of each series, null where it has no value (see padeDefects). */
   pade: (Real | null)[];
+  /** Why a Padé value is missing (a pole between 0 and ε, a degenerate approximant); null where it has one. */
+  padeDefects?: (string | null)[];
   /** With `keepCoefficients`: per quantity, the ε-series coefficients c_0, c_1, … evaluated at this s (working precision); absent at mean-field points. */
   coefficients?: Real[][];
+  /** With `keepCoefficients` and `primaries`: the coefficients of 1/ν, ω and η, from which every printed value follows. */
+  primaryCoefficients?: PrimaryCoefficients;
+  /** What this point's values must be read with (regime, caveats of the fixed point). */
+  notices: Notice[];
+}
+
+export interface PrimaryCoefficients {
+  nuInv: Real[] | null;
+  omega: Real[];
+  eta: Real[];
+}
+
+/** The series of 1/ν (null when unavailable), ω and η: every printed value is computed from their values. */
+export interface PrimarySeries {
+  nuInv: CompiledSeries | null;
+  omega: CompiledSeries;
+  eta: CompiledSeries;
+}
+
+/** A point computed elsewhere (the s = 2 point, from the flow derived at s = 2). */
+export interface ExternalPoint {
+  values: (Real | null)[];
+  pade: (Real | null)[];
+  padeDefects: (string | null)[];
+  notices: Notice[];
+  fixedPoint: string;
 }
 
 export function evaluateAtPoint(e: Expression, at: Record<string, Q>, digits: number, atoms: Map<string, Real>): Real {
@@ -47,35 +80,42 @@ export function evaluateAtPoint(e: Expression, at: Record<string, Q>, digits: nu
 export interface ScanRequest {
   d: Q;
   sValues: Q[];
+  /** The series of each requested quantity (its Padé approximant and, without `primaries`, its value). */
   series: CompiledSeries[];
   /** What each series is; with it, points with s ≤ d/2 get the exact mean-field values (no Padé). */
   quantities?: readonly Quantity[];
-  /** The ν series: with quantities, δ and β take their exact long-range values for s < 2 (β = ν·(d − s)/2). */
-  nu?: CompiledSeries;
+  /** With quantities: values follow from 1/ν, ω and η by the stated relations (valuesFromPrimaries). */
+  primaries?: PrimarySeries;
+  /** One coupling: β = −εu + quadratic·u² + cubic·u³; a point where this truncated β has no real root is noted. */
+  beta?: { quadratic: Expression; cubic: Expression | null };
   digits: number;
   shortRangeS: Q | null;
+  /** Where s* came from (for the notices); its sStar equals shortRangeS. */
+  crossover?: Crossover | null;
   /** Also evaluate the [L/1] Padé approximant at each point (default true). */
   withPade?: boolean;
   /** Told the fraction of points done, about a hundred times per scan. */
   onProgress?: (fraction: number) => void;
   /** Keep each point's numeric series coefficients (ScanPoint.coefficients), e.g. for truncations and Padé variants. */
   keepCoefficients?: boolean;
+  /** The point s = 2 (the short-range theory), computed from the flow derived there; without it s = 2 uses the series in s. */
+  shortRangePoint?: (eps: Q) => ExternalPoint;
 }
 
 export function meanFieldEnd(d: Q): Q {
   return qMul(d, q(1, 2));
 }
 
-/** s* = d − 2Δσ of the short-range theory (crossover to short-range behaviour). */
-export function crossoverS(d: Q, deltaSigma: Q): Q {
-  return qSub(d, qMul(q(2), deltaSigma));
-}
-
 export type Regime = ScanPoint['regime'];
+
+/** s = 2 is the short-range (local) theory. */
+export function isShortRangePoint(s: Q): boolean {
+  return qCompare(s, q(2)) >= 0;
+}
 
 /**
  * Visit every s of a scan grid with its ε = 2s − d and regime (mean-field for s ≤ d/2, short-range
- * for s ≥ s*), reporting progress about a hundred times.
+ * for s ≥ s* and at s = 2), reporting progress about a hundred times.
  */
 export function walkGrid<T>(
   grid: { d: Q; sValues: Q[]; shortRangeS: Q | null; onProgress?: (fraction: number) => void },
@@ -86,52 +126,101 @@ export function walkGrid<T>(
   const reportEvery = Math.max(1, Math.floor(total / 100));
   return grid.sValues.map((s, index) => {
     if (grid.onProgress && index % reportEvery === 0) grid.onProgress(index / total);
-    const regime: Regime = qCompare(s, half) <= 0 ? 'mean-field' : grid.shortRangeS && qCompare(s, grid.shortRangeS) >= 0 ? 'short-range' : 'long-range';
+    const beyond = isShortRangePoint(s) || (grid.shortRangeS !== null && qCompare(s, grid.shortRangeS) >= 0);
+    const regime: Regime = qCompare(s, half) <= 0 ? 'mean-field' : beyond ? 'short-range' : 'long-range';
     return visit(s, qSub(qMul(q(2), s), grid.d), regime);
   });
 }
 
+/** The exact mean-field values of the quantities at s ≤ d/2 (no Padé there). */
+export function meanFieldPoint(d: Q, s: Q, eps: Q, quantities: readonly Quantity[], digits: number, crossover: Crossover | null): ScanPoint {
+  const work = digits + GUARD_DIGITS;
+  const out = realContext(digits);
+  const mf = meanFieldReals(rationalToReal(d, work), rationalToReal(s, work));
+  return {
+    s,
+    eps,
+    regime: 'mean-field',
+    values: quantities.map((k) => new out(mf[k]).toSignificantDigits(digits)),
+    pade: quantities.map(() => null),
+    notices: scanRegimeNotices(d, s, crossover),
+  };
+}
+
 export function scanSeries(request: ScanRequest): ScanPoint[] {
   const work = request.digits + GUARD_DIGITS;
-  const R = realContext(work);
-  const out = realContext(request.digits);
+  const crossover = request.crossover ?? null;
   return walkGrid(request, (s, eps, regime) => {
-    if (regime === 'mean-field' && request.quantities) {
-      const mf = meanFieldReals(rationalToReal(request.d, work), rationalToReal(s, work));
-      return { s, eps, regime, values: request.quantities.map((k) => new out(mf[k]).toSignificantDigits(request.digits)), pade: request.quantities.map(() => null) };
+    if (regime === 'mean-field' && request.quantities) return meanFieldPoint(request.d, s, eps, request.quantities, request.digits, crossover);
+    if (request.shortRangePoint && isShortRangePoint(s)) {
+      const { fixedPoint: _name, ...external } = request.shortRangePoint(eps);
+      return { s, eps, regime, ...external, notices: [...scanRegimeNotices(request.d, s, crossover), ...external.notices] };
     }
     const atoms = new Map<string, Real>();
     const at = { s };
     const epsReal = rationalToReal(eps, work);
-    const values: Real[] = [];
-    const pade: (Real | null)[] = [];
-    const kept: Real[][] = [];
-    for (const series of request.series) {
-      const coeffs = series.coefficients.map((c) => evaluateAtPoint(c, at, work, atoms));
-      if (request.keepCoefficients) kept.push(coeffs);
-      let v = new R(0);
-      for (let k = coeffs.length - 1; k >= 0; k--) v = v.times(epsReal).plus(coeffs[k]);
-      values.push(new out(v).toSignificantDigits(request.digits));
-      pade.push(request.withPade === false ? null : padeValue(coeffs, epsReal, request.digits));
-    }
-    if (request.quantities && request.nu) {
-      const nuCoeffs = request.nu.coefficients.map((c) => evaluateAtPoint(c, at, work, atoms));
-      const nu = () => nuCoeffs.reduceRight((v, c) => v.times(epsReal).plus(c), new R(0));
-      request.quantities.forEach((k, i) => {
-        const exact = exactLongRangeValue(k, rationalToReal(request.d, work), rationalToReal(s, work), nu);
-        if (exact) values[i] = new out(exact).toSignificantDigits(request.digits);
-      });
-    }
-    return request.keepCoefficients ? { s, eps, regime, values, pade, coefficients: kept } : { s, eps, regime, values, pade };
+    const evaluate = (series: CompiledSeries) => series.coefficients.map((c) => evaluateAtPoint(c, at, work, atoms));
+    const coefficients = request.series.map(evaluate);
+    const primaries = request.quantities && request.primaries ? evaluatePrimaries(request.primaries, evaluate) : null;
+    const values = primaries ? printedValues(request.quantities as readonly Quantity[], primaries, request.d, s, epsReal, request.digits) : coefficients.map((c) => rounded(sumAt(c, epsReal), request.digits));
+    const padeOf = coefficients.map((c) => (request.withPade === false ? null : scanPade(c, epsReal, request.digits)));
+    const notices = [...scanRegimeNotices(request.d, s, crossover), ...oneCouplingNotices(request, primaries, at, epsReal, atoms, work)];
+    return {
+      s,
+      eps,
+      regime,
+      values,
+      ...padeFields(padeOf),
+      notices,
+      ...(request.keepCoefficients ? { coefficients, ...(primaries ? { primaryCoefficients: primaries } : {}) } : {}),
+    };
   });
 }
 
-/** [1/1] (or [L/1] with L = order − 1) at ε, or null when degenerate. */
-export function padeValue(coeffs: Real[], eps: Real, digits: number): Real | null {
-  if (coeffs.length < 3) return null;
-  try {
-    return evaluatePade(padeApproximant(coeffs, coeffs.length - 2, 1, digits), eps, digits);
-  } catch {
-    return null;
+function evaluatePrimaries(primaries: PrimarySeries, evaluate: (series: CompiledSeries) => Real[]): PrimaryCoefficients {
+  return { nuInv: primaries.nuInv ? evaluate(primaries.nuInv) : null, omega: evaluate(primaries.omega), eta: evaluate(primaries.eta) };
+}
+
+/** Σ c_k ε^k (Horner). */
+export function sumAt(coefficients: Real[], eps: Real): Real {
+  return coefficients.reduceRight((v, c) => v.times(eps).plus(c), eps.mul(0));
+}
+
+function rounded(x: Real, digits: number): Real {
+  return new (realContext(digits))(x).toSignificantDigits(digits);
+}
+
+/** The printed values of the requested quantities from the primaries truncated at `order` (all of them by default). */
+export function printedValues(quantities: readonly Quantity[], primaries: PrimaryCoefficients, d: Q, s: Q, eps: Real, digits: number, order = Infinity): (Real | null)[] {
+  const work = digits + GUARD_DIGITS;
+  const truncated = (c: Real[]) => sumAt(c.slice(0, order + 1), eps);
+  const values = valuesFromPrimaries({ nuInv: primaries.nuInv ? truncated(primaries.nuInv) : null, omega: truncated(primaries.omega), eta: truncated(primaries.eta) }, rationalToReal(d, work), rationalToReal(s, work));
+  return quantities.map((k) => (values[k] === null ? null : rounded(values[k] as Real, digits)));
+}
+
+/** The [L/1] approximant with L = order − 1, checked between 0 and ε (null without enough coefficients). */
+export function scanPade(coefficients: Real[], eps: Real, digits: number): CheckedPade | null {
+  if (coefficients.length < 2) return null;
+  return checkedPade(coefficients, coefficients.length - 2, 1, eps, digits);
+}
+
+export function padeFields(checked: (CheckedPade | null)[]): Pick<ScanPoint, 'pade' | 'padeDefects'> {
+  const pade = checked.map((c) => c?.value ?? null);
+  const defects = checked.map((c) => c?.reason ?? null);
+  return defects.some((r) => r !== null) ? { pade, padeDefects: defects } : { pade };
+}
+
+/**
+ * One coupling: the truncated β at this ε has no real non-trivial root when
+ * quadratic² + 4·cubic·ε < 0 (the fixed point is complex there), and the point is not IR-stable when ω ≤ 0.
+ */
+function oneCouplingNotices(request: ScanRequest, primaries: PrimaryCoefficients | null, at: Record<string, Q>, eps: Real, atoms: Map<string, Real>, work: number): Notice[] {
+  const notices: Notice[] = [];
+  if (request.beta?.cubic) {
+    const b2 = evaluateAtPoint(request.beta.quadratic, at, work, atoms);
+    const b3 = evaluateAtPoint(request.beta.cubic, at, work, atoms);
+    if (b2.times(b2).plus(b3.times(eps).times(4)).isNegative()) notices.push({ kind: 'complex-at-eps', message: 'the fixed point is complex there: the truncated β has no real root at that ε. The values are the truncated ε-series of its real branch.' });
   }
+  if (primaries && !sumAt(primaries.omega, eps).isPositive()) notices.push({ kind: 'not-ir-stable', message: 'ω ≤ 0: the fixed point is not IR-stable there.' });
+  return notices;
 }

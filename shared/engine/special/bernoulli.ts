@@ -14,7 +14,7 @@ export const MAX_BERNOULLI_INDEX = 5000;
 
 function ensureTangentNumbers(count: number): void {
   if (tangentNumbers.length > count) return;
-  const n = Math.max(count, 2 * (tangentNumbers.length - 1), 16);
+  const n = Math.max(count, Math.ceil(1.25 * (tangentNumbers.length - 1)), 16);
   const t: bigint[] = new Array(n + 1).fill(0n);
   t[1] = 1n;
   for (let k = 2; k <= n; k++) t[k] = BigInt(k - 1) * t[k - 1];

@@ -1,7 +1,10 @@
-import { type ExactRational, type Fixed, changeBits, div, fromInteger, fromRational, mul, one } from '../precision/fixed';
+import { type ExactRational, type Fixed, changeBits, div, fromRational, mul, one, sqrt } from '../precision/fixed';
 import { fail } from '../precision/errors';
+import { CoefficientCache, hornerInverseSquare, log2AbsBernoulli, log2AbsRational, requireTerms, termsForBudget } from './asymptotic';
 import { bernoulliEvenUnreduced } from './bernoulli';
-import { eulerGammaFixed, expFixedSplit, ln2Fixed, lnFixedPositive, piFixed } from './constants';
+import { cachedConstant, eulerGammaFixed, ln2Fixed, piFixed } from './constants';
+import { expFixedSplit, lnFixedPositive, lnRational } from './elementary';
+import { type BigFloat, bitLen, floatDiv, floatFromInteger, floatFromRational, floatMul, trim } from './float';
 import { bitsNearInteger, sinCosPi } from './trigonometric';
 import { zetaTableFixed } from './zeta';
 
@@ -174,91 +177,148 @@ export function reciprocalGammaNearOne(tNum: bigint, den: bigint, bits: number, 
 // ---------------------------------------------------------------------------------------------
 // Stirling series: ln Γ(z) = (z−½)ln z − z + ½ln(2π) + Σ_k B_{2k}/(2k(2k−1) z^{2k−1})  (DLMF 5.11.1)
 
-interface StirlingTable {
-  coeffs: Fixed[]; // index k ≥ 1
-  log2Abs: number[];
-  halfLogTwoPi: Fixed;
-}
-const stirlingTables = new Map<number, StirlingTable>();
+const stirlingCoefficients = new CoefficientCache(
+  (k) => {
+    const b = bernoulliEvenUnreduced(2 * k);
+    return { num: b.num, den: b.den * BigInt(2 * k * (2 * k - 1)) };
+  },
+  (k) => log2AbsBernoulli(k) - Math.log2(2 * k * (2 * k - 1)),
+);
 
-function stirlingTable(bits: number, terms: number): StirlingTable {
-  let table = stirlingTables.get(bits);
-  if (!table || table.coeffs.length <= terms) {
-    const coeffs: Fixed[] = [0n];
-    const log2Abs: number[] = [0];
-    const size = Math.max(terms + 1, table ? 2 * table.coeffs.length : 32);
-    for (let k = 1; k < size; k++) {
-      const b = bernoulliEvenUnreduced(2 * k);
-      const den = b.den * BigInt(2 * k * (2 * k - 1));
-      coeffs.push(fromRational(b.num, den, bits));
-      log2Abs.push(log2AbsRational(b.num, den));
-    }
-    const pi = piFixed(bits + 8);
-    const halfLogTwoPi = changeBits(lnFixedPositive(2n * pi, bits + 8) / 2n, bits + 8, bits);
-    table = { coeffs, log2Abs, halfLogTwoPi };
-    stirlingTables.set(bits, table);
-  }
-  return table;
-}
+const halfLnTwoPi = cachedConstant((bits) => lnFixedPositive(2n * piFixed(bits), bits) / 2n);
+const sqrtPi = cachedConstant((bits) => sqrt(piFixed(bits), bits));
 
-export function log2AbsRational(num: bigint, den: bigint): number {
-  const a = num < 0n ? -num : num;
-  const na = a.toString(2).length;
-  const nd = den.toString(2).length;
-  const sa = Number(a >> BigInt(Math.max(0, na - 53))) * 2 ** 0;
-  const sd = Number(den >> BigInt(Math.max(0, nd - 53)));
-  return Math.log2(sa) + Math.max(0, na - 53) - Math.log2(sd) - Math.max(0, nd - 53);
-}
-
-/** Smallest shift target Z for which the Stirling/Bernoulli series reaches 2^-bits. */
+/**
+ * Shift target for the asymptotic series at `bits`: with z ≥ 0.4·bits the smallest Stirling term is
+ * far below 2^-bits and a few hundred terms suffice at 1000 digits (fewer terms cost more shift).
+ */
 export function asymptoticThreshold(bits: number): number {
-  return Math.max(12, Math.ceil(0.25 * bits));
+  return Math.max(12, Math.ceil(0.4 * bits));
 }
 
-/** ln Γ(z) for z ≥ asymptoticThreshold(bits), z given exactly. */
-function lnGammaStirling(z: ExactRational, bits: number): Fixed {
-  const work = bits + 16;
-  const zf = fromRational(z.num, z.den, work);
-  const w = fromRational(z.den, z.num, work);
-  const w2 = mul(w, w, work);
-  const log2z = log2AbsRational(z.num, z.den);
-  let terms = 1;
-  let table = stirlingTable(work, 64);
-  for (;; terms++) {
-    if (terms >= table.coeffs.length - 1) table = stirlingTable(work, terms * 2);
-    const est = table.log2Abs[terms] - (2 * terms - 1) * log2z;
-    if (est < -work) break;
-    if (terms > 4 * work) fail('limit', 'Stirling series did not converge');
-  }
-  let sum = 0n;
-  for (let k = terms; k >= 1; k--) sum = mul(sum, w2, work) + table.coeffs[k];
-  sum = mul(sum, w, work);
-  const lnz = lnFixedPositive(zf, work);
-  const half = one(work) >> 1n;
-  const value = mul(zf - half, lnz, work) - zf + table.halfLogTwoPi + sum;
+/** ln Γ(z) for z = P/Q ≥ asymptoticThreshold(bits), absolute error a few units of 2^-bits. */
+function lnGammaStirling(P: bigint, Q: bigint, bits: number): Fixed {
+  const work = bits + 8;
+  const log2z = log2AbsRational(P, Q);
+  const terms = requireTerms(termsForBudget(stirlingCoefficients, log2z, -work - 6, -1));
+  const series = hornerInverseSquare(stirlingCoefficients, terms, P, Q, work);
+  const sum = (series * Q) / P;
+  // (z−½)·ln z needs ln z to log2(z) more bits
+  const lnBits = work + Math.max(0, Math.ceil(log2z)) + 2;
+  const lnz = lnRational(P, Q, lnBits);
+  const main = changeBits((lnz * (2n * P - Q)) / (2n * Q), lnBits, work);
+  const value = main - fromRational(P, Q, work) + halfLnTwoPi(work) + sum;
   return changeBits(value, work, bits);
 }
+
+/** Π_{j=lo}^{hi−1} (a + j·d) by binary splitting (small factors are multiplied as doubles first). */
+export function arithmeticProduct(a: bigint, d: bigint, lo: bigint, hi: bigint): bigint {
+  if (hi <= lo) return 1n;
+  const largest = a + (hi - 1n) * d;
+  if (a >= 0n && largest < 1n << 26n) return smallArithmeticProduct(Number(a), Number(d), Number(lo), Number(hi));
+  if (hi - lo <= 8n) {
+    let p = 1n;
+    for (let j = lo; j < hi; j++) p *= a + j * d;
+    return p;
+  }
+  const mid = (lo + hi) >> 1n;
+  return arithmeticProduct(a, d, lo, mid) * arithmeticProduct(a, d, mid, hi);
+}
+
+/** The same product when every factor is below 2^26: pairs of factors fit a double exactly. */
+function smallArithmeticProduct(a: number, d: number, lo: number, hi: number): bigint {
+  const words: bigint[] = [];
+  let word = 1;
+  for (let j = lo; j < hi; j++) {
+    const factor = a + j * d;
+    if (word * factor >= 2 ** 53) {
+      words.push(BigInt(word));
+      word = factor;
+    } else word *= factor;
+  }
+  words.push(BigInt(word));
+  return productTree(words, 0, words.length);
+}
+
+function productTree(values: bigint[], lo: number, hi: number): bigint {
+  if (hi - lo === 1) return values[lo];
+  const mid = (lo + hi) >> 1;
+  return productTree(values, lo, mid) * productTree(values, mid, hi);
+}
+
+/** Largest exact product (in bits) formed for the recurrence Γ(x) = Γ(x+N)/Π(x+j); beyond it, floats. */
+const EXACT_PRODUCT_MAX_BITS = 1 << 20;
+
+/** Π_{j<N} (x+j) for x = P0/Q as a float with `prec` bits. */
+function risingFactorial(P0: bigint, Q: bigint, N: bigint, prec: number): BigFloat {
+  if (N === 0n) return { man: 1n, exp: 0 };
+  const last = P0 + (N - 1n) * Q;
+  const estimate = Number(N) * Math.max(bitLen(last), 1) + Number(N) * bitLen(Q);
+  if (estimate <= EXACT_PRODUCT_MAX_BITS) {
+    const num = floatFromInteger(arithmeticProduct(P0, Q, 0n, N), prec + 8);
+    const den = isPowerOfTwo(Q) ? { man: 1n, exp: (bitLen(Q) - 1) * Number(N) } : floatFromInteger(Q ** N, prec + 8);
+    return floatDiv(num, den, prec);
+  }
+  let acc: BigFloat = { man: 1n, exp: 0 };
+  for (let j = 0n; j < N; j++) acc = floatMul(acc, floatFromRational(P0 + j * Q, Q, prec + 8), prec + 8);
+  return trim(acc, prec);
+}
+
+function isPowerOfTwo(n: bigint): boolean {
+  return (n & (n - 1n)) === 0n;
+}
+
+/** Upward shift N so that x + N reaches the asymptotic threshold. */
+function shiftFor(x: ExactRational, bits: number): bigint {
+  const threshold = BigInt(asymptoticThreshold(bits));
+  return x.num < threshold * x.den ? threshold - x.num / x.den : 0n;
+}
+
+/** Γ(x) for x > 0: exp of the Stirling series at x + N, divided by Π_{j<N}(x+j). */
+function gammaByStirling(x: ExactRational, bits: number): ScaledFixed {
+  const work = bits + 16;
+  const N = shiftFor(x, work);
+  const [m, e] = expFixedSplit(lnGammaStirling(x.num + N * x.den, x.den, work), work);
+  const value = floatDiv({ man: m, exp: Number(e) - work }, risingFactorial(x.num, x.den, N, work), work);
+  return scaledFromFloat(value, bits);
+}
+
+export function scaledFromFloat(v: BigFloat, bits: number): ScaledFixed {
+  const shift = bitLen(v.man) - 1 - bits;
+  const mant = shift >= 0 ? v.man >> BigInt(shift) : v.man << BigInt(-shift);
+  return { mant, exp2: BigInt(v.exp + shift + bits) };
+}
+
+/** Γ(k+½) = √π·(2k−1)!!/2^k and Γ(½−k) = √π·(−2)^k/(2k−1)!!  (DLMF 5.4.6). */
+function gammaHalfInteger(x: ExactRational, bits: number): ScaledFixed {
+  const work = bits + 8;
+  const k = x.num > 0n ? (x.num - 1n) / 2n : (1n - x.num) / 2n;
+  const doubleFactorial = floatFromInteger(arithmeticProduct(1n, 2n, 0n, k), work);
+  const root: BigFloat = { man: sqrtPi(work), exp: -work };
+  const value = x.num > 0n ? floatMul(root, doubleFactorial, work) : floatDiv(root, doubleFactorial, work);
+  const scaled = scaledFromFloat(value, bits);
+  const negative = x.num < 0n && k % 2n === 1n;
+  return { mant: negative ? -scaled.mant : scaled.mant, exp2: scaled.exp2 + (x.num > 0n ? -k : k) };
+}
+
+/** Half-integers and integers up to this size are computed exactly (products by binary splitting). */
+const EXACT_ARGUMENT_MAX = 4000n;
 
 // ---------------------------------------------------------------------------------------------
 
 /** Γ(x) for exact rational x (not a pole), relative accuracy about 2^-(bits−8). */
 export function gammaScaled(x: ExactRational, bits: number): ScaledFixed {
   if (isNonPositiveInteger(x)) fail('pole', `Gamma has a pole at ${x.num}`);
+  if (x.den === 2n && (x.num < 0n ? -x.num : x.num) <= 2n * EXACT_ARGUMENT_MAX) return gammaHalfInteger(x, bits);
   if (x.num < 0n) return gammaByReflection(x, bits);
-  if (2n * x.num < x.den) {
+  if (x.den === 1n && x.num <= EXACT_ARGUMENT_MAX) return scaledFromFloat(floatFromInteger(arithmeticProduct(1n, 1n, 0n, x.num - 1n), bits + 8), bits);
+  if (bits <= TAYLOR_PATH_MAX_BITS && x.num <= TAYLOR_PATH_MAX_X * x.den) {
+    if (2n * x.num >= x.den) return gammaByTaylor(x, bits);
     // Γ(x) = Γ(x+1)/x, dividing by the exact rational keeps relative accuracy for tiny x
-    const g = gammaScaled({ num: x.num + x.den, den: x.den }, bits);
+    const g = gammaByTaylor({ num: x.num + x.den, den: x.den }, bits);
     return { mant: (g.mant * x.den) / x.num, exp2: g.exp2 };
   }
-  if (x.den === 1n && x.num <= 170n) return { mant: fromInteger(factorial(x.num - 1n), bits), exp2: 0n };
-  if (bits <= TAYLOR_PATH_MAX_BITS && x.num <= TAYLOR_PATH_MAX_X * x.den) return gammaByTaylor(x, bits);
   return gammaByStirling(x, bits);
-}
-
-function factorial(n: bigint): bigint {
-  let f = 1n;
-  for (let i = 2n; i <= n; i++) f *= i;
-  return f;
 }
 
 function gammaByTaylor(x: ExactRational, bits: number): ScaledFixed {
@@ -279,28 +339,6 @@ function gammaByTaylor(x: ExactRational, bits: number): ScaledFixed {
   return { mant: changeBits(div(product, r, work), work, bits), exp2: 0n };
 }
 
-function gammaByStirling(x: ExactRational, bits: number): ScaledFixed {
-  const work = bits + 16;
-  const threshold = BigInt(asymptoticThreshold(work));
-  let shift = 0n;
-  if (x.num < threshold * x.den) shift = threshold - x.num / x.den;
-  const z = { num: x.num + shift * x.den, den: x.den };
-  const [m, e] = expFixedSplit(lnGammaStirling(z, work), work);
-  let mant = m;
-  let exp2 = e;
-  if (shift > 0n) {
-    const unit = one(work);
-    const xf = fromRational(x.num, x.den, work);
-    let product = unit;
-    for (let j = 0n; j < shift; j++) product = mul(product, xf + j * unit, work);
-    // divide by the normalised product, moving its binary magnitude into the exponent
-    const magnitude = BigInt(product.toString(2).length - 1 - work);
-    mant = div(mant, magnitude > 0n ? product >> magnitude : product, work);
-    if (magnitude > 0n) exp2 -= magnitude;
-  }
-  return { mant: changeBits(mant, work, bits), exp2 };
-}
-
 /** Γ(x) = π / (sin(πx)·Γ(1−x))  (DLMF 5.5.3). */
 function gammaByReflection(x: ExactRational, bits: number): ScaledFixed {
   const work = bits + bitsNearInteger(x) + 8;
@@ -312,19 +350,48 @@ function gammaByReflection(x: ExactRational, bits: number): ScaledFixed {
 
 /** Move the binary magnitude of the mantissa into the exponent (mant ∈ [1,2)·2^bits). */
 function normalised(v: ScaledFixed, bits: number): ScaledFixed {
-  const shift = v.mant.toString(2).length - 1 - bits;
+  const shift = bitLen(v.mant) - 1 - bits;
   if (shift <= 0) return v;
   return { mant: v.mant >> BigInt(shift), exp2: v.exp2 + BigInt(shift) };
 }
 
-/** ln Γ(x) for x > 0. */
+/** Sign of Γ(x) for real x that is not a pole: (−1)^⌈−x⌉ on the negative axis (DLMF 5.2.1, 5.5.3). */
+export function gammaSignOf(x: ExactRational): 1 | -1 {
+  if (isNonPositiveInteger(x)) fail('pole', `Gamma has a pole at ${x.num}`);
+  if (x.num > 0n) return 1;
+  const ceilOfMinusX = (-x.num + x.den - 1n) / x.den;
+  return ceilOfMinusX % 2n === 0n ? 1 : -1;
+}
+
+/** ln|Γ(x)| for real x that is not a pole; absolute error a few units of 2^-bits. */
 export function lnGammaFixed(x: ExactRational, bits: number): Fixed {
-  if (x.num <= 0n) fail('domain', 'lngamma is provided for x > 0');
+  if (isNonPositiveInteger(x)) fail('pole', `Gamma has a pole at ${x.num}`);
   if (x.den === 1n && (x.num === 1n || x.num === 2n)) return 0n;
+  if (x.num < 0n) return lnGammaByReflection(x, bits);
   const work = bits + 8;
-  const large = x.num > TAYLOR_PATH_MAX_X * x.den || work > TAYLOR_PATH_MAX_BITS;
-  if (large && x.num >= BigInt(asymptoticThreshold(work)) * x.den) return changeBits(lnGammaStirling(x, work), work, bits);
-  const g = gammaScaled(x, work);
-  const value = lnFixedPositive(g.mant, work) + g.exp2 * ln2Fixed(work);
+  const taylor = work <= TAYLOR_PATH_MAX_BITS && x.num <= TAYLOR_PATH_MAX_X * x.den;
+  if (taylor || (x.den === 1n && x.num <= EXACT_ARGUMENT_MAX)) {
+    const g = gammaScaled(x, work);
+    return changeBits(lnFixedPositive(g.mant, work) + g.exp2 * ln2Fixed(work), work, bits);
+  }
+  const N = shiftFor(x, work);
+  const lnShifted = lnGammaStirling(x.num + N * x.den, x.den, work);
+  const product = risingFactorial(x.num, x.den, N, work);
+  return changeBits(lnShifted - lnFloat(product, work), work, bits);
+}
+
+/** ln|Γ(x)| = ln π − ln|sin πx| − ln Γ(1−x) for x < 0  (DLMF 5.5.3). */
+function lnGammaByReflection(x: ExactRational, bits: number): Fixed {
+  const work = bits + bitsNearInteger(x) + 8;
+  const { sin } = sinCosPi(x, work);
+  const lnSin = lnFixedPositive(sin < 0n ? -sin : sin, work);
+  const value = lnFixedPositive(piFixed(work), work) - lnSin - lnGammaFixed({ num: x.den - x.num, den: x.den }, work);
   return changeBits(value, work, bits);
+}
+
+/** ln v for a positive float, fixed point at `bits`. */
+function lnFloat(v: BigFloat, bits: number): Fixed {
+  // v = (man/2^L)·2^(exp+L) with L = bitLen(man): the fixed-point argument lies in [1/2, 1)
+  const L = bitLen(v.man);
+  return lnFixedPositive(changeBits(v.man, L, bits), bits) + BigInt(v.exp + L) * ln2Fixed(bits);
 }

@@ -1,12 +1,14 @@
 import { type ExactRational, type Fixed } from '../precision/fixed';
 import { fail } from '../precision/errors';
-import { type Real, type RealInput, MAX_DIGITS, MIN_DIGITS, bitsForDigits, fixedToReal, rationalToReal, toExactRational } from '../precision/real';
+import { type Real, type RealInput, MAX_DIGITS, MIN_DIGITS, bitsForDigits, fixedToReal, rationalToReal, reduce, toExactRational } from '../precision/real';
 import { withRelativeAccuracy } from './accuracy';
 import { bernoulliExact } from './bernoulli';
 import { catalanFixed, eulerGammaFixed, ln2Fixed, piFixed } from './constants';
-import { gammaScaled, lnGammaFixed } from './gamma';
-import { polygammaFixed } from './polygamma';
+import { type BigFloat } from './float';
+import { gammaScaled, gammaSignOf, lnGammaFixed } from './gamma';
+import { polygammaFixed, polygammaFloat, polygammaUsesFixedPoint } from './polygamma';
 import { zetaIntegerFixed, zetaRealFixed } from './zeta';
+import { zetaNegativeFloat } from './zeta-negative';
 
 export { bernoulliExact } from './bernoulli';
 export { zetaEvenRationalFactor } from './zeta';
@@ -26,8 +28,10 @@ function relative(digits: number, kernel: (bits: number) => Fixed): Real {
   return fixedToReal(value, bits, digits);
 }
 
+/** Small denominators are reduced (10^k → 2^a·5^b); the kernels run faster on small P/Q and spot half-integers. */
 function exact(x: RealInput | ExactRational): ExactRational {
-  return toExactRational(x);
+  const r = toExactRational(x);
+  return r.den > 1n && r.den < 1n << 64n ? reduce(r.num, r.den) : r;
 }
 
 /** Γ(x) for real x; poles (x = 0, −1, −2, …) raise an EngineError with code 'pole'. */
@@ -39,26 +43,49 @@ export function gamma(x: RealInput | ExactRational, digits: number): Real {
   return fixedToReal(g.mant, bits, digits, g.exp2);
 }
 
-/** ln Γ(x) for x > 0. */
+/** ln|Γ(x)| for real x that is not a pole (x = 0, −1, −2, … raise 'pole'); the sign is `gammaSign`. */
 export function lnGamma(x: RealInput | ExactRational, digits: number): Real {
   const r = exact(x);
   if (r.den === 1n && (r.num === 1n || r.num === 2n)) return rationalToReal({ num: 0n, den: 1n }, digits);
   return relative(digits, (bits) => lnGammaFixed(r, bits));
 }
 
-/** ψ^(n)(x): n = 0 digamma, n = 1 trigamma, … */
+/** Sign of Γ(x) (1 or −1) for real x that is not a pole: Γ(x) = gammaSign(x)·exp(lnGamma(x)). */
+export function gammaSign(x: RealInput | ExactRational): 1 | -1 {
+  return gammaSignOf(exact(x));
+}
+
+function floatToReal(v: BigFloat, digits: number): Real {
+  return fixedToReal(v.man, 0, digits, BigInt(v.exp));
+}
+
+/** ψ^(n)(x): n = 0 digamma, n = 1 trigamma, …; every order n ≥ 0 (the job layer caps it). */
 export function polygamma(n: number, x: RealInput | ExactRational, digits: number): Real {
   const r = exact(x);
-  return relative(digits, (bits) => polygammaFixed(n, r, bits));
+  checkDigits(digits);
+  const target = bitsForDigits(digits, 4);
+  if (!Number.isInteger(n) || n < 0 || polygammaUsesFixedPoint(n, r, target + GUARD_BITS)) return relative(digits, (bits) => polygammaFixed(n, r, bits));
+  return floatToReal(polygammaFloat(n, r, target + GUARD_BITS), digits);
 }
 
 export const digamma = (x: RealInput | ExactRational, digits: number): Real => polygamma(0, x, digits);
 export const trigamma = (x: RealInput | ExactRational, digits: number): Real => polygamma(1, x, digits);
 
-/** Riemann ζ(x) for real x > 1. */
+/** Negative odd integers up to this size get ζ(−n) = −B_{n+1}/(n+1) exactly (DLMF 25.6.3). */
+const EXACT_NEGATIVE_ZETA_MAX = 400n;
+
+/** Riemann ζ(x) for every real x ≠ 1 (x = 1 raises 'pole'); exactly 0 at −2, −4, … */
 export function zeta(x: RealInput | ExactRational, digits: number): Real {
   const r = exact(x);
-  return relative(digits, (bits) => zetaRealFixed(r, bits));
+  checkDigits(digits);
+  if (r.num === r.den) fail('pole', 'zeta has a pole at x = 1');
+  if (r.num === 0n) return rationalToReal({ num: -1n, den: 2n }, digits);
+  if (r.num > 0n) return relative(digits, (bits) => zetaRealFixed(r, bits));
+  if (r.den === 1n && -r.num <= EXACT_NEGATIVE_ZETA_MAX && r.num % 2n !== 0n) {
+    const b = bernoulliExact(Number(1n - r.num));
+    return rationalToReal({ num: -b.num, den: b.den * (1n - r.num) }, digits);
+  }
+  return floatToReal(zetaNegativeFloat(r, bitsForDigits(digits, 4) + GUARD_BITS), digits);
 }
 
 export function zetaInteger(n: number, digits: number): Real {

@@ -1,5 +1,6 @@
-import { type ExactRational, type Fixed, div, fromRational, mul, one } from '../precision/fixed';
+import { type ExactRational, type Fixed, changeBits, div, fromRational, mul, one } from '../precision/fixed';
 import { piFixed } from './constants';
+import { isqrtFast, rectangularSeries } from './elementary';
 
 /**
  * sin(πx) and cos(πx) for rational x. The reduction of x modulo 2 is exact, so values near the
@@ -37,21 +38,26 @@ export function sinCosPi(x: ExactRational, bits: number): { sin: Fixed; cos: Fix
   return { sin: (sinSign * s) >> shift, cos: (cosSign * c) >> shift };
 }
 
+const TRIPLINGS = 6;
+
+/**
+ * [sin θ, cos θ] for 0 ≤ θ ≤ π/4: the Taylor series of sin at θ/3^h (rectangular splitting), h
+ * triplings sin 3t = sin t·(3 − 4 sin² t), then cos θ = √(1 − sin² θ) (well conditioned: cos θ ≥ 1/√2).
+ */
 function sinCosTaylor(theta: Fixed, bits: number): [Fixed, Fixed] {
-  const t2 = mul(theta, theta, bits);
-  let term = theta;
-  let sin = theta;
-  for (let k = 2n; term !== 0n; k += 2n) {
-    term = -mul(term, t2, bits) / (k * (k + 1n));
-    sin += term;
-  }
-  term = one(bits);
-  let cos = term;
-  for (let k = 1n; term !== 0n; k += 2n) {
-    term = -mul(term, t2, bits) / (k * (k + 1n));
-    cos += term;
-  }
-  return [sin, cos];
+  const work = bits + 2 * TRIPLINGS + 10;
+  const t = changeBits(theta, bits, work) / 3n ** BigInt(TRIPLINGS);
+  const u = mul(t, t, work);
+  const log2InverseT = TRIPLINGS * Math.log2(3);
+  let terms = 1;
+  for (let log2Term = 0; log2Term > -work - 4; terms++) log2Term -= 2 * log2InverseT + Math.log2(2 * terms * (2 * terms + 1));
+  // sin t / t = Σ (−1)^i u^i/(2i+1)!
+  let sin = mul(t, rectangularSeries(u, terms, () => -1n, (i) => BigInt(2 * i * (2 * i + 1)), work), work);
+  const three = 3n << BigInt(work);
+  for (let i = 0; i < TRIPLINGS; i++) sin = mul(sin, three - 4n * mul(sin, sin, work), work);
+  const unit = one(work);
+  const cos = isqrtFast((unit - mul(sin, sin, work)) << BigInt(work));
+  return [changeBits(sin, work, bits), changeBits(cos, work, bits)];
 }
 
 /** cot(πx) for rational x (not an integer). */

@@ -1,7 +1,8 @@
 import { type ExactRational, type Fixed, changeBits, div, fromRational, mul, one } from '../precision/fixed';
 import { fail } from '../precision/errors';
 import { bernoulliExact } from './bernoulli';
-import { expFixed, lnFixedPositive, ln2Fixed, piFixed } from './constants';
+import { ln2Fixed, piFixed } from './constants';
+import { expFixed, lnFixedPositive } from './elementary';
 
 /** ζ(2m) = q·π^{2m} with q = |B_{2m}|·2^{2m−1}/(2m)!  (DLMF 25.6.2). */
 export function zetaEvenRationalFactor(n: number): ExactRational {
@@ -54,6 +55,7 @@ function borweinWeights(bits: number): BorweinWeights {
 /** ζ(n) for an integer n ≥ 2 in fixed point. */
 export function zetaIntegerFixed(n: number, bits: number): Fixed {
   if (!Number.isInteger(n) || n < 2) fail('domain', `zeta(n) needs an integer n ≥ 2, got ${n}`);
+  if (n * 6 >= bits) return zetaByDirectSum(n, bits);
   if (n % 2 === 0) {
     const q = zetaEvenRationalFactor(n);
     const work = bits + 8 + Math.ceil(n * 1.66);
@@ -62,7 +64,6 @@ export function zetaIntegerFixed(n: number, bits: number): Fixed {
     for (let i = 0; i < n; i++) power = mul(power, pi, work);
     return changeBits((power * q.num) / q.den, work, bits);
   }
-  if (n * 6 >= bits) return zetaByDirectSum(n, bits);
   const work = bits + 8;
   const { weights } = borweinWeights(work);
   let sum = 0n;
@@ -86,11 +87,15 @@ function zetaByDirectSum(n: number, bits: number): Fixed {
   return changeBits(sum, work, bits);
 }
 
-/** ζ(x) for a rational x > 1 (Borwein's algorithm with real exponents). */
+/** ζ(x) for a rational x > 0, x ≠ 1, in fixed point (Borwein's algorithm with real exponents). */
 export function zetaRealFixed(x: ExactRational, bits: number): Fixed {
-  if (x.num <= x.den) fail('domain', 'zeta(x) is provided for real x > 1');
+  if (x.num <= 0n) fail('domain', 'zetaRealFixed needs x > 0');
+  if (x.num === x.den) fail('pole', 'zeta has a pole at x = 1');
   if (x.den === 1n && x.num < 100000n) return zetaIntegerFixed(Number(x.num), bits);
-  const distanceToOne = Number(x.num - x.den) / Number(x.den);
+  const xValue = Number(x.num) / Number(x.den);
+  if (xValue * 6 >= bits) return zetaRealByDirectSum(x, xValue, bits);
+  // 1 − 2^{1−x} cancels near x = 1: add the bits it loses
+  const distanceToOne = Math.abs(Number(x.num - x.den) / Number(x.den));
   const extra = Math.max(0, Math.ceil(-Math.log2(distanceToOne))) + 8;
   const work = bits + extra;
   const { weights } = borweinWeights(work);
@@ -100,15 +105,35 @@ export function zetaRealFixed(x: ExactRational, bits: number): Fixed {
   const smallestFactor = smallestPrimeFactors(count);
   const powers: Fixed[] = new Array(count + 1);
   powers[1] = one(work);
-  let sum = weights[0];
+  let sum = weights[0] << BigInt(work);
   for (let m = 2; m <= count; m++) {
     const p = smallestFactor[m];
-    powers[m] = p === m ? expFixed(-mul(xFixed, lnFixedPositive(BigInt(m) << BigInt(work), work), work), work) : mul(powers[p], powers[m / p], work);
-    sum += mul(weights[m - 1], powers[m], work);
+    powers[m] = p === m ? expFixed(-mul(xFixed, lnInteger(m, work), work), work) : mul(powers[p], powers[m / p], work);
+    sum += weights[m - 1] * powers[m];
   }
   const unit = one(work);
   const twoPower = expFixed(mul(unit - xFixed, ln2Fixed(work), work), work);
-  return changeBits(div(sum, unit - twoPower, work), work, bits);
+  return changeBits(div(sum >> BigInt(work), unit - twoPower, work), work, bits);
+}
+
+/** ln m for small integers m, cached at the highest precision asked for (ζ reuses them across x). */
+const lnIntegerCache = new Map<number, { bits: number; value: Fixed }>();
+function lnInteger(m: number, bits: number): Fixed {
+  const cached = lnIntegerCache.get(m);
+  if (cached && cached.bits >= bits) return changeBits(cached.value, cached.bits, bits);
+  const work = Math.ceil(bits * 1.1) + 32;
+  const value = lnFixedPositive(BigInt(m) << BigInt(work), work);
+  lnIntegerCache.set(m, { bits: work, value });
+  return changeBits(value, work, bits);
+}
+
+/** Σ m^{-x} while m^{-x} ≥ 2^-bits: few terms when x is large compared with the precision. */
+function zetaRealByDirectSum(x: ExactRational, xValue: number, bits: number): Fixed {
+  const work = bits + 8;
+  const xFixed = fromRational(x.num, x.den, work);
+  let sum = one(work);
+  for (let m = 2; xValue * Math.log2(m) < work + 2; m++) sum += expFixed(-mul(xFixed, lnInteger(m, work), work), work);
+  return changeBits(sum, work, bits);
 }
 
 /** ζ(2), …, ζ(maxN) at once (index = argument), for Taylor tables. */

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { DATASET_LIMITS, COMPARABLE_X_AXES, COMPARABLE_Y_AXES } from '../../notebook/datasets';
-import { MAX_SCAN_POINTS } from './limits';
+import { JOB_LIMITS, MAX_SCAN_POINTS } from './limits';
 import { ModelInput } from './model';
 import { DecimalString, Digits, Loops } from './primitives';
 
@@ -67,7 +67,7 @@ export const CompareJob = z.strictObject({
   job: z.literal('compare'),
   model: ModelInput,
   loops: Loops,
-  digits: Digits.max(50).default(20),
+  digits: Digits.max(JOB_LIMITS.maxCompareDigits).default(JOB_LIMITS.defaultCompareDigits),
   d: DecimalString,
   /** The curve: the scan's range of s. */
   s: z.strictObject({ from: DecimalString, to: DecimalString, points: z.number().int().min(2).max(MAX_SCAN_POINTS) }),

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { QuadraticOperator } from './fixedPoints';
+import { FieldAnomalousSpectrum } from './flow';
 import { ModelInput } from './model';
 import { Coefficient, DecimalString, FlowDigits, Loops } from './primitives';
 
@@ -7,6 +8,9 @@ import { Coefficient, DecimalString, FlowDigits, Loops } from './primitives';
 export const SERIES_QUANTITIES = ['nuInv', 'omega', 'eta', 'Delta_phi', 'Delta_phi2', 'Delta_phi3', 'Delta_phi4', 'nu', 'gamma', 'alpha', 'beta', 'delta'] as const;
 export const Quantity = z.enum(SERIES_QUANTITIES);
 export type Quantity = (typeof SERIES_QUANTITIES)[number];
+
+/** The short-range theory's Δσ, for the crossover s* = d − 2Δσ (built in for some presets when omitted). */
+export const ShortRangeInput = z.strictObject({ Delta_sigma: DecimalString });
 
 /** `exponents`: the exponents at one fixed point as ε-series, with values and Padé values at the physical ε. */
 export const ExponentsJob = z.strictObject({
@@ -17,32 +21,72 @@ export const ExponentsJob = z.strictObject({
   loops: Loops,
   digits: FlowDigits,
   fixedPoint: z.string().max(100).optional(),
+  shortRange: ShortRangeInput.optional(),
 });
 export type ExponentsJob = z.infer<typeof ExponentsJob>;
 
 const PerQuantity = <T extends z.ZodType>(value: T) => z.record(Quantity, value);
+const SomeQuantities = <T extends z.ZodType>(value: T) => z.partialRecord(Quantity, value);
 
-/** d ≥ 2s: the Gaussian point is IR-stable and the Landau values are exact. */
+/**
+ * What a result must be read with, listed at its top: a caveat of the fixed point used (its kind as the
+ * fixed-point layer names it, e.g. complex-at-eps) or of the regime (beyond-s-star, mean-field,
+ * upper-critical-dimension, short-range-flow, no-singlet, not-ir-stable, …).
+ */
+export const Notice = z.strictObject({ kind: z.string().regex(/^[a-z][a-z0-9-]*$/).max(60), message: z.string() });
+export type Notice = z.infer<typeof Notice>;
+
+/** One Padé approximant [L/M] at the physical ε, checked for poles between 0 and ε; a flagged one has no value. */
+export const PadeCheck = z.strictObject({
+  L: z.number().int().min(0),
+  M: z.number().int().min(1),
+  value: z.string().nullable(),
+  flagged: z.boolean(),
+  /** Real zeros of the denominator in (0, ε]. */
+  poles: z.array(z.string()),
+  /** The denominator changes sign between 0 and ε. */
+  signChange: z.boolean(),
+  reason: z.string().nullable(),
+});
+export type PadeCheck = z.infer<typeof PadeCheck>;
+
+/** The crossover to short-range behaviour used for the notices. */
+export const ShortRangeCrossover = z.strictObject({ sStar: z.string(), Delta_sigma: z.string(), source: z.string() });
+
+/** d ≥ 2s: the Gaussian point is IR-stable and the Landau values are exact (with logarithmic corrections at d = 2s). */
 export const MeanFieldExponents = z.strictObject({
+  notices: z.array(Notice),
   eps: z.string(),
   meanField: z.literal(true),
   statement: z.string(),
   fixedPoint: z.literal('Gaussian'),
   values: PerQuantity(z.string()),
+  relations: PerQuantity(z.string()),
+  sources: PerQuantity(z.string()),
+  shortRange: ShortRangeCrossover.optional(),
 });
 
 export const SeriesExponents = z.strictObject({
+  notices: z.array(Notice),
   eps: z.string(),
   meanField: z.literal(false),
   fixedPoint: z.string(),
-  /** Quantity → coefficients of ε^0, ε^1, … at fixed s. */
-  series: PerQuantity(z.array(Coefficient)),
-  /** Quantity → how it follows from the RG functions. */
+  /** Quantity → coefficients of ε^0, ε^1, … at fixed s (each quantity's own truncated series; absent when unavailable). */
+  series: SomeQuantities(z.array(Coefficient)),
+  /** Quantity → how it follows from the RG functions, as it holds here (s < 2, s = 2 or symbolic s). */
   relations: PerQuantity(z.string()),
+  /** Quantity → what its printed value is computed from (with values only). */
+  sources: PerQuantity(z.string()).optional(),
+  /** Quantity → why it has no series and no value (e.g. 1/ν when the φ² insertion mixes). */
+  unavailable: SomeQuantities(z.string()).optional(),
   quadraticOperators: z.array(QuadraticOperator).optional(),
-  /** At the physical ε (numeric s, N and d only). */
-  values: PerQuantity(z.string()).optional(),
-  pade: PerQuantity(z.string().nullable()).optional(),
+  /** γ_φ and η per field direction when γ_φ is a matrix at the point (s = 2, anisotropic models). */
+  fieldAnomalous: FieldAnomalousSpectrum.optional(),
+  /** At the physical ε (numeric s, N and d only); null where unavailable. */
+  values: PerQuantity(z.string().nullable()).optional(),
+  /** Quantity → every [L/M] with M ≥ 1 and L + M ≤ loops, each checked. */
+  pade: SomeQuantities(z.array(PadeCheck)).optional(),
+  shortRange: ShortRangeCrossover.optional(),
 });
 
 export const ExponentsResult = z.union([MeanFieldExponents, SeriesExponents]);

@@ -21,14 +21,23 @@ export type QuadraticOperator = z.infer<typeof QuadraticOperator>;
 
 export const FixedPointStatus = z.enum(['real', 'complex', 'degenerate']);
 
+/** What a result using a fixed point must state at its top (kinds as in the engine's FixedPointCaveat). */
+export const FixedPointCaveat = z.strictObject({
+  kind: z.enum(['complex-at-eps', 'stability-sign-disagrees', 'degenerate-one-loop', 'complex-one-loop']),
+  message: z.string(),
+});
+export type FixedPointCaveat = z.infer<typeof FixedPointCaveat>;
+
 export const FixedPointEntry = z.strictObject({
   name: z.string(),
   status: FixedPointStatus,
   /** Per coupling: ε-series coefficients (ε^0, ε^1, …) and the value at the physical ε ("a + bi" when complex). */
   couplings: z.record(z.string(), z.strictObject({ series: z.array(Coefficient).nullable(), value: Coefficient.nullable() })),
   stability: z.strictObject({ series: z.array(z.array(Coefficient).nullable()).nullable(), values: z.array(z.string()).nullable() }),
+  /** true: IR-stable; false: unstable or complex (not physical); null: undecided (see caveats). */
   stable: z.boolean().nullable(),
   notes: z.array(z.string()),
+  caveats: z.array(FixedPointCaveat).optional(),
   quadraticOperators: z.array(QuadraticOperator).nullable().optional(),
 });
 export type FixedPointEntry = z.infer<typeof FixedPointEntry>;

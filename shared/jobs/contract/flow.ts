@@ -33,6 +33,24 @@ export const TrailEntry = z.strictObject({
 });
 export type TrailEntry = z.infer<typeof TrailEntry>;
 
+/**
+ * γ_φ per eigen-direction of the field matrix at a fixed point, η = 2 − s + 2γ_φ for each (output
+ * of formatFieldAnomalous in flowJobs.ts). One direction "every field" when γ_φ ∝ δ at the point.
+ */
+export const FieldAnomalousSpectrum = z.strictObject({
+  proportional: z.boolean(),
+  directions: z.array(
+    z.strictObject({
+      field: z.string(),
+      multiplicity: z.number().int(),
+      series: z.strictObject({ gamma: z.array(z.string()), eta: z.array(z.string()) }),
+      values: z.strictObject({ gamma: z.string(), eta: z.string() }).nullable(),
+      atRoot: z.strictObject({ gamma: z.array(z.string()), eta: z.array(z.string()) }).nullable(),
+    }),
+  ),
+});
+export type FieldAnomalousSpectrum = z.infer<typeof FieldAnomalousSpectrum>;
+
 export const FlowResult = z.strictObject({
   model: z.string(),
   s: z.string(),
@@ -41,6 +59,14 @@ export const FlowResult = z.strictObject({
   convention: z.string(),
   beta: z.record(z.string(), z.array(CouplingTerm)),
   gamma_phi: z.array(CouplingTerm),
+  /** Present when γ_φ is a matrix not ∝ δ_ab (s = 2, anisotropic models); gamma_phi is then tr γ_φ / n. */
+  gamma_phi_matrix: z
+    .strictObject({
+      convention: z.string(),
+      fields: z.array(z.string()),
+      matrix: z.array(z.array(z.array(CouplingTerm))),
+    })
+    .optional(),
   gamma_phi2: z.union([z.array(CouplingTerm), z.strictObject({ note: z.string() })]),
   gamma_quadratic: z
     .strictObject({

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { CalcJob, CalcResult } from './calc';
+import { BubbleJob, FourierJob, LaurentJob, PadeJob, PadeResult, SeriesResult, SpecialJob, SpecialResult, StarTriangleJob } from './calc';
 import { CompareJob, CompareResult, KinksJob, KinksResult } from './data';
 import { ExponentsJob, ExponentsResult } from './exponents';
 import { FixedPointsJob, FixedPointsResult } from './fixedPoints';
@@ -7,8 +7,9 @@ import { FlowJob, FlowResult } from './flow';
 import { ScanJob, ScanResult } from './scan';
 
 /**
- * The job contract: the input and result schema of every job, zod only. The engine's dispatcher,
- * the server, the notebook's cell layer and the app all import it from here.
+ * The job contract: the input and result schema of every job, zod only (it is bundled into the app,
+ * so nothing here imports the engine). The dispatcher, the server, the notebook's cell layer and the
+ * app all import it from here. docs/flows.md lists every job with its fields.
  */
 export * from './calc';
 export * from './data';
@@ -20,14 +21,14 @@ export * from './model';
 export * from './primitives';
 export * from './scan';
 
-/** Every job kind with its input and result schema (a failed job answers with JobError instead). */
+/** Every job kind with its input and its result schema; a failed job answers with JobError instead. */
 export const JOBS = {
-  special: { input: CalcJob.options[0], result: CalcResult },
-  laurent: { input: CalcJob.options[1], result: CalcResult },
-  bubble: { input: CalcJob.options[2], result: CalcResult },
-  fourier: { input: CalcJob.options[3], result: CalcResult },
-  startriangle: { input: CalcJob.options[4], result: CalcResult },
-  pade: { input: CalcJob.options[5], result: CalcResult },
+  special: { input: SpecialJob, result: SpecialResult },
+  laurent: { input: LaurentJob, result: SeriesResult },
+  bubble: { input: BubbleJob, result: SeriesResult },
+  fourier: { input: FourierJob, result: SeriesResult },
+  startriangle: { input: StarTriangleJob, result: SeriesResult },
+  pade: { input: PadeJob, result: PadeResult },
   flow: { input: FlowJob, result: FlowResult },
   fixedpoints: { input: FixedPointsJob, result: FixedPointsResult },
   exponents: { input: ExponentsJob, result: ExponentsResult },
@@ -39,5 +40,27 @@ export const JOBS = {
 export type JobKind = keyof typeof JOBS;
 export const JOB_KINDS = Object.keys(JOBS) as JobKind[];
 
-export const AnyJob = z.discriminatedUnion('job', [...CalcJob.options, FlowJob, FixedPointsJob, ExponentsJob, ScanJob, KinksJob, CompareJob]);
+/** A job of one kind as the runner receives it (defaults filled in) and the result it answers with. */
+export type JobOf<K extends JobKind> = z.infer<(typeof JOBS)[K]['input']>;
+export type ResultOf<K extends JobKind> = z.infer<(typeof JOBS)[K]['result']>;
+
+export const AnyJob = z.discriminatedUnion('job', [SpecialJob, LaurentJob, BubbleJob, FourierJob, StarTriangleJob, PadeJob, FlowJob, FixedPointsJob, ExponentsJob, ScanJob, KinksJob, CompareJob]);
 export type AnyJob = z.infer<typeof AnyJob>;
+
+/** The kind a job names in its "job" field, or null when it names none of JOB_KINDS. */
+export function jobKindOf(input: unknown): JobKind | null {
+  const kind = namedKind(input);
+  return typeof kind === 'string' && Object.hasOwn(JOBS, kind) ? (kind as JobKind) : null;
+}
+
+function namedKind(input: unknown): unknown {
+  return typeof input === 'object' && input !== null && !Array.isArray(input) ? (input as { job?: unknown }).job : undefined;
+}
+
+/** Why a job names no known kind, listing every kind there is. */
+export function unknownJobMessage(input: unknown): string {
+  const kinds = JOB_KINDS.join(', ');
+  const kind = namedKind(input);
+  if (kind === undefined) return `a job is an object whose "job" field names its kind, one of: ${kinds}`;
+  return `unknown job ${JSON.stringify(kind)?.slice(0, 80) ?? String(kind)}; the job kinds are: ${kinds}`;
+}

@@ -2,6 +2,12 @@
 export const JOB_LIMITS = {
   minDigits: 5,
   maxDigits: 1000,
+  /** Digits of the flow jobs (flow, fixedpoints, exponents, scan) and of a notebook's setup. */
+  maxFlowDigits: 200,
+  defaultFlowDigits: 30,
+  /** Digits of a comparison with data (values held against data with a few significant digits). */
+  maxCompareDigits: 50,
+  defaultCompareDigits: 20,
   /** Highest polygamma order for a `special` job. */
   maxPsiOrder: 200,
   /** Laurent jobs: eps powers from minOrder to maxOrder may be requested. */

@@ -51,7 +51,7 @@ export const ParameterValues = z.record(
 
 /** Flow jobs: loop order and digits (flow, fixedpoints, exponents, scan, compare). */
 export const Loops = z.union([z.literal(1), z.literal(2)]).default(2);
-export const FlowDigits = Digits.max(200).default(30);
+export const FlowDigits = Digits.max(JOB_LIMITS.maxFlowDigits).default(JOB_LIMITS.defaultFlowDigits);
 
 export const ErrorCode = z.enum(['invalid-job', 'pole', 'domain', 'not-affine', 'not-representable', 'singular', 'limit', 'parse', 'internal']);
 

@@ -67,10 +67,13 @@ test('a Padé approximant with a pole in (0, ε] is a defect with the pole posit
   assert.ok(padeVariant(double, 0, 2, real('0.25'), 20).value!.minus(4).abs().lt('1e-18'), '1/(1 − 0.5)² = 4 below the pole');
 });
 
-test('a degenerate approximant (vanishing c1 for [1/1]) is a defect too', () => {
-  const v = padeVariant([real(2), real(0), real(0)], 1, 1, real('0.5'), 20);
+test('a degenerate approximant (vanishing c1 with c2 ≠ 0 for [1/1]) is a defect too; a series with c1 = c2 = 0 is its own approximant', () => {
+  // [1/1] needs q1·c1 = −c2: with c1 = 0 and c2 = 1 there is no solution (by hand)
+  const v = padeVariant([real(2), real(0), real(1)], 1, 1, real('0.5'), 20);
   assert.equal(v.value, null);
   assert.match(v.defect ?? '', /degenerate/);
+  // 2 + 0ε + 0ε²: Q = 1, P = 2 matches through ε² (the Padé equations hold with q1 = 0), so [1/1] = 2
+  assert.equal(padeVariant([real(2), real(0), real(0)], 1, 1, real('0.5'), 20).value?.toString(), '2');
 });
 
 test('the pull uses the error on the side where the series lies (above the data: upper error; below: lower error)', () => {

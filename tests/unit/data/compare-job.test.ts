@@ -105,8 +105,9 @@ test('mean-field points: every variant is the exact Landau value (1/ν = s, η =
   assert.ok(Object.values(out.series).every((v) => v === null));
   assert.equal(mf.s, '1.4');
   assert.equal(mf.series.pade_0_2, '1.4');
-  assert.deepEqual(out.defects?.order1, 'Δφ = (d − s)/2 holds only for s < 2; at the short-range point Δφ = (d − 2 + η)/2');
-  assert.ok(result.notes.some((n) => n.includes('x = 0.2') && n.includes('s ≥ 2')), JSON.stringify(result.notes));
+  // O(1) in d = 3 has a built-in Δσ (3D Ising), so the bound is s* rather than 2
+  assert.deepEqual(out.defects?.order1, 'Δφ = (d − s)/2 holds only for s < s*; at the short-range point Δφ = (d − 2 + η)/2');
+  assert.ok(result.notes.some((n) => n.includes('x = 0.2') && n.includes('s ≥ 1.9637022')), JSON.stringify(result.notes));
   const below = compare({ data: { xAxis: 's', x: ['-0.1'], y: ['1'] } });
   assert.equal(below.points[0].regime, 'outside');
   assert.ok(below.notes.some((n) => n.includes('outside 0 < s ≤ 2') && n.includes('x = -0.1')), JSON.stringify(below.notes));
@@ -217,8 +218,8 @@ test('other quantities above s*, and η at s = 2 without s*: no value, a defect 
     assert.equal(nu.curve[1].values[v.key], null);
   }
   assert.deepEqual([nu.summary[0].points, nu.summary[0].chi2Points, nu.summary[0].chi2], [0, 0, null]);
-  // s = 2 is the short-range theory even when s* is not given (the scan grid alone calls it long-range)
-  const eta = compare({ quantity: 'eta', s: { from: '1.6', to: '2', points: 2 }, data: { xAxis: 's', x: ['2'], y: ['0.03'], yErrLow: ['0.01'] } });
+  // s = 2 is the short-range theory even when s* is unknown (O(4) in d = 3 has no built-in Δσ)
+  const eta = compare({ model: { preset: 'on', N: 4 }, quantity: 'eta', s: { from: '1.6', to: '2', points: 2 }, data: { xAxis: 's', x: ['2'], y: ['0.03'], yErrLow: ['0.01'] } });
   assert.equal(eta.curve[1].regime, 'short-range');
   assert.equal(eta.points[0].regime, 'short-range');
   assert.equal(eta.points[0].series.order2, null);
@@ -228,8 +229,9 @@ test('other quantities above s*, and η at s = 2 without s*: no value, a defect 
 
 test('Δφ data at s ≥ 2 or s ≥ s*: no series, a defect saying why Δφ = (d − s)/2 fails, out of χ² and listed in a note', () => {
   const data = { xAxis: 'Delta_phi', x: ['0.4', '0.5', deltaSigma, '0.55'], y: ['1.4', '1.41', '1.41', '1.5'], yErrLow: ['0.01', '0.01', '0.01', '0.01'] };
+  // O(4) in d = 3: no built-in Δσ, so without one the long-range region ends at s = 2
   const job = { quantity: 'Delta_phi2', s: { from: '1.6', to: '2', points: 2 } };
-  const plain = compare({ ...job, data });
+  const plain = compare({ ...job, model: { preset: 'on', N: 4 }, data });
   assert.equal(plain.error, undefined, JSON.stringify(plain.error));
   // s = 3 − 2Δφ: 2.2, 2, 1.9637022, 1.9 (by hand)
   assert.deepEqual(plain.points.map((p) => p.s), ['2.2', '2', '1.9637022', '1.9']);
@@ -242,7 +244,7 @@ test('Δφ data at s ≥ 2 or s ≥ s*: no series, a defect saying why Δφ = (d
     }
   }
   // χ² equals that of the two long-range points given directly in s
-  const inS = compare({ ...job, data: { xAxis: 's', x: ['1.9637022', '1.9'], y: ['1.41', '1.5'], yErrLow: ['0.01', '0.01'] } });
+  const inS = compare({ ...job, model: { preset: 'on', N: 4 }, data: { xAxis: 's', x: ['1.9637022', '1.9'], y: ['1.41', '1.5'], yErrLow: ['0.01', '0.01'] } });
   assert.deepEqual(plain.summary, inS.summary);
   assert.equal(plain.summary[0].chi2Points, 2);
   assert.ok(plain.notes.some((n) => n.includes('2 data point(s)') && n.includes('x = 0.4, 0.5') && n.includes('left out of χ²')), JSON.stringify(plain.notes));
@@ -295,4 +297,18 @@ test('a boundary with a repeated x: the note names the two rows as given (1-base
   const result = compare({ data: { xAxis: 's', x, y, boundary: true } });
   assert.deepEqual(result.kinks, []);
   assert.ok(result.notes.includes('No kinks: points 3 and 8 have the same x (1.7); a curve needs one y per x'), JSON.stringify(result.notes));
+});
+
+test('O(1) in d = 3 without a typed Δσ uses the built-in 3D Ising Δσ = 0.5181489 (Kos, Poland, Simmons-Duffin, Vichi 2016): the same regimes, values and χ² as typing it, and a note naming the source', () => {
+  const data = { xAxis: 's', x: ['1.7', '1.98'], y: ['0.31', '0.0363'], yErrLow: ['0.01', '0.0005'] };
+  const job = { quantity: 'eta', digits: 6, s: { from: '1.6', to: '1.98', points: 2 }, data }; // s* printed to 6 digits
+  const typed = compare({ ...job, shortRange: { Delta_sigma: deltaSigma } });
+  const builtIn = compare(job);
+  assert.equal(builtIn.error, undefined, JSON.stringify(builtIn.error));
+  assert.deepEqual(builtIn.marks, typed.marks);
+  assert.deepEqual(builtIn.curve, typed.curve);
+  assert.deepEqual(builtIn.points, typed.points);
+  assert.deepEqual(builtIn.summary, typed.summary);
+  assert.ok(builtIn.notes.some((n) => n.startsWith('s* = 1.9637 = d − 2Δσ') && n.includes('3D Ising') && n.includes('JHEP 08 (2016) 036')), JSON.stringify(builtIn.notes));
+  assert.ok(!typed.notes.some((n) => n.includes('built in')), 'a typed Δσ is not called built in');
 });

@@ -6,9 +6,12 @@ type Any = Record<string, any>;
 const run = (job: object) => runFlowJob(job) as Any;
 const ALL = ['nuInv', 'omega', 'eta', 'Delta_phi', 'Delta_phi2', 'Delta_phi3', 'Delta_phi4', 'nu', 'gamma', 'alpha', 'beta', 'delta'];
 
-/** Gaussian/Landau values for s ≤ d/2 (common practice: the quartic coupling is irrelevant; physics-notes §1–2). */
+/**
+ * Gaussian/Landau values for s ≤ d/2 (common practice: the quartic coupling is irrelevant; docs/physics.md
+ * §Regimes): composite operators have Gaussian dimensions, so Δ_{φ³} = 3Δ_φ = 3(d − s)/2.
+ */
 function meanField(d: number, s: number): Record<string, number> {
-  return { nuInv: s, nu: 1 / s, eta: 2 - s, omega: d - 2 * s, Delta_phi: (d - s) / 2, Delta_phi2: d - s, Delta_phi3: (d + s) / 2, Delta_phi4: 2 * (d - s), gamma: 1, alpha: 0, beta: 0.5, delta: 3 };
+  return { nuInv: s, nu: 1 / s, eta: 2 - s, omega: d - 2 * s, Delta_phi: (d - s) / 2, Delta_phi2: d - s, Delta_phi3: (3 * (d - s)) / 2, Delta_phi4: 2 * (d - s), gamma: 1, alpha: 0, beta: 0.5, delta: 3 };
 }
 
 for (const model of [{ preset: 'on', N: 1 }, { preset: 'cubic', N: 2 }]) {
@@ -23,5 +26,10 @@ for (const model of [{ preset: 'on', N: 1 }, { preset: 'cubic', N: 2 }]) {
     }
     assert.equal(r.points[0].values.nuInv, '1.3');
     assert.equal(r.points[0].values.omega, '0.4', 'ω = d − 2s = −ε');
+    // s < d/2: Gaussian regime; s = d/2: d = 2s is the upper critical dimension (logarithmic corrections; common practice)
+    assert.deepEqual(r.points.map((p: Any) => p.notices), [['mean-field'], ['mean-field'], ['upper-critical-dimension']]);
+    assert.deepEqual(r.notices.map((n: Any) => n.kind), ['mean-field', 'upper-critical-dimension']);
+    assert.match(r.notices[1].message, /^At s = 1\.5: .*upper critical dimension.*logarithmic corrections/);
+    assert.match(r.marks.meanFieldEndNote, /upper critical dimension.*logarithmic/);
   });
 }

@@ -36,7 +36,7 @@ test('symmetry factors of the labelled graphs (standard φ⁴ values, common pra
 test('custom potential equal to the O(2) tensor has the same structure as the preset', () => {
   const custom = customModel(2, 'u/24*(phi1^2+phi2^2)^2');
   const preset = onModel(2);
-  const tensor = (m: typeof custom) => Array.from(m.basis[0].data, (x) => (x * Number(m.scales[0].num)) / Number(m.scales[0].den));
+  const tensor = (m: typeof custom) => Array.from(m.basis[0].data, (x) => (Number(x) * Number(m.scales[0].num)) / Number(m.scales[0].den));
   assert.deepEqual(tensor(custom), tensor(preset));
 });
 

@@ -1,0 +1,2 @@
+/** Padé approximants of a series: coefficients, values, poles in an interval, the table of [L/M]. */
+export * from './pade';
