@@ -178,10 +178,11 @@ function main(): void {
 
 const HIGH_DIGITS = 1000;
 type HighFunction = 'gamma' | 'psi' | 'zeta';
-const HIGH_CASES: { fn: HighFunction; points: string[]; repeats: number }[] = [
-  { fn: 'gamma', points: ['7.25', '0.3', '123.456', '-2.5', '-3.7'], repeats: 21 },
-  { fn: 'psi', points: ['7.25', '0.3', '123.456', '-3.7'], repeats: 11 },
-  { fn: 'zeta', points: ['2.5', '0.5', '-2.5'], repeats: 3 },
+/** Per case: untimed calls after the cold one (JIT warm-up; mpmath gets the same), then timed repeats. */
+const HIGH_CASES: { fn: HighFunction; points: string[]; warmup: number; repeats: number }[] = [
+  { fn: 'gamma', points: ['7.25', '0.3', '123.456', '-2.5', '-3.7'], warmup: 60, repeats: 41 },
+  { fn: 'psi', points: ['7.25', '0.3', '123.456', '-3.7'], warmup: 30, repeats: 21 },
+  { fn: 'zeta', points: ['2.5', '0.5', '-2.5'], warmup: 3, repeats: 5 },
 ];
 const HIGH_OURS: Record<HighFunction, (x: string, digits: number) => Decimal> = {
   gamma: (x, d) => special.gamma(x, d),
@@ -195,13 +196,14 @@ interface SingleTiming {
   value: string;
 }
 
-/** Child mode `--single fn x digits repeats`: first call (cold) and the median of the repeats (warm). */
-function runSingle([fn, x, digits, repeats]: string[]): void {
+/** Child mode `--single fn x digits warmup repeats`: first call (cold), then the median of the repeats (warm). */
+function runSingle([fn, x, digits, warmup, repeats]: string[]): void {
   const f = HIGH_OURS[fn as HighFunction];
   const d = Number(digits);
   let start = performance.now();
   const value = f(x, d).toString();
   const coldMs = performance.now() - start;
+  for (let i = 0; i < Number(warmup); i++) f(x, d);
   const times: number[] = [];
   for (let i = 0; i < Number(repeats); i++) {
     start = performance.now();
@@ -215,11 +217,12 @@ function runSingle([fn, x, digits, repeats]: string[]): void {
 const MPMATH_SINGLE = `
 import json, sys, time
 import mpmath
-fn, x, dps, repeats = sys.argv[1], sys.argv[2], int(sys.argv[3]), int(sys.argv[4])
+fn, x, dps, warmup, repeats = sys.argv[1], sys.argv[2], int(sys.argv[3]), int(sys.argv[4]), int(sys.argv[5])
 f = {'gamma': mpmath.gamma, 'psi': lambda v: mpmath.psi(0, v), 'zeta': mpmath.zeta}[fn]
 mpmath.mp.dps = dps
 v = mpmath.mpf(x)
 t = time.perf_counter(); f(v); cold = time.perf_counter() - t
+for _ in range(warmup): f(v)
 times = []
 for _ in range(repeats):
     t = time.perf_counter(); f(v); times.append(time.perf_counter() - t)
@@ -229,28 +232,28 @@ value = mpmath.nstr(f(mpmath.mpf(x)), dps + 15)
 print(json.dumps({'coldMs': cold * 1e3, 'warmMs': times[len(times) // 2] * 1e3, 'value': value}))
 `;
 
-function oursSingle(fn: HighFunction, x: string, repeats: number): SingleTiming {
-  const out = execFileSync(process.execPath, ['--import', 'tsx', __filename, '--single', fn, x, String(HIGH_DIGITS), String(repeats)], { encoding: 'utf8', maxBuffer: 1 << 24 });
-  return JSON.parse(out) as SingleTiming;
+function oursSingle(fn: HighFunction, x: string, warmup: number, repeats: number): SingleTiming {
+  const args = ['--import', 'tsx', __filename, '--single', fn, x, String(HIGH_DIGITS), String(warmup), String(repeats)];
+  return JSON.parse(execFileSync(process.execPath, args, { encoding: 'utf8', maxBuffer: 1 << 24 })) as SingleTiming;
 }
 
-function mpmathSingle(script: string, fn: HighFunction, x: string, repeats: number): SingleTiming {
-  const out = execFileSync(PYTHON, [script, fn, x, String(HIGH_DIGITS), String(repeats)], { encoding: 'utf8', maxBuffer: 1 << 24 });
-  return JSON.parse(out) as SingleTiming;
+function mpmathSingle(script: string, fn: HighFunction, x: string, warmup: number, repeats: number): SingleTiming {
+  const args = [script, fn, x, String(HIGH_DIGITS), String(warmup), String(repeats)];
+  return JSON.parse(execFileSync(PYTHON, args, { encoding: 'utf8', maxBuffer: 1 << 24 })) as SingleTiming;
 }
 
 function highPrecisionTable(backend: string): void {
   const dir = mkdtempSync(join(tmpdir(), 'rungbook-bench-'));
   const script = join(dir, 'mpmath_single.py');
   writeFileSync(script, MPMATH_SINGLE);
-  console.log(`${HIGH_DIGITS} digits, every case in a fresh process on each side: cold = first call (tables and constants built), warm = median of the repeats; mpmath backend ${backend}; value check against mpmath at ${HIGH_DIGITS}+20 digits.`);
+  console.log(`${HIGH_DIGITS} digits, every case in a fresh process on each side: cold = first call (tables and constants built), warm = median of the timed repeats after untimed warm-up calls (the same counts on both sides); mpmath backend ${backend}; value check against mpmath at ${HIGH_DIGITS}+20 digits.`);
   console.log('');
   console.log('| function | x | digits | Rungbook cold ms | Rungbook warm ms | mpmath cold ms | mpmath warm ms | warm ratio | value check |');
   console.log('|---|---|---|---|---|---|---|---|---|');
-  for (const { fn, points, repeats } of HIGH_CASES) {
+  for (const { fn, points, warmup, repeats } of HIGH_CASES) {
     for (const x of points) {
-      const ours = oursSingle(fn, x, repeats);
-      const ref = mpmathSingle(script, fn, x, repeats);
+      const ours = oursSingle(fn, x, warmup, repeats);
+      const ref = mpmathSingle(script, fn, x, warmup, repeats);
       const wrong = disagreements([ours.value], [ref.value], HIGH_DIGITS);
       const label = fn === 'gamma' ? 'Γ' : fn === 'psi' ? 'ψ' : 'ζ';
       console.log(`| ${label} | ${x} | ${HIGH_DIGITS} | ${ours.coldMs.toFixed(1)} | ${ours.warmMs.toFixed(2)} | ${ref.coldMs.toFixed(1)} | ${ref.warmMs.toFixed(2)} | ${(ours.warmMs / ref.warmMs).toFixed(2)} | ${wrong === 0 ? 'correct' : 'WRONG'} |`);

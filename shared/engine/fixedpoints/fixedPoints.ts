@@ -232,18 +232,20 @@ function degeneracyCaveat<C>(spec: ModelSpec, pieces: FlowPieces<C>, point: Fixe
   if (!degeneracy) return;
   const g1 = branch.series.map((s) => toNumber(s.order >= 1 ? s.coefficient(1) : 0));
   const partner = (sign: number) => (degeneracy.zeroMode && !pieces.flow.calculus.symbolic ? spec.classify(g1.map((x, i) => x + sign * 1e-6 * toNumber((degeneracy.zeroMode as C[])[i]))) : null);
-  const others = [...new Set([...siblings.map((s) => s.name), partner(1), partner(-1)].filter((n): n is string => n !== null && n !== point.name))];
+  const partners = siblings.length > 0 ? siblings.map((s) => s.name) : [partner(1), partner(-1)];
+  const others = [...new Set(partners.filter((n): n is string => n !== null && n !== point.name))];
   const merging = others.length > 0 ? `${point.name} and ${others.join(', ')} coincide at one loop` : `${point.name} is a multiple root at one loop`;
   const message = `${merging} (a multiple root of the one-loop fixed-point equations: the one-loop stability matrix has a zero eigenvalue); ${degeneracy.detail}`;
   (point.caveats as FixedPointCaveat[]).unshift({ kind: 'degenerate-one-loop', message });
   if (degeneracy.kind !== 'split' && point.status === 'real') point.status = 'degenerate';
 }
 
-/** Points whose coupling series agree (to rounding) are one point: keep the first, with the notes of both. */
+/** Points whose coupling series (and values at ε, if any) agree to rounding are one point: keep the first, with the notes of both. */
 function withoutDuplicates<C>(points: FixedPoint<C>[], pieces: FlowPieces<C>): FixedPoint<C>[] {
   const { ring } = pieces.flow.calculus.ctx;
+  const sameValues = (a: FixedPoint<C>, b: FixedPoint<C>) => !a.couplingValues || !b.couplingValues || a.couplingValues.every((x, i) => pieces.isZero(ring.sub(x as unknown as C, (b.couplingValues as Real[])[i] as unknown as C)));
   const same = (a: FixedPoint<C>, b: FixedPoint<C>) => {
-    if (!a.couplingSeries || !b.couplingSeries || a.status !== b.status) return false;
+    if (!a.couplingSeries || !b.couplingSeries || a.status !== b.status || !sameValues(a, b)) return false;
     return a.couplingSeries.every((s, i) => {
       const t = (b.couplingSeries as LaurentSeries<C>[])[i];
       if (s.order !== t.order) return false;

@@ -1,17 +1,16 @@
-import { numericCalculus } from '../diagrams/calculus';
+import { flowAt } from '../flows/family';
 import { type DerivedFlow } from '../diagrams/renormalization';
 import { type Quantity, exponentSeriesPartial, powerCoefficients } from '../exponents/exponents';
 import { fixedPointNotices, scanRegimeNotices } from '../exponents/notices';
 import { type Crossover } from '../exponents/shortRange';
 import { type FixedPoint, findFixedPoints } from '../fixedpoints/fixedPoints';
-import { type CouplingPolynomial } from '../models/couplingPolynomial';
 import { type ModelSpec } from '../models/model';
 import { EngineError } from '../precision/errors';
 import { type Real } from '../precision/real';
 import { type LaurentSeries } from '../series/laurent';
 import { type Expression } from '../symbolic/expression';
 import { type Q, q, qCompare } from '../symbolic/rational';
-import { type ExternalPoint, type PrimaryCoefficients, type ScanPoint, evaluateAtPoint, isShortRangePoint, meanFieldPoint, padeFields, printedValues, scanPade, walkGrid } from './scan';
+import { type ExternalPoint, type PrimaryCoefficients, type ScanPoint, isShortRangePoint, meanFieldPoint, padeFields, printedValues, scanPade, walkGrid } from './scan';
 
 /**
  * Scans of models with several couplings: the flow is derived once symbolically in s; at each
@@ -47,26 +46,7 @@ export interface FlowScanPoint extends ScanPoint {
 
 /** The symbolic-in-s flow as numbers at one s (coefficients evaluated with shared atoms). */
 export function flowAtS(flow: DerivedFlow<Expression>, s: Q, digits: number): DerivedFlow<Real> {
-  const calculus = numericCalculus(s, digits);
-  const { ring } = calculus.ctx;
-  const atoms = new Map<string, Real>();
-  const at = { s };
-  const value = (e: Expression) => evaluateAtPoint(e, at, calculus.digits, atoms);
-  const numeric = (p: CouplingPolynomial<Expression>) => p.map(ring, value);
-  return {
-    calculus,
-    couplings: flow.couplings,
-    loops: flow.loops,
-    beta: flow.beta.map(numeric),
-    gammaPhi: numeric(flow.gammaPhi),
-    gammaPhi2: flow.gammaPhi2 ? numeric(flow.gammaPhi2) : null,
-    gammaPhi2Note: flow.gammaPhi2Note,
-    quadratic: flow.quadratic ? { pairs: flow.quadratic.pairs, gamma: flow.quadratic.gamma.map((row) => row.map(numeric)) } : null,
-    fieldRenormalized: flow.fieldRenormalized,
-    residues: { first: flow.residues.first.map(numeric), second: flow.residues.second.map(numeric) },
-    trail: [],
-    checks: flow.checks,
-  };
+  return flowAt(flow, { s }, digits, { withTrail: false });
 }
 
 export function scanFlow(request: FlowScanRequest): FlowScanPoint[] {

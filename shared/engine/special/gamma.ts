@@ -5,7 +5,7 @@ import { bernoulliEvenUnreduced } from './bernoulli';
 import { cachedConstant, eulerGammaFixed, ln2Fixed, piFixed } from './constants';
 import { expFixedSplit, lnFixedPositive, lnRational } from './elementary';
 import { type BigFloat, bitLen, floatDiv, floatFromInteger, floatFromRational, floatMul, trim } from './float';
-import { bitsNearInteger, sinCosPi } from './trigonometric';
+import { bitsNearInteger, sinPi } from './trigonometric';
 import { zetaTableFixed } from './zeta';
 
 /** value = mant·2^exp2 (mant in fixed point at the caller's bits); keeps huge Γ values small. */
@@ -343,7 +343,7 @@ function gammaByTaylor(x: ExactRational, bits: number): ScaledFixed {
 function gammaByReflection(x: ExactRational, bits: number): ScaledFixed {
   const work = bits + bitsNearInteger(x) + 8;
   const g = normalised(gammaScaled({ num: x.den - x.num, den: x.den }, work), work);
-  const { sin } = sinCosPi(x, work);
+  const sin = sinPi(x, work);
   const mant = div(piFixed(work), mul(sin, g.mant, work), work);
   return { mant: changeBits(mant, work, bits), exp2: -g.exp2 };
 }
@@ -383,7 +383,7 @@ export function lnGammaFixed(x: ExactRational, bits: number): Fixed {
 /** ln|Γ(x)| = ln π − ln|sin πx| − ln Γ(1−x) for x < 0  (DLMF 5.5.3). */
 function lnGammaByReflection(x: ExactRational, bits: number): Fixed {
   const work = bits + bitsNearInteger(x) + 8;
-  const { sin } = sinCosPi(x, work);
+  const sin = sinPi(x, work);
   const lnSin = lnFixedPositive(sin < 0n ? -sin : sin, work);
   const value = lnFixedPositive(piFixed(work), work) - lnSin - lnGammaFixed({ num: x.den - x.num, den: x.den }, work);
   return changeBits(value, work, bits);

@@ -2,11 +2,16 @@ import { type ExactRational, type Fixed, changeBits, div, fromRational, mul, one
 import { piFixed } from './constants';
 import { isqrtFast, rectangularSeries } from './elementary';
 
+/** sin(πx) alone (cos(πx) is not computed when it is not needed on the way). */
+export function sinPi(x: ExactRational, bits: number): Fixed {
+  return sinCosPi(x, bits, true).sin;
+}
+
 /**
- * sin(πx) and cos(πx) for rational x. The reduction of x modulo 2 is exact, so values near the
+ * sin(πx) and cos(πx) for rational x (with `sinOnly`, cos may be returned as 0). The reduction of x modulo 2 is exact, so values near the
  * zeros of sin(πx) keep their relative accuracy once the caller adds bits for the distance.
  */
-export function sinCosPi(x: ExactRational, bits: number): { sin: Fixed; cos: Fixed } {
+export function sinCosPi(x: ExactRational, bits: number, sinOnly = false): { sin: Fixed; cos: Fixed } {
   const work = bits + 8;
   const twoDen = 2n * x.den;
   let r = x.num % twoDen; // x mod 2, as r/den
@@ -28,7 +33,7 @@ export function sinCosPi(x: ExactRational, bits: number): { sin: Fixed; cos: Fix
   let s: Fixed;
   let c: Fixed;
   if (4n * r <= x.den) {
-    [s, c] = sinCosTaylor(mul(piFixed(work), fromRational(r, x.den, work), work), work);
+    [s, c] = sinCosTaylor(mul(piFixed(work), fromRational(r, x.den, work), work), work, sinOnly);
   } else {
     const [s2, c2] = sinCosTaylor(mul(piFixed(work), fromRational(x.den - 2n * r, 2n * x.den, work), work), work);
     s = c2;
@@ -44,7 +49,7 @@ const TRIPLINGS = 6;
  * [sin θ, cos θ] for 0 ≤ θ ≤ π/4: the Taylor series of sin at θ/3^h (rectangular splitting), h
  * triplings sin 3t = sin t·(3 − 4 sin² t), then cos θ = √(1 − sin² θ) (well conditioned: cos θ ≥ 1/√2).
  */
-function sinCosTaylor(theta: Fixed, bits: number): [Fixed, Fixed] {
+function sinCosTaylor(theta: Fixed, bits: number, sinOnly = false): [Fixed, Fixed] {
   const work = bits + 2 * TRIPLINGS + 10;
   const t = changeBits(theta, bits, work) / 3n ** BigInt(TRIPLINGS);
   const u = mul(t, t, work);
@@ -56,7 +61,7 @@ function sinCosTaylor(theta: Fixed, bits: number): [Fixed, Fixed] {
   const three = 3n << BigInt(work);
   for (let i = 0; i < TRIPLINGS; i++) sin = mul(sin, three - 4n * mul(sin, sin, work), work);
   const unit = one(work);
-  const cos = isqrtFast((unit - mul(sin, sin, work)) << BigInt(work));
+  const cos = sinOnly ? 0n : isqrtFast((unit - mul(sin, sin, work)) << BigInt(work));
   return [changeBits(sin, work, bits), changeBits(cos, work, bits)];
 }
 

@@ -4,7 +4,7 @@ import { ln2Fixed, piFixed } from './constants';
 import { expFixedSplit, lnFixedPositive } from './elementary';
 import { type BigFloat, FLOAT_ZERO, bitLen, floatFromFixed, floatMul, trim } from './float';
 import { gammaScaled } from './gamma';
-import { bitsNearInteger, sinCosPi } from './trigonometric';
+import { bitsNearInteger, sinPi } from './trigonometric';
 import { zetaRealFixed } from './zeta';
 
 /** ζ(x) for a rational x < 0: ζ(x) = 2^x π^{x−1} sin(πx/2) Γ(1−x) ζ(1−x)  (DLMF 25.4.1). Zero at even x. */
@@ -15,7 +15,7 @@ export function zetaNegativeFloat(x: ExactRational, bits: number): BigFloat {
   const work = bits + 16 + bitLen(x.num / x.den);
   const oneMinusX = { num: x.den - x.num, den: x.den };
   const sinBits = work + bitsNearInteger(half) + 8;
-  const { sin } = sinCosPi(half, sinBits);
+  const sin = sinPi(half, sinBits);
   const gamma = gammaScaled(oneMinusX, work);
   const zeta = zetaRealFixed(oneMinusX, work);
   // 2^x π^{x−1} = exp(x ln 2 + (x−1) ln π); the exponent is large for large |x|, so more bits

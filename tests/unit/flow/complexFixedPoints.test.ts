@@ -34,6 +34,9 @@ for (const N of [1, 3]) {
     const r = run({ ...job, job: 'fixedpoints', d: '3' });
     const point = r.fixedPoints.find((p: Any) => p.name !== 'Gaussian');
     assert.equal(point.status, 'complex');
+    // complex at the physical ε: never IR-stable, and the result says so
+    assert.equal(point.stable, false);
+    assert.equal(point.caveats[0].kind, 'complex-at-eps');
     const [gRe, gIm] = parseComplex(point.couplings.u.value);
     close(gRe, re, 'Re u*');
     close(gIm, im, 'Im u*');
