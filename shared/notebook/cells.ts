@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { COMPARABLE_Y_AXES, DATASET_SHAPES, datasetLabel } from './datasets';
-import { MAX_ABS_N, MAX_FIELDS, MAX_SCAN_POINTS } from '../jobs/contract';
+import { JOB_LIMITS, MAX_ABS_N, MAX_FIELDS, MAX_SCAN_POINTS } from '../jobs/contract';
 
 /**
  * Cell kinds of a notebook and their inputs. Inputs are validated here, at the edge, before any job
@@ -39,7 +39,7 @@ export const modelSpec = z.discriminatedUnion('preset', [
   z.strictObject({
     preset: z.literal('custom'),
     fields: fieldCount,
-    potential: z.string().trim().min(1, 'Type the quartic potential').max(2000),
+    potential: z.string().trim().min(1, 'Type the quartic potential').max(JOB_LIMITS.maxExpressionLength),
   }),
 ]);
 export type ModelSpec = z.infer<typeof modelSpec>;
@@ -55,7 +55,7 @@ export const setupInput = z.strictObject({
   d: dimension.optional(),
   s: propagatorPower.optional(),
   loops: z.union([z.literal(1), z.literal(2)]),
-  digits: z.number().int().min(5, 'At least 5 digits').max(200, 'At most 200 digits in a notebook'),
+  digits: z.number().int().min(JOB_LIMITS.minDigits, `At least ${JOB_LIMITS.minDigits} digits`).max(JOB_LIMITS.maxFlowDigits, `At most ${JOB_LIMITS.maxFlowDigits} digits in a notebook`),
 });
 
 const uses = cellLabel.describe('label of the setup cell this cell takes its model and parameters from');
@@ -64,7 +64,7 @@ export const integralInput = z.strictObject({
   kind: z.literal('integral'),
   uses: uses.optional(),
   form: z.enum(['laurent', 'bubble']),
-  expr: z.string().trim().max(2000).optional(),
+  expr: z.string().trim().max(JOB_LIMITS.maxExpressionLength).optional(),
   a: z.string().trim().max(200).optional(),
   b: z.string().trim().max(200).optional(),
   d: z.string().trim().min(1).max(200),

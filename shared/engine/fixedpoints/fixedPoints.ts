@@ -115,14 +115,14 @@ function newtonRoot(flow: DerivedFlow<Real>, start: Real[], eps: Real, siblings:
 }
 
 /**
- * The real root on a branch at ε: Newton from the branch's start, or, when that fails or the branch
- * has merging siblings, continuation from a small ε (where the series tell the branches apart) up
- * to ε: Euler predictor along dg/dε = J⁻¹g (from ∂β/∂ε = −g), Newton corrector, a step accepted
- * only when the correction is small against the predicted move and the siblings' separation.
+ * The real root on a branch at ε: Newton from the branch's start. A branch with merging siblings
+ * (whose series values at ε may be farther apart than the roots) is continued from a small ε, where
+ * the series tell the branches apart, up to ε: Euler predictor along dg/dε = J⁻¹g (from
+ * ∂β/∂ε = −g), Newton corrector, a step accepted only when the correction is small against the
+ * predicted move and against the siblings' separation.
  */
 function continuedRoot(flow: DerivedFlow<Real>, startAt: (e: Real) => Real[], siblingsAt: (e: Real) => Real[][], eps: Real): { g: Real[]; accuracy: number } | null {
-  const direct = siblingsAt(eps).length === 0 ? newtonRoot(flow, startAt(eps), eps, []) : null;
-  if (direct) return direct;
+  if (siblingsAt(eps).length === 0) return newtonRoot(flow, startAt(eps), eps, []);
   const { ring } = flow.calculus.ctx;
   const isZero = flow.calculus.isNegligible;
   const at = (t: number) => ring.mul(eps, ring.fromRational(BigInt(Math.round(t * 2 ** 40)), 2n ** 40n));
@@ -130,7 +130,7 @@ function continuedRoot(flow: DerivedFlow<Real>, startAt: (e: Real) => Real[], si
   let t = 1 / 64;
   let root = newtonRoot(flow, startAt(at(t)), at(t), siblingsAt(at(t)));
   let dt = t;
-  while (root && root.accuracy === 0 && t < 1) {
+  for (let attempts = 0; root && root.accuracy === 0 && t < 1 && attempts < 200; attempts++) {
     const next = Math.min(1, t + dt);
     const tangent = solveLinear(ring, stabilityMatrixAt(flow, root.g, at(t)), root.g, (c) => c.isZero(), (c) => Math.abs(toNumber(c)));
     if (!tangent) return null;
@@ -145,7 +145,7 @@ function continuedRoot(flow: DerivedFlow<Real>, startAt: (e: Real) => Real[], si
       dt = Math.min(2 * dt, 1 / 8);
     } else if ((dt /= 2) < 1e-4) return null;
   }
-  return root;
+  return t < 1 ? null : root;
 }
 
 interface AtEps {

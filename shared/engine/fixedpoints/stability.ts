@@ -31,14 +31,21 @@ function padeAt(series: LaurentSeries<Real>, eps: Real, isZero: (c: Real) => boo
   }
 }
 
+function signOfValues(values: Complex[]): boolean | null {
+  const size = Math.max(...values.map((z) => Math.abs(z.re)), 1e-300);
+  if (values.some((z) => z.re < -1e-12 * size)) return false;
+  return values.every((z) => z.re > 1e-12 * size) ? true : null;
+}
+
 /**
  * IR stability at a physical ε from the eigenvalue series: each eigenvalue's truncated value and its
  * [1/1] Padé approximant must agree in sign; where they do not, that eigenvalue is undecided and a
  * caveat names both values. Stable: all positive; unstable: some eigenvalue negative in both;
- * otherwise undecided (null). Without complete series, the eigenvalues at the numeric root decide.
+ * otherwise undecided (null). Without complete series, or where a series vanishes through its order,
+ * the eigenvalues at the numeric root decide.
  */
 export function stabilityAt(eigen: (LaurentSeries<Real> | null)[] | null, values: Complex[] | null, eps: Real, isZero: (c: Real) => boolean, digits: number): { stable: boolean | null; caveats: FixedPointCaveat[] } {
-  if (!eigen || eigen.some((e) => e === null)) return { stable: values ? values.every((z) => z.re > 0) : null, caveats: [] };
+  if (!eigen || eigen.some((e) => e === null)) return { stable: values ? signOfValues(values) : null, caveats: [] };
   const caveats: FixedPointCaveat[] = [];
   const signs: Sign[] = (eigen as LaurentSeries<Real>[]).map((series, i) => {
     const truncated = series.evaluate(eps);
@@ -53,6 +60,8 @@ export function stabilityAt(eigen: (LaurentSeries<Real> | null)[] | null, values
     return 'undecided';
   });
   if (signs.includes('negative')) return { stable: false, caveats };
-  if (signs.includes('undecided') || signs.includes('zero')) return { stable: null, caveats };
+  if (signs.includes('undecided')) return { stable: null, caveats };
+  // a series that vanishes through its order (a merging point): the eigenvalues at the root decide, if any
+  if (signs.includes('zero')) return { stable: values ? signOfValues(values) : null, caveats };
   return { stable: true, caveats };
 }

@@ -26,13 +26,6 @@ export function withRelativeAccuracy(
   return fail('limit', 'value too close to a zero to resolve at this precision');
 }
 
-/** log2 of n! in double precision (for precision planning only). */
-export function log2Factorial(n: number): number {
-  let s = 0;
-  for (let i = 2; i <= n; i++) s += Math.log2(i);
-  return s;
-}
-
 function approximateBitLength(v: bigint): number {
   const n = Math.abs(Number(v));
   if (n < 1e300) return n < 1 ? 0 : Math.floor(Math.log2(n)) + 1;

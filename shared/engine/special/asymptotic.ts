@@ -48,7 +48,7 @@ export class CoefficientCache {
       const table = this.get(top, terms);
       list = [0n];
       for (let k = 1; k <= terms; k++) list.push(table.coeffs[k] >> BigInt(table.bits - Math.max(16, top - (k - 1) * d)));
-      if (this.truncations.size >= 8) this.truncations.delete(this.truncations.keys().next().value as string);
+      if (this.truncations.size >= 4) this.truncations.delete(this.truncations.keys().next().value as string);
       this.truncations.set(key, list);
     }
     return list;

@@ -142,7 +142,7 @@ function levelLog(level: number, j: number, bits: number): Fixed {
 }
 
 /** atanh(p/q) for small integers 0 ≤ p < q. */
-export function atanhRational(p: bigint, q: bigint, bits: number): Fixed {
+function atanhRational(p: bigint, q: bigint, bits: number): Fixed {
   let power = (p << BigInt(bits)) / q;
   const p2 = p * p;
   const q2 = q * q;

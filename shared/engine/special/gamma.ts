@@ -215,7 +215,8 @@ function lnGammaStirling(P: bigint, Q: bigint, bits: number): Fixed {
 export function arithmeticProduct(a: bigint, d: bigint, lo: bigint, hi: bigint): bigint {
   if (hi <= lo) return 1n;
   const largest = a + (hi - 1n) * d;
-  if (a >= 0n && largest < 1n << 26n) return smallArithmeticProduct(Number(a), Number(d), Number(lo), Number(hi));
+  const limit = 1n << 26n;
+  if (a > -limit && a < limit && largest > -limit && largest < limit && d > 0n) return smallArithmeticProduct(Number(a), Number(d), Number(lo), Number(hi));
   if (hi - lo <= 8n) {
     let p = 1n;
     for (let j = lo; j < hi; j++) p *= a + j * d;
@@ -225,13 +226,13 @@ export function arithmeticProduct(a: bigint, d: bigint, lo: bigint, hi: bigint):
   return arithmeticProduct(a, d, lo, mid) * arithmeticProduct(a, d, mid, hi);
 }
 
-/** The same product when every factor is below 2^26: pairs of factors fit a double exactly. */
+/** The same product when every |factor| is below 2^26: pairs of factors fit a double exactly. */
 function smallArithmeticProduct(a: number, d: number, lo: number, hi: number): bigint {
   const words: bigint[] = [];
   let word = 1;
   for (let j = lo; j < hi; j++) {
     const factor = a + j * d;
-    if (word * factor >= 2 ** 53) {
+    if (Math.abs(word * factor) >= 2 ** 53) {
       words.push(BigInt(word));
       word = factor;
     } else word *= factor;
@@ -268,13 +269,21 @@ function isPowerOfTwo(n: bigint): boolean {
   return (n & (n - 1n)) === 0n;
 }
 
+/**
+ * At Stirling-path precisions a moderately negative x is shifted up like a positive one: the exact
+ * product Π(x+j) then carries the sign and the nearness to the poles, and no sin(πx) is needed.
+ */
+export function usesShiftOnNegativeAxis(x: ExactRational, bits: number): boolean {
+  return bits > TAYLOR_PATH_MAX_BITS && -x.num <= BigInt(asymptoticThreshold(bits)) * x.den;
+}
+
 /** Upward shift N so that x + N reaches the asymptotic threshold. */
 function shiftFor(x: ExactRational, bits: number): bigint {
   const threshold = BigInt(asymptoticThreshold(bits));
   return x.num < threshold * x.den ? threshold - x.num / x.den : 0n;
 }
 
-/** Γ(x) for x > 0: exp of the Stirling series at x + N, divided by Π_{j<N}(x+j). */
+/** Γ(x) = exp(ln Γ(x+N))/Π_{j<N}(x+j) (DLMF 5.5.1), with the Stirling series at x + N. */
 function gammaByStirling(x: ExactRational, bits: number): ScaledFixed {
   const work = bits + 16;
   const N = shiftFor(x, work);
@@ -283,13 +292,13 @@ function gammaByStirling(x: ExactRational, bits: number): ScaledFixed {
   return scaledFromFloat(value, bits);
 }
 
-export function scaledFromFloat(v: BigFloat, bits: number): ScaledFixed {
+function scaledFromFloat(v: BigFloat, bits: number): ScaledFixed {
   const shift = bitLen(v.man) - 1 - bits;
   const mant = shift >= 0 ? v.man >> BigInt(shift) : v.man << BigInt(-shift);
   return { mant, exp2: BigInt(v.exp + shift + bits) };
 }
 
-/** Γ(k+½) = √π·(2k−1)!!/2^k and Γ(½−k) = √π·(−2)^k/(2k−1)!!  (DLMF 5.4.6). */
+/** Γ(k+½) = √π·(2k−1)!!/2^k (DLMF 5.4.6) and Γ(½−k) = √π·(−2)^k/(2k−1)!! (with DLMF 5.5.3). */
 function gammaHalfInteger(x: ExactRational, bits: number): ScaledFixed {
   const work = bits + 8;
   const k = x.num > 0n ? (x.num - 1n) / 2n : (1n - x.num) / 2n;
@@ -310,7 +319,7 @@ const EXACT_ARGUMENT_MAX = 4000n;
 export function gammaScaled(x: ExactRational, bits: number): ScaledFixed {
   if (isNonPositiveInteger(x)) fail('pole', `Gamma has a pole at ${x.num}`);
   if (x.den === 2n && (x.num < 0n ? -x.num : x.num) <= 2n * EXACT_ARGUMENT_MAX) return gammaHalfInteger(x, bits);
-  if (x.num < 0n) return gammaByReflection(x, bits);
+  if (x.num < 0n) return usesShiftOnNegativeAxis(x, bits) ? gammaByStirling(x, bits) : gammaByReflection(x, bits);
   if (x.den === 1n && x.num <= EXACT_ARGUMENT_MAX) return scaledFromFloat(floatFromInteger(arithmeticProduct(1n, 1n, 0n, x.num - 1n), bits + 8), bits);
   if (bits <= TAYLOR_PATH_MAX_BITS && x.num <= TAYLOR_PATH_MAX_X * x.den) {
     if (2n * x.num >= x.den) return gammaByTaylor(x, bits);
@@ -355,7 +364,7 @@ function normalised(v: ScaledFixed, bits: number): ScaledFixed {
   return { mant: v.mant >> BigInt(shift), exp2: v.exp2 + BigInt(shift) };
 }
 
-/** Sign of Γ(x) for real x that is not a pole: (−1)^⌈−x⌉ on the negative axis (DLMF 5.2.1, 5.5.3). */
+/** Sign of Γ(x) for real x that is not a pole: (−1)^⌈−x⌉ on the negative axis (Γ(x) = Γ(x+1)/x, DLMF 5.5.1). */
 export function gammaSignOf(x: ExactRational): 1 | -1 {
   if (isNonPositiveInteger(x)) fail('pole', `Gamma has a pole at ${x.num}`);
   if (x.num > 0n) return 1;
@@ -367,8 +376,8 @@ export function gammaSignOf(x: ExactRational): 1 | -1 {
 export function lnGammaFixed(x: ExactRational, bits: number): Fixed {
   if (isNonPositiveInteger(x)) fail('pole', `Gamma has a pole at ${x.num}`);
   if (x.den === 1n && (x.num === 1n || x.num === 2n)) return 0n;
-  if (x.num < 0n) return lnGammaByReflection(x, bits);
   const work = bits + 8;
+  if (x.num < 0n && !usesShiftOnNegativeAxis(x, work)) return lnGammaByReflection(x, bits);
   const taylor = work <= TAYLOR_PATH_MAX_BITS && x.num <= TAYLOR_PATH_MAX_X * x.den;
   if (taylor || (x.den === 1n && x.num <= EXACT_ARGUMENT_MAX)) {
     const g = gammaScaled(x, work);
@@ -377,7 +386,7 @@ export function lnGammaFixed(x: ExactRational, bits: number): Fixed {
   const N = shiftFor(x, work);
   const lnShifted = lnGammaStirling(x.num + N * x.den, x.den, work);
   const product = risingFactorial(x.num, x.den, N, work);
-  return changeBits(lnShifted - lnFloat(product, work), work, bits);
+  return changeBits(lnShifted - lnFloat({ man: product.man < 0n ? -product.man : product.man, exp: product.exp }, work), work, bits);
 }
 
 /** ln|Γ(x)| = ln π − ln|sin πx| − ln Γ(1−x) for x < 0  (DLMF 5.5.3). */

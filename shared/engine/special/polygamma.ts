@@ -26,6 +26,7 @@ import {
   isNonPositiveInteger,
   nearestInteger,
   reciprocalGammaNearOne,
+  usesShiftOnNegativeAxis,
 } from './gamma';
 import { bitsNearInteger, cotPi, sinCosPi } from './trigonometric';
 
@@ -57,8 +58,8 @@ export function polygammaFixed(n: number, x: ExactRational, bits: number): Fixed
   checkOrder(n);
   if (isNonPositiveInteger(x)) fail('pole', `psi has a pole at ${x.num}`);
   if (n > 1) throw new Error('polygammaFixed handles n ≤ 1');
-  if (x.num < 0n) return digammaByReflection(x, bits);
-  if (bits <= TAYLOR_PATH_MAX_BITS && x.num <= TAYLOR_PATH_MAX_X * x.den) return polygammaByTaylor(n, x, bits + 8) >> 8n;
+  if (x.num < 0n && !usesShiftOnNegativeAxis(x, bits + 16)) return digammaByReflection(x, bits);
+  if (x.num > 0n && bits <= TAYLOR_PATH_MAX_BITS && x.num <= TAYLOR_PATH_MAX_X * x.den) return polygammaByTaylor(n, x, bits + 8) >> 8n;
   if (n === 1) return floatToFixed(polygammaFloat(1, x, bits + 8), bits);
   return digammaAsymptotic(x, bits);
 }
@@ -191,11 +192,11 @@ interface HurwitzPlan {
 }
 
 /**
- * Euler–Maclaurin for the scaled Hurwitz sum (DLMF 2.10.1 applied to (x+t)^{-s}; the same expansion
- * as DLMF 25.11.43 at integer s): with z = x + N,
+ * Euler–Maclaurin for the scaled Hurwitz sum (DLMF 2.10.1 applied to (x+t)^{-s}; the large-a expansion
+ * of DLMF §25.11(xii) at integer s): with z = x + N,
  *   S = Σ_{k<N} (x/(x+k))^s + (x/z)^s·[z/(s−1) + ½ + Σ_{j≥1} c_j z^{1−2j}],  c_j = B_{2j}(s)_{2j−1}/(2j)!.
  * The plan trades direct terms (a power and a division each) against correction terms (a short
- * product and division each), using |B_{2j}|/(2j)! ≤ 2ζ(2)/(2π)^{2j} (DLMF 24.9.8).
+ * product and division each), using |B_{2j}|/(2j)! = 2ζ(2j)/(2π)^{2j} ≤ 2ζ(2)/(2π)^{2j} (DLMF 25.6.2).
  */
 function planHurwitz(s: number, log2x: number, x: number, bits: number): HurwitzPlan {
   const budget = -bits - 8;
@@ -241,7 +242,7 @@ function correctionTerms(s: number, log2z: number, budget: number): number | nul
 }
 
 const hurwitzCaches = new Map<number, CoefficientCache>();
-const MAX_HURWITZ_CACHES = 24;
+const MAX_HURWITZ_CACHES = 16;
 
 /** Cache of c_j = B_{2j}·(s)_{2j−1}/(2j)! for one s. */
 function hurwitzCoefficients(s: number): CoefficientCache {

@@ -7,7 +7,7 @@ import { gammaScaled } from './gamma';
 import { bitsNearInteger, sinPi } from './trigonometric';
 import { zetaRealFixed } from './zeta';
 
-/** ζ(x) for a rational x < 0: ζ(x) = 2^x π^{x−1} sin(πx/2) Γ(1−x) ζ(1−x)  (DLMF 25.4.1). Zero at even x. */
+/** ζ(x) for a rational x < 0: ζ(x) = 2^x π^{x−1} sin(πx/2) Γ(1−x) ζ(1−x)  (DLMF 25.4.1–25.4.2). Zero at even x. */
 export function zetaNegativeFloat(x: ExactRational, bits: number): BigFloat {
   if (x.num >= 0n) fail('domain', 'zetaNegativeFloat needs x < 0');
   const half = { num: x.num, den: 2n * x.den };

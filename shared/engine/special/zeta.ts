@@ -1,5 +1,6 @@
 import { type ExactRational, type Fixed, changeBits, div, fromRational, mul, one } from '../precision/fixed';
 import { fail } from '../precision/errors';
+import { log2AbsRational } from './asymptotic';
 import { bernoulliExact } from './bernoulli';
 import { ln2Fixed, piFixed } from './constants';
 import { expFixed, lnFixedPositive } from './elementary';
@@ -92,11 +93,10 @@ export function zetaRealFixed(x: ExactRational, bits: number): Fixed {
   if (x.num <= 0n) fail('domain', 'zetaRealFixed needs x > 0');
   if (x.num === x.den) fail('pole', 'zeta has a pole at x = 1');
   if (x.den === 1n && x.num < 100000n) return zetaIntegerFixed(Number(x.num), bits);
-  const xValue = Number(x.num) / Number(x.den);
+  const xValue = 2 ** log2AbsRational(x.num, x.den);
   if (xValue * 6 >= bits) return zetaRealByDirectSum(x, xValue, bits);
   // 1 − 2^{1−x} cancels near x = 1: add the bits it loses
-  const distanceToOne = Math.abs(Number(x.num - x.den) / Number(x.den));
-  const extra = Math.max(0, Math.ceil(-Math.log2(distanceToOne))) + 8;
+  const extra = Math.max(0, Math.ceil(-log2AbsRational(x.num - x.den, x.den))) + 8;
   const work = bits + extra;
   const { weights } = borweinWeights(work);
   const xFixed = fromRational(x.num, x.den, work);

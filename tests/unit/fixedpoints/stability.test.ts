@@ -38,7 +38,7 @@ test('cubic N = 3 at s = 7/4, d = 3 (ε = 1/2): every non-Gaussian point is comp
     assert.equal(p.status, 'complex');
     assert.equal(p.stable, false);
     assert.equal(p.caveats[0].kind, 'complex-at-eps');
-    assert.ok(Object.values(p.couplings).some((c: Any) => /i$/.test(c.value)), JSON.stringify(p.couplings));
+    assert.ok((Object.values(p.couplings) as Any[]).some((c) => /i$/.test(c.value)), JSON.stringify(p.couplings));
   }
 });
 

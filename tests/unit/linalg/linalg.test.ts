@@ -42,7 +42,7 @@ test('eigenvalues with multiplicity of a non-triangular matrix PÂ·diag(2, 2, 5)Â
   const P = [[1, 1, 0], [0, 1, 1], [1, 0, 1]];
   const Pinv = [[0.5, -0.5, 0.5], [0.5, 0.5, -0.5], [-0.5, 0.5, 0.5]];
   const Dg = [2, 2, 5];
-  const A = P.map((row, i) => Pinv[0].map((_, j) => row.reduce((s, x, k) => s + x * Dg[k] * Pinv[k][j], 0)));
+  const A = P.map((row) => Pinv[0].map((_, j) => row.reduce((s, x, k) => s + x * Dg[k] * Pinv[k][j], 0)));
   const groups = eigenvaluesWithMultiplicity(ring, A.map((row) => row.map((x) => c.of(new R(x)))), isZero);
   const sorted = groups.map((g) => [g.root.re.toSignificantDigits(45).toString(), g.multiplicity]).sort();
   assert.deepEqual(sorted, [['2', 2], ['5', 1]]);
