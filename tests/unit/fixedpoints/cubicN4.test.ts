@@ -2,7 +2,7 @@ import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import Decimal from 'decimal.js';
 import { runFlowJob } from '../../../shared/jobs/flowJobs';
-import { type Fraction, fr, seriesFixedPoint, tensorOf, twoCouplingBeta } from './generalTensor';
+import { type Fraction, fr, seriesFixedPoint, tensorOf, twoCouplingBeta } from '../helpers/generalTensor';
 
 type Any = Record<string, any>;
 const run = (job: object) => runFlowJob(job) as Any;

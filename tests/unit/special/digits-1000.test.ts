@@ -1,7 +1,7 @@
 import { test } from 'node:test';
 import { special } from '../../../shared/engine/index';
-import { assertDigits } from '../engine/helpers';
-import { DIGITS_1000 } from './mpmath-values';
+import { assertDigits } from '../helpers/engine';
+import { DIGITS_1000 } from '../helpers/mpmath-values';
 
 /** The 1000-digit paths (Stirling series with exact shift products, fast exp/ln) against mpmath 1.3.0 (reference library). */
 

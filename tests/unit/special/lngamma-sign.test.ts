@@ -1,8 +1,8 @@
 import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import { EngineError, special } from '../../../shared/engine/index';
-import { assertDigits, wide } from '../engine/helpers';
-import { DIGITS_1000, LN_ABS_GAMMA_70 } from './mpmath-values';
+import { assertDigits, wide } from '../helpers/engine';
+import { DIGITS_1000, LN_ABS_GAMMA_70 } from '../helpers/mpmath-values';
 
 /** ln|Γ(x)| on the whole real line except the poles, with the sign of Γ(x) exposed separately. */
 

@@ -1,8 +1,8 @@
 import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import { EngineError, special } from '../../../shared/engine/index';
-import { assertDigits } from '../engine/helpers';
-import { PSI_110, PSI_310 } from './mpmath-values';
+import { assertDigits } from '../helpers/engine';
+import { PSI_110, PSI_310 } from '../helpers/mpmath-values';
 
 /**
  * ψ⁽ⁿ⁾(x) for every order the job layer allows (0…200), on both sides of the axis, tiny to large x,

@@ -1,8 +1,8 @@
 import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import { EngineError, special } from '../../../shared/engine/index';
-import { assertDigits } from '../engine/helpers';
-import { DIGITS_1000, ZETA_70, ZETA_NEAR_POLE_70 } from './mpmath-values';
+import { assertDigits } from '../helpers/engine';
+import { DIGITS_1000, ZETA_70, ZETA_NEAR_POLE_70 } from '../helpers/mpmath-values';
 
 /** ζ(x) for every real x ≠ 1: the functional equation on the negative axis (DLMF 25.4.1–25.4.2), Borwein's series on (0, 1) ∪ (1, ∞). */
 

@@ -5,7 +5,7 @@ import { runFlowJob } from '../../../shared/jobs/flowJobs';
 type Any = Record<string, any>;
 const run = (job: object) => runFlowJob(job) as Any;
 
-// Source: physics-notes §2 — for s < 2, Δφ = (d − s)/2 exactly (Lohmann–Slade–Wallace 2017) and
+// Source: docs/physics.md §2 — for s < 2, Δφ = (d − s)/2 exactly (Lohmann–Slade–Wallace 2017) and
 // Δφ³ = (d + s)/2 (Paulos–Rychkov–van Rees–Zan 2016), so δ = Δφ³/Δφ = (d + s)/(d − s), β = νΔφ.
 test('exponents job, O(1), d = 3, s = 1.75: δ = (d + s)/(d − s) = 3.8 exactly and β = ν·(d − s)/2', () => {
   const [d, s] = [3, 1.75];

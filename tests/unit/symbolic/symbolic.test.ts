@@ -4,7 +4,7 @@ import { evaluate } from 'mathjs';
 import { EngineError, Expression, affine, affineParameter, eulerGammaExpr, evaluateExpression, expressionToLatex, expressionToString, gammaExpr, psiExpr, q, zetaExpr } from '../../../shared/engine/index';
 import { polyFromAffine } from '../../../shared/engine/symbolic/polynomial';
 import { ratDivideByPoly, ratFromPoly } from '../../../shared/engine/symbolic/ratfunc';
-import { assertDigits, wide } from './helpers';
+import { assertDigits, wide } from '../helpers/engine';
 
 const N = affineParameter('N');
 const linear = (c: number, n = 1) => polyFromAffine(affine(q(c), { N: q(n) }));
@@ -22,7 +22,7 @@ test('rational functions of N: (N+2)/(N+8) + 6/(N+8) = 1 and repeated factors co
   // inverse of an expanded product splits into linear factors again: 1/((N+2)(N+8))
   const product = Expression.ratfunc(ratFromPoly(linear(2))).mul(Expression.ratfunc(ratFromPoly(linear(8))));
   assert.equal(expressionToString(product.inverse()), '1/((N + 2)*(N + 8))');
-  // O(N) one-loop weight check: (N+8)/6 · 6/(N+8) = 1 (physics-notes §4 weights)
+  // O(N) one-loop weight check: (N+8)/6 · 6/(N+8) = 1 (docs/physics.md §5 weights)
   assert.equal(expressionToString(Expression.ratfunc(ratFromPoly(linear(8))).scale(q(1, 6)).mul(Expression.ratfunc(ratFromPoly(linear(8))).scale(q(1, 6)).inverse())), '1');
 });
 

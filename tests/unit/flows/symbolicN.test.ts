@@ -9,7 +9,7 @@ import { type Expression, evaluateExpression } from '../../../shared/engine/inde
 import { type Real } from '../../../shared/engine/precision/real';
 import { q } from '../../../shared/engine/symbolic/rational';
 import { runFlowJob } from '../../../shared/jobs/flowJobs';
-import { assertExprEqual, lin, ratio } from './helpers';
+import { assertExprEqual, lin, ratio } from '../helpers/flow';
 
 type Any = Record<string, any>;
 const NAMES = ['O(N)', 'decoupled Ising', 'cubic'];

@@ -41,7 +41,7 @@ test('a two-coupling custom potential (φ²)² + φ1⁴ + φ2⁴ at its "u only"
 test('multi-coupling scan marks s = d/2 and s* = d − 2Δσ and flags points outside the window, as the single-coupling scan does', () => {
   const r = run({ job: 'scan', model: { preset: 'cubic', N: 3 }, d: '3', s: { from: '1.45', to: '1.99', points: 4 }, quantities: ['nuInv'], shortRange: { Delta_sigma: '0.5181489' }, digits: 20 });
   assert.equal(r.marks.meanFieldEnd, '1.5');
-  assert.equal(r.marks.sStar, '1.9637022', 's* = 3 − 2·0.5181489 (physics-notes §2)');
+  assert.equal(r.marks.sStar, '1.9637022', 's* = 3 − 2·0.5181489 (docs/physics.md §7)');
   assert.deepEqual(r.points.map((p: Any) => p.regime), ['mean-field', 'long-range', 'long-range', 'short-range']);
   assert.deepEqual(r.points.map((p: Any) => p.flagged), [true, false, false, true]);
   assert.ok(r.points.every((p: Any) => typeof p.values.nuInv === 'string'));

@@ -14,7 +14,7 @@ import {
   q,
   symbolicRing,
 } from '../../../shared/engine/index';
-import { assertDigits, wide } from './helpers';
+import { assertDigits, wide } from '../helpers/engine';
 
 const R = numericRing(50);
 const num = (x: number | string) => R.fromRational(BigInt(Math.round(Number(x) * 1000)), 1000n);

@@ -16,7 +16,7 @@ test('fixedpoints job with symbolic N and no s/d: symbolic ε-series, no values 
   assert.equal(wf.couplings.u.value, null);
   assert.equal(wf.stability.values, null);
   assert.equal(typeof wf.couplings.u.series[1].expr, 'string');
-  // one-loop root u₁ = 3/(N + 8) (physics-notes §4: β = −εu + (N+8)/3 u² + …)
+  // one-loop root u₁ = 3/(N + 8) (docs/physics.md §5: β = −εu + (N+8)/3 u² + …)
   assert.match(wf.couplings.u.series[1].expr.replace(/\s/g, ''), /3\/\(N\+8\)|3\*\(N\+8\)\^-1/);
   assert.equal(typeof wf.stability.series[0][2].latex, 'string');
 });

@@ -8,13 +8,13 @@ import stdlibGammaln from '@stdlib/math-base-special-gammaln';
 import stdlibZeta from '@stdlib/math-base-special-riemann-zeta';
 import stdlibTrigamma from '@stdlib/math-base-special-trigamma';
 import { EngineError, special } from '../../../shared/engine/index';
-import { assertDigits, decimalText, relativeDifference, wide } from './helpers';
-import { MPMATH } from './reference-values';
+import { assertDigits, decimalText, relativeDifference, wide } from '../helpers/engine';
+import { MPMATH } from '../helpers/reference-values';
 
 const D = 100;
 const RUNS = 25;
 
-test('closed forms at 100 digits: ψ(1/4) = −γ − π/2 − 3 ln 2, ψ(1/3) = −γ − π/(2√3) − (3/2) ln 3, ψ′(1/4) = π² + 8G (DLMF 5.4.19, 5.15; physics-notes §5)', () => {
+test('closed forms at 100 digits: ψ(1/4) = −γ − π/2 − 3 ln 2, ψ(1/3) = −γ − π/(2√3) − (3/2) ln 3, ψ′(1/4) = π² + 8G (DLMF 5.4.19, 5.15; docs/physics.md §10)', () => {
   const g = wide(special.eulerGamma(D + 10));
   const pi = wide(special.pi(D + 10));
   const l2 = wide(special.ln2(D + 10));

@@ -10,7 +10,7 @@ import { type Real } from '../../../shared/engine/precision/real';
 import { q } from '../../../shared/engine/symbolic/rational';
 import { runFlowJob } from '../../../shared/jobs/flowJobs';
 import { type CouplingPolynomial } from '../../../shared/engine/models/couplingPolynomial';
-import { assertExprEqual, num, ratio } from './helpers';
+import { assertExprEqual, num, ratio } from '../helpers/flow';
 
 type Any = Record<string, any>;
 const close = (a: string | number | Real, b: string | number | Real, tol: number, label: string) => assert.ok(Math.abs(Number(String(a)) - Number(String(b))) < tol, `${label}: ${String(a)} vs ${String(b)}`);
@@ -55,7 +55,7 @@ test('O(3): symmetric-traceless one-loop γ_T = 2u/3 (hand: Σ_ef t_ef λ_efab =
   const r = f.quadratic.pairs.findIndex(([i, j]) => i === 0 && j === 1);
   assertExprEqual(f.quadratic.gamma[r][r].terms.get('1')?.coeff as Expression, ratio(num(2), num(3)), 'γ_(12),(12) u coefficient 2/3');
   const singlet = f.gammaPhi2?.terms.get('1')?.coeff as Expression;
-  assertExprEqual(singlet, ratio(num(5), num(3)), 'singlet u coefficient (N+2)/3 = 5/3 (physics-notes §4)');
+  assertExprEqual(singlet, ratio(num(5), num(3)), 'singlet u coefficient (N+2)/3 = 5/3 (docs/physics.md §5)');
 });
 
 test('O(N) at numeric s: eigen-operators singlet (×1) and symmetric traceless (×N(N+1)/2−1); singlet Δ equals Δ_φ², traceless γ = 2ε/(N+8) + O(ε²) (hand, from γ_T = 2u/3 and u* = 3ε/(N+8))', () => {

@@ -7,7 +7,7 @@ import { join } from 'node:path';
 import { evaluate } from 'mathjs';
 import { special } from '../../../shared/engine/index';
 import { CalcJob, CalcResult, JOB_LIMITS, isJobError, runBatch, runJob } from '../../../shared/jobs/index';
-import { assertDigits, wide } from './helpers';
+import { assertDigits, wide } from '../helpers/engine';
 
 const repoRoot = join(__dirname, '..', '..', '..');
 
@@ -24,7 +24,7 @@ function calc(arg: string): { status: number | null; stdout: string; stderr: str
 
 const errorCode = (r: unknown) => (r as { error?: { code: string } }).error?.code;
 
-test('special jobs return `digits` correct significant digits (physics-notes §5 values)', () => {
+test('special jobs return `digits` correct significant digits (docs/physics.md §10 values)', () => {
   const r = runJob({ job: 'special', fn: 'gamma', x: '0.25', digits: 40 }) as { value: string };
   assertDigits(r.value, '3.6256099082219083119306851558676720029951', 40); // cf. OEIS A068466
   assert.equal(r.value.replace(/^-?0?\.?0*/, '').replace('.', '').length, 40);
@@ -74,7 +74,7 @@ test('laurent job: Γ(ε)Γ(1−ε) = π/sin(πε) = 1/ε + π²ε/6 + … (DLMF
   );
 });
 
-test('bubble job: G(s/2,s/2), d = 2s−ε (physics-notes §3), numeric vs symbolic parsed back with mathjs', () => {
+test('bubble job: G(s/2,s/2), d = 2s−ε (docs/physics.md §4), numeric vs symbolic parsed back with mathjs', () => {
   const numeric = runJob({ job: 'bubble', a: 's/2', b: 's/2', d: '2*s-eps', order: 1, at: { s: '1.5' }, digits: 30 }) as { lowest: number; coeffs: string[] };
   const symbolic = runJob({ job: 'bubble', a: 's/2', b: 's/2', d: '2*s-eps', order: 1 }) as { lowest: number; coeffs: Array<{ expr: string; latex: string }> };
   assert.equal(numeric.lowest, -1);

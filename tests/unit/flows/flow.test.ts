@@ -10,11 +10,11 @@ import { affineConstant } from '../../../shared/engine/symbolic/affine';
 import { q } from '../../../shared/engine/symbolic/rational';
 import { polyMul, polyScale } from '../../../shared/engine/symbolic/polynomial';
 import { type Real } from '../../../shared/engine/precision/real';
-import { aOfS, assertExprEqual, lin, num, ratio, sExpr, symbolicExponents } from './helpers';
+import { aOfS, assertExprEqual, lin, num, ratio, sExpr, symbolicExponents } from '../helpers/flow';
 
 const symbolic = symbolicExponents();
 
-test('β(u) and γ_φ²(u) derived from diagrams, symbolic in s and N (physics-notes §4, derived)', () => {
+test('β(u) and γ_φ²(u) derived from diagrams, symbolic in s and N (docs/physics.md §5, derived)', () => {
   const beta = symbolic.flow.beta[0];
   const A = aOfS();
   assertExprEqual(beta.terms.get('2')?.coeff as Expression, ratio(lin(1, 8), num(3)), 'u² coefficient (N+8)/3');
@@ -23,10 +23,10 @@ test('β(u) and γ_φ²(u) derived from diagrams, symbolic in s and N (physics-n
   assert.ok(g2);
   assertExprEqual(g2.terms.get('1')?.coeff as Expression, ratio(lin(1, 2), num(3)), 'γ_φ² u coefficient (N+2)/3');
   assertExprEqual(g2.terms.get('2')?.coeff as Expression, A.mul(ratio(lin(-1, -2), num(3))), 'γ_φ² u² coefficient −(N+2)/3·A(s)');
-  assert.equal(symbolic.flow.gammaPhi.terms.size, 0, 'no field renormalization for generic s < 2 (physics-notes §2)');
+  assert.equal(symbolic.flow.gammaPhi.terms.size, 0, 'no field renormalization for generic s < 2 (docs/physics.md §2)');
 });
 
-test('1/ν and ω at two loops, symbolic in s and N (physics-notes §4, derived)', () => {
+test('1/ν and ω at two loops, symbolic in s and N (docs/physics.md §5, derived)', () => {
   const A = aOfS();
   const [c0, c1, c2] = symbolic.series.nuInv.coefficients();
   assertExprEqual(c0, sExpr(), '1/ν at ε⁰ = s');
@@ -53,7 +53,7 @@ function numericNuInv(N: number, s: ReturnType<typeof q>) {
   return exponentSeries(f, wf);
 }
 
-test('A(s) from the subtracted vertex-corrected graph (1/ε residue of K R̄) against closed forms A(1) = 4 ln 2, A(3/2) = 2 − π + 4 ln 2, A(2) = 1 (physics-notes §4, derived)', () => {
+test('A(s) from the subtracted vertex-corrected graph (1/ε residue of K R̄) against closed forms A(1) = 4 ln 2, A(3/2) = 2 − π + 4 ln 2, A(2) = 1 (docs/physics.md §5, derived)', () => {
   const entry = CATALOGUE.find((e) => e.graph === VERTEX_CORRECTED);
   assert.ok(entry);
   const closed: [ReturnType<typeof q>, Real][] = [

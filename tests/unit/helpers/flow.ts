@@ -11,7 +11,7 @@ import { ratFromPoly, ratInverse } from '../../../shared/engine/symbolic/ratfunc
 import { type Poly, polyAdd, polyConstant, polyMul, polyScale, polyVariable } from '../../../shared/engine/symbolic/polynomial';
 import { type ModelSpec } from '../../../shared/engine/models/model';
 
-/** A(s) = ψ(1) − 2ψ(s/2) + ψ(s), built here from atoms (physics-notes §4). */
+/** A(s) = ψ(1) − 2ψ(s/2) + ψ(s), built here from atoms (docs/physics.md §5). */
 export function aOfS(s: Affine = affineParameter('s')): Expression {
   const half = affine(q(0), s.terms.map(([n, c]) => [n, q(c.num, c.den * 2n)] as const));
   const halfS = { constant: q(s.constant.num, s.constant.den * 2n), terms: half.terms };

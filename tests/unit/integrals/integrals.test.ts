@@ -24,13 +24,13 @@ import {
   starTriangleFactors,
   symbolicContext,
 } from '../../../shared/engine/index';
-import { assertDigits, wide } from './helpers';
+import { assertDigits, wide } from '../helpers/engine';
 
 const s = affineParameter('s');
 const aHalfS = affine(q(0), { s: q(1, 2) });
-const dLongRange = affine(q(0), { s: q(2), eps: q(-1) }); // d = 2s − ε (physics-notes §1)
+const dLongRange = affine(q(0), { s: q(2), eps: q(-1) }); // d = 2s − ε (docs/physics.md §1)
 
-test('G(1,1) in d = 3 gives 1/(8|p|): G/(4π)^{3/2} = 1/8 (physics-notes §3)', () => {
+test('G(1,1) in d = 3 gives 1/(8|p|): G/(4π)^{3/2} = 1/8 (docs/physics.md §4)', () => {
   const series = bubbleSeries(numericContext({}, 40), affine(q(1)), affine(q(1)), affine(q(3)), 2);
   assert.equal(series.lowest, 0);
   const pi = wide(special.pi(45));
@@ -38,7 +38,7 @@ test('G(1,1) in d = 3 gives 1/(8|p|): G/(4π)^{3/2} = 1/8 (physics-notes §3)', 
   assert.ok(wide(series.coefficient(1)).isZero() && wide(series.coefficient(2)).isZero(), 'no eps dependence');
 });
 
-test('Fourier transform of a power, d = 3, a = 1: π^{3/2}·2·Γ(1/2)/Γ(1) = 2π² (physics-notes §3)', () => {
+test('Fourier transform of a power, d = 3, a = 1: π^{3/2}·2·Γ(1/2)/Γ(1) = 2π² (docs/physics.md §4)', () => {
   const { factors, piExponent, twoExponent } = fourierPowerFactors(affine(q(1)), affine(q(3)));
   const series = gammaProductSeries(numericContext({}, 40), factors, 0);
   const pi = wide(special.pi(45));
@@ -46,7 +46,7 @@ test('Fourier transform of a power, d = 3, a = 1: π^{3/2}·2·Γ(1/2)/Γ(1) = 2
   assertDigits(value, pi.pow(2).times(2).toString(), 38, '2 pi^2');
 });
 
-test('G(s/2,s/2) in d = 2s−ε, symbolic: pole 2/(εΓ(s)), finite part (−2ψ(s/2)+2ψ(s)−γ_E)/Γ(s) (physics-notes §3 check)', () => {
+test('G(s/2,s/2) in d = 2s−ε, symbolic: pole 2/(εΓ(s)), finite part (−2ψ(s/2)+2ψ(s)−γ_E)/Γ(s) (docs/physics.md §4 check)', () => {
   const series = bubbleSeries(symbolicContext(), aHalfS, aHalfS, dLongRange, 0);
   assert.equal(series.lowest, -1);
   assert.equal(series.order, 0);
@@ -59,7 +59,7 @@ test('G(s/2,s/2) in d = 2s−ε, symbolic: pole 2/(εΓ(s)), finite part (−2ψ
   assert.equal(expressionToLatex(series.coefficient(-1)), '\\frac{2}{\\Gamma\\left(s\\right)}');
 });
 
-test('G(s/2,s/2) numeric at random s ∈ (1, 2) matches 2/Γ(s) and (−2ψ(s/2)+2ψ(s)−γ_E)/Γ(s) to 30 digits (physics-notes §3)', () => {
+test('G(s/2,s/2) numeric at random s ∈ (1, 2) matches 2/Γ(s) and (−2ψ(s/2)+2ψ(s)−γ_E)/Γ(s) to 30 digits (docs/physics.md §4)', () => {
   fc.assert(
     fc.property(fc.integer({ min: 1001, max: 1999 }), (k) => {
       const sv = q(k, 1000);
@@ -112,7 +112,7 @@ test('Γ(x+cε) at a pole: Γ(−n+ε) has residue (−1)^n/n! and the next coef
   assert.equal(expressionToString(reciprocal.coefficient(2)), 'eulergamma'); // 1/Γ(ε) = ε + γε² + … (DLMF 5.7.1)
 });
 
-test('canonical forms: ψ(1) = −γ_E, ψ(s+1) = ψ(s) + 1/s, A(1) = 4 ln 2, A(2) = 1 (physics-notes §4 check values)', () => {
+test('canonical forms: ψ(1) = −γ_E, ψ(s+1) = ψ(s) + 1/s, A(1) = 4 ln 2, A(2) = 1 (docs/physics.md §5 check values)', () => {
   assert.equal(expressionToString(psiExpr(0, affine(q(1)))), '-eulergamma');
   assert.equal(expressionToString(psiExpr(0, affine(q(1), { s: q(1) }))), '1/s + psi(0, s)');
   const at = (c: bigint) => affine(q(c));
@@ -120,7 +120,7 @@ test('canonical forms: ψ(1) = −γ_E, ψ(s+1) = ψ(s) + 1/s, A(1) = 4 ln 2, A(
   assert.ok(A1.equals(log2Expr().scale(q(4))), expressionToString(A1));
   const A2 = psiExpr(0, at(1n)).sub(psiExpr(0, at(1n)).scale(q(2))).add(psiExpr(0, at(2n)));
   assert.equal(expressionToString(A2), '1');
-  // A(3/2) = 2 − π + 4 ln 2 numerically (physics-notes §4)
+  // A(3/2) = 2 − π + 4 ln 2 numerically (docs/physics.md §5)
   const A32 = psiExpr(0, at(1n)).sub(psiExpr(0, affine(q(3, 4))).scale(q(2))).add(psiExpr(0, affine(q(3, 2))));
   const pi = wide(special.pi(45));
   assertDigits(evaluateExpression(A32, {}, 40), wide(2).minus(pi).plus(wide(special.ln2(45)).times(4)).toString(), 40, 'A(3/2)');
@@ -133,7 +133,7 @@ test('canonical forms: ψ(1) = −γ_E, ψ(s+1) = ψ(s) + 1/s, A(1) = 4 ln 2, A(
   assert.equal(expressionToString(x), expressionToString(y));
 });
 
-test('star–triangle prefactor needs δ1+δ2+δ3 = d, and its Γ-series is exact to the requested order (physics-notes §3)', () => {
+test('star–triangle prefactor needs δ1+δ2+δ3 = d, and its Γ-series is exact to the requested order (docs/physics.md §4)', () => {
   const d = affine(q(3));
   assert.throws(() => starTriangleFactors([affine(q(1)), affine(q(1)), affine(q(1, 2))], d), /star-triangle/);
   const { factors } = starTriangleFactors([affine(q(1)), affine(q(1)), affine(q(1))], d);
@@ -142,7 +142,7 @@ test('star–triangle prefactor needs δ1+δ2+δ3 = d, and its Γ-series is exac
   assertDigits(series.coefficient(0), wide(special.pi(45)).pow(1.5).toString(), 38, 'pi^(3/2)');
 });
 
-test('the vertex-corrected bubble I2 = G(a,a)·G(a+s−d/2, a) has a double pole (physics-notes §3)', () => {
+test('the vertex-corrected bubble I2 = G(a,a)·G(a+s−d/2, a) has a double pole (docs/physics.md §4)', () => {
   const a = aHalfS;
   const first = bubbleSeries(symbolicContext(), a, a, dLongRange, 1);
   const shifted = affine(q(0), { s: q(1, 2), eps: q(1, 2) }); // a + s − d/2 = s/2 + ε/2

@@ -5,7 +5,7 @@ import { BUBBLE, CHAIN, MASS_BUBBLE, MASS_CHAIN, MASS_VERTEX, SUNSET, VERTEX_COR
 import { polyAdd, polyEquals, polyMul, type Poly } from '../../../shared/engine/symbolic/polynomial';
 import { q } from '../../../shared/engine/symbolic/rational';
 import { polyScale } from '../../../shared/engine/symbolic/polynomial';
-import { N, lin, num } from './helpers';
+import { N, lin, num } from '../helpers/flow';
 
 const only = (g: Parameters<typeof graphWeight>[1]): Poly => {
   const w = graphWeight(onFamily, g);
@@ -13,7 +13,7 @@ const only = (g: Parameters<typeof graphWeight>[1]): Poly => {
   return w.terms[0].values[0];
 };
 
-test('O(N) tensor weights computed from contractions, symbolic in N (physics-notes §4)', () => {
+test('O(N) tensor weights computed from contractions, symbolic in N (docs/physics.md §5)', () => {
   assert.ok(polyEquals(only(BUBBLE), polyScale(lin(1, 8), q(-1, 6))), 'one loop −(N+8)/6 (sign from e^{−S})');
   const chainExpected = polyScale(polyAdd(polyAdd(polyMul(N, N), polyScale(N, q(6))), num(20)), q(1, 36));
   assert.ok(polyEquals(only(CHAIN), chainExpected), 'chain (N²+6N+20)/36');

@@ -10,8 +10,8 @@ test('exponents job: contract shape, N = 1, d = 3, s = 7/4 (values are truncated
   assert.equal(r.eps, '0.5');
   for (const k of ['nuInv', 'omega', 'eta', 'Delta_phi2', 'Delta_phi4']) assert.equal(r.series[k].length, 3, k);
   for (const k of ['nuInv', 'nu', 'eta', 'gamma', 'alpha', 'beta', 'delta', 'omega', 'Delta_phi', 'Delta_phi2', 'Delta_phi3', 'Delta_phi4']) assert.equal(typeof r.values[k], 'string', k);
-  assert.equal(r.values.Delta_phi, '0.625', 'Δφ = (d − s)/2 exactly (physics-notes §2)');
-  assert.equal(r.values.Delta_phi3, '2.375', 'Δφ³ = d − Δφ (physics-notes §2)');
+  assert.equal(r.values.Delta_phi, '0.625', 'Δφ = (d − s)/2 exactly (docs/physics.md §2)');
+  assert.equal(r.values.Delta_phi3, '2.375', 'Δφ³ = d − Δφ (docs/physics.md §2)');
   assert.equal(r.series.nuInv[1], '-0.33333333333333333333', '−ε/3 (Fisher–Ma–Nickel 1972)');
 });
 
@@ -50,7 +50,7 @@ test('mean-field statement for d ≥ 2s', () => {
 test('scan job marks s = d/2 and s* = d − 2Δσ and flags points outside the window', () => {
   const r = run({ job: 'scan', model: { preset: 'on', N: 1 }, d: '3', s: { from: '1.45', to: '1.99', points: 4 }, quantities: ['nuInv', 'omega'], shortRange: { Delta_sigma: '0.5181489' }, digits: 20 });
   assert.equal(r.marks.meanFieldEnd, '1.5');
-  assert.equal(r.marks.sStar, '1.9637022', 's* = 3 − 2·0.5181489 (physics-notes §2)');
+  assert.equal(r.marks.sStar, '1.9637022', 's* = 3 − 2·0.5181489 (docs/physics.md §7)');
   assert.deepEqual(r.points.map((p: Any) => p.regime), ['mean-field', 'long-range', 'long-range', 'short-range']);
 });
 

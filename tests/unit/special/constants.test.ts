@@ -1,10 +1,10 @@
 import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import { special } from '../../../shared/engine/index';
-import { assertDigits } from './helpers';
-import { MPMATH } from './reference-values';
+import { assertDigits } from '../helpers/engine';
+import { MPMATH } from '../helpers/reference-values';
 
-// physics-notes §5 values, each with its OEIS entry
+// docs/physics.md §10 values, each with its OEIS entry
 const OEIS_40 = {
   zeta3: '1.2020569031595942853997381615114499907650', // OEIS A002117
   zeta5: '1.0369277551433699263313654864570341680570', // OEIS A013663
@@ -14,7 +14,7 @@ const OEIS_40 = {
   gammaThird: '2.6789385347077476336556929409746776441287', // cf. OEIS A073005
 };
 
-test('ζ(3), ζ(5) at 40 digits (OEIS A002117, A013663 via physics-notes §5)', () => {
+test('ζ(3), ζ(5) at 40 digits (OEIS A002117, A013663 via docs/physics.md §10)', () => {
   assertDigits(special.zetaInteger(3, 40), OEIS_40.zeta3, 40, 'zeta(3)');
   assertDigits(special.zetaInteger(5, 40), OEIS_40.zeta5, 40, 'zeta(5)');
   assertDigits(special.zeta('3', 40), OEIS_40.zeta3, 40, 'zeta(x=3)');
@@ -51,7 +51,7 @@ test('Bernoulli numbers (DLMF Table 24.2.1)', () => {
   for (const [n, num, den] of expected) assert.deepEqual(special.bernoulliExact(n), { num, den }, `B_${n}`);
 });
 
-test('ζ(2n) = (−1)^{n+1} B_{2n} (2π)^{2n}/(2(2n)!) agrees with direct summation (physics-notes §5; Euler–Maclaurin tail, common practice)', () => {
+test('ζ(2n) = (−1)^{n+1} B_{2n} (2π)^{2n}/(2(2n)!) agrees with direct summation (docs/physics.md §10; Euler–Maclaurin tail, common practice)', () => {
   for (const s of [6, 12, 20]) {
     // Σ_{k<K} k^{-s} + K^{1−s}/(s−1) + K^{−s}/2 + s K^{−s−1}/12 − s(s+1)(s+2) K^{−s−3}/720
     //   + s(s+1)(s+2)(s+3)(s+4) K^{−s−5}/30240
