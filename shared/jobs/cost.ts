@@ -12,12 +12,12 @@ import {
   toExactRational,
 } from '../engine/index';
 import { customModel } from '../engine/models/custom';
-import { type Q } from '../engine/symbolic/rational';
+import { type Q, q, qCompare } from '../engine/symbolic/rational';
 import { CompareJob, KinksJob, isDataJob } from './contract';
 import { checkParameterName, parseAffine, parseDefinitions, parseGammaProduct } from './expressions';
 import { FlowCalcJob, isFlowJob } from './flowJobs';
 import { JOB_LIMITS, MAX_FIELDS, RESULT_LIMITS } from './contract';
-import { CalcJob } from './contract';
+import { CalcJob, PadeJob, SERIES_QUANTITIES } from './contract';
 
 /**
  * Engine time is estimated in units of about one millisecond on the development machine (2 cores,
@@ -33,8 +33,13 @@ export const COST_LIMITS = {
   presetPointUnit: 3,
   /** One scan point (or one fixed-point search) of a custom model: units × couplings² × (1 + digits/60). */
   customPointUnit: 40,
-  /** One Padé variant at one point of a comparison, with its pole check: units × (1 + digits/30). */
+  /** One Padé variant at one point of a comparison or an exponents job, with its pole check: units × (1 + digits/30). */
   padePointUnit: 0.05,
+  /**
+   * The pade job: units × M³ × (1 + digits/54)² per approximant [L/M] (its linear solve; measured 36 s
+   * for the 861 approximants of 41 coefficients at 292 digits, 3.3 s at 50 digits), twice with "at" (the check solves again).
+   */
+  padeSolveUnit: 1.5e-4,
   /** One smoothing-spline fit of the kink locator, per data point and curvature grid point (the grid has 4 per point, 2000 to 20 000). */
   kinkFitUnit: 0.001,
 } as const;
@@ -47,6 +52,32 @@ export const COST_LIMITS = {
 const SCAN_RESULT = { perNumberOverhead: 20, perPointOverhead: 80, perPointSeveralCouplings: 60, fixedOverhead: 1_000 } as const;
 /** Results of jobs other than scans are bounded by their digits × terms; this covers their text around the numbers. */
 const OTHER_RESULT_OVERHEAD = 20_000;
+/** Characters of a Padé entry around its numbers (keys, brackets, flags), and per number beyond its digits (quotes, sign, point, exponent). */
+const PADE_RESULT = { perEntryOverhead: 120, perNumberOverhead: 10 } as const;
+
+/** Every [L/M] of a pade job: the one it names, or the full table (every L + M ≤ coefficients − 1). */
+function padeDegrees(job: PadeJob): { L: number; M: number }[] {
+  if (job.L !== undefined && job.M !== undefined) return [{ L: job.L, M: job.M }];
+  const degrees: { L: number; M: number }[] = [];
+  for (let total = 0; total < job.coeffs.length; total++) for (let M = 0; M <= total; M++) degrees.push({ L: total - M, M });
+  return degrees;
+}
+
+/** Characters of a pade job's result: each entry's numerator and denominator (L + M + 2 numbers), its value and up to M poles. */
+export function padeResultBytes(job: PadeJob): number {
+  const perNumber = job.digits + PADE_RESULT.perNumberOverhead;
+  return padeDegrees(job).reduce((sum, { L, M }) => sum + PADE_RESULT.perEntryOverhead + (L + 2 * M + 3) * perNumber, 0);
+}
+
+function padeUnits(job: PadeJob): number {
+  const solves = padeDegrees(job).reduce((sum, { M }) => sum + M ** 3, 0);
+  return COST_LIMITS.padeSolveUnit * solves * (1 + job.digits / 54) ** 2 * (job.at === undefined ? 1 : 2);
+}
+
+/** [L/M] with M ≥ 1 and L + M ≤ order: the checked Padé table of one series (docs/physics.md §9). */
+export function padeTableEntries(order: number): number {
+  return (order * (order + 1)) / 2;
+}
 
 /**
  * Characters of a comparison's result: per curve point s, x, ε and one value per variant; per data point
@@ -54,7 +85,7 @@ const OTHER_RESULT_OVERHEAD = 20_000;
  */
 export function compareResultBytes(job: CompareJob): number {
   const perNumber = job.digits + 17;
-  const variants = job.loops === 2 ? 5 : 2;
+  const variants = job.loops + padeTableEntries(job.loops);
   const withErrors = !!(job.data.yErrLow || job.data.yErrHigh);
   const given = [job.data.x, job.data.y, job.data.yErrLow ?? [], job.data.yErrHigh ?? []].reduce((sum, column) => sum + column.reduce((n, text) => n + text.length, 0), 0);
   const curve = job.s.points * ((3 + variants) * perNumber + SCAN_RESULT.perPointOverhead);
@@ -78,6 +109,8 @@ export function estimatedResultBytes(job: unknown): number {
   }
   const compare = CompareJob.safeParse(job);
   if (compare.success) return compareResultBytes(compare.data);
+  const pade = PadeJob.safeParse(job);
+  if (pade.success) return padeResultBytes(pade.data);
   return OTHER_RESULT_OVERHEAD + 2 * estimatedWork(job);
 }
 
@@ -86,7 +119,7 @@ export const megabytes = (bytes: number) => `${(bytes / 1e6).toFixed(bytes < 10e
 const seconds = (units: number) => `${Math.max(1, Math.round(units / 1000))} s`;
 
 /** Why a series expansion is too large to start, or null: the same rule for the cost check and the runner. */
-export function seriesWorkProblem(factors: GammaFactor[], order: number, at: Record<string, string> | undefined, digits = 30): string | null {
+export function seriesWorkProblem(factors: GammaFactor[], order: number, at: Record<string, string> | undefined, digits: number = JOB_LIMITS.defaultSeriesDigits): string | null {
   if (at === undefined) {
     const depth = order - totalLeadingPower(symbolicContext(), factors);
     if (depth > JOB_LIMITS.maxSymbolicDepth) return `symbolic expansions are limited to ${JOB_LIMITS.maxSymbolicDepth} terms beyond the leading power (asked ${depth}); reduce the order`;
@@ -131,7 +164,7 @@ export function padeWorkProblem(digits: number, coefficients: number): string | 
 export function estimatedWork(job: unknown): number {
   if (typeof job !== 'object' || job === null) return 0;
   const { digits, order, coeffs, points } = job as { digits?: unknown; order?: unknown; coeffs?: unknown; points?: unknown };
-  const d = typeof digits === 'number' ? digits : 30;
+  const d = typeof digits === 'number' ? digits : JOB_LIMITS.defaultSeriesDigits;
   const terms = typeof order === 'number' ? Math.max(1, order + 1) : Array.isArray(coeffs) ? coeffs.length : 1;
   const scanPoints = typeof points === 'number' ? points : 1;
   return d * terms * scanPoints;
@@ -173,7 +206,7 @@ function calcCostProblem(input: unknown): string | null {
     case 'special':
       return specialWorkProblem(job.digits, job.order ?? 0);
     case 'pade':
-      return padeWorkProblem(job.digits, job.coeffs.length);
+      return padeJobProblem(job);
     case 'laurent': {
       const { factors } = parseGammaProduct(job.expr, parseDefinitions(job.d));
       return seriesWorkProblem(factors, job.order, job.at, job.digits);
@@ -192,6 +225,20 @@ function calcCostProblem(input: unknown): string | null {
       return seriesWorkProblem(starTriangleFactors(deltas, d).factors, job.order, job.at, job.digits);
     }
   }
+}
+
+/** Why a pade job is too large to start, or null: the same rule for the cost check and the runner. */
+export function padeJobProblem(job: PadeJob): string | null {
+  return padeWorkProblem(job.digits, job.coeffs.length) ?? padeTableProblem(job);
+}
+
+function padeTableProblem(job: PadeJob): string | null {
+  const what = job.L === undefined ? `the full Padé table of ${job.coeffs.length} coefficients (${padeDegrees(job).length} approximants) at ${job.digits} digits` : `[${job.L}/${job.M}] at ${job.digits} digits`;
+  const bytes = padeResultBytes(job);
+  if (bytes > RESULT_LIMITS.maxResultBytes) return `${what} would take about ${megabytes(bytes)}, over the limit of ${megabytes(RESULT_LIMITS.maxResultBytes)} per result; give L and M, or reduce the digits or the number of coefficients`;
+  const units = padeUnits(job);
+  if (units <= COST_LIMITS.maxUnits) return null;
+  return `${what} — about ${seconds(units)} of engine time, over the limit of about ${seconds(COST_LIMITS.maxUnits)}; give L and M, or reduce the digits or the number of coefficients`;
 }
 
 /** Fields and couplings of a job's model (a custom potential is read, within its own bounds, to count them). */
@@ -235,7 +282,7 @@ function flowCostProblem(input: unknown): string | null {
   let asked = `deriving the flow of ${size.label} at ${job.loops} loops and ${job.digits} digits`;
   let reduce = 'digits, loops or the number of couplings';
   if (job.job === 'fixedpoints' || job.job === 'exponents') {
-    units += 10 * numericPointUnits(size, job.digits);
+    units += 10 * numericPointUnits(size, job.digits) + (job.job === 'exponents' ? padeTableUnits(job.loops, job.digits) : 0);
     asked = `the fixed points of ${size.label} at ${job.loops} loops and ${job.digits} digits`;
   }
   if (job.job === 'scan') {
@@ -249,6 +296,7 @@ function flowCostProblem(input: unknown): string | null {
       size.couplings > 1
         ? points * (numericPointUnits(size, job.digits) + COST_LIMITS.seriesPointUnit * quantities * (1 + job.digits / 30))
         : points * COST_LIMITS.seriesPointUnit * quantities * (1 + job.digits / 30);
+    if (reachesShortRange(job.s)) units += shortRangePointUnits(size, job.loops, job.digits);
     asked = `this scan asks for ${points} points × ${quantities} quantities × ${job.digits} digits with ${size.label}`;
     reduce = 'points, quantities, digits or the number of couplings';
   }
@@ -256,10 +304,26 @@ function flowCostProblem(input: unknown): string | null {
   return `${asked} — about ${seconds(units)} of engine time, over the limit of about ${seconds(COST_LIMITS.maxUnits)}; reduce ${reduce}`;
 }
 
+/** Every quantity's checked Padé table at one point (the exponents job, a scan's s = 2 point). */
+function padeTableUnits(loops: number, digits: number): number {
+  return SERIES_QUANTITIES.length * padeTableEntries(loops) * COST_LIMITS.padePointUnit * (1 + digits / 30);
+}
+
+/** s ≤ 2 in every scan, so the range holds s = 2 exactly when one of its ends is 2. */
+function reachesShortRange(range: { from: string; to: string }): boolean {
+  const isTwo = (text: string) => qCompare(toExactRational(text), q(2)) === 0;
+  return isTwo(range.from) || isTwo(range.to);
+}
+
+/** s = 2 is computed like an exponents job: its own flow derived at s = 2, the fixed points there, the Padé tables. */
+function shortRangePointUnits(size: ModelSize, loops: number, digits: number): number {
+  return derivationUnits(size.fields, size.couplings, loops, digits) + 10 * numericPointUnits(size, digits) + padeTableUnits(loops, digits);
+}
+
 /** A spline fit per resample plus the first, each over the data points and the curvature grid. */
 function kinkUnits(points: number, resamples: number | undefined): number {
   const grid = Math.min(20_000, Math.max(2_000, 4 * points));
-  return COST_LIMITS.kinkFitUnit * (points + grid) * ((resamples ?? 200) + 1);
+  return COST_LIMITS.kinkFitUnit * (points + grid) * ((resamples ?? JOB_LIMITS.defaultResamples) + 1);
 }
 
 function dataCostProblem(input: unknown): string | null {
@@ -267,7 +331,7 @@ function dataCostProblem(input: unknown): string | null {
   if (kinks.success) {
     const units = kinkUnits(kinks.data.points.length, kinks.data.resamples);
     if (units <= COST_LIMITS.maxUnits) return null;
-    return `locating kinks in ${kinks.data.points.length} points with ${kinks.data.resamples ?? 200} resamples would take about ${seconds(units)} of engine time, over the limit of about ${seconds(COST_LIMITS.maxUnits)}; reduce the points or the resamples`;
+    return `locating kinks in ${kinks.data.points.length} points with ${kinks.data.resamples ?? JOB_LIMITS.defaultResamples} resamples would take about ${seconds(units)} of engine time, over the limit of about ${seconds(COST_LIMITS.maxUnits)}; reduce the points or the resamples`;
   }
   const parsed = CompareJob.safeParse(input);
   if (!parsed.success) return null;
@@ -281,7 +345,7 @@ function compareCostProblem(job: CompareJob): string | null {
   if (resultBytes > RESULT_LIMITS.maxResultBytes) {
     return `this comparison's result would take about ${megabytes(resultBytes)} (${job.s.points} curve points and ${job.data.x.length} data points at ${job.digits} digits), over the limit of ${megabytes(RESULT_LIMITS.maxResultBytes)} per result; reduce the scan's points, the data's x-range or the digits`;
   }
-  const padeVariants = job.loops === 2 ? 3 : 1;
+  const padeVariants = padeTableEntries(job.loops);
   const series = COST_LIMITS.seriesPointUnit * (1 + job.digits / 30) + COST_LIMITS.padePointUnit * padeVariants * (1 + job.digits / 30);
   const perPoint = size.couplings > 1 ? numericPointUnits(size, job.digits) + series : series;
   const units = derivationUnits(size.fields, size.couplings, job.loops, job.digits) + points * perPoint + (job.data.boundary ? kinkUnits(job.data.x.length, undefined) : 0);

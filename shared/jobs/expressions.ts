@@ -140,7 +140,7 @@ function toProduct(node: NodeLike, defs: Readonly<Record<string, Affine>>, sourc
         const exponent = toAffine(args[1], {}, source);
         if (!isConstantAffine(exponent) || exponent.constant.den !== 1n) fail('invalid', 'powers must be integers');
         const n = Number(exponent.constant.num);
-        if (Math.abs(n) > 50) fail('limit', 'integer powers are limited to |n| ≤ 50');
+        if (Math.abs(n) > JOB_LIMITS.maxIntegerPower) fail('limit', `integer powers are limited to |n| ≤ ${JOB_LIMITS.maxIntegerPower}`);
         if (base.prefactor.num === 0n && n < 0) fail('domain', 'division by zero');
         if (Math.max(bitsOf(base.prefactor.num), bitsOf(base.prefactor.den)) * Math.abs(n) > JOB_LIMITS.maxNumberBits + 1) fail('limit', `a number in the expression grows beyond ${JOB_LIMITS.maxNumberBits} bits; use smaller numbers or powers`);
         if (base.factors.some((f) => Math.abs(f.power * n) > JOB_LIMITS.maxGammaPower)) fail('limit', `a gamma factor may be raised to a power of at most ${JOB_LIMITS.maxGammaPower} in all`);

@@ -25,15 +25,18 @@ import { Expression } from '../engine/symbolic/expression';
 import { expressionToLatex, expressionToString } from '../engine/symbolic/format';
 import { polyToString } from '../engine/symbolic/polynomial';
 import { type Q, q, qAdd, qCompare, qMul, qSub, qToString } from '../engine/symbolic/rational';
-import { ExponentsJob, FixedPointsJob, FlowJob, ModelInput, ScanJob, type JobError } from './contract';
+import { ExponentsJob, FLOW_JOB_KINDS, FixedPointsJob, FlowJob, JOBS, type KindOf, ModelInput, ScanJob, type JobError, jobKindOf } from './contract';
 
-export const FlowCalcJob = z.discriminatedUnion('job', [FlowJob, FixedPointsJob, ExponentsJob, ScanJob]);
+type FlowJobInput = (typeof JOBS)[KindOf<'flow'>]['input'];
+
+/** The flow jobs' inputs, read off the contract's JOBS table (family "flow"). */
+export const FlowCalcJob = z.discriminatedUnion('job', FLOW_JOB_KINDS.map((kind) => JOBS[kind].input) as [FlowJobInput, ...FlowJobInput[]]);
 export type FlowCalcJob = z.infer<typeof FlowCalcJob>;
-export const FLOW_JOB_NAMES: readonly string[] = ['flow', 'fixedpoints', 'exponents', 'scan'];
 
 /** True for a job this module runs (dispatch hook for the calc runner). */
 export function isFlowJob(input: unknown): boolean {
-  return typeof input === 'object' && input !== null && FLOW_JOB_NAMES.includes((input as { job?: unknown }).job as string);
+  const kind = jobKindOf(input);
+  return kind !== null && JOBS[kind].family === 'flow';
 }
 
 // ---- runner ---------------------------------------------------------------------------------------

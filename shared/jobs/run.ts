@@ -6,11 +6,12 @@ import {
   type Expression,
   type GammaFactor,
   type LaurentSeries,
+  type PadeApproximant,
   type Q,
   type Real,
   affineToString,
   bubbleFactors,
-  evaluatePade,
+  checkedPade,
   expressionToLatex,
   expressionToString,
   fourierPowerFactors,
@@ -18,7 +19,6 @@ import {
   leadingPower,
   numericContext,
   padeApproximant,
-  padeTable,
   polesInInterval,
   q,
   realContext,
@@ -27,7 +27,7 @@ import {
   symbolicContext,
   toExactRational,
 } from '../engine/index';
-import { batchWorkProblem, padeWorkProblem, parameterValues, seriesWorkProblem, specialWorkProblem } from './cost';
+import { batchWorkProblem, padeJobProblem, parameterValues, seriesWorkProblem, specialWorkProblem } from './cost';
 import { parseAffine, parseDefinitions, parseGammaProduct } from './expressions';
 import { runDataJob } from './dataJobs';
 import { runFlowJob, type JobHooks } from './flowJobs';
@@ -146,8 +146,9 @@ function runSpecial(job: SpecialJob): SpecialResult {
       value = special.gamma(x, job.digits);
       break;
     case 'lngamma':
+      // ln|Γ(x)| alone loses the sign of Γ for negative x; the pole check in lnGamma runs first
       value = special.lnGamma(x, job.digits);
-      break;
+      return { value: formatReal(value, job.digits), sign: special.gammaSign(x) };
     case 'psi':
       value = special.polygamma(order, x, job.digits);
       break;
@@ -203,7 +204,8 @@ function expandSeries(spec: SeriesSpec): SeriesResult {
     ? { piExponent: affineToString(spec.powers.piExponent), ...(spec.powers.twoExponent ? { twoExponent: affineToString(spec.powers.twoExponent) } : {}) }
     : undefined;
   const withPrefactor = (r: Omit<SeriesResult, 'prefactor'>): SeriesResult => (prefactorOut ? { ...r, prefactor: prefactorOut } : r);
-  const problem = seriesWorkProblem(spec.factors, spec.order, spec.at, spec.digits ?? 30);
+  const digits = spec.digits ?? JOB_LIMITS.defaultSeriesDigits;
+  const problem = seriesWorkProblem(spec.factors, spec.order, spec.at, digits);
   if (problem) limit(problem);
   if (spec.at === undefined) {
     const ctx = symbolicContext();
@@ -211,7 +213,6 @@ function expandSeries(spec: SeriesSpec): SeriesResult {
     return withPrefactor(symbolicResult(series));
   }
   const values = parameterValues(spec.at);
-  const digits = spec.digits ?? 30;
   const series = verifiedNumericSeries(digits, (work) => gammaProductSeries(numericContext(values, work), spec.factors, spec.order, spec.prefactor));
   return withPrefactor(series);
 }
@@ -273,37 +274,52 @@ function verifiedNumericSeries(digits: number, compute: (workDigits: number) => 
 function runPade(job: PadeJob): PadeResult {
   const n = job.coeffs.length - 1;
   if ((job.L === undefined) !== (job.M === undefined)) throw new EngineError('invalid', 'give both L and M, or neither for the full table');
-  const problem = padeWorkProblem(job.digits, n + 1);
+  const problem = padeJobProblem(job);
   if (problem) limit(problem);
-  const interval = job.interval;
-  if (job.L !== undefined && job.M !== undefined) {
-    const approximant = padeApproximant(job.coeffs, job.L, job.M, job.digits);
-    const poles = interval ? polesInInterval(approximant, interval[0], interval[1], job.digits) : [];
-    const entry: PadeEntry = {
-      L: job.L,
-      M: job.M,
-      numerator: approximant.numerator.map((c) => formatPadeCoefficient(c, job.digits)),
-      denominator: approximant.denominator.map((c) => formatPadeCoefficient(c, job.digits)),
-      poles: poles.map((p) => formatReal(p, job.digits)),
-      flagged: poles.length > 0,
-    };
-    if (job.at !== undefined) entry.value = formatReal(evaluatePade(approximant, job.at, job.digits), job.digits);
-    return entry;
+  if (job.L !== undefined && job.M !== undefined) return padeEntry(job, padeApproximant(job.coeffs, job.L, job.M, job.digits));
+  const table: PadeEntry[] = [];
+  for (let total = 0; total <= n; total++) {
+    for (let M = 0; M <= total; M++) table.push(tableEntry(job, total - M, M));
   }
-  const table = padeTable(job.coeffs, n, job.digits, { at: job.at, interval });
-  return {
-    table: table.map((t) => {
-      const entry: PadeEntry = { L: t.L, M: t.M, poles: t.poles.map((p) => formatReal(p, job.digits)), flagged: t.flagged };
-      if (t.approximant) {
-        entry.numerator = t.approximant.numerator.map((c) => formatPadeCoefficient(c, job.digits));
-        entry.denominator = t.approximant.denominator.map((c) => formatPadeCoefficient(c, job.digits));
-      }
-      if (t.value) entry.value = formatReal(t.value, job.digits);
-      if (t.error) entry.error = t.error;
-      return entry;
-    }),
-  };
+  return { table };
 }
+
+/** In the full table a degenerate [L/M] is one flagged entry, not a failure of the whole job. */
+function tableEntry(job: PadeJob, L: number, M: number): PadeEntry {
+  try {
+    return padeEntry(job, padeApproximant(job.coeffs, L, M, job.digits));
+  } catch (e) {
+    if (!(e instanceof EngineError) || e.code !== 'singular') throw e;
+    return { L, M, poles: [], flagged: true, reason: e.message };
+  }
+}
+
+/**
+ * An approximant with its checks (docs/physics.md §9): at `at` by checkedPade (a pole between 0 and
+ * at, a sign change of the denominator), over `interval` by its poles there. Flagged entries get no value.
+ */
+function padeEntry(job: PadeJob, approximant: PadeApproximant): PadeEntry {
+  const { L, M } = approximant;
+  const checked = job.at === undefined ? null : checkedPade(job.coeffs, L, M, job.at, job.digits);
+  const inInterval = job.interval ? polesInInterval(approximant, job.interval[0], job.interval[1], job.digits) : [];
+  const reasons = [checked?.reason, inInterval.length ? `${inInterval.length > 1 ? 'poles' : 'pole'} inside the interval at ${inInterval.map(shortNumber).join(', ')}` : null];
+  const flagged = inInterval.length > 0 || !!checked?.flagged;
+  const entry: PadeEntry = {
+    L,
+    M,
+    numerator: approximant.numerator.map((c) => formatPadeCoefficient(c, job.digits)),
+    denominator: approximant.denominator.map((c) => formatPadeCoefficient(c, job.digits)),
+    poles: [...new Set(sortedReals([...(checked?.poles ?? []), ...inInterval]).map((p) => formatReal(p, job.digits)))],
+    flagged,
+  };
+  if (checked) entry.signChange = checked.signChange;
+  if (flagged) entry.reason = reasons.filter((r) => !!r).join('; ');
+  else if (checked?.value) entry.value = formatReal(checked.value, job.digits);
+  return entry;
+}
+
+const shortNumber = (x: Real) => new (realContext(6))(x).toSignificantDigits(6).toString();
+const sortedReals = (values: Real[]) => [...values].sort((a, b) => a.comparedTo(b));
 
 function formatPadeCoefficient(c: Real, digits: number): string {
   return formatReal(new (realContext(digits))(c).toSignificantDigits(digits), digits);

@@ -1,6 +1,7 @@
 import Decimal from 'decimal.js';
 import { fail } from './errors';
 import { type ExactRational, type Fixed, bitLength } from './fixed';
+import { JOB_LIMITS } from '../../jobs/contract/limits';
 
 /**
  * The engine's one public number type: an arbitrary-precision decimal (decimal.js instance).
@@ -10,8 +11,9 @@ import { type ExactRational, type Fixed, bitLength } from './fixed';
 export type Real = Decimal;
 export type RealInput = Real | string | number | bigint;
 
-export const MIN_DIGITS = 5;
-export const MAX_DIGITS = 1000;
+/** The digits a job may ask for: the contract's limits, stated once there. */
+export const MIN_DIGITS = JOB_LIMITS.minDigits;
+export const MAX_DIGITS = JOB_LIMITS.maxDigits;
 /** Decimal guard digits carried by numeric series arithmetic. */
 export const GUARD_DIGITS = 12;
 

@@ -73,7 +73,8 @@ export type CalcJob = z.infer<typeof CalcJob>;
 
 // ---- results --------------------------------------------------------------------------------
 
-export const SpecialResult = z.strictObject({ value: z.string() });
+/** `lngamma` gives ln|Γ(x)| and the sign of Γ(x), so Γ(x) = sign·exp(value) also for negative x (DLMF 5.5.1). */
+export const SpecialResult = z.strictObject({ value: z.string(), sign: z.union([z.literal(1), z.literal(-1)]).optional() });
 
 /** Coefficient of eps^lowest first, through eps^order (coeffs.length = order − lowest + 1). */
 export const SeriesResult = z.strictObject({
@@ -84,17 +85,29 @@ export const SeriesResult = z.strictObject({
   prefactor: z.strictObject({ piExponent: z.string(), twoExponent: z.string().optional() }).optional(),
 });
 
+/**
+ * One approximant [L/M]. With "at" it is checked on the way from 0 to at (docs/physics.md on Padé
+ * resummation): a real pole of the denominator between 0 and at, or a denominator whose sign at `at`
+ * differs from Q(0) = 1, flags it; so does a pole inside "interval". A flagged entry has no `value`:
+ * it lists its `poles` (and `signChange`) and says why in `reason`.
+ */
 export const PadeEntry = z.strictObject({
   L: z.number().int(),
   M: z.number().int(),
   numerator: z.array(z.string()).optional(),
   denominator: z.array(z.string()).optional(),
+  /** Only for an entry that is not flagged, when the job gives "at". */
   value: z.string().optional(),
+  /** Real zeros of the denominator between 0 (excluded) and at, and inside "interval". */
   poles: z.array(z.string()),
   flagged: z.boolean(),
-  error: z.string().optional(),
+  /** With "at": the denominator changes sign between 0 and at (or vanishes at at). */
+  signChange: z.boolean().optional(),
+  /** Why a flagged entry has no value (a pole, a sign change, a degenerate approximant). */
+  reason: z.string().optional(),
 });
 
+/** One [L/M] when the job gives L and M; otherwise every [L/M] with L + M ≤ order (= coefficients − 1), by increasing L + M. */
 export const PadeResult = z.union([PadeEntry, z.strictObject({ table: z.array(PadeEntry) })]);
 
 export const CalcResult = z.union([SpecialResult, SeriesResult, PadeResult, JobError]);

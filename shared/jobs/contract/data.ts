@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { DATASET_LIMITS, COMPARABLE_X_AXES, COMPARABLE_Y_AXES } from '../../notebook/datasets';
 import { JOB_LIMITS, MAX_SCAN_POINTS } from './limits';
 import { ModelInput } from './model';
-import { DecimalString, Digits, Loops } from './primitives';
+import { DecimalString, Digits, FixedPointName, Loops } from './primitives';
 
 /**
  * The jobs that hold series against numerical data — the same contract as every other job (CLI,
@@ -18,8 +18,8 @@ const DataPoint = z.tuple([DecimalString, DecimalString]);
 export const KinksJob = z.strictObject({
   job: z.literal('kinks'),
   points: z.array(DataPoint).max(DATASET_LIMITS.maxComparedPoints),
-  /** Bootstrap resamples for the uncertainty (default 200). */
-  resamples: z.number().int().min(20).max(1000).optional(),
+  /** Bootstrap resamples for the uncertainty (default JOB_LIMITS.defaultResamples). */
+  resamples: z.number().int().min(JOB_LIMITS.minResamples).max(JOB_LIMITS.maxResamples).optional(),
   /** Seed of the resampling, so a job gives the same answer every time (default 1). */
   seed: z.number().int().min(0).max(2 ** 31 - 1).optional(),
 });
@@ -72,7 +72,7 @@ export const CompareJob = z.strictObject({
   /** The curve: the scan's range of s. */
   s: z.strictObject({ from: DecimalString, to: DecimalString, points: z.number().int().min(2).max(MAX_SCAN_POINTS) }),
   quantity: z.enum(COMPARABLE_Y_AXES),
-  fixedPoint: z.string().max(100).optional(),
+  fixedPoint: FixedPointName.optional(),
   shortRange: z.strictObject({ Delta_sigma: DecimalString }).optional(),
   data: z.strictObject({
     xAxis: z.enum(COMPARABLE_X_AXES),
@@ -149,10 +149,3 @@ export const CompareResult = z.strictObject({
   notes: z.array(z.string()),
 });
 export type CompareResult = z.infer<typeof CompareResult>;
-
-export const DATA_JOB_NAMES: readonly string[] = ['kinks', 'compare'];
-
-/** True for a job the data runner takes (dispatch hook for the calc runner). */
-export function isDataJob(input: unknown): boolean {
-  return typeof input === 'object' && input !== null && DATA_JOB_NAMES.includes((input as { job?: unknown }).job as string);
-}

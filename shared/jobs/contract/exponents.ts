@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { QuadraticOperator } from './fixedPoints';
 import { FieldAnomalousSpectrum } from './flow';
 import { ModelInput } from './model';
-import { Coefficient, DecimalString, FlowDigits, Loops } from './primitives';
+import { Coefficient, DecimalString, FixedPointName, FlowDigits, Loops } from './primitives';
 
 /** Every critical exponent and scaling dimension the engine gives, in the order results list them. */
 export const SERIES_QUANTITIES = ['nuInv', 'omega', 'eta', 'Delta_phi', 'Delta_phi2', 'Delta_phi3', 'Delta_phi4', 'nu', 'gamma', 'alpha', 'beta', 'delta'] as const;
@@ -20,7 +20,7 @@ export const ExponentsJob = z.strictObject({
   s: DecimalString.optional(),
   loops: Loops,
   digits: FlowDigits,
-  fixedPoint: z.string().max(100).optional(),
+  fixedPoint: FixedPointName.optional(),
   shortRange: ShortRangeInput.optional(),
 });
 export type ExponentsJob = z.infer<typeof ExponentsJob>;

@@ -21,24 +21,45 @@ export * from './model';
 export * from './primitives';
 export * from './scan';
 
-/** Every job kind with its input and its result schema; a failed job answers with JobError instead. */
+/**
+ * Every job kind with its family (which runner takes it), its input and its result schema; a failed
+ * job answers with JobError instead. Lists of kinds elsewhere are read off this table.
+ */
 export const JOBS = {
-  special: { input: SpecialJob, result: SpecialResult },
-  laurent: { input: LaurentJob, result: SeriesResult },
-  bubble: { input: BubbleJob, result: SeriesResult },
-  fourier: { input: FourierJob, result: SeriesResult },
-  startriangle: { input: StarTriangleJob, result: SeriesResult },
-  pade: { input: PadeJob, result: PadeResult },
-  flow: { input: FlowJob, result: FlowResult },
-  fixedpoints: { input: FixedPointsJob, result: FixedPointsResult },
-  exponents: { input: ExponentsJob, result: ExponentsResult },
-  scan: { input: ScanJob, result: ScanResult },
-  kinks: { input: KinksJob, result: KinksResult },
-  compare: { input: CompareJob, result: CompareResult },
+  special: { family: 'calc', input: SpecialJob, result: SpecialResult },
+  laurent: { family: 'calc', input: LaurentJob, result: SeriesResult },
+  bubble: { family: 'calc', input: BubbleJob, result: SeriesResult },
+  fourier: { family: 'calc', input: FourierJob, result: SeriesResult },
+  startriangle: { family: 'calc', input: StarTriangleJob, result: SeriesResult },
+  pade: { family: 'calc', input: PadeJob, result: PadeResult },
+  flow: { family: 'flow', input: FlowJob, result: FlowResult },
+  fixedpoints: { family: 'flow', input: FixedPointsJob, result: FixedPointsResult },
+  exponents: { family: 'flow', input: ExponentsJob, result: ExponentsResult },
+  scan: { family: 'flow', input: ScanJob, result: ScanResult },
+  kinks: { family: 'data', input: KinksJob, result: KinksResult },
+  compare: { family: 'data', input: CompareJob, result: CompareResult },
 } as const;
 
 export type JobKind = keyof typeof JOBS;
 export const JOB_KINDS = Object.keys(JOBS) as JobKind[];
+
+export type JobFamily = (typeof JOBS)[JobKind]['family'];
+export type KindOf<F extends JobFamily> = { [K in JobKind]: (typeof JOBS)[K]['family'] extends F ? K : never }[JobKind];
+
+/** The kinds of one family, in the order of JOBS. */
+export function kindsOf<F extends JobFamily>(family: F): KindOf<F>[] {
+  return JOB_KINDS.filter((kind): kind is KindOf<F> => JOBS[kind].family === family);
+}
+
+/** Flow jobs (shared/jobs/flowJobs.ts) and data jobs (shared/jobs/dataJobs.ts). */
+export const FLOW_JOB_KINDS = kindsOf('flow');
+export const DATA_JOB_KINDS = kindsOf('data');
+
+/** True for a job the data runner takes. */
+export function isDataJob(input: unknown): boolean {
+  const kind = jobKindOf(input);
+  return kind !== null && JOBS[kind].family === 'data';
+}
 
 /** A job of one kind as the runner receives it (defaults filled in) and the result it answers with. */
 export type JobOf<K extends JobKind> = z.infer<(typeof JOBS)[K]['input']>;

@@ -5,6 +5,8 @@ export const JOB_LIMITS = {
   /** Digits of the flow jobs (flow, fixedpoints, exponents, scan) and of a notebook's setup. */
   maxFlowDigits: 200,
   defaultFlowDigits: 30,
+  /** Digits of a numeric series (laurent, bubble, fourier, startriangle with "at") when the job gives none. */
+  defaultSeriesDigits: 30,
   /** Digits of a comparison with data (values held against data with a few significant digits). */
   maxCompareDigits: 50,
   defaultCompareDigits: 20,
@@ -34,6 +36,14 @@ export const JOB_LIMITS = {
   maxNumberBits: 4096,
   /** |power| of one Γ factor after nested powers are multiplied out. */
   maxGammaPower: 50,
+  /** |n| of an integer power written in an expression, (…)^n. */
+  maxIntegerPower: 50,
+  /** Characters of a fixed point's name in "fixedPoint". */
+  maxFixedPointName: 100,
+  /** Bootstrap resamples of the kink locator. */
+  minResamples: 20,
+  maxResamples: 1000,
+  defaultResamples: 200,
 } as const;
 
 /**

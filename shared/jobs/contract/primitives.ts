@@ -15,9 +15,12 @@ export function isObjectPropertyName(name: string): boolean {
  * The calculation job contract, shared by the CLI, the API and the notebook.
  * Every object is strict: unknown fields are rejected.
  */
+/** Room for a number written to maxDigits digits with its sign, point, exponent and leading zeros. */
+const MAX_DECIMAL_LENGTH = JOB_LIMITS.maxDigits + 100;
+
 export const DecimalString = z
   .string()
-  .max(1100)
+  .max(MAX_DECIMAL_LENGTH)
   .regex(/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d{1,6})?$/, 'expected a decimal number as a string, e.g. "1.5"');
 
 export const Digits = z.number().int().min(JOB_LIMITS.minDigits).max(JOB_LIMITS.maxDigits);
@@ -52,6 +55,9 @@ export const ParameterValues = z.record(
 /** Flow jobs: loop order and digits (flow, fixedpoints, exponents, scan, compare). */
 export const Loops = z.union([z.literal(1), z.literal(2)]).default(2);
 export const FlowDigits = Digits.max(JOB_LIMITS.maxFlowDigits).default(JOB_LIMITS.defaultFlowDigits);
+
+/** The name of a fixed point a job asks for ("fixedPoint"), as the fixedpoints job lists them. */
+export const FixedPointName = z.string().max(JOB_LIMITS.maxFixedPointName);
 
 export const ErrorCode = z.enum(['invalid-job', 'pole', 'domain', 'not-affine', 'not-representable', 'singular', 'limit', 'parse', 'internal']);
 

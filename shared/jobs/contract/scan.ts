@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { Notice, Quantity, SERIES_QUANTITIES, ShortRangeInput } from './exponents';
 import { MAX_SCAN_POINTS } from './limits';
 import { ModelInput } from './model';
-import { DecimalString, FlowDigits, Loops } from './primitives';
+import { DecimalString, FixedPointName, FlowDigits, Loops } from './primitives';
 
 /** `scan`: exponents along a range of s at fixed d (ε = 2s − d changes along the scan). */
 export const ScanJob = z.strictObject({
@@ -15,7 +15,7 @@ export const ScanJob = z.strictObject({
   digits: FlowDigits,
   /** Δσ of the short-range theory; built in for 2D Ising and 3D Ising, O(2), O(3) when omitted. */
   shortRange: ShortRangeInput.optional(),
-  fixedPoint: z.string().max(100).optional(),
+  fixedPoint: FixedPointName.optional(),
 });
 export type ScanJob = z.infer<typeof ScanJob>;
 

@@ -25,7 +25,10 @@ const compareBase = { job: 'compare', model: ising, loops: 1, digits: 10, d: '3'
 
 const CASES: Record<JobKind, Case> = {
   special: {
-    results: [{ job: 'special', fn: 'gamma', x: '0.5', digits: 10 }],
+    results: [
+      { job: 'special', fn: 'gamma', x: '0.5', digits: 10 },
+      { job: 'special', fn: 'lngamma', x: '-2.5', digits: 10 },
+    ],
     failure: { job: { job: 'special', fn: 'gamma', x: '-2', digits: 10 }, code: 'pole' },
   },
   laurent: {
@@ -51,6 +54,7 @@ const CASES: Record<JobKind, Case> = {
     results: [
       { job: 'pade', coeffs: ['1', '1', '0.5'], L: 1, M: 1, at: '0.5', interval: ['0', '1'], digits: 10 },
       { job: 'pade', coeffs: ['1', '1', '0.5'], digits: 10 },
+      { job: 'pade', coeffs: ['1', '2', '4'], at: '1', digits: 10 },
     ],
     failure: { job: { job: 'pade', coeffs: ['1', '1'], L: 1, digits: 10 }, code: 'invalid-job' },
   },

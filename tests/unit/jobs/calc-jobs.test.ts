@@ -98,13 +98,20 @@ test('numeric series digits are all correct: 30-digit output agrees with a 60-di
   low.coeffs.forEach((c, i) => assertDigits(c, high.coeffs[i], 30, `eps^${i - 1}`));
 });
 
-test('pade job: [1/1] of exp is (1+x/2)/(1−x/2) with its pole at 2 flagged (common practice)', () => {
-  const r = runJob({ job: 'pade', coeffs: ['1', '1', '0.5'], L: 1, M: 1, at: '1', interval: ['0', '3'], digits: 20 }) as { numerator: string[]; denominator: string[]; value: string; poles: string[]; flagged: boolean };
-  assert.deepEqual(r.numerator.map(Number), [1, 0.5]);
-  assert.deepEqual(r.denominator.map(Number), [1, -0.5]);
-  assert.equal(Number(r.value), 3);
-  assert.equal(r.flagged, true);
-  assert.equal(Number(r.poles[0]), 2);
+test('pade job: [1/1] of exp is (1+x/2)/(1−x/2); its pole at 2 flags it when the interval holds it (common practice)', () => {
+  // [1/1] of 1 + x + x²/2: q₁ = −c₂/c₁ = −1/2, p₀ = 1, p₁ = c₁ + q₁c₀ = 1/2 (hand derivation); at x = 1 it is 1.5/0.5 = 3
+  const job = { job: 'pade', coeffs: ['1', '1', '0.5'], L: 1, M: 1, at: '1', digits: 20 };
+  const clear = runJob({ ...job, interval: ['0', '1.5'] }) as { numerator: string[]; denominator: string[]; value?: string; poles: string[]; flagged: boolean };
+  assert.deepEqual(clear.numerator.map(Number), [1, 0.5]);
+  assert.deepEqual(clear.denominator.map(Number), [1, -0.5]);
+  assert.equal(Number(clear.value), 3);
+  assert.equal(clear.flagged, false);
+  const flagged = runJob({ ...job, interval: ['0', '3'] }) as { value?: string; poles: string[]; flagged: boolean; reason: string };
+  assert.equal(flagged.flagged, true);
+  assert.deepEqual(flagged.poles.map(Number), [2]);
+  assert.equal(flagged.value, undefined, 'a flagged approximant has no plain value');
+  assert.match(flagged.reason, /pole inside the interval at 2/);
+  // 4 coefficients: every [L/M] with L + M ≤ 3, that is 1 + 2 + 3 + 4 = 10 approximants
   const table = runJob({ job: 'pade', coeffs: ['1', '1', '0.5', '0.1666666666666666666666666667'], digits: 20 }) as { table: unknown[] };
   assert.equal(table.table.length, 10);
 });

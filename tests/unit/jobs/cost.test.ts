@@ -1,7 +1,7 @@
 import assert from 'node:assert/strict';
 import { test } from 'node:test';
-import { COST_LIMITS, jobCostProblem } from '../../../shared/jobs/cost';
-import { JOB_LIMITS } from '../../../shared/jobs/contract';
+import { COST_LIMITS, estimatedResultBytes, jobCostProblem } from '../../../shared/jobs/cost';
+import { JOB_LIMITS, RESULT_LIMITS } from '../../../shared/jobs/contract';
 import { runBatch, runJob } from '../../../shared/jobs';
 import { jobForCell, type DatasetForJob, type SetupInput } from '../../../shared/notebook/jobs';
 import { extractPoints, readTable } from '../../../shared/notebook/datasetParsing';
@@ -84,8 +84,36 @@ test('special and Padé jobs keep their digits × terms limits', () => {
   assert.equal(jobCostProblem({ job: 'special', fn: 'psi', x: '2', order: limit / 1000 - 1, digits: 1000 }), null);
   assert.match(jobCostProblem({ job: 'special', fn: 'psi', x: '2', order: 200, digits: 1000 }) ?? '', /reduce the digits or the order/);
   const coeffs = (n: number) => Array.from({ length: n }, (_, i) => String(i + 1));
-  assert.equal(jobCostProblem({ job: 'pade', coeffs: coeffs(40), digits: JOB_LIMITS.maxDigitsTimesTerms / 40 }), null);
-  assert.match(jobCostProblem({ job: 'pade', coeffs: coeffs(41), digits: JOB_LIMITS.maxDigitsTimesTerms / 40 }) ?? '', /reduce the digits or the number of coefficients/);
+  const one = (n: number) => ({ job: 'pade', coeffs: coeffs(n), L: Math.floor((n - 1) / 2), M: Math.ceil((n - 1) / 2), digits: JOB_LIMITS.maxDigitsTimesTerms / 40 });
+  assert.equal(jobCostProblem(one(40)), null);
+  assert.match(jobCostProblem(one(41)) ?? '', /reduce the digits or the number of coefficients/);
+});
+
+test('the full Padé table has every [L/M] with L + M ≤ n: its size is estimated and a table over the result limit is refused', () => {
+  const coeffs = Array.from({ length: 41 }, (_, i) => String(i + 1));
+  // 41 coefficients: (41 · 42)/2 = 861 approximants with 2 + L + M coefficients each, Σ over L + M = t ≤ 40 of (t + 1)(t + 2) = 24 682 numbers (hand count)
+  const wide = { job: 'pade', coeffs, digits: 290 };
+  assert.ok(24_682 * 290 > RESULT_LIMITS.maxResultBytes, 'the numbers alone are over the limit');
+  assert.match(jobCostProblem(wide) ?? '', /861 approximants\) at 290 digits would take about \d+(\.\d)? MB.*give L and M/);
+  assert.ok(estimatedResultBytes(wide) >= 24_682 * 290);
+  // at 50 digits the same table is about 24 682 × 60 characters, well under the limit (measured 3.3 s of engine time)
+  assert.equal(jobCostProblem({ ...wide, digits: 50 }), null);
+});
+
+test('a scan whose range reaches s = 2 costs an extra derivation and fixed-point search at s = 2', () => {
+  const model = { preset: 'cubic', N: 6 };
+  const ending = (to: string, points: number) => ({ ...scan(model, points, six, 30), s: { from: '1.55', to, points } });
+  let lo = 2;
+  let hi = 1000;
+  while (hi - lo > 1) {
+    const mid = Math.floor((lo + hi) / 2);
+    if (jobCostProblem(ending('1.95', mid)) === null) lo = mid;
+    else hi = mid;
+  }
+  // the largest scan ending at 1.95 that fits: the same number of points ending at s = 2 also derives the flow at s = 2
+  assert.equal(jobCostProblem(ending('1.95', lo)), null);
+  assert.ok(jobCostProblem(ending('2', lo)));
+  assert.ok(jobCostProblem({ ...ending('1.95', lo), s: { from: '2', to: '1.95', points: lo } }), 'either end may be s = 2');
 });
 
 test('a batch is limited in count and in total work; the runner refuses exactly what the cost check refuses', () => {
