@@ -76,7 +76,7 @@ export const fixedPointsInput = z.strictObject({ kind: z.literal('fixedpoints'),
 export const exponentsInput = z.strictObject({
   kind: z.literal('exponents'),
   uses,
-  fixedPoint: z.string().trim().max(80).optional(),
+  fixedPoint: z.string().trim().max(JOB_LIMITS.maxFixedPointName).optional(),
 });
 export const scanInput = z.strictObject({
   kind: z.literal('scan'),
