@@ -1,20 +1,66 @@
 /**
- * Rungbook calculation engine: pure TypeScript, no I/O.
- * Layers (each imports only from those above it in this list):
- * precision → special → series → symbolic → integrals → pade.
+ * Rungbook calculation engine: pure TypeScript, no I/O. The public surface for code outside the engine,
+ * taken from each layer's index.ts (docs/engine.md, "Layers").
+ * Layers, lowest first (each imports only from those before it in this list):
+ * precision → special → series → symbolic → integrals → linalg → pade → models → diagrams → flows →
+ * fixedpoints → exponents → scans → data.
  */
-export * from './precision/errors';
-export * from './precision/real';
-export * as special from './special/index';
-export { LaurentSeries } from './series/laurent';
-export { numericRing } from './series/numeric';
-export type { CoefficientRing } from './series/ring';
-export * from './symbolic/affine';
-export { Expression } from './symbolic/expression';
-export * from './symbolic/canonical';
-export { expressionToLatex, expressionToString } from './symbolic/format';
-export { evaluateExpression } from './symbolic/evaluate';
-export { symbolicRing } from './symbolic/ring';
-export { type Q, q } from './symbolic/rational';
-export * from './integrals/index';
-export * from './pade/pade';
+export {
+  type EngineErrorCode,
+  type Real,
+  type RealInput,
+  EngineError,
+  GUARD_DIGITS,
+  MAX_DIGITS,
+  MIN_DIGITS,
+  bitsForDigits,
+  fail,
+  fixedToReal,
+  gcd,
+  powerOfTen,
+  rationalToReal,
+  realContext,
+  reduce,
+  toExactRational,
+  toReal,
+} from './precision';
+export * as special from './special';
+export { type CoefficientRing, LaurentSeries, numericRing } from './series';
+export {
+  type Affine,
+  type Q,
+  Expression,
+  affine,
+  affineAdd,
+  affineConstant,
+  affineKey,
+  affineNeg,
+  affineParameter,
+  affineScale,
+  affineShift,
+  affineSub,
+  affineToLatex,
+  affineToString,
+  coefficientOf,
+  evaluateAffine,
+  evaluateExpression,
+  eulerGammaExpr,
+  expressionToLatex,
+  expressionToString,
+  gammaExpr,
+  integerShift,
+  isConstantAffine,
+  joinSigned,
+  latexName,
+  latexRational,
+  log2Expr,
+  piExpr,
+  psiExpr,
+  q,
+  substituteAffine,
+  symbolicRing,
+  withoutParameter,
+  zetaExpr,
+} from './symbolic';
+export * from './integrals';
+export * from './pade';

@@ -1,4 +1,4 @@
-import { fail } from '../precision/errors';
+import { fail } from '../precision';
 import { mulberry32 } from './random';
 import { evaluateSpline, fitSpline, gcvSpline, intervalOf, prepareSpline, type SplineFit } from './spline';
 

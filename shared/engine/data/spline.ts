@@ -1,4 +1,4 @@
-import { fail } from '../precision/errors';
+import { fail } from '../precision';
 
 /**
  * Cubic smoothing spline in the Reinsch form (Green & Silverman, "Nonparametric Regression and

@@ -1,11 +1,6 @@
-import { numericContext, symbolicContext, type ExpansionContext } from '../integrals/values';
-import { type Real, GUARD_DIGITS, realContext } from '../precision/real';
-import { Expression } from '../symbolic/expression';
-import { type Poly, polyConstantValue } from '../symbolic/polynomial';
-import { type Q } from '../symbolic/rational';
-import { ratFromPoly } from '../symbolic/ratfunc';
-import { fail } from '../precision/errors';
-import { type Affine, affineConstant, affineParameter } from '../symbolic/affine';
+import { type ExpansionContext, numericContext, symbolicContext } from '../integrals';
+import { type Real, GUARD_DIGITS, fail, realContext } from '../precision';
+import { type Affine, type Poly, type Q, Expression, affineConstant, affineParameter, polyConstantValue, ratFromPoly } from '../symbolic';
 
 /**
  * Where series coefficients live: numbers at a given s (N numeric), or exact symbolic expressions

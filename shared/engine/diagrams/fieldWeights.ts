@@ -1,8 +1,5 @@
-import { type QuarticModel } from '../models/model';
-import { solveRational } from '../models/projection';
-import { type Tensor, addTensors, contract, forEachIndex, permuteSlots } from '../models/tensor';
-import { polyConstant } from '../symbolic/polynomial';
-import { type Q, Q0, q, qAdd, qIsZero, qMul, qSub } from '../symbolic/rational';
+import { type QuarticModel, type Tensor, addTensors, contract, forEachIndex, permuteSlots, solveRational } from '../models';
+import { type Q, Q0, polyConstant, q, qAdd, qIsZero, qMul, qSub } from '../symbolic';
 import { SUNSET } from './graphs';
 import { type GraphWeight, couplingTuples, powersOf, prefactor, quadraticPairs, summedOverLabellings } from './weights';
 

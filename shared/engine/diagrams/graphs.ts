@@ -1,4 +1,4 @@
-import { permutations } from '../models/tensor';
+import { permutations } from '../models';
 
 /** Which 1PI function a graph contributes to. */
 export type GraphFunction = 'vertex' | 'selfEnergy' | 'massInsertion';

@@ -1,14 +1,11 @@
-import { bubbleFactors } from '../integrals/loops';
-import { type GammaFactor, gammaProductSeries } from '../integrals/gammaExpansion';
-import { type ExpansionContext } from '../integrals/values';
-import { LaurentSeries } from '../series/laurent';
-import { type Affine, affine, affineAdd, affineScale, affineSub, affineToLatex } from '../symbolic/affine';
-import { type Q, q } from '../symbolic/rational';
+import { type ExpansionContext, type GammaFactor, bubbleFactors, gammaProductSeries } from '../integrals';
+import { LaurentSeries } from '../series';
+import { type Affine, type Q, affine, affineAdd, affineScale, affineSub, affineToLatex, q } from '../symbolic';
 
 /**
  * A massless momentum integral built from nested one-loop bubbles: its value is
  * (p²)^{−index} · Π G(a_i, b_i) / (4π)^{d·loops/2}. Lines in series carry one momentum and their
- * powers add; a bubble of two lines with powers x, y is G(x, y)·(p²)^{d/2−x−y} (physics-notes §3).
+ * powers add; a bubble of two lines with powers x, y is G(x, y)·(p²)^{d/2−x−y} (docs/physics.md §4).
  */
 export interface MomentumIntegral {
   index: Affine;

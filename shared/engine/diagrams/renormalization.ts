@@ -1,7 +1,6 @@
-import { EngineError, fail } from '../precision/errors';
-import { CouplingPolynomial } from '../models/couplingPolynomial';
-import { type ModelSpec, type QuarticModel, isFamily } from '../models/model';
-import { type LaurentSeries } from '../series/laurent';
+import { EngineError, fail } from '../precision';
+import { type ModelSpec, type QuarticModel, CouplingPolynomial, isFamily } from '../models';
+import { type LaurentSeries } from '../series';
 import { type Calculus } from './calculus';
 import { type CatalogueEntry, catalogueUpTo } from './catalogue';
 import { explainLegCorrection, fieldPairLabels, selfEnergyMatrixWeight } from './fieldWeights';

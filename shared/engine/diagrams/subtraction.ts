@@ -1,5 +1,5 @@
-import { LaurentSeries } from '../series/laurent';
-import { q } from '../symbolic/rational';
+import { LaurentSeries } from '../series';
+import { q } from '../symbolic';
 import { type Calculus } from './calculus';
 import { type CatalogueEntry } from './catalogue';
 import { type IntegralKit, integralLatex, integralSeries, logarithmFactor } from './integrals';

@@ -1,9 +1,6 @@
-import { fail } from '../precision/errors';
-import { type ModelSpec, type QuarticModel, isFamily } from '../models/model';
-import { projectOntoCouplings, projectOntoIdentity } from '../models/projection';
-import { type LabelledTensor, type Tensor, addTensors, contract, kronecker, permutations, permuteSlots } from '../models/tensor';
-import { type Poly, polyAdd, polyConstant, polyConstantValue, polyEvaluate, polyMul, polyScale, polyVariable } from '../symbolic/polynomial';
-import { type Q, Q0, q, qAdd, qDiv, qEquals, qMul } from '../symbolic/rational';
+import { fail } from '../precision';
+import { type LabelledTensor, type ModelSpec, type QuarticModel, type Tensor, addTensors, contract, isFamily, kronecker, permutations, permuteSlots, projectOntoCouplings, projectOntoIdentity } from '../models';
+import { type Poly, type Q, Q0, polyAdd, polyConstant, polyConstantValue, polyEvaluate, polyMul, polyScale, polyVariable, q, qAdd, qDiv, qEquals, qMul } from '../symbolic';
 import { type Graph, SUNSET, automorphismCount, graphSign } from './graphs';
 
 /**

@@ -1,9 +1,9 @@
-import { type DerivedFlow } from '../diagrams/renormalization';
-import { type FixedPoint } from '../fixedpoints/fixedPoints';
-import { type CheckedPade, checkedPadeTable } from '../pade/pade';
-import { type Real } from '../precision/real';
-import { type LaurentSeries } from '../series/laurent';
-import { type Q } from '../symbolic/rational';
+import { type DerivedFlow } from '../diagrams';
+import { type FixedPoint } from '../fixedpoints';
+import { type CheckedPade, checkedPadeTable } from '../pade';
+import { type Real } from '../precision';
+import { type LaurentSeries } from '../series';
+import { type Q } from '../symbolic';
 import { type ExponentRegime, type ExponentSeries, type FieldGamma, type Quantity, SERIES_QUANTITIES, exponentRegime, exponentSeriesPartial, powerCoefficients, valuesFromPrimaries } from './exponents';
 import { type FieldAnomalousSpectrum, fieldAnomalousSpectrum } from './fieldMatrix';
 import { type Notice, fieldDirectionsNotice, fixedPointNotices, noSingletNotice, regimeNotices } from './notices';

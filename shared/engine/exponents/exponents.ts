@@ -1,14 +1,10 @@
-import { type DerivedFlow } from '../diagrams/renormalization';
-import { type FixedPoint } from '../fixedpoints/fixedPoints';
-import { type CouplingPolynomial } from '../models/couplingPolynomial';
-import { fail } from '../precision/errors';
+import { type DerivedFlow } from '../diagrams';
+import { type FixedPoint } from '../fixedpoints';
+import { type CouplingPolynomial } from '../models';
+import { type Real, fail, realContext } from '../precision';
 import type Decimal from 'decimal.js';
-import { type Real, realContext } from '../precision/real';
-import { LaurentSeries } from '../series/laurent';
-import { Expression } from '../symbolic/expression';
-import { polyFromAffine } from '../symbolic/polynomial';
-import { ratFromPoly } from '../symbolic/ratfunc';
-import { type Q, q, qCompare } from '../symbolic/rational';
+import { LaurentSeries } from '../series';
+import { type Q, Expression, polyFromAffine, q, qCompare, ratFromPoly } from '../symbolic';
 
 import { SERIES_QUANTITIES, type Quantity } from '../../jobs/contract/exponents';
 

@@ -1,8 +1,7 @@
-import { type DerivedFlow } from '../diagrams/renormalization';
-import { type FixedPoint } from '../fixedpoints/fixedPoints';
-import { fail } from '../precision/errors';
-import { type Real } from '../precision/real';
-import { LaurentSeries } from '../series/laurent';
+import { type DerivedFlow } from '../diagrams';
+import { type FixedPoint } from '../fixedpoints';
+import { type Real, fail } from '../precision';
+import { LaurentSeries } from '../series';
 import { onSeries } from './exponents';
 import { eigenspaces, restrictedEigenvalues } from './quadratic';
 

@@ -1,6 +1,6 @@
-import { type FixedPoint } from '../fixedpoints/fixedPoints';
-import { type Real, realContext } from '../precision/real';
-import { type Q, q, qCompare, qMul } from '../symbolic/rational';
+import { type FixedPoint } from '../fixedpoints';
+import { type Real, realContext } from '../precision';
+import { type Q, q, qCompare, qMul } from '../symbolic';
 import { type Crossover } from './shortRange';
 
 /** What a result must say at its top: a caveat of the fixed point used or of the regime. */

@@ -1,8 +1,8 @@
-import { type DerivedFlow } from '../diagrams/renormalization';
-import { type FixedPoint } from '../fixedpoints/fixedPoints';
-import { symmetricEigen } from '../linalg/index';
-import { type Real, realContext } from '../precision/real';
-import { LaurentSeries } from '../series/laurent';
+import { type DerivedFlow } from '../diagrams';
+import { type FixedPoint } from '../fixedpoints';
+import { symmetricEigen } from '../linalg';
+import { type Real, realContext } from '../precision';
+import { LaurentSeries } from '../series';
 import { onSeries } from './exponents';
 
 /**

@@ -1,5 +1,5 @@
-import { toExactRational } from '../precision/real';
-import { type Q, q, qCompare, qMul, qSub } from '../symbolic/rational';
+import { toExactRational } from '../precision';
+import { type Q, q, qCompare, qMul, qSub } from '../symbolic';
 
 /**
  * The short-range theory's Δσ (= Δ_φ at s = 2) for the presets where it is known, so the crossover

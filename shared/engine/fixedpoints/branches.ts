@@ -1,10 +1,9 @@
-import { type DerivedFlow } from '../diagrams/renormalization';
-import { jacobianPolynomials } from '../flows/flow';
-import { nullSpace, solveLinear, transpose } from '../linalg/index';
-import { type CouplingPolynomial } from '../models/couplingPolynomial';
-import { EngineError } from '../precision/errors';
-import { type Real } from '../precision/real';
-import { LaurentSeries } from '../series/laurent';
+import { type DerivedFlow } from '../diagrams';
+import { jacobianPolynomials } from '../flows';
+import { nullSpace, solveLinear, transpose } from '../linalg';
+import { type CouplingPolynomial } from '../models';
+import { type Real, EngineError } from '../precision';
+import { LaurentSeries } from '../series';
 
 /**
  * The pieces of a two-loop flow the ε-expansion of fixed points needs. With g = εx,

@@ -1,8 +1,8 @@
-import { type DerivedFlow } from '../diagrams/renormalization';
-import { jacobianPolynomials } from '../flows/flow';
-import { type Complex, type ComplexReal, cabs, cadd, cmul, complexOps, csub, solveComplex, solveComplexReal } from '../linalg/index';
-import { type CouplingPolynomial } from '../models/couplingPolynomial';
-import { type Real } from '../precision/real';
+import { type DerivedFlow } from '../diagrams';
+import { jacobianPolynomials } from '../flows';
+import { type Complex, type ComplexReal, cabs, cadd, cmul, complexOps, csub, solveComplex, solveComplexReal } from '../linalg';
+import { type CouplingPolynomial } from '../models';
+import { type Real } from '../precision';
 
 export type { ComplexReal };
 

@@ -1,7 +1,7 @@
-import { type DerivedFlow } from '../diagrams/renormalization';
-import { matrixProduct, nullSpace, realEigenvalueGroups, realEigenvalues, solveLinear, transpose } from '../linalg/index';
-import { type Real } from '../precision/real';
-import { LaurentSeries } from '../series/laurent';
+import { type DerivedFlow } from '../diagrams';
+import { exactEigenvalues, groupWithMultiplicity, matrixProduct, nullSpace, realEigenvalueGroups, realEigenvalues, solveLinear, transpose, triangularDiagonal } from '../linalg';
+import { type Real } from '../precision';
+import { LaurentSeries } from '../series';
 import { type FlowPieces, oneLoopMatrix } from './branches';
 
 /** The stability matrix as a series, M(ε) = ε M₁ + ε² M₂, from ∂β/∂g along the coupling series. */
@@ -77,31 +77,16 @@ function secondOrder<C>(pieces: FlowPieces<C>, m1: C[][], m2: C[][], lambda: C, 
   const restricted = transpose(columns as C[][]);
   if (m === 1) return [restricted[0][0]];
   if (!pieces.flow.calculus.symbolic) return realEigenvalues(numericRing(pieces), restricted as unknown as Real[][], isZero as unknown as (c: Real) => boolean) as unknown as (C | null)[];
-  const triangular = (t: C[][]) => t.every((row, i) => row.every((x, j) => j <= i || isZero(x)));
-  if (triangular(restricted) || triangular(transpose(restricted))) return restricted.map((row, i) => row[i]);
-  return null;
+  return triangularDiagonal(restricted, isZero);
 }
 
 /**
- * Exact eigenvalues of M₁ (symbolic coefficients): the diagonal of a triangular M₁; for two
- * couplings 1 (the radial direction g₁: ∂b₂(g₁)·g₁ = 2g₁) and tr M₁ − 1, checked by det(M₁ − λ) = 0.
+ * Exact eigenvalues of M₁ (symbolic coefficients): the diagonal of a triangular M₁; for two couplings
+ * 1 (the radial direction g₁: ∂b₂(g₁)·g₁ = 2g₁) and tr M₁ − 1, checked against the characteristic polynomial.
  */
 function exactEigenvalueGroups<C>(pieces: FlowPieces<C>, m1: C[][]): { value: C | null; multiplicity: number }[] | null {
   const { ring } = pieces.flow.calculus.ctx;
-  const { isZero } = pieces;
-  const triangular = (t: C[][]) => t.every((row, i) => row.every((x, j) => j <= i || isZero(x)));
-  let values: C[];
-  if (triangular(m1) || triangular(transpose(m1))) values = m1.map((row, i) => row[i]);
-  else if (pieces.k === 2) {
-    values = [ring.one(), ring.sub(ring.add(m1[0][0], m1[1][1]), ring.one())];
-    const det = (l: C) => ring.sub(ring.mul(ring.sub(m1[0][0], l), ring.sub(m1[1][1], l)), ring.mul(m1[0][1], m1[1][0]));
-    if (!values.every((l) => isZero(det(l)))) return null;
-  } else return null;
-  const groups: { value: C | null; multiplicity: number }[] = [];
-  for (const value of values) {
-    const same = groups.find((g) => g.value !== null && isZero(ring.sub(g.value, value)));
-    if (same) same.multiplicity++;
-    else groups.push({ value, multiplicity: 1 });
-  }
-  return groups;
+  const radial = pieces.k === 2 ? [ring.one(), ring.sub(ring.add(m1[0][0], m1[1][1]), ring.one())] : [];
+  const values = exactEigenvalues(ring, m1, pieces.isZero, radial);
+  return values && groupWithMultiplicity(values, (a, b) => pieces.isZero(ring.sub(a, b)));
 }

@@ -1,10 +1,9 @@
-import { type DerivedFlow } from '../diagrams/renormalization';
-import { betaAt, stabilityMatrixAt } from '../flows/flow';
-import { type Complex, type ComplexReal, complexOps, eigenvaluesFullPrecision, solveLinear } from '../linalg/index';
-import { type ModelSpec } from '../models/model';
-import { fail } from '../precision/errors';
-import { type Real } from '../precision/real';
-import { type LaurentSeries } from '../series/laurent';
+import { type DerivedFlow } from '../diagrams';
+import { betaAt, stabilityMatrixAt } from '../flows';
+import { type Complex, type ComplexReal, complexOps, eigenvaluesFullPrecision, solveLinear } from '../linalg';
+import { type ModelSpec } from '../models';
+import { type Real, fail } from '../precision';
+import { type LaurentSeries } from '../series';
 import { type Branch, type FlowPieces, couplingBranches, flowPieces } from './branches';
 import { complexRootNear, complexStabilityMatrix, polishComplexRoot } from './complexRoots';
 import { eigenvalueSeries, stabilitySeriesMatrices } from './eigenvalueSeries';

@@ -1,6 +1,6 @@
-import { solveLinear } from '../linalg/index';
-import { type Real } from '../precision/real';
-import { type CoefficientRing } from '../series/ring';
+import { solveLinear } from '../linalg';
+import { type Real } from '../precision';
+import { type CoefficientRing } from '../series';
 
 const norm = (v: Real[]) => Math.max(...v.map((x) => Math.abs(Number(x.toString()))));
 

@@ -1,7 +1,7 @@
-import { type DerivedFlow } from '../diagrams/renormalization';
-import { type Complex, type RealRing, cabs, solveComplex, solveLinear } from '../linalg/index';
-import { type Real, realContext } from '../precision/real';
-import { numericRing } from '../series/numeric';
+import { type DerivedFlow } from '../diagrams';
+import { type Complex, type RealRing, cabs, solveComplex, solveLinear } from '../linalg';
+import { type Real, realContext } from '../precision';
+import { numericRing } from '../series';
 import { newtonSolve } from './newton';
 
 /** A root of the one-loop condition beta⁽²⁾(g₁) = g₁ (the ε¹ coefficients of the couplings); `complex` when it is not real. */

@@ -1,8 +1,7 @@
-import { evaluatePade, padeApproximant, polesInInterval } from '../pade/pade';
-import { EngineError } from '../precision/errors';
-import { type Real } from '../precision/real';
-import { type LaurentSeries } from '../series/laurent';
-import { type Complex } from '../linalg/index';
+import { evaluatePade, padeApproximant, polesInInterval } from '../pade';
+import { type Real, EngineError } from '../precision';
+import { type LaurentSeries } from '../series';
+import { type Complex } from '../linalg';
 
 export interface FixedPointCaveat {
   kind: 'complex-at-eps' | 'stability-sign-disagrees' | 'degenerate-one-loop' | 'complex-one-loop';

@@ -1,19 +1,8 @@
-import { numericCalculus, symbolicCalculus } from '../diagrams/calculus';
-import { type DerivedFlow, type TrailEntry, deriveFlow } from '../diagrams/renormalization';
-import { type SubtractedGraph } from '../diagrams/subtraction';
-import { type GraphWeight } from '../diagrams/weights';
-import { type CouplingPolynomial } from '../models/couplingPolynomial';
-import { type FamilyPoint, type ModelFamily, familyPointLabel } from '../models/model';
-import { fail } from '../precision/errors';
-import { type Real, rationalToReal, realContext } from '../precision/real';
-import { LaurentSeries } from '../series/laurent';
-import { type CoefficientRing } from '../series/ring';
-import { evaluateAtom } from '../symbolic/evaluate';
-import { type Expression, atomKey } from '../symbolic/expression';
-import { type Poly, polyConstant, polyEvaluate, polyIsZero, polySubstitute, polyToString, polyVariables } from '../symbolic/polynomial';
-import { type Q, qKey, qToString } from '../symbolic/rational';
-import { ratEvaluate } from '../symbolic/ratfunc';
-import { substituteParameter } from '../symbolic/substitute';
+import { type DerivedFlow, type GraphWeight, type SubtractedGraph, type TrailEntry, deriveFlow, numericCalculus, symbolicCalculus } from '../diagrams';
+import { type CouplingPolynomial, type FamilyPoint, type ModelFamily, familyPointLabel } from '../models';
+import { type Real, fail, rationalToReal, realContext } from '../precision';
+import { type CoefficientRing, LaurentSeries } from '../series';
+import { type Expression, type Poly, type Q, atomKey, evaluateAtom, polyConstant, polyEvaluate, polyIsZero, polySubstitute, polyToString, polyVariables, qKey, qToString, ratEvaluate, substituteParameter } from '../symbolic';
 
 /** Exact values of the flow's parameters: s always, N for a symbolic-N family. */
 export interface ParameterValues {
@@ -22,7 +11,7 @@ export interface ParameterValues {
 }
 
 /** Numeric value of a coefficient, each ψ/Γ atom computed once per point and shared through `atoms`. */
-export function valueAt(e: Expression, at: Readonly<Record<string, Q>>, digits: number, atoms: Map<string, Real>): Real {
+export function expressionValueAt(e: Expression, at: Readonly<Record<string, Q>>, digits: number, atoms: Map<string, Real>): Real {
   const R = realContext(digits);
   let sum = new R(0);
   for (const t of e.terms.values()) {
@@ -82,7 +71,7 @@ export function flowAt(flow: DerivedFlow<Expression>, values: ParameterValues, d
   const calculus = numericCalculus(values.s, digits);
   const atoms = new Map<string, Real>();
   const at: Record<string, Q> = values.N === undefined ? { s: values.s } : { s: values.s, N: values.N };
-  return mapFlow(flow, calculus, (e) => valueAt(e, at, calculus.digits, atoms), values.N, withTrail);
+  return mapFlow(flow, calculus, (e) => expressionValueAt(e, at, calculus.digits, atoms), values.N, withTrail);
 }
 
 /** A family flow at one exact N, still symbolic in s (what scans over s evaluate point by point). */

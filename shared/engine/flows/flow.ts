@@ -1,11 +1,7 @@
-import { type Calculus, numericCalculus, symbolicCalculus } from '../diagrams/calculus';
-import { type DerivedFlow, deriveFlow } from '../diagrams/renormalization';
-import { CouplingPolynomial } from '../models/couplingPolynomial';
-import { type ModelSpec, familyPointOf, isFamily } from '../models/model';
-import { fail } from '../precision/errors';
-import { type Real } from '../precision/real';
-import { type Expression } from '../symbolic/expression';
-import { type Q, q, qCompare } from '../symbolic/rational';
+import { type Calculus, type DerivedFlow, deriveFlow, numericCalculus, symbolicCalculus } from '../diagrams';
+import { type ModelSpec, CouplingPolynomial, familyPointOf, isFamily } from '../models';
+import { type Real, fail } from '../precision';
+import { type Expression, type Q, q, qCompare } from '../symbolic';
 import { type PoleSource, familyFlow, familyPointFlow } from './family';
 
 export interface FlowRequest {

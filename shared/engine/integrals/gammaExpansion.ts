@@ -1,7 +1,6 @@
-import { fail } from '../precision/errors';
-import { LaurentSeries } from '../series/laurent';
-import { type Affine, affine, affineToString, isConstantAffine } from '../symbolic/affine';
-import { type Q, q, qIsInteger, qIsZero, qPowInt } from '../symbolic/rational';
+import { fail } from '../precision';
+import { LaurentSeries } from '../series';
+import { type Affine, type Q, affine, affineToString, isConstantAffine, q, qIsInteger, qIsZero, qPowInt } from '../symbolic';
 import { type ExpansionContext } from './values';
 
 /** An argument x + c·ε of Γ: x affine in the parameters, c rational. */

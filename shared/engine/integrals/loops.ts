@@ -1,7 +1,6 @@
-import { fail } from '../precision/errors';
-import { type LaurentSeries } from '../series/laurent';
-import { type Affine, affineAdd, affineScale, affineSub, affineToString, coefficientOf, withoutParameter } from '../symbolic/affine';
-import { q, qEquals } from '../symbolic/rational';
+import { fail } from '../precision';
+import { type LaurentSeries } from '../series';
+import { type Affine, affineAdd, affineScale, affineSub, affineToString, coefficientOf, q, qEquals, withoutParameter } from '../symbolic';
 import { type GammaArgument, type GammaFactor, gammaProductSeries } from './gammaExpansion';
 import { type ExpansionContext } from './values';
 
@@ -16,7 +15,7 @@ const half = (a: Affine) => affineScale(a, q(1, 2));
 const gammaOf = (a: Affine, power: number): GammaFactor => ({ arg: splitEps(a), power });
 
 /**
- * One-loop G-function (physics-notes §3):
+ * One-loop G-function (docs/physics.md §4):
  * G(a,b) = Γ(d/2−a) Γ(d/2−b) Γ(a+b−d/2) / [Γ(a) Γ(b) Γ(d−a−b)], a, b, d affine in eps and parameters.
  */
 export function bubbleFactors(a: Affine, b: Affine, d: Affine): GammaFactor[] {

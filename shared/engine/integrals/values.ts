@@ -1,12 +1,7 @@
-import { type Real } from '../precision/real';
-import { numericRing } from '../series/numeric';
-import { type CoefficientRing } from '../series/ring';
-import { gamma, polygamma } from '../special/index';
-import { type Affine, evaluateAffine, isConstantAffine } from '../symbolic/affine';
-import { gammaExpr, psiExpr } from '../symbolic/canonical';
-import { type Expression } from '../symbolic/expression';
-import { type Q, qToString } from '../symbolic/rational';
-import { symbolicRing } from '../symbolic/ring';
+import { type Real } from '../precision';
+import { type CoefficientRing, numericRing } from '../series';
+import { gamma, polygamma } from '../special';
+import { type Affine, type Expression, type Q, evaluateAffine, gammaExpr, isConstantAffine, psiExpr, qToString, symbolicRing } from '../symbolic';
 
 /** Where Γ(x) and ψ^(k)(x) come from: numbers at a parameter point, or canonical symbols. */
 export interface ExpansionContext<C> {

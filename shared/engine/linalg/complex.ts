@@ -1,5 +1,5 @@
-import { type Real } from '../precision/real';
-import { type CoefficientRing } from '../series/ring';
+import { type Real } from '../precision';
+import { type CoefficientRing } from '../series';
 
 /** A complex number in double precision. */
 export interface Complex {

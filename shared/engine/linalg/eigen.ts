@@ -1,9 +1,43 @@
-import { type Real } from '../precision/real';
+import { type Real } from '../precision';
+import { type CoefficientRing } from '../series';
 import { characteristicPolynomial } from './characteristic';
 import { type ComplexReal, type RealRing, complexOps } from './complex';
 import { type PolishedRoot, polishedPolynomialRoots } from './polynomial';
+import { transpose } from './solve';
 
-const isTriangular = <T>(a: T[][], isZero: (x: T) => boolean) => a.every((row, i) => row.every((x, j) => j >= i || isZero(x)));
+const isLowerTriangular = <T>(a: T[][], isZero: (x: T) => boolean) => a.every((row, i) => row.every((x, j) => j <= i || isZero(x)));
+
+/** The diagonal of a triangular matrix (lower or upper), which holds its eigenvalues; null for any other matrix. */
+export function triangularDiagonal<T>(a: T[][], isZero: (x: T) => boolean): T[] | null {
+  return isLowerTriangular(a, isZero) || isLowerTriangular(transpose(a), isZero) ? a.map((row, i) => row[i]) : null;
+}
+
+/** Distinct values (equal when `same` says so), each with how often it occurs. */
+export function groupWithMultiplicity<T>(values: T[], same: (a: T, b: T) => boolean): { value: T; multiplicity: number }[] {
+  const groups: { value: T; multiplicity: number }[] = [];
+  for (const value of values) {
+    const group = groups.find((g) => same(g.value, value));
+    if (group) group.multiplicity++;
+    else groups.push({ value, multiplicity: 1 });
+  }
+  return groups;
+}
+
+/**
+ * Eigenvalues over an exact ring, repeated by multiplicity: the diagonal of a triangular matrix, else
+ * `known` (eigenvalues known in advance, e.g. from a symmetry) when they sum to the trace and each is
+ * a root of the characteristic polynomial; null otherwise (they are not found here).
+ */
+export function exactEigenvalues<C>(ring: CoefficientRing<C>, a: C[][], isZero: (c: C) => boolean, known: C[] = []): C[] | null {
+  const diagonal = triangularDiagonal(a, isZero);
+  if (diagonal) return diagonal;
+  if (known.length !== a.length) return null;
+  const sum = (values: C[]) => values.reduce((s, x) => ring.add(s, x), ring.zero());
+  if (!isZero(ring.sub(sum(known), sum(a.map((row, i) => row[i]))))) return null;
+  const p = characteristicPolynomial(ring, a);
+  const valueAt = (x: C) => p.reduceRight((s, c) => ring.add(ring.mul(s, x), c), ring.zero());
+  return known.every((x) => isZero(valueAt(x))) ? known : null;
+}
 
 /**
  * Eigenvalues of a real or complex matrix in the working precision of `ring`, with multiplicities
@@ -14,17 +48,10 @@ const isTriangular = <T>(a: T[][], isZero: (x: T) => boolean) => a.every((row, i
 export function eigenvaluesWithMultiplicity(ring: RealRing, a: ComplexReal[][], isNegligible: (c: Real) => boolean): PolishedRoot[] {
   const c = complexOps(ring);
   const isZeroC = (z: ComplexReal) => isNegligible(z.re) && isNegligible(z.im);
-  if (a.length === 1 || isTriangular(a, isZeroC) || isTriangular(a[0].map((_, j) => a.map((row) => row[j])), isZeroC)) {
-    const out: PolishedRoot[] = [];
-    a.forEach((row, i) => {
-      const z = c.of(isNegligible(row[i].re) ? ring.zero() : row[i].re, isNegligible(row[i].im) ? ring.zero() : row[i].im);
-      const same = out.find((r) => isZeroC(c.sub(r.root, z)));
-      if (same) same.multiplicity++;
-      else out.push({ root: z, multiplicity: 1 });
-    });
-    return out;
-  }
-  return polishedPolynomialRoots(ring, characteristicPolynomial(c, a), isNegligible);
+  const diagonal = triangularDiagonal(a, isZeroC);
+  if (!diagonal) return polishedPolynomialRoots(ring, characteristicPolynomial(c, a), isNegligible);
+  const cleaned = diagonal.map((z) => c.of(isNegligible(z.re) ? ring.zero() : z.re, isNegligible(z.im) ? ring.zero() : z.im));
+  return groupWithMultiplicity(cleaned, (x, y) => isZeroC(c.sub(x, y))).map(({ value, multiplicity }) => ({ root: value, multiplicity }));
 }
 
 /** Every eigenvalue (repeated by multiplicity) in full precision. */

@@ -1,4 +1,4 @@
-import { type Real } from '../precision/real';
+import { type Real } from '../precision';
 import { type Complex, type ComplexReal, type RealRing, cabs, cadd, cdiv, cmul, complexOps, csub } from './complex';
 
 /** Roots of Σ c_k x^k with real coefficients (double precision). */

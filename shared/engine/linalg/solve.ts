@@ -1,11 +1,14 @@
-import { type CoefficientRing } from '../series/ring';
+import { type CoefficientRing } from '../series';
 import { type Complex, type ComplexReal, type RealRing, cabs, cdiv, cmul, complexOps, csub } from './complex';
+
+/** What elimination needs of the coefficients: a coefficient ring, or exact rationals. */
+export type EliminationArithmetic<C> = Pick<CoefficientRing<C>, 'sub' | 'mul' | 'inverse' | 'isZero'>;
 
 /**
  * Gaussian elimination over a coefficient ring. Pivots are chosen by `magnitude` (numeric mode)
  * or as the first non-zero entry (exact mode); returns null for a singular system.
  */
-export function solveLinear<C>(ring: CoefficientRing<C>, matrix: C[][], rhs: C[], isNegligible: (c: C) => boolean, magnitude?: (c: C) => number): C[] | null {
+export function solveLinear<C>(ring: EliminationArithmetic<C>, matrix: C[][], rhs: C[], isNegligible: (c: C) => boolean, magnitude?: (c: C) => number): C[] | null {
   const m = matrix.length;
   const a = matrix.map((row, i) => [...row, rhs[i]]);
   for (let col = 0; col < m; col++) {

@@ -1,4 +1,4 @@
-import { type Real, realContext } from '../precision/real';
+import { type Real, realContext } from '../precision';
 
 /** Eigenvalues and orthonormal eigenvectors (columns of V) of a real symmetric matrix (cyclic Jacobi). */
 export function symmetricEigen(a0: Real[][], digits: number): { values: Real[]; vectors: Real[][] } {

@@ -1,4 +1,4 @@
-import { type CoefficientRing } from '../series/ring';
+import { type CoefficientRing } from '../series';
 
 /** A monomial Π g_k^{powers[k]} with a coefficient in some ring (numbers or symbolic expressions). */
 export interface CouplingTerm<C> {

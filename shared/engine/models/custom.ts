@@ -1,9 +1,6 @@
 import { isObjectPropertyName } from '../../jobs/contract/primitives';
-import { fail } from '../precision/errors';
-import { rationalToReal } from '../precision/real';
-import { type ExpressionNode, exactConstant, parseExpression } from '../symbolic/parse';
-import { type Poly, polyAdd, polyConstant, polyConstantValue, polyMul, polyPow, polyScale, polyVariable } from '../symbolic/polynomial';
-import { type Q, Q0, q, qDiv, qMul } from '../symbolic/rational';
+import { fail, rationalToReal } from '../precision';
+import { type ExpressionNode, type Poly, type Q, Q0, exactConstant, parseExpression, polyAdd, polyConstant, polyConstantValue, polyMul, polyPow, polyScale, polyVariable, q, qDiv, qMul } from '../symbolic';
 import { type QuarticModel, NEGLIGIBLE_COUPLING } from './model';
 import { MAX_FIELDS } from './presets';
 import { assertIndependentCouplings } from './projection';

@@ -1,4 +1,4 @@
-import { type Q } from '../symbolic/rational';
+import { type Q } from '../symbolic';
 import { type Tensor } from './tensor';
 
 /**

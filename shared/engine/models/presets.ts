@@ -1,5 +1,5 @@
-import { fail } from '../precision/errors';
-import { type Q, q, qCompare } from '../symbolic/rational';
+import { fail } from '../precision';
+import { type Q, q, qCompare } from '../symbolic';
 import { type ModelFamily, type QuarticModel, NEGLIGIBLE_COUPLING, exactNumberText, familyPointLabel } from './model';
 import { type Tensor, tensorFrom } from './tensor';
 

@@ -1,24 +1,13 @@
-import { fail } from '../precision/errors';
-import { type Q, Q0, q, qAdd, qDiv, qIsZero, qMul, qSub } from '../symbolic/rational';
+import { type EliminationArithmetic, solveLinear } from '../linalg';
+import { fail } from '../precision';
+import { type Q, Q0, Q1, q, qAdd, qDiv, qIsZero, qMul, qSub } from '../symbolic';
 import { type QuarticModel } from './model';
 import { type Tensor, innerProduct } from './tensor';
 
-/** Exact solution of a small square system over Q (Gaussian elimination); null when singular. */
-export function solveRational(matrix: Q[][], rhs: Q[]): Q[] | null {
-  const m = matrix.length;
-  const a = matrix.map((row, i) => [...row, rhs[i]]);
-  for (let col = 0; col < m; col++) {
-    const pivot = a.findIndex((row, r) => r >= col && !qIsZero(row[col]));
-    if (pivot < 0) return null;
-    [a[col], a[pivot]] = [a[pivot], a[col]];
-    for (let r = 0; r < m; r++) {
-      if (r === col || qIsZero(a[r][col])) continue;
-      const f = qDiv(a[r][col], a[col][col]);
-      for (let k = col; k <= m; k++) a[r][k] = qSub(a[r][k], qMul(f, a[col][k]));
-    }
-  }
-  return a.map((row, i) => qDiv(row[m], row[i]));
-}
+const RATIONALS: EliminationArithmetic<Q> = { sub: qSub, mul: qMul, inverse: (a) => qDiv(Q1, a), isZero: qIsZero };
+
+/** Exact solution of a small square system over Q; null when singular. */
+export const solveRational = (matrix: Q[][], rhs: Q[]): Q[] | null => solveLinear(RATIONALS, matrix, rhs, qIsZero);
 
 const gramCache = new WeakMap<QuarticModel, Q[][]>();
 

@@ -1,4 +1,4 @@
-import { fail } from '../precision/errors';
+import { fail } from '../precision';
 
 /**
  * A dense tensor with exact integer entries over n index values. Model tensors are scaled to

@@ -1,6 +1,6 @@
-import { checkedPade } from '../pade/pade';
-import { type Real, GUARD_DIGITS, realContext } from '../precision/real';
-import { type Q, q, qMul, qSub } from '../symbolic/rational';
+import { checkedPade } from '../pade';
+import { type Real, GUARD_DIGITS, realContext } from '../precision';
+import { type Q, q, qMul, qSub } from '../symbolic';
 
 /**
  * Holding exponent series against data: the x-axes a comparison uses, the series variants drawn

@@ -1,15 +1,11 @@
-import { flowAt } from '../flows/family';
-import { type DerivedFlow } from '../diagrams/renormalization';
-import { type Quantity, exponentSeriesPartial, powerCoefficients } from '../exponents/exponents';
-import { fixedPointNotices, scanRegimeNotices } from '../exponents/notices';
-import { type Crossover } from '../exponents/shortRange';
-import { type FixedPoint, findFixedPoints } from '../fixedpoints/fixedPoints';
-import { type ModelSpec } from '../models/model';
-import { EngineError } from '../precision/errors';
-import { type Real } from '../precision/real';
-import { type LaurentSeries } from '../series/laurent';
-import { type Expression } from '../symbolic/expression';
-import { type Q, q, qCompare } from '../symbolic/rational';
+import { flowAt } from '../flows';
+import { type DerivedFlow } from '../diagrams';
+import { type Crossover, type Quantity, exponentSeriesPartial, fixedPointNotices, powerCoefficients, scanRegimeNotices } from '../exponents';
+import { type FixedPoint, findFixedPoints } from '../fixedpoints';
+import { type ModelSpec } from '../models';
+import { type Real, EngineError } from '../precision';
+import { type LaurentSeries } from '../series';
+import { type Expression, type Q, q, qCompare } from '../symbolic';
 import { type ExternalPoint, type PrimaryCoefficients, type ScanPoint, isShortRangePoint, meanFieldPoint, padeFields, printedValues, scanPade, walkGrid } from './scan';
 
 /**

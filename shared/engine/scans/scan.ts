@@ -1,12 +1,8 @@
-import { type Real, GUARD_DIGITS, rationalToReal, realContext } from '../precision/real';
-import { evaluateAtom } from '../symbolic/evaluate';
-import { type Expression, atomKey } from '../symbolic/expression';
-import { type Q, qCompare, qSub, qMul, q } from '../symbolic/rational';
-import { ratEvaluate } from '../symbolic/ratfunc';
-import { type CheckedPade, checkedPade } from '../pade/pade';
-import { type Quantity, meanFieldReals, valuesFromPrimaries } from '../exponents/exponents';
-import { type Notice, scanRegimeNotices } from '../exponents/notices';
-import { type Crossover, crossoverS } from '../exponents/shortRange';
+import { expressionValueAt } from '../flows';
+import { type Real, GUARD_DIGITS, rationalToReal, realContext } from '../precision';
+import { type Expression, type Q, q, qCompare, qMul, qSub } from '../symbolic';
+import { type CheckedPade, checkedPade } from '../pade';
+import { type Crossover, type Notice, type Quantity, crossoverS, meanFieldReals, scanRegimeNotices, valuesFromPrimaries } from '../exponents';
 
 export { crossoverS };
 
@@ -56,25 +52,6 @@ export interface ExternalPoint {
   padeDefects: (string | null)[];
   notices: Notice[];
   fixedPoint: string;
-}
-
-export function evaluateAtPoint(e: Expression, at: Record<string, Q>, digits: number, atoms: Map<string, Real>): Real {
-  const R = realContext(digits);
-  let sum = new R(0);
-  for (const t of e.terms.values()) {
-    let term = rationalToReal(ratEvaluate(t.coeff, at), digits);
-    for (const p of t.monomial) {
-      const key = atomKey(p.atom);
-      let base = atoms.get(key);
-      if (!base) {
-        base = evaluateAtom(p.atom, at, digits);
-        atoms.set(key, base);
-      }
-      term = term.times(p.exponent.den === 1n ? base.pow(p.exponent.num.toString()) : base.pow(new R(p.exponent.num.toString()).div(p.exponent.den.toString())));
-    }
-    sum = sum.plus(term);
-  }
-  return sum;
 }
 
 export interface ScanRequest {
@@ -159,7 +136,7 @@ export function scanSeries(request: ScanRequest): ScanPoint[] {
     const atoms = new Map<string, Real>();
     const at = { s };
     const epsReal = rationalToReal(eps, work);
-    const evaluate = (series: CompiledSeries) => series.coefficients.map((c) => evaluateAtPoint(c, at, work, atoms));
+    const evaluate = (series: CompiledSeries) => series.coefficients.map((c) => expressionValueAt(c, at, work, atoms));
     const coefficients = request.series.map(evaluate);
     const primaries = request.quantities && request.primaries ? evaluatePrimaries(request.primaries, evaluate) : null;
     const values = primaries ? printedValues(request.quantities as readonly Quantity[], primaries, request.d, s, epsReal, request.digits) : coefficients.map((c) => rounded(sumAt(c, epsReal), request.digits));
@@ -217,8 +194,8 @@ export function padeFields(checked: (CheckedPade | null)[]): Pick<ScanPoint, 'pa
 function oneCouplingNotices(request: ScanRequest, primaries: PrimaryCoefficients | null, at: Record<string, Q>, eps: Real, atoms: Map<string, Real>, work: number): Notice[] {
   const notices: Notice[] = [];
   if (request.beta?.cubic) {
-    const b2 = evaluateAtPoint(request.beta.quadratic, at, work, atoms);
-    const b3 = evaluateAtPoint(request.beta.cubic, at, work, atoms);
+    const b2 = expressionValueAt(request.beta.quadratic, at, work, atoms);
+    const b3 = expressionValueAt(request.beta.cubic, at, work, atoms);
     if (b2.times(b2).plus(b3.times(eps).times(4)).isNegative()) notices.push({ kind: 'complex-at-eps', message: 'the fixed point is complex there: the truncated β has no real root at that ε. The values are the truncated ε-series of its real branch.' });
   }
   if (primaries && !sumAt(primaries.omega, eps).isPositive()) notices.push({ kind: 'not-ir-stable', message: 'ω ≤ 0: the fixed point is not IR-stable there.' });

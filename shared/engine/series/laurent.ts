@@ -1,4 +1,4 @@
-import { fail } from '../precision/errors';
+import { fail } from '../precision';
 import { type CoefficientRing } from './ring';
 
 /**

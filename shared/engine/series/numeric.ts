@@ -1,6 +1,5 @@
 import type Decimal from 'decimal.js';
-import { fail } from '../precision/errors';
-import { type Real, realContext } from '../precision/real';
+import { type Real, fail, realContext } from '../precision';
 import { type CoefficientRing } from './ring';
 
 /** Coefficients as Reals rounded to `workingDigits` significant digits after every operation. */

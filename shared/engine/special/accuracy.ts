@@ -1,5 +1,4 @@
-import { type Fixed } from '../precision/fixed';
-import { fail } from '../precision/errors';
+import { type Fixed, fail } from '../precision';
 
 /** Absolute error (in units of 2^-bits) the special-function kernels stay below, with margin. */
 const ERROR_ULPS_BITS = 16;

@@ -1,4 +1,4 @@
-import { type Fixed } from '../precision/fixed';
+import { type Fixed } from '../precision';
 import { bitLen } from './float';
 
 /*

@@ -1,6 +1,4 @@
-import { type ExactRational } from '../precision/fixed';
-import { reduce } from '../precision/real';
-import { fail } from '../precision/errors';
+import { type ExactRational, fail, reduce } from '../precision';
 
 /**
  * Exact Bernoulli numbers from tangent numbers (Brent–Harvey, "Fast computation of Bernoulli,

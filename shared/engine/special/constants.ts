@@ -1,4 +1,4 @@
-import { type Fixed, atanInverse, atanhInverse, changeBits, div, isqrt, mul, one } from '../precision/fixed';
+import { type Fixed, atanInverse, atanhInverse, changeBits, div, isqrt, mul, one } from '../precision';
 
 /**
  * Mathematical constants in fixed point, each cached at the highest precision computed so far

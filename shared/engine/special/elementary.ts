@@ -1,4 +1,4 @@
-import { type Fixed, changeBits, div, fromRational, mul, one } from '../precision/fixed';
+import { type Fixed, changeBits, div, fromRational, mul, one } from '../precision';
 import { ln2Fixed } from './constants';
 import { bitLen } from './float';
 

@@ -1,4 +1,4 @@
-import { type Fixed } from '../precision/fixed';
+import { type Fixed } from '../precision';
 
 /**
  * Binary floating point on BigInt: value = man·2^exp. Used where a result can be far too large or

@@ -1,6 +1,4 @@
-import { type ExactRational, type Fixed } from '../precision/fixed';
-import { fail } from '../precision/errors';
-import { type Real, type RealInput, MAX_DIGITS, MIN_DIGITS, bitsForDigits, fixedToReal, rationalToReal, toExactRational } from '../precision/real';
+import { type ExactRational, type Fixed, type Real, type RealInput, MAX_DIGITS, MIN_DIGITS, bitsForDigits, fail, fixedToReal, rationalToReal, toExactRational } from '../precision';
 import { withRelativeAccuracy } from './accuracy';
 import { bernoulliExact } from './bernoulli';
 import { catalanFixed, eulerGammaFixed, ln2Fixed, piFixed } from './constants';

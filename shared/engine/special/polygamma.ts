@@ -1,5 +1,4 @@
-import { type ExactRational, type Fixed, changeBits, div, fromRational, mul, one } from '../precision/fixed';
-import { fail } from '../precision/errors';
+import { type ExactRational, type Fixed, changeBits, div, fail, fromRational, mul, one } from '../precision';
 import { CoefficientCache, hornerInverseSquare, log2AbsBernoulli, log2AbsRational, requireTerms, termsForBudget } from './asymptotic';
 import { bernoulliEvenUnreduced } from './bernoulli';
 import { piFixed } from './constants';

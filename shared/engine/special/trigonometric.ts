@@ -1,4 +1,4 @@
-import { type ExactRational, type Fixed, changeBits, div, fromRational, mul, one } from '../precision/fixed';
+import { type ExactRational, type Fixed, changeBits, div, fromRational, mul, one } from '../precision';
 import { piFixed } from './constants';
 import { isqrtFast, rectangularSeries } from './elementary';
 

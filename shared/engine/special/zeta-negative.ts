@@ -1,5 +1,4 @@
-import { type ExactRational, fromRational, mul, one } from '../precision/fixed';
-import { fail } from '../precision/errors';
+import { type ExactRational, fail, fromRational, mul, one } from '../precision';
 import { ln2Fixed, piFixed } from './constants';
 import { expFixedSplit, lnFixedPositive } from './elementary';
 import { type BigFloat, FLOAT_ZERO, bitLen, floatFromFixed, floatMul, trim } from './float';

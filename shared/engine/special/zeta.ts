@@ -1,5 +1,4 @@
-import { type ExactRational, type Fixed, changeBits, div, fromRational, mul, one } from '../precision/fixed';
-import { fail } from '../precision/errors';
+import { type ExactRational, type Fixed, changeBits, div, fail, fromRational, mul, one } from '../precision';
 import { log2AbsRational } from './asymptotic';
 import { bernoulliExact } from './bernoulli';
 import { ln2Fixed, piFixed } from './constants';

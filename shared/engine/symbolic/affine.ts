@@ -1,4 +1,4 @@
-import { fail } from '../precision/errors';
+import { fail } from '../precision';
 import { type Q, Q0, q, qAdd, qFloor, qIsZero, qMul, qSub, qToString } from './rational';
 
 /** c + Σ a_i·p_i with rational coefficients in named parameters (the arguments of ψ and Γ atoms). */

@@ -1,5 +1,5 @@
-import { fail } from '../precision/errors';
-import { zetaEvenRationalFactor } from '../special/index';
+import { fail } from '../precision';
+import { zetaEvenRationalFactor } from '../special';
 import { type Affine, affineShift, integerShift, isConstantAffine } from './affine';
 import { Expression } from './expression';
 import { polyConstant, polyFromAffine, polyMul } from './polynomial';

@@ -1,6 +1,5 @@
-import { fail } from '../precision/errors';
-import { type Real, GUARD_DIGITS, rationalToReal, realContext } from '../precision/real';
-import { eulerGamma, gamma, ln2, pi, polygamma, zetaInteger } from '../special/index';
+import { type Real, GUARD_DIGITS, fail, rationalToReal, realContext } from '../precision';
+import { eulerGamma, gamma, ln2, pi, polygamma, zetaInteger } from '../special';
 import { evaluateAffine } from './affine';
 import { type Atom, type Expression } from './expression';
 import { type Q } from './rational';

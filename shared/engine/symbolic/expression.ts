@@ -1,4 +1,4 @@
-import { fail } from '../precision/errors';
+import { fail } from '../precision';
 import { type Affine, affineKey } from './affine';
 import { type Q, Q0, q, qAdd, qIsInteger, qIsZero, qMul, qToString } from './rational';
 import { type RatFunc, ratAdd, ratConstant, ratConstantValue, ratInverse, ratIsZero, ratMul, ratScale } from './ratfunc';

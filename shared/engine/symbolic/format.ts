@@ -1,8 +1,8 @@
 import { affineToLatex, affineToString, latexRational } from './affine';
 import { type Atom, type Expression, type Power, type Term, atomKey, monomialKey } from './expression';
 import { type Poly, polyConstantValue, polyNeg, polyTermCount, polyToLatex, polyToString, sortedTerms } from './polynomial';
-import { qIsOne, qToString } from './rational';
-import { factorToLatex, ratConstantValue, ratParts } from './ratfunc';
+import { type Q, qIsOne, qToString } from './rational';
+import { type Factor, factorToLatex, ratConstantValue, ratParts } from './ratfunc';
 
 /*
  * Plain-text syntax (parsable by mathjs): sums of terms `c*atoms/(atoms)` with atoms
@@ -37,11 +37,22 @@ function signedNumerator(num: Poly): { negative: boolean; num: Poly } {
   return lead && lead.coeff.num < 0n ? { negative: true, num: polyNeg(num) } : { negative: false, num };
 }
 
-function termText(t: Term): { negative: boolean; text: string } {
+/** How a term prints: plain text (mathjs syntax) or LaTeX. */
+interface TermStyle {
+  rational: (c: Q) => string;
+  poly: (p: Poly) => string;
+  parenthesize: (text: string) => string;
+  /** A sum in the numerator needs parentheses before a denominator (plain text; LaTeX's \frac groups it). */
+  wrapBeforeDenominator: boolean;
+  factor: (f: Factor) => string;
+  power: (p: Power, negate: boolean) => string;
+}
+
+/** A term as its sign and the printed factors of its numerator and denominator. */
+function termParts(t: Term, style: TermStyle): { negative: boolean; numParts: string[]; denParts: string[] } {
   const numParts: string[] = [];
   const denParts: string[] = [];
-  let negative = false;
-  const hasAtoms = t.monomial.length > 0;
+  let negative: boolean;
   const c = ratConstantValue(t.coeff);
   if (c) {
     negative = c.num < 0n;
@@ -49,32 +60,46 @@ function termText(t: Term): { negative: boolean; text: string } {
     if (n !== 1n || !t.monomial.some((p) => p.exponent.num > 0n)) numParts.push(n.toString());
     if (c.den !== 1n) denParts.push(c.den.toString());
   } else {
-    const parts = ratParts(t.coeff);
-    const signed = signedNumerator(parts.num);
+    const { num: raw, factors } = ratParts(t.coeff);
+    const signed = signedNumerator(raw);
     const { num } = signed;
-    const factors = parts.factors;
     negative = signed.negative;
     const single = polyConstantValue(num);
-    if (single) numParts.push(qToString(single));
-    else numParts.push(polyTermCount(num) > 1 && (hasAtoms || factors.length > 0 || negative) ? `(${polyToString(num)})` : polyToString(num));
-    for (const f of factors) {
-      const base = polyTermCount(f.poly) > 1 ? `(${polyToString(f.poly)})` : polyToString(f.poly);
-      denParts.push(f.power === 1 ? base : `${base}^${f.power}`);
-    }
+    const wrap = polyTermCount(num) > 1 && (t.monomial.length > 0 || negative || (style.wrapBeforeDenominator && factors.length > 0));
+    numParts.push(single ? style.rational(single) : wrap ? style.parenthesize(style.poly(num)) : style.poly(num));
+    denParts.push(...factors.map(style.factor));
   }
-  for (const p of t.monomial) (p.exponent.num > 0n ? numParts : denParts).push(powerText(p, p.exponent.num < 0n));
+  for (const p of t.monomial) (p.exponent.num > 0n ? numParts : denParts).push(style.power(p, p.exponent.num < 0n));
+  return { negative, numParts, denParts };
+}
+
+/** Terms joined by their signs: "a + b - c". */
+function joinTerms(terms: { negative: boolean; text: string }[]): string {
+  if (terms.length === 0) return '0';
+  return terms.map((t, i) => (i === 0 ? (t.negative ? `-${t.text}` : t.text) : t.negative ? ` - ${t.text}` : ` + ${t.text}`)).join('');
+}
+
+const TEXT: TermStyle = {
+  rational: qToString,
+  poly: polyToString,
+  parenthesize: (text) => `(${text})`,
+  wrapBeforeDenominator: true,
+  factor: (f) => {
+    const base = polyTermCount(f.poly) > 1 ? `(${polyToString(f.poly)})` : polyToString(f.poly);
+    return f.power === 1 ? base : `${base}^${f.power}`;
+  },
+  power: powerText,
+};
+
+function termText(t: Term): { negative: boolean; text: string } {
+  const { negative, numParts, denParts } = termParts(t, TEXT);
   const numerator = numParts.length ? numParts.join('*') : '1';
   const denominator = denParts.length === 0 ? '' : denParts.length === 1 ? `/${denParts[0]}` : `/(${denParts.join('*')})`;
   return { negative, text: numerator + denominator };
 }
 
 export function expressionToString(e: Expression): string {
-  const terms = orderedTerms(e);
-  if (terms.length === 0) return '0';
-  return terms
-    .map(termText)
-    .map((t, i) => (i === 0 ? (t.negative ? `-${t.text}` : t.text) : t.negative ? ` - ${t.text}` : ` + ${t.text}`))
-    .join('');
+  return joinTerms(orderedTerms(e).map(termText));
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -105,37 +130,21 @@ function powerLatex(p: Power, negate: boolean): string {
   return `${wrapped}^{${e.den === 1n ? e.num.toString() : qToString(e)}}`;
 }
 
+const LATEX: TermStyle = {
+  rational: latexRational,
+  poly: polyToLatex,
+  parenthesize: (text) => `\\left(${text}\\right)`,
+  wrapBeforeDenominator: false,
+  factor: factorToLatex,
+  power: powerLatex,
+};
+
 function termLatex(t: Term): { negative: boolean; text: string } {
-  const numParts: string[] = [];
-  const denParts: string[] = [];
-  let negative = false;
-  const c = ratConstantValue(t.coeff);
-  if (c) {
-    negative = c.num < 0n;
-    const n = negative ? -c.num : c.num;
-    if (n !== 1n || !t.monomial.some((p) => p.exponent.num > 0n)) numParts.push(n.toString());
-    if (c.den !== 1n) denParts.push(c.den.toString());
-  } else {
-    const parts = ratParts(t.coeff);
-    const signed = signedNumerator(parts.num);
-    const { num } = signed;
-    const factors = parts.factors;
-    negative = signed.negative;
-    const single = polyConstantValue(num);
-    if (single) numParts.push(latexRational(single));
-    else numParts.push(polyTermCount(num) > 1 && (t.monomial.length > 0 || negative) ? `\\left(${polyToLatex(num)}\\right)` : polyToLatex(num));
-    for (const f of factors) denParts.push(factorToLatex(f));
-  }
-  for (const p of t.monomial) (p.exponent.num > 0n ? numParts : denParts).push(powerLatex(p, p.exponent.num < 0n));
+  const { negative, numParts, denParts } = termParts(t, LATEX);
   const numerator = numParts.length ? numParts.join(' ') : '1';
   return { negative, text: denParts.length ? `\\frac{${numerator}}{${denParts.join(' ')}}` : numerator };
 }
 
 export function expressionToLatex(e: Expression): string {
-  const terms = orderedTerms(e);
-  if (terms.length === 0) return '0';
-  return terms
-    .map(termLatex)
-    .map((t, i) => (i === 0 ? (t.negative ? `-${t.text}` : t.text) : t.negative ? ` - ${t.text}` : ` + ${t.text}`))
-    .join('');
+  return joinTerms(orderedTerms(e).map(termLatex));
 }

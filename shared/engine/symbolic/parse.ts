@@ -1,6 +1,5 @@
 import { create, parseDependencies } from 'mathjs';
-import { fail } from '../precision/errors';
-import { toExactRational } from '../precision/real';
+import { fail, toExactRational } from '../precision';
 import { type Q } from './rational';
 
 // Numbers are read as BigNumber: a literal keeps every digit it was written with (precision only

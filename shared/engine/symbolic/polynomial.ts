@@ -1,4 +1,4 @@
-import { fail } from '../precision/errors';
+import { fail } from '../precision';
 import { lcm } from './util';
 import { type Affine, joinSigned, latexName, latexRational } from './affine';
 import { type Q, Q0, q, qAdd, qDiv, qIsZero, qMul, qPowInt, qToString } from './rational';

@@ -1,6 +1,4 @@
-import { fail } from '../precision/errors';
-import { type ExactRational } from '../precision/fixed';
-import { gcd } from '../precision/real';
+import { type ExactRational, fail, gcd } from '../precision';
 
 /** Exact rationals, always reduced with a positive denominator. */
 export type Q = ExactRational;

@@ -1,5 +1,5 @@
-import { fail } from '../precision/errors';
-import { type CoefficientRing } from '../series/ring';
+import { fail } from '../precision';
+import { type CoefficientRing } from '../series';
 import { log2Expr } from './canonical';
 import { Expression } from './expression';
 import { q } from './rational';

@@ -1,4 +1,4 @@
-import { fail } from '../precision/errors';
+import { fail } from '../precision';
 import { coefficientOf } from './affine';
 import { type Atom, Expression } from './expression';
 import { polyConstant, polyIsZero, polyPow, polySubstitute, polyToString } from './polynomial';

@@ -1,4 +1,4 @@
-import { gcd } from '../precision/real';
+import { gcd } from '../precision';
 
 export function lcm(a: bigint, b: bigint): bigint {
   if (a === 0n || b === 0n) return 0n;
