@@ -1,3 +1,4 @@
+import { JOB_LIMITS } from '../../jobs/contract/limits';
 import { fail } from '../precision';
 import { mulberry32 } from './random';
 import { evaluateSpline, fitSpline, gcvSpline, intervalOf, prepareSpline, type SplineFit } from './spline';
@@ -49,7 +50,7 @@ export const KINK_THRESHOLDS = {
   edgeSpacings: 2,
   /** The match window: this many local data spacings, or the peak's half width if wider. */
   windowSpacings: 4,
-  defaultResamples: 200,
+  defaultResamples: JOB_LIMITS.defaultResamples,
   defaultSeed: 1,
 } as const;
 

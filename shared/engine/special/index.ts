@@ -16,7 +16,7 @@ const GUARD_BITS = 20;
 const GAMMA_GUARD_BITS = 12;
 
 function checkDigits(digits: number): void {
-  if (!Number.isInteger(digits) || digits < 1 || digits > MAX_DIGITS + 200) fail('limit', `digits must be an integer in ${MIN_DIGITS}..${MAX_DIGITS}`);
+  if (!Number.isInteger(digits) || digits < 1 || digits > MAX_DIGITS + 200) fail('limit', `digits must be an integer from 1 to ${MAX_DIGITS + 200} (jobs take ${MIN_DIGITS} to ${MAX_DIGITS}; the rest is room for guard digits)`);
 }
 
 function relative(digits: number, kernel: (bits: number) => Fixed): Real {
