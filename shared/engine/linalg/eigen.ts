@@ -1,9 +1,9 @@
 import { type Real } from '../precision';
 import { type CoefficientRing } from '../series';
-import { characteristicPolynomial } from './characteristic';
 import { type ComplexReal, type RealRing, complexOps } from './complex';
 import { type PolishedRoot, polishedPolynomialRoots } from './polynomial';
-import { transpose } from './solve';
+import { characteristicPolynomial } from './characteristic';
+import { matrixProduct, transpose } from './solve';
 
 const isLowerTriangular = <T>(a: T[][], isZero: (x: T) => boolean) => a.every((row, i) => row.every((x, j) => j <= i || isZero(x)));
 
@@ -25,18 +25,25 @@ export function groupWithMultiplicity<T>(values: T[], same: (a: T, b: T) => bool
 
 /**
  * Eigenvalues over an exact ring, repeated by multiplicity: the diagonal of a triangular matrix, else
- * `known` (eigenvalues known in advance, e.g. from a symmetry) when they sum to the trace and each is
- * a root of the characteristic polynomial; null otherwise (they are not found here).
+ * `known` (eigenvalues known in advance, e.g. from a symmetry) when their power sums equal the traces
+ * of the powers of the matrix, Σ xᵢᵏ = tr(Aᵏ) for k = 1…n, which fixes the multiset of n eigenvalues
+ * (Newton's identities); null otherwise (they are not found here).
  */
 export function exactEigenvalues<C>(ring: CoefficientRing<C>, a: C[][], isZero: (c: C) => boolean, known: C[] = []): C[] | null {
   const diagonal = triangularDiagonal(a, isZero);
   if (diagonal) return diagonal;
   if (known.length !== a.length) return null;
   const sum = (values: C[]) => values.reduce((s, x) => ring.add(s, x), ring.zero());
-  if (!isZero(ring.sub(sum(known), sum(a.map((row, i) => row[i]))))) return null;
-  const p = characteristicPolynomial(ring, a);
-  const valueAt = (x: C) => p.reduceRight((s, c) => ring.add(ring.mul(s, x), c), ring.zero());
-  return known.every((x) => isZero(valueAt(x))) ? known : null;
+  let power = a;
+  let knownPower = known;
+  for (let k = 1; k <= a.length; k++) {
+    if (k > 1) {
+      power = matrixProduct(ring, power, a);
+      knownPower = knownPower.map((x, i) => ring.mul(x, known[i]));
+    }
+    if (!isZero(ring.sub(sum(knownPower), sum(power.map((row, i) => row[i]))))) return null;
+  }
+  return known;
 }
 
 /**
