@@ -164,15 +164,17 @@ describe('e-mail verification links', () => {
   });
 
   test('an unknown link costs a password hash check like a known one (the same decoy as sign-in)', async () => {
-    // Reference: the cost of argon2id verifications with the OWASP parameters.
+    // Reference: the cost of one argon2id verification with the OWASP parameters. The fastest of
+    // several tries is compared on both sides, so a busy machine slows neither side alone.
     const reference = await hashPassword('reference-password');
-    const [, verifyMs] = await timed(async () => {
-      for (let i = 0; i < 4; i += 1) await verifyPassword(reference, `attempt-${i}`);
-    });
-    const [, unknownMs] = await timed(async () => {
-      for (let i = 0; i < 4; i += 1) await h.browser().post('/api/auth/verify').send({ token: `unknown${i}`.padEnd(43, 'U'), password: 'whatever-pass' }).expect(400);
-    });
-    assert.ok(unknownMs > verifyMs / 2, `4 unknown links took ${unknownMs.toFixed(0)} ms; 4 argon2id verifications take ${verifyMs.toFixed(0)} ms`);
+    const fastest = async (work: (i: number) => Promise<unknown>) => {
+      let best = Infinity;
+      for (let i = 0; i < 5; i += 1) best = Math.min(best, (await timed(() => work(i)))[1]);
+      return best;
+    };
+    const verifyMs = await fastest((i) => verifyPassword(reference, `attempt-${i}`));
+    const unknownMs = await fastest((i) => h.browser().post('/api/auth/verify').send({ token: `unknown${i}`.padEnd(43, 'U'), password: 'whatever-pass' }).expect(400));
+    assert.ok(unknownMs > verifyMs / 2, `the fastest unknown link took ${unknownMs.toFixed(0)} ms; the fastest argon2id verification takes ${verifyMs.toFixed(0)} ms`);
   });
 
   test('resend is public and answers alike for an unconfirmed, a confirmed and an unknown address; only the unconfirmed one gets a fresh link', async () => {
