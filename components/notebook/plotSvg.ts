@@ -2,6 +2,7 @@ import { scaleLinear } from 'd3-scale';
 import { colors, comparisonPlot } from '../../constants/theme';
 import type { CompareResult, SeriesVariant } from '../../shared/jobs/contract';
 import { AXIS_NAMES } from '../../shared/notebook/datasets';
+import { axesSvg, axisFrame, escapeXml, px, type AxisFrame } from './plotAxes';
 
 /**
  * Geometry of a comparison (series variants against a dataset) and its residuals, shared by the on-screen
@@ -35,8 +36,6 @@ export function finiteOf(value: string | null | undefined): number | null {
   return Number.isFinite(number) ? number : null;
 }
 
-const px = (value: number) => Math.round(value * 100) / 100;
-
 /** Path data of a line that breaks wherever a value is missing: one `M … L …` run per unbroken stretch. */
 export function brokenLine(points: ({ x: number; y: number } | null)[]): string[] {
   const runs: string[] = [];
@@ -52,11 +51,6 @@ export function brokenLine(points: ({ x: number; y: number } | null)[]): string[
   }
   close();
   return runs;
-}
-
-export interface Tick {
-  value: number;
-  at: number;
 }
 
 export interface CurveGeometry {
@@ -87,20 +81,7 @@ export interface KinkGeometry {
   x1: number;
 }
 
-interface Frame {
-  width: number;
-  height: number;
-  plotLeft: number;
-  plotRight: number;
-  plotTop: number;
-  plotBottom: number;
-  xTicks: Tick[];
-  yTicks: Tick[];
-  xTitle: string;
-  yTitle: string;
-}
-
-export interface ComparisonGeometry extends Frame {
+export interface ComparisonGeometry extends AxisFrame {
   xDomain: [number, number];
   band: { x0: number; x1: number } | null;
   marks: MarkGeometry[];
@@ -108,8 +89,6 @@ export interface ComparisonGeometry extends Frame {
   data: { show: 'points'; points: DataPointGeometry[] } | { show: 'boundary'; segments: string[] };
   kinks: KinkGeometry[];
 }
-
-type Scale = ReturnType<typeof scaleLinear<number, number>>;
 
 function extent(values: number[], fallback: [number, number]): [number, number] {
   if (values.length === 0) return fallback;
@@ -168,21 +147,6 @@ function comparisonXDomain(result: CompareResult): [number, number] {
   return extent(xs, [0, 1]);
 }
 
-function frame(x: Scale, y: Scale, width: number, height: number, margin: typeof COMPARISON_MARGIN, titles: { x: string; y: string }): Frame {
-  return {
-    width,
-    height,
-    plotLeft: margin.left,
-    plotRight: width - margin.right,
-    plotTop: margin.top,
-    plotBottom: height - margin.bottom,
-    xTicks: x.ticks(Math.max(2, Math.floor((width - margin.left - margin.right) / 80))).map((value) => ({ value, at: x(value) })),
-    yTicks: y.ticks(Math.max(2, Math.floor((height - margin.top - margin.bottom) / 45))).map((value) => ({ value, at: y(value) })),
-    xTitle: titles.x,
-    yTitle: titles.y,
-  };
-}
-
 export const axisName = (kind: string) => (AXIS_NAMES as Record<string, string>)[kind] ?? kind;
 
 /** Scales, curves, data, marks and kinks of a comparison at a size. */
@@ -239,7 +203,7 @@ export function comparisonGeometry(result: CompareResult, show: DataShow, width:
   });
 
   return {
-    ...frame(x, y, width, height, COMPARISON_MARGIN, { x: axisName(result.xAxis), y: axisName(result.quantity) }),
+    ...axisFrame(x, y, width, height, COMPARISON_MARGIN, { x: axisName(result.xAxis), y: axisName(result.quantity) }),
     xDomain,
     band,
     marks,
@@ -249,7 +213,7 @@ export function comparisonGeometry(result: CompareResult, show: DataShow, width:
   };
 }
 
-export interface ResidualGeometry extends Frame {
+export interface ResidualGeometry extends AxisFrame {
   /** Pulls (residual over the error) when the data has errors, else plain residuals. */
   measure: 'pull' | 'residual';
   zeroY: number;
@@ -276,35 +240,14 @@ export function residualGeometry(result: CompareResult, xDomain: [number, number
     return { key: variant.key, style: styles[variant.key], segments: brokenLine(placed), dots };
   });
   return {
-    ...frame(x, y, width, height, RESIDUAL_MARGIN, { x: axisName(result.xAxis), y: measure === 'pull' ? 'r / σ' : 'r' }),
+    ...axisFrame(x, y, width, height, RESIDUAL_MARGIN, { x: axisName(result.xAxis), y: measure === 'pull' ? 'r / σ' : 'r' }),
     measure,
     zeroY: px(y(0)),
     series,
   };
 }
 
-export const tickLabel = (value: number) => String(Number(value.toPrecision(6)));
-
-const escapeXml = (text: string) => text.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
 const dashAttribute = (dash?: string) => (dash ? ` stroke-dasharray="${dash}"` : '');
-
-function axesSvg(g: Frame): string[] {
-  const parts: string[] = [];
-  for (const tick of g.yTicks) {
-    parts.push(`<line x1="${g.plotLeft}" x2="${g.plotRight}" y1="${px(tick.at)}" y2="${px(tick.at)}" stroke="${colors.rule}"/>`);
-    parts.push(`<text x="${g.plotLeft - 6}" y="${px(tick.at) + 4}" text-anchor="end" fill="${colors.inkSoft}">${tickLabel(tick.value)}</text>`);
-  }
-  for (const tick of g.xTicks) {
-    parts.push(`<line x1="${px(tick.at)}" x2="${px(tick.at)}" y1="${g.plotBottom}" y2="${g.plotBottom + 5}" stroke="${colors.inkSoft}"/>`);
-    parts.push(`<text x="${px(tick.at)}" y="${g.plotBottom + 18}" text-anchor="middle" fill="${colors.inkSoft}">${tickLabel(tick.value)}</text>`);
-  }
-  parts.push(`<line x1="${g.plotLeft}" x2="${g.plotRight}" y1="${g.plotBottom}" y2="${g.plotBottom}" stroke="${colors.inkSoft}"/>`);
-  parts.push(`<line x1="${g.plotLeft}" x2="${g.plotLeft}" y1="${g.plotTop}" y2="${g.plotBottom}" stroke="${colors.inkSoft}"/>`);
-  parts.push(`<text x="${(g.plotLeft + g.plotRight) / 2}" y="${g.height - 6}" text-anchor="middle" font-size="13" fill="${colors.ink}">${escapeXml(g.xTitle)}</text>`);
-  const middle = (g.plotTop + g.plotBottom) / 2;
-  parts.push(`<text x="14" y="${middle}" text-anchor="middle" font-size="13" fill="${colors.ink}" transform="rotate(-90 14 ${middle})">${escapeXml(g.yTitle)}</text>`);
-  return parts;
-}
 
 /** A standalone SVG file of the overlay plot, legend included. */
 export function comparisonSvg(g: ComparisonGeometry, dataLabel: string): string {

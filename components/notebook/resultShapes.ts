@@ -3,6 +3,7 @@ import {
   CompareResult,
   CouplingTerm,
   ExponentsResult,
+  FixedPointCaveat,
   FixedPointsResult,
   FlowResult,
   ScanResult,
@@ -206,9 +207,14 @@ export interface FixedPointShape {
   stable: boolean | null;
   couplings: { name: string; series: Coefficient[]; value: string | null }[];
   stabilityValues: string[] | null;
-  stabilitySeries: Coefficient[][];
+  /** One entry per stability eigenvalue, in the engine's order; null where that eigenvalue has no ε-series. */
+  stabilitySeries: (Coefficient[] | null)[];
   notes: string[];
+  /** What must be read before the point's numbers (complex at ε, undecided stability, …). */
+  caveats: FixedPointCaveat[];
 }
+
+const isCaveat = (value: unknown): value is FixedPointCaveat => isObject(value) && typeof value.kind === 'string' && typeof value.message === 'string';
 
 const coefficientText = (value: Earlier<Coefficient> | null | undefined): string | null =>
   typeof value === 'string' ? value : value && typeof value.expr === 'string' ? value.expr : null;
@@ -226,8 +232,9 @@ export function asFixedPoints(result: unknown): { eps: string | null; points: Fi
       stable: typeof raw.stable === 'boolean' ? raw.stable : null,
       couplings: Object.entries(raw.couplings ?? {}).map(([name, entry]) => ({ name, series: coefficients(entry?.series as Coefficient[] | null | undefined), value: coefficientText(entry?.value) })),
       stabilityValues: raw.stability?.values ? raw.stability.values.filter((v): v is string => typeof v === 'string') : null,
-      stabilitySeries: (raw.stability?.series ?? []).filter(Array.isArray).map((row) => coefficients(row as Coefficient[])),
+      stabilitySeries: (raw.stability?.series ?? []).map((row) => (Array.isArray(row) ? coefficients(row as Coefficient[]) : null)),
       notes: (raw.notes ?? []).filter((note): note is string => typeof note === 'string'),
+      caveats: ((raw.caveats ?? []) as unknown[]).filter(isCaveat),
     });
   }
   return { eps: found.eps ?? null, points, contract: reading.earlier ? null : reading.result, earlier: reading.earlier };

@@ -1,38 +1,14 @@
 import { StyleSheet, Text, View } from 'react-native';
 import Svg, { Circle, G, Line, Path, Rect, Text as SvgText } from 'react-native-svg';
 import { colors, comparisonPlot, fonts, spacing } from '../../../constants/theme';
-import { tickLabel, type ComparisonGeometry, type VariantStyle } from '../plotSvg';
+import type { ComparisonGeometry, VariantStyle } from '../plotSvg';
+import { PlotAxes } from './PlotAxes';
 
 /**
  * A testID on an SVG element: react-native-svg hands `testID` to native views, but on the web it renders plain
  * DOM elements, where only a `data-testid` attribute can be found.
  */
 export const svgTestID = (id: string): object => ({ testID: id, 'data-testid': id });
-
-/** Axes with ticks and titles, shared by the overlay and the residual plot. */
-export function PlotAxes({ geometry: g }: { geometry: Pick<ComparisonGeometry, 'plotLeft' | 'plotRight' | 'plotTop' | 'plotBottom' | 'height' | 'xTicks' | 'yTicks' | 'xTitle' | 'yTitle'> }) {
-  const middle = (g.plotTop + g.plotBottom) / 2;
-  return (
-    <G>
-      {g.yTicks.map((tick) => (
-        <G key={`y${tick.value}`}>
-          <Line x1={g.plotLeft} x2={g.plotRight} y1={tick.at} y2={tick.at} stroke={colors.rule} />
-          <SvgText x={g.plotLeft - 6} y={tick.at + 4} fontSize={11} textAnchor="end" fill={colors.inkSoft}>{tickLabel(tick.value)}</SvgText>
-        </G>
-      ))}
-      {g.xTicks.map((tick) => (
-        <G key={`x${tick.value}`}>
-          <Line x1={tick.at} x2={tick.at} y1={g.plotBottom} y2={g.plotBottom + 5} stroke={colors.inkSoft} />
-          <SvgText x={tick.at} y={g.plotBottom + 18} fontSize={11} textAnchor="middle" fill={colors.inkSoft}>{tickLabel(tick.value)}</SvgText>
-        </G>
-      ))}
-      <Line x1={g.plotLeft} x2={g.plotRight} y1={g.plotBottom} y2={g.plotBottom} stroke={colors.inkSoft} />
-      <Line x1={g.plotLeft} x2={g.plotLeft} y1={g.plotTop} y2={g.plotBottom} stroke={colors.inkSoft} />
-      <SvgText x={(g.plotLeft + g.plotRight) / 2} y={g.height - 6} fontSize={13} textAnchor="middle" fill={colors.ink}>{g.xTitle}</SvgText>
-      <SvgText x={14} y={middle} fontSize={13} textAnchor="middle" fill={colors.ink} rotation={-90} origin={`14, ${middle}`}>{g.yTitle}</SvgText>
-    </G>
-  );
-}
 
 /** Series variants as lines (broken where a value is missing), the data as points with error bars or a boundary, marks and kinks. */
 export function ComparisonPlot({ geometry: g, dataLabel }: { geometry: ComparisonGeometry; dataLabel: string }) {

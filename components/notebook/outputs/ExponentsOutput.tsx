@@ -1,9 +1,11 @@
 import { StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, spacing } from '../../../constants/theme';
+import { FieldAnomalousSpectrum, type PadeCheck } from '../../../shared/jobs/contract';
 import { CopyableFormula } from '../CopyableFormula';
 import { isObject, type ExponentsShape } from '../resultShapes';
 import { coefficientText, nameOfQuantity, seriesTex, texOfQuantity } from '../texFormat';
 import { CoefficientTable } from './CoefficientTable';
+import { FieldDirections } from './FieldDirections';
 import { StructuredResult } from './StructuredResult';
 
 export interface ResultNotice {
@@ -31,13 +33,8 @@ export function Notices({ notices, testID }: { notices: ResultNotice[]; testID?:
   );
 }
 
-interface PadeEntry {
-  L: number;
-  M: number;
-  value: string | null;
-  flagged: boolean;
-  reason: string | null;
-}
+/** A checked Padé approximant as the exponents job lists it; an earlier result may lack poles, signChange or reason. */
+type PadeEntry = Pick<PadeCheck, 'L' | 'M' | 'value' | 'flagged'> & Partial<Pick<PadeCheck, 'poles' | 'signChange' | 'reason'>>;
 
 const isPadeEntry = (value: unknown): value is PadeEntry => isObject(value) && typeof value.L === 'number' && typeof value.M === 'number' && typeof value.flagged === 'boolean';
 
@@ -49,9 +46,18 @@ function padeTableOf(pade: unknown): Record<string, PadeEntry[]> | null {
   return Object.keys(table).length ? table : null;
 }
 
-const padeCell = (entry: PadeEntry | undefined) => (!entry ? '' : entry.flagged || entry.value === null ? `flagged: ${entry.reason ?? 'defective'}` : entry.value);
+/** Why a flagged approximant has no value: the engine's reason, else what its poles and sign check say (docs/physics.md §9). */
+function padeDefect(entry: PadeEntry): string {
+  if (entry.reason) return entry.reason;
+  if (entry.poles?.length) return `${entry.poles.length > 1 ? 'poles' : 'pole'} at ε = ${entry.poles.join(', ')}`;
+  return entry.signChange ? 'the denominator changes sign between 0 and ε' : 'no value';
+}
 
-const stringRecord = (value: unknown): Record<string, string> => (isObject(value) ? Object.fromEntries(Object.entries(value).filter((e): e is [string, string] => typeof e[1] === 'string')) : {});
+/** A flagged approximant (or one without a value) never shows a number. */
+const padeCell = (entry: PadeEntry | undefined) => (!entry ? '' : entry.flagged || entry.value === null ? `defective: ${padeDefect(entry)}` : entry.value);
+
+/** The text-valued entries of an object (a loosely read result may hold anything). */
+export const stringRecord = (value: unknown): Record<string, string> => (isObject(value) ? Object.fromEntries(Object.entries(value).filter((e): e is [string, string] => typeof e[1] === 'string')) : {});
 
 /**
  * Critical exponents: notices first, each ε-series typeset, one table of coefficients and values at
@@ -60,7 +66,9 @@ const stringRecord = (value: unknown): Record<string, string> => (isObject(value
 export function ExponentsOutput({ result, fileName, testID }: { result: ExponentsShape; fileName: string; testID?: string }) {
   const seriesKeys = Object.keys(result.series);
   const order = Math.max(0, ...seriesKeys.map((key) => result.series[key].length));
-  const { pade, relations, fixedPoint, meanField, notices, sources, unavailable, shortRange, ...extra } = result.extra;
+  const { pade, relations, fixedPoint, meanField, notices, sources, unavailable, shortRange, fieldAnomalous, ...rest } = result.extra;
+  const spectrum = FieldAnomalousSpectrum.safeParse(fieldAnomalous);
+  const extra = spectrum.success || fieldAnomalous === undefined ? rest : { ...rest, fieldAnomalous };
   const sourceOf = stringRecord(sources);
   const missing = stringRecord(unavailable);
   const keys = [...seriesKeys, ...Object.keys(result.values).filter((key) => !seriesKeys.includes(key)), ...Object.keys(missing).filter((key) => !seriesKeys.includes(key) && !(key in result.values))];
@@ -86,6 +94,7 @@ export function ExponentsOutput({ result, fileName, testID }: { result: Exponent
         <CopyableFormula key={key} tex={`${texOfQuantity(key)} = ${seriesTex(0, result.series[key])}`} testID={`exponent-${key}`} />
       ))}
       <CoefficientTable header={header} rows={rows} fileName={fileName} testID={testID ? `${testID}-table` : undefined} />
+      {spectrum.success ? <FieldDirections spectrum={spectrum.data} eps={result.eps} fileName={fileName} testID={testID ? `${testID}-fields` : undefined} /> : null}
       {Object.keys(missing).length ? (
         <View style={styles.relations} testID={testID ? `${testID}-unavailable` : undefined}>
           <Text style={styles.heading}>Not available</Text>
@@ -94,7 +103,7 @@ export function ExponentsOutput({ result, fileName, testID }: { result: Exponent
       ) : null}
       {padeTable ? (
         <View style={styles.relations}>
-          <Text style={styles.heading}>Padé approximants at ε (each checked for poles between 0 and ε; a flagged one has no value)</Text>
+          <Text style={styles.heading}>Padé approximants at ε (each checked for poles between 0 and ε and a sign change of the denominator; a defective one has no value)</Text>
           <CoefficientTable
             header={['quantity', ...padeColumns]}
             rows={Object.entries(padeTable).map(([key, entries]) => [nameOfQuantity(key), ...padeColumns.map((column) => padeCell(entries.find((e) => `[${e.L}/${e.M}]` === column)))])}

@@ -4,19 +4,19 @@ import { CopyableFormula } from '../CopyableFormula';
 import type { FixedPointShape } from '../resultShapes';
 import { seriesTex } from '../texFormat';
 import { CoefficientTable } from './CoefficientTable';
-import { type ResultNotice, Notices } from './ExponentsOutput';
+import { Notices } from './ExponentsOutput';
 
-/** A fixed point with the caveats the job attaches (complex at ε, undecided stability, merging at one loop). */
-type PointWithCaveats = FixedPointShape & { caveats?: ResultNotice[] };
-
-function stabilityText(point: PointWithCaveats): string {
+function stabilityText(point: FixedPointShape): string {
   if (point.status === 'complex') return 'complex: not physical';
-  if (point.stable === null) return point.caveats?.length ? 'undecided' : '';
+  if (point.stable === null) return point.caveats.length ? 'undecided' : '';
   return point.stable ? 'IR-stable' : 'unstable';
 }
 
+const SUBSCRIPTS = '₀₁₂₃₄₅₆₇₈₉';
+const subscriptDigits = (n: number) => String(n).replace(/\d/g, (digit) => SUBSCRIPTS[Number(digit)]);
+
 /** Every fixed point: its caveats first, couplings as ε-series, a table of values and stability. */
-export function FixedPointsOutput({ eps, points, fileName, testID }: { eps: string | null; points: PointWithCaveats[]; fileName: string; testID?: string }) {
+export function FixedPointsOutput({ eps, points, fileName, testID }: { eps: string | null; points: FixedPointShape[]; fileName: string; testID?: string }) {
   const rows = points.map((point) => [
     point.name,
     point.couplings.map((c) => `${c.name} = ${c.value ?? '—'}`).join('; '),
@@ -30,9 +30,11 @@ export function FixedPointsOutput({ eps, points, fileName, testID }: { eps: stri
       {points.map((point, index) => (
         <View key={point.name} style={styles.point}>
           <Text style={styles.name}>{point.name}{point.stable ? ' · IR-stable' : ''}</Text>
-          <Notices notices={point.caveats ?? []} testID={testID ? `${testID}-caveats-${index}` : undefined} />
+          <Notices notices={point.caveats} testID={testID ? `${testID}-caveats-${index}` : undefined} />
           {point.couplings.map((c) => <CopyableFormula key={c.name} tex={`${c.name}_* = ${seriesTex(0, c.series)}`} />)}
-          {point.stabilitySeries.map((series, index) => <CopyableFormula key={index} tex={`\\lambda_{${index + 1}} = ${seriesTex(0, series)}`} />)}
+          {point.stabilitySeries.map((series, k) =>
+            series ? <CopyableFormula key={k} tex={`\\lambda_{${k + 1}} = ${seriesTex(0, series)}`} /> : <Text key={k} style={styles.caption}>{`λ${subscriptDigits(k + 1)}: no ε-series (see the notes)`}</Text>,
+          )}
           {point.notes.map((note, index) => <Text key={index} style={styles.caption}>{note}</Text>)}
         </View>
       ))}

@@ -2,7 +2,8 @@ import { StyleSheet, Text, View } from 'react-native';
 import Svg, { Circle, G, Line, Path, Rect } from 'react-native-svg';
 import { colors, comparisonPlot, fonts } from '../../../constants/theme';
 import type { ResidualGeometry } from '../plotSvg';
-import { PlotAxes, svgTestID } from './ComparisonPlot';
+import { svgTestID } from './ComparisonPlot';
+import { PlotAxes } from './PlotAxes';
 
 /** A small plot of series − data (in units of the error when the data has errors) per variant, with the zero line. */
 export function ResidualPlot({ geometry: g }: { geometry: ResidualGeometry }) {

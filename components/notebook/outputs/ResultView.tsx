@@ -62,7 +62,7 @@ function knownView({ kind, result, label, setupD, show, dataName }: ResultViewPr
     }
     case 'scan': {
       const scan = asScan(result, setupD);
-      return scan ? { node: <ScanOutput scan={scan} fileName={label} testID={testID} />, earlier: !!scan.earlier } : null;
+      return scan ? { node: <ScanOutput scan={scan} result={result} fileName={label} testID={testID} />, earlier: !!scan.earlier } : null;
     }
     case 'comparison': {
       const comparison = asComparison(result);

@@ -7,7 +7,9 @@ import type { ScanPoint, ScanShape } from '../resultShapes';
 import { saveTextFile } from '../saveFile';
 import { nameOfQuantity } from '../texFormat';
 import { monoFont } from '../monoFont';
-import { nearestPoint, plotGeometry, plotSvg, tickText } from './plotGeometry';
+import { tickLabel } from '../plotAxes';
+import { nearestPoint, plotGeometry, plotSvg } from './plotGeometry';
+import { PlotAxes } from './PlotAxes';
 
 const PLOT_HEIGHT = 280;
 
@@ -37,21 +39,7 @@ export function ScanPlot({ scan, pointNotices, fileName, testID }: { scan: ScanS
         {geometry ? (
           <Svg width={geometry.width} height={geometry.height} pointerEvents="none">
             <Rect x={0} y={0} width={geometry.width} height={geometry.height} fill={colors.surface} />
-            {geometry.yTicks.map((tick) => (
-              <G key={`y${tick.value}`}>
-                <Line x1={geometry.plotLeft} x2={geometry.plotRight} y1={tick.y} y2={tick.y} stroke={colors.rule} />
-                <SvgText x={geometry.plotLeft - 6} y={tick.y + 4} fontSize={11} textAnchor="end" fill={colors.inkSoft}>{tickText(tick.value)}</SvgText>
-              </G>
-            ))}
-            {geometry.xTicks.map((tick) => (
-              <G key={`x${tick.value}`}>
-                <Line x1={tick.x} x2={tick.x} y1={geometry.plotBottom} y2={geometry.plotBottom + 5} stroke={colors.inkSoft} />
-                <SvgText x={tick.x} y={geometry.plotBottom + 18} fontSize={11} textAnchor="middle" fill={colors.inkSoft}>{tickText(tick.value)}</SvgText>
-              </G>
-            ))}
-            <Line x1={geometry.plotLeft} x2={geometry.plotRight} y1={geometry.plotBottom} y2={geometry.plotBottom} stroke={colors.inkSoft} />
-            <Line x1={geometry.plotLeft} x2={geometry.plotLeft} y1={geometry.plotTop} y2={geometry.plotBottom} stroke={colors.inkSoft} />
-            <SvgText x={(geometry.plotLeft + geometry.plotRight) / 2} y={geometry.height - 6} fontSize={12} textAnchor="middle" fill={colors.ink}>{scan.variable}</SvgText>
+            <PlotAxes geometry={geometry} />
             {geometry.markers.map((marker) => (
               <G key={marker.label}>
                 <Line x1={marker.x} x2={marker.x} y1={geometry.plotTop} y2={geometry.plotBottom} stroke={colors.amberDeep} strokeDasharray="4 3" />
@@ -75,10 +63,10 @@ export function ScanPlot({ scan, pointNotices, fileName, testID }: { scan: ScanS
       </View>
       <Text style={styles.readout} testID={testID ? `${testID}-readout` : undefined}>
         {picked
-          ? `${scan.variable} = ${tickText(picked.x)}: ${scan.quantities.map((key) => `${nameOfQuantity(key)} = ${picked.values[key] !== undefined ? tickText(picked.values[key]) : '—'}`).join(', ')}${picked.flagged ? ' (outside d/2 < s < s*)' : ''}${noticeText(pointNotices?.get(picked.x))}`
+          ? `${scan.variable} = ${tickLabel(picked.x)}: ${scan.quantities.map((key) => `${nameOfQuantity(key)} = ${picked.values[key] !== undefined ? tickLabel(picked.values[key]) : '—'}`).join(', ')}${picked.flagged ? ' (outside d/2 < s < s*)' : ''}${noticeText(pointNotices?.get(picked.x))}`
           : 'Tap or point at the plot to read values.'}
       </Text>
-      {geometry ? <ChipButton label="Save SVG" onPress={() => void saveTextFile(`${fileName}.svg`, plotSvg(scan, geometry), 'image/svg+xml')} testID={testID ? `${testID}-svg` : undefined} /> : null}
+      {geometry ? <ChipButton label="Save SVG" onPress={() => void saveTextFile(`${fileName}.svg`, plotSvg(geometry), 'image/svg+xml')} testID={testID ? `${testID}-svg` : undefined} /> : null}
     </View>
   );
 }

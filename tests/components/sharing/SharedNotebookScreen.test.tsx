@@ -44,6 +44,8 @@ describe('SharedNotebookScreen', () => {
     expect(screen.getByTestId('shared-banner')).toHaveTextContent('Read-only view through a shared link');
     expect(screen.getByTestId('cell-exponents-state')).toHaveTextContent('Up to date');
     expect(screen.getByText('-0.33333333333333333333')).toBeTruthy();
+    // The stored result has an earlier shape than today's contract (no notices, relations, sources): it says so.
+    expect(screen.getByTestId('cell-exponents-earlier')).toBeTruthy();
     for (const label of ['setup', 'exponents']) {
       for (const control of ['run', 'edit', 'menu', 'save', 'cancel']) expect(screen.queryByTestId(`cell-${label}-${control}`)).toBeNull();
     }
@@ -176,7 +178,7 @@ describe('SharedNotebookScreen, live', () => {
     await settled(client);
     fireEvent.press(screen.getByTestId('cell-comments-setup'));
     const panel = await screen.findByTestId('cell-comments-setup-panel');
-    expect(within(panel).getByTestId('comment-body-cmtcell001')).toHaveTextContent('On the setup');
+    expect(await within(panel).findByTestId('comment-body-cmtcell001')).toHaveTextContent('On the setup');
     expect(within(panel).getByTestId('comment-reply-cmtcell001')).toBeTruthy();
     for (const control of ['comment-resolve-cmtcell001', 'comment-edit-cmtcell001', 'comment-delete-cmtcell001']) expect(within(panel).queryByTestId(control)).toBeNull();
 
@@ -192,12 +194,13 @@ describe('SharedNotebookScreen, live', () => {
     serve();
     const { client } = await open();
     await settled(client);
-    expect(screen.getByTestId('cell-comments-exponents')).toHaveTextContent('1 comment');
+    // A settled client is not a rendered screen: React Query tells the components after a timer, so wait for the count.
+    expect(await screen.findByTestId('cell-comments-exponents')).toHaveTextContent('1 comment');
     // No comments on setup and nothing a signed-out reader could write: no button there.
     expect(screen.queryByTestId('cell-comments-setup')).toBeNull();
     fireEvent.press(screen.getByTestId('cell-comments-exponents'));
     const panel = await screen.findByTestId('cell-comments-exponents-panel');
-    expect(within(panel).getByTestId('comment-body-cmtcell002')).toHaveTextContent('Check the sign');
+    expect(await within(panel).findByTestId('comment-body-cmtcell002')).toHaveTextContent('Check the sign');
     expect(within(panel).queryByTestId('comment-box')).toBeNull();
     expect(within(panel).queryByTestId('comment-reply-cmtcell002')).toBeNull();
     await settled(client);
