@@ -34,7 +34,7 @@ describe('LaTeX export', () => {
   const tex = toLatexDocument(toNotebookDocument('Invented O(3) check', '', cells, new Date()));
 
   test('is a complete document with the title', () => {
-    assert.match(tex, /^\\documentclass\{article\}/);
+    assert.match(tex, /^\\documentclass\[10pt\]\{article\}/);
     assert.match(tex, /\\title\{Invented O\(3\) check\}/);
     assert.match(tex, /\\end\{document\}\n$/);
   });
@@ -47,8 +47,7 @@ describe('LaTeX export', () => {
   });
 
   test('writes a series result as an equation with its truncation order', () => {
-    assert.match(tex, /\\left\(2\.2567\\right\)\\,\\varepsilon\^\{-1\}/);
-    assert.match(tex, /O\(\\varepsilon\^\{2\}\)/);
+    assert.match(tex, /I &= 2\.2567\\,\\varepsilon\^\{-1\} \+ 1\.8815 \+ 1\.6276\\,\\varepsilon \+ O\(\\varepsilon\^\{2\}\)/);
   });
 });
 
@@ -72,28 +71,38 @@ describe('LaTeX export of results', () => {
   const doc = (label: string, input: CellInput, output: unknown) => toLatexDocument(toNotebookDocument('t', '', [{ label, input, output }], new Date()));
   const params: CellInput = { kind: 'exponents', uses: 'params' };
 
-  test('Markdown headings become paragraph headings, with mathematics inside kept as mathematics', () => {
-    const tex = doc('n', { kind: 'note', text: '# The bubble at $s = 3/2$\nbody' }, null);
-    assert.match(tex, /\\paragraph\{The bubble at \$s = 3\/2\$\}\nbody/);
+  test('Markdown headings become unnumbered sections by level, with mathematics inside kept as mathematics', () => {
+    const tex = doc('n', { kind: 'note', text: '# The bubble at $s = 3/2$\nbody\n## Next' }, null);
+    assert.match(tex, /\\section\*\{The bubble at \$s = 3\/2\$\}\nbody\n\\subsection\*\{Next\}/);
     assert.doesNotMatch(tex, /\\#/);
   });
 
-  test('exponent series are equations with their truncation order, values a table', () => {
+  test('exponent series are aligned equations with their truncation order, exact coefficients as fractions; values a booktabs table', () => {
     const tex = doc('e', params, { eps: '0.5', fixedPoint: 'Ising', series: { nuInv: ['1.75', '-0.3333', '-0.142'] }, values: { nuInv: '1.5478' } });
-    assert.match(tex, /\\\[ 1\/\\nu = \\left\(1\.75\\right\) \+ \\left\(-0\.3333\\right\)\\,\\varepsilon \+ \\left\(-0\.142\\right\)\\,\\varepsilon\^\{2\} \+ O\(\\varepsilon\^\{3\}\) \\\]/);
-    assert.match(tex, /\$1\/\\nu\$ & 1\.5478 \\\\/);
+    // 1.75 = 7/4 exactly; -0.3333 is a decimal of its own (3333/10000 has a denominator over 1000)
+    assert.match(tex, /1\/\\nu &= \\frac\{7\}\{4\} - 0\.3333\\,\\varepsilon - 0\.142\\,\\varepsilon\^\{2\} \+ O\(\\varepsilon\^\{3\}\)/);
+    assert.match(tex, /\\begin\{align\*\}/);
+    assert.match(tex, /\$1\/\\nu\$ & \$1\.5478\$ & -- \\\\/);
+    assert.match(tex, /\\toprule/);
   });
 
-  test('β-functions are equations; fixed points and scans are tables; engine text is made ASCII', () => {
+  test('with digits chosen, series are rounded and no fraction is written', () => {
+    const tex = toLatexDocument(toNotebookDocument('t', '', [{ label: 'e', input: params, output: { series: { nuInv: ['1.75', '-0.45454545454545454545'] } } }], new Date()), { digits: 4 });
+    assert.match(tex, /1\/\\nu &= 1\.75 - 0\.4545\\,\\varepsilon \+ O\(\\varepsilon\^\{2\}\)/);
+  });
+
+  test('β-functions and fixed points are equations, scans a table; engine text is made ASCII TeX', () => {
     const flow = doc('f', { kind: 'flow', uses: 'params' }, { beta: { u: [{ monomial: 'eps*u', coeff: '-1' }, { monomial: 'u^2', coeff: '3' }] }, checks: ['1/ε² poles match'] });
-    assert.match(flow, /\\beta_\{u\} = \\left\(-1\\right\)\\varepsilon\\,u \+ \\left\(3\\right\)u\^\{2\}/);
-    assert.match(flow, /1\/eps\\\^\{\}2 poles match/);
-    const fixed = doc('p', { kind: 'fixedpoints', uses: 'params' }, { fixedPoints: [{ name: 'Ising', status: 'real', couplings: { u: { value: '0.1' } }, stability: { values: ['0.4'] }, stable: true }] });
-    assert.match(fixed, /Ising & u = 0\.1 & 0\.4 & IR-stable & real \\\\/);
+    assert.match(flow, /\\beta_\{u\} &= -\\varepsilon\\,u \+ 3\\,u\^\{2\}/);
+    assert.match(flow, /1\/\\ensuremath\{\\varepsilon\}\\textsuperscript\{2\} poles match/);
+    const fixed = doc('p', { kind: 'fixedpoints', uses: 'params' }, { fixedPoints: [{ name: 'Ising', status: 'real', couplings: { u: { series: ['0', '0.5'], value: '0.1' } }, stability: { values: ['0.4'] }, stable: true }] });
+    assert.match(fixed, /\\paragraph\{Ising\} \(IR-stable\)/);
+    assert.match(fixed, /u_\* &= \\frac\{1\}\{2\}\\,\\varepsilon \+ O\(\\varepsilon\^\{2\}\)/);
+    assert.match(fixed, /\\lambda_\{1\} &= \\frac\{2\}\{5\}/);
     const scan = doc('s', { kind: 'scan', uses: 'params', from: '1.5', to: '1.9', points: 2, quantities: ['nuInv'] }, { quantities: ['nuInv'], marks: { sStar: '1.96' }, points: [{ s: '1.5', values: { nuInv: '1.5' }, flagged: true, regime: 'mean-field' }] });
-    assert.match(scan, /1\.5 & 1\.5 & mean-field \\\\/);
-    assert.match(scan, /\$s\^\*\$ \$= 1\.96\$/);
-    // pdflatex without extra packages reads ASCII only outside mathematics (LaTeX2e input encoding, common practice).
+    assert.match(scan, /\$1\.5\$ & \$1\.5\$ & mean-field \\\\/);
+    assert.match(scan, /\$s\^\* = 1\.96\$/);
+    // pdflatex with its default fonts reads ASCII only outside mathematics (LaTeX2e input encoding, common practice).
     for (const tex of [flow, fixed, scan]) assert.doesNotMatch(tex.replace(/\\usepackage\[utf8\]\{inputenc\}/, ''), /[^\x00-\x7f]/);
   });
 });

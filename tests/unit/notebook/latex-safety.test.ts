@@ -89,10 +89,15 @@ describe('LaTeX export of a notebook someone else wrote', () => {
 
   test('the preamble is ours alone (title escaped), and \\end{document} comes once, at the end', () => {
     const preamble = body.slice(0, body.indexOf('\\begin{document}')).split('\n').filter(Boolean);
-    assert.deepEqual(preamble, [
-      '\\documentclass{article}',
-      '\\usepackage{amsmath,amssymb,longtable}',
+    assert.deepEqual(preamble.filter((line) => !line.startsWith('% Export note')), [
+      '\\documentclass[10pt]{article}',
+      '\\usepackage[a4paper,margin=2.5cm]{geometry}',
+      '\\usepackage{amsmath,amssymb,booktabs,longtable}',
       '\\usepackage[utf8]{inputenc}',
+      '\\allowdisplaybreaks',
+      '\\setlength{\\parindent}{0pt}',
+      '\\setlength{\\parskip}{0.5\\baselineskip}',
+      '\\renewcommand{\\labelitemi}{$\\bullet$}',
       '\\title{Title \\textbackslash{}input\\{secret\\} \\^{}\\^{}5c}',
       '\\date{}',
     ]);
@@ -119,8 +124,8 @@ describe('LaTeX export of raw characters', () => {
   test('control characters and the private characters the writer marks headings with are dropped from notes', () => {
     const text = 'a\uE000b\uE001c\u0001d\u0002e\u007f\r\n# Heading';
     const tex = toLatexDocument(toNotebookDocument('t', '', [{ label: 'n', input: { kind: 'note', text }, output: null }], new Date()));
-    assert.deepEqual(tex.match(/\\paragraph\{[^}]*\}/g), ['\\paragraph{Heading}']);
-    assert.match(tex, /^abcde\n\\paragraph/m);
+    assert.deepEqual(tex.match(/\\section\*\{[^}]*\}/g), ['\\section*{Heading}']);
+    assert.match(tex, /^abcde\n\\section\*/m);
     assert.doesNotMatch(tex, /[\x00-\x08\x0b-\x1f\x7f\uE000\uE001]/);
   });
 });
