@@ -1,4 +1,5 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { ChangeEmailInput, ChangeNameInput, ChangePasswordInput, EmailChanged, EmailChangeStarted, EndedSessions, PasswordChanged, SessionList } from '../../shared/api/account';
 import type { PublicUser } from '../../shared/api/schemas';
 import { ApiError, apiRequest } from './client';
 import { queryKeys } from './keys';
@@ -65,5 +66,62 @@ export function useForgotPasswordMutation() {
 export function useResetPasswordMutation() {
   return useMutation({
     mutationFn: (input: { token: string; password: string }) => apiRequest<{ message: string }>('POST', '/auth/reset', input),
+  });
+}
+
+/** Account settings: name, password, e-mail address and sessions of the signed-in person. */
+const sessionsKey = [...queryKeys.me, 'sessions'] as const;
+
+export function useChangeNameMutation() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (input: ChangeNameInput) => apiRequest<{ user: PublicUser }>('PATCH', '/me', input),
+    onSuccess: (result) => queryClient.setQueryData(queryKeys.me, result.user),
+  });
+}
+
+/** Ends every other session of the account; the reply says how many. */
+export function useChangePasswordMutation() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (input: ChangePasswordInput) => apiRequest<PasswordChanged>('POST', '/me/password', input),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: sessionsKey }),
+  });
+}
+
+/** Only e-mails a link to the new address: the address changes when the link is opened. */
+export function useChangeEmailMutation() {
+  return useMutation({ mutationFn: (input: ChangeEmailInput) => apiRequest<EmailChangeStarted>('POST', '/me/email', input) });
+}
+
+export function useConfirmEmailChangeMutation() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (token: string) => apiRequest<EmailChanged>('POST', '/auth/email-change/confirm', { token }),
+    // The link may have been opened while signed in as someone else: ask who is signed in rather than assume.
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: queryKeys.me }),
+  });
+}
+
+export function useSessionsQuery() {
+  return useQuery({
+    queryKey: sessionsKey,
+    queryFn: async () => (await apiRequest<SessionList>('GET', '/me/sessions')).sessions,
+  });
+}
+
+export function useEndSessionMutation() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (sessionId: string) => apiRequest<EndedSessions>('DELETE', `/me/sessions/${encodeURIComponent(sessionId)}`),
+    onSettled: () => queryClient.invalidateQueries({ queryKey: sessionsKey }),
+  });
+}
+
+export function useEndOtherSessionsMutation() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: () => apiRequest<EndedSessions>('POST', '/me/sessions/end-others', {}),
+    onSettled: () => queryClient.invalidateQueries({ queryKey: sessionsKey }),
   });
 }

@@ -4,12 +4,14 @@ import { checkAtAccountCap } from '../http/rateLimits';
 import { route, type RouteContext } from '../http/route';
 import type { Services } from '../services';
 import { emailKey } from '../services/accounts';
+import { accountRoutes } from './account';
 
-export function authRoutes({ accounts, sessions, passwordReset, emailVerification, knownDevices }: Services) {
+export function authRoutes(services: Services) {
+  const { accounts, sessions, passwordReset, emailVerification, knownDevices } = services;
   /** One session per browser: whoever was signed in here before is signed out on the server too. */
-  async function startSessionReplacing(ctx: Pick<RouteContext<unknown, unknown>, 'sessionId' | 'setCookie'>, userId: string) {
+  async function startSessionReplacing(ctx: Pick<RouteContext<unknown, unknown>, 'sessionId' | 'setCookie' | 'req'>, userId: string) {
     if (ctx.sessionId) await sessions.end(ctx.sessionId);
-    ctx.setCookie(await sessions.start(userId));
+    ctx.setCookie(await sessions.startFor(userId, { userAgent: ctx.req.get('user-agent') }));
   }
 
   return [
@@ -96,5 +98,6 @@ export function authRoutes({ accounts, sessions, passwordReset, emailVerificatio
         return { user };
       },
     }),
+    ...accountRoutes(services),
   ];
 }

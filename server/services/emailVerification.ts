@@ -56,7 +56,8 @@ export function createEmailVerificationService(
   const tokens = dataSource.getRepository(EmailVerificationToken);
   const users = dataSource.getRepository(User);
 
-  const isUsable = (row: EmailVerificationToken | null): row is EmailVerificationToken => isUsableLink(row, now());
+  // A link confirming a change of address (newEmail set) never confirms a sign-up.
+  const isUsable = (row: EmailVerificationToken | null): row is EmailVerificationToken => isUsableLink(row, now()) && row?.newEmail === null;
 
   async function linkMessage(user: Pick<User, 'id' | 'name' | 'email'>): Promise<OutgoingMessage> {
     const token = newLinkToken();
@@ -65,6 +66,7 @@ export function createEmailVerificationService(
       userId: user.id,
       expiresAt: new Date(now().getTime() + VERIFICATION_TOKEN_LIFETIME_MS),
       usedAt: null,
+      newEmail: null,
     });
     return {
       to: user.email,

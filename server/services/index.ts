@@ -1,10 +1,12 @@
 import type { DataSource } from 'typeorm';
 import type { Logger } from 'pino';
 import { createKnownDevices, deviceKeyIn, type KnownDevices } from '../auth/knownDevices';
-import { createSessionService, type SessionService } from '../auth/sessions';
+import { createSessionService } from '../auth/sessions';
 import type { ServerConfig } from '../config';
 import type { Mailer } from '../mail/mailer';
 import { createAccountService, type AccountService } from './accounts';
+import { createAccountSessionService, trackSessionActivity, type AccountSessionService, type TrackedSessionService } from './accountSessions';
+import { createAccountSettingsService, type AccountSettingsService } from './accountSettings';
 import { createActivityService, type ActivityService } from './activity';
 import { createCommentService, type CommentService } from './comments';
 import { createDatasetService, type DatasetService } from './datasets';
@@ -26,7 +28,12 @@ export interface Services {
   logger: Logger;
   dataSource: DataSource;
   mailer: Mailer;
-  sessions: SessionService;
+  /** Sessions, remembering when each started, was last seen and in which browser. */
+  sessions: TrackedSessionService;
+  /** A person's own sessions: list, end one, end the others. */
+  accountSessions: AccountSessionService;
+  /** Name, password and e-mail address changes. */
+  accountSettings: AccountSettingsService;
   knownDevices: KnownDevices;
   emailVerification: EmailVerificationService;
   accounts: AccountService;
@@ -53,7 +60,8 @@ export interface Services {
 
 export function createServices(config: ServerConfig, logger: Logger, dataSource: DataSource, mailer: Mailer, runner: JobRunner): Services {
   const secureCookies = config.publicUrl.startsWith('https://');
-  const sessions = createSessionService(dataSource, secureCookies);
+  const sessions = trackSessionActivity(createSessionService(dataSource, secureCookies), dataSource);
+  const accountSessions = createAccountSessionService(dataSource, sessions);
   const events = createNotebookEventBus();
   const emailVerification = createEmailVerificationService(dataSource, mailer, sessions, config.publicUrl, undefined, events);
   const runs = createRunService(dataSource, runner, logger, config.jobs);
@@ -68,6 +76,8 @@ export function createServices(config: ServerConfig, logger: Logger, dataSource:
     knownDevices: createKnownDevices(secureCookies, deviceKeyIn(dataSource)),
     emailVerification,
     accounts: createAccountService(dataSource, mailer, emailVerification, config.publicUrl),
+    accountSessions,
+    accountSettings: createAccountSettingsService({ dataSource, mailer, sessions, accountSessions, publicUrl: config.publicUrl, events }),
     passwordReset: createPasswordResetService(dataSource, mailer, sessions, config.publicUrl, undefined, events),
     groups: createGroupService(dataSource, events),
     runs,

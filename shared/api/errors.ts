@@ -11,6 +11,8 @@ export const errorStatus = {
   email_not_verified: 403,
   unauthenticated: 401,
   wrong_credentials: 401,
+  /** A signed-in person's current password did not match (account settings): not a sign-out. */
+  wrong_password: 403,
   forbidden: 403,
   cross_site_request: 403,
   not_found: 404,

@@ -67,6 +67,12 @@ const matrix: Record<string, Row> = {
   'POST /auth/forgot': { body: () => ({ email: 'nobody@test.rungbook.example' }), expect: all(202) },
   'POST /auth/reset': { body: () => ({ token: 'a'.repeat(43), password: 'long-enough-pass-new' }), expect: all(400) },
   'GET /me': { expect: signedIn(200) },
+  'PATCH /me': { body: () => ({ name: 'Invented Matrix Name' }), expect: signedIn(200) },
+  'POST /me/password': { body: () => ({ currentPassword: 'wrong-password-123', newPassword: 'long-enough-pass-new' }), expect: signedIn(403) },
+  'POST /me/email': { body: () => ({ email: 'moved@test.rungbook.example', currentPassword: 'wrong-password-123' }), expect: signedIn(403) },
+  'POST /auth/email-change/confirm': { body: () => ({ token: 'a'.repeat(43) }), expect: all(400) },
+  'GET /me/sessions': { expect: signedIn(200) },
+  'DELETE /me/sessions/:sessionId': { expect: signedIn(404) },
 
   'GET /groups': { expect: signedIn(200) },
   // Only a confirmed address may start a group (it can then add people).
@@ -157,6 +163,8 @@ const matrix: Record<string, Row> = {
   'GET /runs/:runId': { expect: needsRole('viewer', 200) },
   'POST /runs/:runId/cancel': { expect: needsRole('editor', 200) },
   'GET /admin/mail': { expect: { ...signedIn(403), siteAdmin: 200 } },
+  // Last: it ends the callers' other sessions (the live-stream cookies above among them).
+  'POST /me/sessions/end-others': { body: () => ({}), expect: signedIn(200) },
 };
 
 /** Status of a live-stream request: the stream is closed as soon as its headers (or an error reply) arrive. */
@@ -253,7 +261,7 @@ describe('access matrix: every route × every kind of caller', () => {
     return {
       ...notebook, groupId, userId: people.groupMember.id,
       memberId: extra.memberId, invitationId: extra.invitationId, linkId: extra.linkId, commentId: extra.commentId,
-      token: extra.commenterToken, viewerToken: extra.viewerToken, datasetId,
+      token: extra.commenterToken, viewerToken: extra.viewerToken, datasetId, sessionId: 'f'.repeat(32),
     };
   }
 

@@ -21,6 +21,10 @@ function seedBody(spec: AnyRouteSpec): Record<string, unknown> {
     'POST /auth/reset': { token: 'x'.repeat(43), password: 'long-enough-pass-fuzz' },
     'POST /auth/verify': { token: 'x'.repeat(43), password: 'long-enough-pass-fuzz' },
     'POST /auth/verify/resend': { email: 'fuzz@test.rungbook.example' },
+    'PATCH /me': { name: 'Invented Fuzz Renamed' },
+    'POST /me/password': { currentPassword: 'wrong-password-fuzz', newPassword: 'long-enough-pass-fuzz2' },
+    'POST /me/email': { email: 'fuzz-moved@test.rungbook.example', currentPassword: 'wrong-password-fuzz' },
+    'POST /auth/email-change/confirm': { token: 'x'.repeat(43) },
     'POST /groups': { name: 'Invented Fuzz Group', description: 'invented' },
     'POST /groups/:groupId/members': { email: 'fuzz@test.rungbook.example', role: 'member' },
     'PATCH /groups/:groupId/members/:userId': { role: 'member' },
@@ -186,5 +190,5 @@ async function buildFixture(h: Harness, owner: TestPerson, userId: string): Prom
   const notebook = await notebookWithRun(owner.client, groupId);
   const extra = await collaborationFixture(h, { ...notebook, ownerId: owner.id }, [{ userId, role: 'viewer' }]);
   const datasetId = await datasetFixture(owner.client, notebook.notebookId);
-  return { ...notebook, groupId, userId, memberId: extra.memberId, invitationId: extra.invitationId, linkId: extra.linkId, token: extra.commenterToken, commentId: extra.commentId, datasetId };
+  return { ...notebook, groupId, userId, memberId: extra.memberId, invitationId: extra.invitationId, linkId: extra.linkId, token: extra.commenterToken, commentId: extra.commentId, datasetId, sessionId: 'f'.repeat(32) };
 }

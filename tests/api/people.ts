@@ -93,6 +93,8 @@ export interface RouteFixture {
   commentId: string;
   /** A dataset of the notebook (see datasetFixture). */
   datasetId: string;
+  /** A well-formed session id that belongs to nobody (ending it answers 404). */
+  sessionId: string;
 }
 
 export interface CollaborationFixture {

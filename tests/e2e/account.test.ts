@@ -151,5 +151,71 @@ for (const viewport of viewports) {
       assert.match(await page.getByTestId('reset-error').innerText(), /invalid, already used or expired/);
       await shot('09-reset-link-reused');
     });
+
+    test('account settings: sessions listed and ended, name, password (ends other sessions), e-mail address through its link', async () => {
+      const password = 'second-password-456';
+      const otherContext = await openBrowser(viewport);
+      const otherPage = otherContext.pages()[0] ?? (await otherContext.newPage());
+      const otherIsSignedOut = async () => {
+        await otherPage.goto(`${BASE_URL}/notebooks`);
+        await otherPage.waitForURL(`${BASE_URL}/sign-in`);
+      };
+      try {
+        await signIn(otherPage, person.email, password);
+        await expectNotebooksScreen(otherPage);
+
+        await page.goto(`${BASE_URL}/account`);
+        await page.getByTestId('session-this-device').waitFor();
+        await page.locator('[data-testid^="session-end-"]').first().waitFor();
+        await shot('10-account-sessions');
+        await page.locator('[data-testid^="session-end-"]').first().click();
+        await page.getByTestId('sessions-ended').waitFor();
+        assert.match(await page.getByTestId('sessions-ended').innerText(), /That session has ended/);
+        await page.getByTestId('sessions-only-this').waitFor();
+        await otherIsSignedOut();
+
+        await page.getByTestId('account-name-field').fill(`${person.name} (renamed)`);
+        await page.getByTestId('account-name-save').click();
+        await page.getByTestId('account-name-saved').waitFor();
+        assert.match(await page.getByTestId('account-card').innerText(), /\(renamed\)/);
+
+        await signIn(otherPage, person.email, password);
+        await expectNotebooksScreen(otherPage);
+        await page.getByTestId('account-password-current').fill(password);
+        await page.getByTestId('account-password-new').fill('third-password-789');
+        await page.getByTestId('account-password-save').click();
+        await page.getByTestId('account-password-changed').waitFor();
+        assert.match(await page.getByTestId('account-password-changed').innerText(), /1 other session was signed out/);
+        await shot('11-account-password-changed');
+        await otherIsSignedOut();
+
+        const oldEmail = person.email;
+        const newEmail = oldEmail.replace('tester-', 'moved-');
+        await page.getByTestId('account-email-new').fill(newEmail);
+        await page.getByTestId('account-email-password').fill('third-password-789');
+        await page.getByTestId('account-email-save').click();
+        await page.getByTestId('account-email-sent').waitFor();
+        await shot('12-account-email-link-sent');
+        // Not changed until the link is opened.
+        assert.equal(await page.getByTestId('account-email-current').innerText(), oldEmail);
+        const link = await linkFromMail(viewport, newEmail, 'Confirm the new address of your Rungbook account');
+        assert.match(link, /\/account\?confirmEmail=/);
+        await page.goto(link);
+        await page.getByTestId('email-change-confirmed').waitFor();
+        await page.getByText(newEmail, { exact: true }).first().waitFor();
+        await shot('13-account-email-changed');
+        await linkFromMail(viewport, oldEmail, 'The address of your Rungbook account has changed');
+        person.email = newEmail;
+        person.password = 'third-password-789';
+
+        await signOut(page);
+        await signIn(page, oldEmail, person.password);
+        await page.getByTestId('sign-in-error').waitFor();
+        await signIn(page, person.email, person.password);
+        await expectNotebooksScreen(page);
+      } finally {
+        await otherContext.close();
+      }
+    });
   });
 }

@@ -1,7 +1,10 @@
 import { Column, CreateDateColumn, Entity, Index, JoinColumn, ManyToOne, PrimaryColumn } from 'typeorm';
 import { User } from './User';
 
-/** Only the SHA-256 of a verification token is stored, like reset tokens. */
+/**
+ * Only the SHA-256 of a verification token is stored, like reset tokens. A link with `newEmail` confirms a
+ * change of address (sent to the new address) and never confirms a sign-up.
+ */
 @Entity({ name: 'email_verification_tokens' })
 export class EmailVerificationToken {
   @PrimaryColumn({ type: 'varchar', length: 64 })
@@ -20,6 +23,9 @@ export class EmailVerificationToken {
 
   @Column({ type: 'datetime', nullable: true })
   usedAt: Date | null;
+
+  @Column({ type: 'varchar', length: 254, nullable: true })
+  newEmail: string | null;
 
   @CreateDateColumn({ type: 'datetime' })
   createdAt: Date;

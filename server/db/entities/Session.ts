@@ -17,4 +17,16 @@ export class Session {
 
   @Column({ type: 'datetime' })
   expiresAt: Date;
+
+  /** Null for sessions opened before these were kept. */
+  @Column({ type: 'datetime', nullable: true })
+  createdAt: Date | null;
+
+  /** Written at most once a minute per session, not on every request. */
+  @Column({ type: 'datetime', nullable: true })
+  lastSeenAt: Date | null;
+
+  /** The browser's User-Agent at sign-in, cut to 300 characters: only summarised ("Firefox on Linux") for its owner. */
+  @Column({ type: 'varchar', length: 300, nullable: true })
+  userAgent: string | null;
 }

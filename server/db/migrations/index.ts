@@ -5,6 +5,7 @@ import { SharedResults1764670000000 } from './1764670000000-SharedResults';
 import { ServerSecrets1764680000000 } from './1764680000000-ServerSecrets';
 import { Collaboration1764690000000 } from './1764690000000-Collaboration';
 import { Datasets1764700000000 } from './1764700000000-Datasets';
+import { AccountChanges1764720000000 } from './1764720000000-AccountChanges';
 
 /** Every migration, oldest first. Add new ones at the end. */
 export const migrations = [
@@ -15,4 +16,5 @@ export const migrations = [
   ServerSecrets1764680000000,
   Collaboration1764690000000,
   Datasets1764700000000,
+  AccountChanges1764720000000,
 ];
