@@ -1,4 +1,4 @@
-import { useEffect, useState } from 'react';
+import { useEffect, useMemo, useRef, useState } from 'react';
 import { StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, spacing } from '../../constants/theme';
 import { useCommentsQuery } from '../../hooks/api/comments';
@@ -18,6 +18,7 @@ import { ChipButton } from './ChipButton';
 import { CellEditor } from './editors/CellEditor';
 import { monoFont } from './monoFont';
 import { NoteView } from './NoteView';
+import { useUnsavedEdits, useUnsavedPrompt } from './unsavedEdits';
 import { useCellDraft } from './useCellDraft';
 
 export interface CellCardProps {
@@ -27,8 +28,10 @@ export interface CellCardProps {
   wide: boolean;
   selected: boolean;
   onSelect: () => void;
-  /** Open the editor straight away (a cell just added). */
+  /** Open the editor straight away (a cell just added); it closes after the first save. */
   startEditing?: boolean;
+  /** The editor of a just-added cell was opened: the screen need not ask again. */
+  onStartedEditing?: () => void;
   /** Hands the screen this cell's run (save first if edited), for the keyboard shortcut. */
   registerRunner?: (run: () => void) => void;
   /** Open the cell's comment threads (a link to the cell from a comment or the activity list). */
@@ -71,10 +74,40 @@ function useCellComments(notebook: NotebookDetail, cell: CellView, openFromLink:
   return { open, toggle: () => setOpen(!open), hidden, label };
 }
 
-export function CellCard({ notebook, cell, index, wide, selected, onSelect, startEditing = false, registerRunner, openComments = false, shareToken }: CellCardProps) {
+/** The d of each model & parameters cell, as saved: scan ranges are checked against it. */
+function useSetupDimensions(cells: CellView[]) {
+  const key = cells.map((cell) => (cell.input.kind === 'setup' ? `${cell.label}=${cell.input.d ?? ''}` : '')).join(';');
+  // eslint-disable-next-line react-hooks/exhaustive-deps
+  return useMemo(() => new Map(cells.flatMap((cell) => (cell.input.kind === 'setup' ? [[cell.label, cell.input.d] as const] : []))), [key]);
+}
+
+/** Open once when asked (a cell just added) and close after the first save that follows. */
+function useEditorOpening(startEditing: boolean, onStartedEditing?: () => void) {
   const [editing, setEditing] = useState(startEditing);
+  const closeAfterSave = useRef(startEditing);
+  useEffect(() => {
+    if (!startEditing) return;
+    setEditing(true);
+    closeAfterSave.current = true;
+    onStartedEditing?.();
+    // Only the request to open counts, not a new callback.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [startEditing]);
+  const saved = () => {
+    if (!closeAfterSave.current) return;
+    closeAfterSave.current = false;
+    setEditing(false);
+  };
+  return { editing, setEditing, saved };
+}
+
+export function CellCard({ notebook, cell, index, wide, selected, onSelect, startEditing = false, onStartedEditing, registerRunner, openComments = false, shareToken }: CellCardProps) {
+  const { editing, setEditing, saved: closeIfNew } = useEditorOpening(startEditing, onStartedEditing);
   const comments = useCellComments(notebook, cell, openComments, shareToken);
-  const { draft, dirty, errors, valid, setInput, setLabel, reset } = useCellDraft(cell);
+  const setupDimensions = useSetupDimensions(notebook.cells);
+  const { draft, dirty, errors, valid, setInput, setLabel, reset } = useCellDraft(cell, { setupDimensions });
+  const unsaved = useUnsavedEdits();
+  const unsavedPrompt = useUnsavedPrompt(`cell-${cell.label}-unsaved`);
   const reloadNotebook = useReloadNotebook(notebook.id);
   const update = useUpdateCellMutation(notebook.id);
   const run = useRunCellMutation(notebook.id);
@@ -91,10 +124,18 @@ export function CellCard({ notebook, cell, index, wide, selected, onSelect, star
     const saved = await update.mutateAsync({ cellId: cell.id, revision, label: draft.label !== cell.label ? draft.label : undefined, input: draft.input });
     const fresh = saved.notebook.cells.find((other) => other.id === cell.id);
     if (fresh) reset(fresh);
+    closeIfNew();
   };
-  const saveQuietly = () => save().catch(() => undefined);
-  const runNow = async () => {
-    onSelect();
+  const saveQuietly = () => save().then(() => true, () => false);
+  const latestSave = useRef(saveQuietly);
+  latestSave.current = saveQuietly;
+  useEffect(() => {
+    if (dirty) unsaved.set({ cellId: cell.id, label: cell.label, kind: cell.kind, valid, save: () => latestSave.current() });
+    else unsaved.remove(cell.id);
+  }, [unsaved, dirty, valid, cell.id, cell.label, cell.kind]);
+  useEffect(() => () => unsaved.remove(cell.id), [unsaved, cell.id]);
+
+  const runWithOwnEdits = async () => {
     if (dirty) {
       if (!valid) return setEditing(true);
       try {
@@ -104,6 +145,11 @@ export function CellCard({ notebook, cell, index, wide, selected, onSelect, star
       }
     }
     run.mutate(cell.id);
+  };
+  // Edits of this cell are saved with its run; edits of the cells it reads are asked about.
+  const runNow = () => {
+    onSelect();
+    unsavedPrompt.guard(unsaved.behind({ label: cell.label, input: draft.input }, notebook.cells), () => void runWithOwnEdits());
   };
   const reloadTheirs = async () => {
     const fresh = (await reloadNotebook()).cells.find((other) => other.id === cell.id);
@@ -115,7 +161,7 @@ export function CellCard({ notebook, cell, index, wide, selected, onSelect, star
     if (fresh) await save(fresh.revision).catch(() => undefined);
   };
 
-  if (runsJob(cell)) registerRunner?.(() => void runNow());
+  if (runsJob(cell)) registerRunner?.(runNow);
   const stale = cell.state === 'out-of-date';
   const waitingNote = cell.state === 'running' && cell.lastRun ? queueNote(cell.lastRun) : null;
   return (
@@ -140,7 +186,7 @@ export function CellCard({ notebook, cell, index, wide, selected, onSelect, star
               editing={editing}
               isFirst={index === 0}
               isLast={index === notebook.cells.length - 1}
-              onRun={() => void runNow()}
+              onRun={runNow}
               onToggleEdit={() => setEditing(!editing)}
               onMove={(offset) => move.mutate({ cellId: cell.id, position: index + offset })}
               onDelete={() => remove.mutate(cell.id)}
@@ -149,6 +195,12 @@ export function CellCard({ notebook, cell, index, wide, selected, onSelect, star
         </View>
       </View>
 
+      {unsavedPrompt.prompt}
+      {dirty && !editing ? (
+        <Text style={styles.staleText} testID={`${testPrefix}-unsaved-note`}>
+          Unsaved changes. Open the editor to save or discard them.
+        </Text>
+      ) : null}
       {waitingNote ? <Text style={styles.meta} testID={`${testPrefix}-queue`}>{waitingNote}</Text> : null}
       {cell.dependents.length ? <Text style={styles.meta}>Feeds {cell.dependents.join(', ')}</Text> : null}
       {stale ? (
@@ -160,7 +212,7 @@ export function CellCard({ notebook, cell, index, wide, selected, onSelect, star
       {editing ? (
         <View style={styles.editor}>
           <TextField label="Label (other cells refer to it by this)" value={draft.label} onChangeText={setLabel} error={fieldErrors.label} testID={`${testPrefix}-field-label`} />
-          <CellEditor input={draft.input} errors={fieldErrors} onChange={setInput} setupLabels={setupLabels} scanLabels={scanLabels} datasets={notebook.datasets} testPrefix={`${testPrefix}-field`} />
+          <CellEditor input={draft.input} errors={fieldErrors} onChange={setInput} setupLabels={setupLabels} setupDimensions={setupDimensions} scanLabels={scanLabels} datasets={notebook.datasets} testPrefix={`${testPrefix}-field`} />
           {cell.kind === 'note' && draft.input.kind === 'note' && draft.input.text ? <NoteView text={draft.input.text} /> : null}
           {serverErrors?.message ? <Notice tone="error" message={serverErrors.message} testID={`${testPrefix}-save-error`} /> : null}
           <View style={styles.editorActions}>

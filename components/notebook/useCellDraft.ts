@@ -1,6 +1,6 @@
 import { useEffect, useMemo, useState } from 'react';
 import { canonicalJson, type CellInput, type CellView } from '../../shared/notebook';
-import { cellFieldErrors } from './fieldErrors';
+import { cellFieldErrors, type FieldContext } from './fieldErrors';
 
 export interface CellDraft {
   label: string;
@@ -10,7 +10,7 @@ export interface CellDraft {
 }
 
 /** A cell's unsaved edits, following the server's copy for as long as nothing has been changed here. */
-export function useCellDraft(cell: CellView) {
+export function useCellDraft(cell: CellView, context: FieldContext = {}) {
   const [draft, setDraft] = useState<CellDraft>({ label: cell.label, input: cell.input, baseRevision: cell.revision });
   const dirty = draft.label !== cell.label || canonicalJson(draft.input) !== canonicalJson(cell.input);
   useEffect(() => {
@@ -18,7 +18,8 @@ export function useCellDraft(cell: CellView) {
     // Follow the server only while there are no local edits to keep.
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [cell.revision, cell.label, canonicalJson(cell.input)]);
-  const errors = useMemo(() => cellFieldErrors(draft.label, draft.input), [draft.label, draft.input]);
+  const { setupDimensions } = context;
+  const errors = useMemo(() => cellFieldErrors(draft.label, draft.input, { setupDimensions }), [draft.label, draft.input, setupDimensions]);
   return {
     draft,
     dirty,

@@ -27,6 +27,7 @@ import { saveTextFile } from '../notebook/saveFile';
 import { ShortcutSheet } from '../notebook/ShortcutSheet';
 import { useKeyboardShortcuts } from '../notebook/useKeyboardShortcuts';
 import { NotebookTitle } from '../notebook/NotebookTitle';
+import { useUnsavedEdits, useUnsavedPrompt } from '../notebook/unsavedEdits';
 import { DatasetPanel } from '../datasets/DatasetPanel';
 
 /** `focusCellId` (the `?cell=` parameter of links from comments and activity) scrolls to that cell and highlights it. */
@@ -89,6 +90,9 @@ function NotebookEditor({ notebook, live, focusCellId }: { notebook: NotebookDet
   const [exportError, setExportError] = useState<string | null>(null);
   const addCell = useAddCellMutation(notebook.id);
   const runAll = useRunAllMutation(notebook.id);
+  const unsaved = useUnsavedEdits();
+  const runAllPrompt = useUnsavedPrompt('run-all-unsaved');
+  const runEverything = () => runAllPrompt.guard(unsaved.behindAll(notebook.cells), () => runAll.mutate());
 
   // Cells run-all could not queue (queue limit) and that are still not up to date; run all again picks them up.
   const runAllWaiting = (runAll.data?.waiting ?? []).filter((label) => notebook.cells.some((cell) => cell.label === label && cell.state !== 'up-to-date' && cell.state !== 'running'));
@@ -140,7 +144,7 @@ function NotebookEditor({ notebook, live, focusCellId }: { notebook: NotebookDet
   useKeyboardShortcuts(
     {
       runCell: () => (selectedId ? runners.current.get(selectedId)?.() : undefined),
-      runAll: () => runAll.mutate(),
+      runAll: runEverything,
       addCell: () => setAdding(true),
       help: () => setHelpOpen((open) => !open),
     },
@@ -168,7 +172,7 @@ function NotebookEditor({ notebook, live, focusCellId }: { notebook: NotebookDet
           <PresenceList viewers={otherViewers(live.viewers, me?.id)} />
         </View>
         <View style={styles.toolbar}>
-          {notebook.canEdit ? <ChipButton label={runAll.isPending ? 'Starting…' : 'Run all'} tone="accent" onPress={() => runAll.mutate()} testID="run-all" /> : null}
+          {notebook.canEdit ? <ChipButton label={runAll.isPending ? 'Starting…' : 'Run all'} tone="accent" onPress={runEverything} testID="run-all" /> : null}
           {notebook.canEdit ? <ChipButton label="Save version" selected={versionFormOpen} onPress={() => setVersionFormOpen(!versionFormOpen)} testID="save-version" /> : null}
           {can(notebook.role, 'manageSharing') ? (
             <ChipButton label="Share" onPress={() => router.push(sharingHref(notebook.id))} testID="share-button" />
@@ -182,6 +186,7 @@ function NotebookEditor({ notebook, live, focusCellId }: { notebook: NotebookDet
           <ChipButton label={notebook.datasets?.length ? `Data (${notebook.datasets.length})` : 'Data'} selected={dataOpen} onPress={() => setDataOpen(!dataOpen)} testID="data-toggle" accessibilityLabel="Datasets of this notebook" />
           {wide && notebook.canEdit ? <ChipButton label="Shortcuts" onPress={() => setHelpOpen(true)} testID="open-shortcuts" /> : null}
         </View>
+        {runAllPrompt.prompt}
         {runAll.data && runAll.data.runs.length === 0 && runAll.data.waiting.length === 0 ? <Notice tone="info" message="Every cell is already up to date." testID="run-all-nothing" /> : null}
         {runAllWaiting.length ? <Notice tone="info" message={waitingMessage(runAllWaiting)} testID="run-all-waiting" /> : null}
         {runAll.isError ? <Notice tone="error" message={runAll.error.message} /> : null}
@@ -203,6 +208,7 @@ function NotebookEditor({ notebook, live, focusCellId }: { notebook: NotebookDet
               selected={cell.id === selectedId}
               onSelect={() => setSelectedId(cell.id)}
               startEditing={cell.id === justAdded}
+              onStartedEditing={() => setJustAdded(null)}
               registerRunner={(run) => runners.current.set(cell.id, run)}
               openComments={cell.id === focusCellId}
             />

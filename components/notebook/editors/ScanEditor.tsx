@@ -4,13 +4,16 @@ import type { CellInput } from '../../../shared/notebook';
 import { TextField } from '../../ui/TextField';
 import { ChipButton } from '../ChipButton';
 import { nameOfQuantity } from '../texFormat';
+import { longRangeWindow } from '../fieldErrors';
 import { FieldError, optionalText, SetupChoice, WholeNumberField, type EditorProps } from './fields';
 
 type ScanInput = Extract<CellInput, { kind: 'scan' }>;
 type Quantity = ScanInput['quantities'][number];
 const quantities: Quantity[] = ['nuInv', 'nu', 'eta', 'gamma', 'omega', 'Delta_phi2', 'Delta_phi4'];
 
-export function ScanEditor({ input, errors, onChange, setupLabels, testPrefix }: EditorProps<ScanInput>) {
+export function ScanEditor({ input, errors, onChange, setupLabels, setupDimensions, testPrefix }: EditorProps<ScanInput>) {
+  const d = setupDimensions?.get(input.uses);
+  const sWindow = longRangeWindow(d);
   const toggle = (quantity: Quantity) =>
     onChange({ ...input, quantities: input.quantities.includes(quantity) ? input.quantities.filter((q) => q !== quantity) : [...input.quantities, quantity] });
   return (
@@ -18,7 +21,7 @@ export function ScanEditor({ input, errors, onChange, setupLabels, testPrefix }:
       <SetupChoice value={input.uses} setupLabels={setupLabels} onChange={(uses) => onChange({ ...input, uses: uses ?? '' })} error={errors.uses} testID={`${testPrefix}-uses`} />
       <View style={styles.pair}>
         <View style={styles.half}>
-          <TextField label="s from" value={input.from} onChangeText={(from) => onChange({ ...input, from })} error={errors.from} testID={`${testPrefix}-from`} />
+          <TextField label="s from" value={input.from} onChangeText={(from) => onChange({ ...input, from })} error={errors.from} hint={sWindow ? `d = ${d}: s in ${sWindow}` : 'Above d/2, at most 2'} testID={`${testPrefix}-from`} />
         </View>
         <View style={styles.half}>
           <TextField label="s to" value={input.to} onChangeText={(to) => onChange({ ...input, to })} error={errors.to} testID={`${testPrefix}-to`} />
@@ -32,7 +35,7 @@ export function ScanEditor({ input, errors, onChange, setupLabels, testPrefix }:
             <ChipButton key={quantity} label={nameOfQuantity(quantity)} selected={input.quantities.includes(quantity)} onPress={() => toggle(quantity)} testID={`${testPrefix}-q-${quantity}`} />
           ))}
         </View>
-        {errors.quantities ? <FieldError message={errors.quantities.replace(/^Too small.*$/, 'Pick at least one quantity')} testID={`${testPrefix}-quantities-error`} /> : null}
+        {errors.quantities ? <FieldError message={errors.quantities} testID={`${testPrefix}-quantities-error`} /> : null}
       </View>
       <TextField
         label="Short-range Δσ (marks s* = d − 2Δσ)"

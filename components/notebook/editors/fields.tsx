@@ -13,6 +13,8 @@ export interface EditorProps<Input> {
   setupLabels: string[];
   /** Prefix of every field's testID, e.g. "cell-flow". */
   testPrefix: string;
+  /** The saved d of each model & parameters cell, by label (a scan states its window of s). */
+  setupDimensions?: ReadonlyMap<string, string | undefined>;
 }
 
 interface NumberFieldProps {

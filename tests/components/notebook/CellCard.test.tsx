@@ -12,6 +12,7 @@ jest.mock('d3-scale', () => ({ scaleLinear: jest.fn() }));
 jest.mock('d3-shape', () => ({ line: jest.fn() }));
 
 const run = { id: 'run1', status: 'done' as const, progress: 1, cached: false, engineVersion: 'engine-test', durationMs: 210, error: null, startedAt: null, finishedAt: null, queue: null };
+/** An earlier-shape exponents result (before notices, relations and sources): shown as far as it reads, with the earlier-shape caption. */
 const exponentsResult = {
   eps: '0.5',
   fixedPoint: 'Ising',
@@ -45,6 +46,7 @@ describe('CellCard', () => {
     const formulas = screen.getAllByTestId('tex').map((node) => node.props.children as string);
     expect(formulas).toContain('1/\\nu = 1.75 - 0.3333333333\\,\\varepsilon - 0.1420323257\\,\\varepsilon^{2} + O(\\varepsilon^{3})');
     expect(screen.getByText('-0.33333333333333333333')).toBeTruthy();
+    expect(screen.getByTestId('cell-exponents-earlier')).toHaveTextContent(/earlier shape/);
   });
 
   it('marks a cell whose inputs changed as out of date', () => {
