@@ -7,6 +7,10 @@ export interface ServerConfig {
   port: number;
   host: string;
   databasePath: string;
+  /** DATABASE_URL=postgres://…: PostgreSQL through the same entities and migrations; unset keeps the SQLite file. */
+  databaseUrl?: string;
+  /** JOB_QUEUE_URL=redis://…: jobs go to a BullMQ queue served by `npm run worker` processes; live updates and rate limits are shared through Redis. */
+  jobQueueUrl?: string;
   publicUrl: string;
   /** Other origins allowed to call the API with cookies (e.g. the Expo dev server). */
   extraAppOrigins: string[];
@@ -104,6 +108,8 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     port,
     host,
     databasePath: env.DATABASE_PATH ?? path.resolve('data', 'rungbook.sqlite'),
+    databaseUrl: env.DATABASE_URL || undefined,
+    jobQueueUrl: env.JOB_QUEUE_URL || undefined,
     publicUrl,
     extraAppOrigins: (env.APP_ORIGINS ?? '').split(',').map((o) => o.trim().replace(/\/+$/, '')).filter(Boolean),
     webRoot: env.WEB_ROOT ?? path.resolve('dist'),

@@ -56,7 +56,7 @@ export const RESULT_LIMITS = {
   maxNotebookResultBytes: 16_000_000,
 } as const;
 
-/** Fields of a model with explicit tensors (custom potentials and presets with a numeric N). */
+/** Field components of a custom potential. Presets take any real N through the symbolic-N family; only integer N from 1 to 6 also get explicit tensors (for field directions). */
 export const MAX_FIELDS = 6;
 
 /** Points of one scan. */
