@@ -5,7 +5,10 @@ import { Slot } from 'expo-router';
 import { StatusBar } from 'expo-status-bar';
 import { ActivityIndicator, View } from 'react-native';
 import { SafeAreaProvider } from 'react-native-safe-area-context';
+import { installGreekFace } from '../constants/greekFace';
 import { colors } from '../constants/theme';
+
+installGreekFace();
 
 export default function RootLayout() {
   const [fontsLoaded, fontError] = useFonts({ Inter_400Regular, Inter_500Medium, Inter_600SemiBold });

@@ -1,13 +1,19 @@
-/** Rungbook's palette and type scale: ink on warm paper, amber for action, slate for structure. */
+import { withGreekFace } from './greekFace';
+
+/**
+ * Rungbook's palette and type scale: ink on warm paper, amber for action, slate for structure. Every text
+ * colour reaches WCAG AA (4.5:1) on the backgrounds it is used on (tests/unit/theme/contrast.test.ts).
+ */
 export const colors = {
   paper: '#F7F5EF',
   surface: '#FFFFFF',
   ink: '#1C2230',
   inkSoft: '#4A5266',
-  inkFaint: '#8A90A0',
+  inkFaint: '#646A7B',
   rule: '#E2DED3',
-  amber: '#C9822B',
-  amberDeep: '#9E6217',
+  /** Fills under white labels and short state words on paper; lines and marks keep the brighter plot amber. */
+  amber: '#A35F1C',
+  amberDeep: '#845111',
   amberWash: '#FBF1E2',
   slate: '#26324A',
   slateText: '#E9ECF2',
@@ -35,15 +41,19 @@ export const comparisonPlot = {
   ],
   data: '#7A8294',
   dataBand: '#EEF1F6',
-  mark: '#9E6217',
+  mark: '#845111',
   kink: '#B23A3A',
   zero: '#8A90A0',
 } as const;
 
+/**
+ * Text face Inter; lowercase Greek (ν, η, ω, ε, …) comes from KaTeX's math italic, the face formulas use,
+ * so ν never reads as v in tables, legends and chips (see greekFace.web.ts).
+ */
 export const fonts = {
-  regular: 'Inter_400Regular',
-  medium: 'Inter_500Medium',
-  semibold: 'Inter_600SemiBold',
+  regular: withGreekFace('Inter_400Regular'),
+  medium: withGreekFace('Inter_500Medium'),
+  semibold: withGreekFace('Inter_600SemiBold'),
 } as const;
 
 export const spacing = { xs: 4, sm: 8, md: 12, lg: 16, xl: 24, xxl: 32 } as const;

@@ -1,7 +1,7 @@
 import { useMemo, useState } from 'react';
 import { View } from 'react-native';
 import { WebView } from 'react-native-webview';
-import { KATEX_STYLESHEET_PATH, renderTex, type FormulaProps } from './renderTex';
+import { KATEX_STYLESHEET_PATH, renderTex, renderWrappingDisplay, type FormulaProps } from './renderTex';
 
 const SERVER_URL = process.env.EXPO_PUBLIC_API_URL ?? '';
 
@@ -12,7 +12,7 @@ export function Formula({ tex, display = false, label, testID }: FormulaProps) {
     () => `<!doctype html><html><head><meta name="viewport" content="width=device-width,initial-scale=1">
 <link rel="stylesheet" href="${SERVER_URL}${KATEX_STYLESHEET_PATH}">
 <style>body{margin:0;background:transparent;font-size:18px}</style></head>
-<body>${renderTex(tex, display)}<script>
+<body>${display ? renderWrappingDisplay(tex) : renderTex(tex, false)}<script>
 new ResizeObserver(()=>window.ReactNativeWebView.postMessage(String(document.body.scrollHeight))).observe(document.body);
 </script></body></html>`,
     [tex, display],

@@ -22,5 +22,14 @@ export function renderTex(tex: string, display = false): string {
   return katex.renderToString(tex, { displayMode: display, throwOnError: false, output: 'htmlAndMathml', strict: 'ignore', ...TEX_LIMITS });
 }
 
+/**
+ * A display formula that wraps: KaTeX's display mode never breaks a line, but inline math breaks after
+ * top-level + − = (KaTeX docs, "Line breaks"); \displaystyle keeps display-size fractions and sums.
+ * So a long series reads on a phone without sideways scrolling.
+ */
+export function renderWrappingDisplay(tex: string): string {
+  return renderTex(`\\displaystyle ${tex}`, false);
+}
+
 /** Where the shipped KaTeX stylesheet lives (copied into public/ at install). */
 export const KATEX_STYLESHEET_PATH = '/katex/katex.min.css';

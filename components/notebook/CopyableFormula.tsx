@@ -1,22 +1,65 @@
 import { useState } from 'react';
-import { StyleSheet, View } from 'react-native';
-import { spacing } from '../../constants/theme';
+import { Pressable, StyleSheet, Text, View } from 'react-native';
+import { colors, fonts } from '../../constants/theme';
 import { Formula } from '../formula';
 import { ChipButton } from './ChipButton';
 import { copyText } from './clipboard';
+import { useDisplayDigits } from './displayPrecision';
+import { WithResultMenu, type CopyAction } from './ResultMenu';
+import { FULL_PRECISION } from './texFormat';
 
-/** A typeset formula with its TeX one tap away. */
-export function CopyableFormula({ tex, label, testID }: { tex: string; label?: string; testID?: string }) {
+/** TeX of a result at a number of significant digits (FULL_PRECISION: every computed digit). */
+export type TexAtDigits = (significant: number) => string;
+
+interface CopyableFormulaProps {
+  /** The TeX, or how to write it at a given number of significant digits (then shortened on screen, full in copies). */
+  tex: string | TexAtDigits;
+  /** The result as plain text with every digit ("Copy as text"). */
+  text?: string;
+  /** The bare numbers with every digit, e.g. a series' coefficients one per line ("Copy full-precision values"). */
+  values?: string;
+  label?: string;
+  testID?: string;
+}
+
+/**
+ * A typeset result that wraps to its card, shown at the notebook's display precision: a tap shows every
+ * digit, and a compact menu copies it as LaTeX, as plain text or as bare values, always with every digit.
+ */
+export function CopyableFormula({ tex, text, values, label, testID }: CopyableFormulaProps) {
+  const digits = useDisplayDigits();
+  const [full, setFull] = useState(false);
+  const fullTex = typeof tex === 'string' ? tex : tex(FULL_PRECISION);
+  const shortTex = typeof tex === 'string' ? tex : tex(digits);
+  const shortened = shortTex !== fullTex;
+  const actions: CopyAction[] = [
+    { label: 'Copy LaTeX', text: fullTex },
+    ...(values !== undefined ? [{ label: 'Copy full-precision values', text: values }] : []),
+    ...(text !== undefined ? [{ label: 'Copy as text', text }] : []),
+  ];
+  const formula = <Formula tex={full || !shortened ? fullTex : shortTex} display label={label} />;
   return (
-    <View style={styles.row} testID={testID}>
-      <View style={styles.formula}>
-        <Formula tex={tex} display label={label} />
-      </View>
-      <CopyButton text={tex} label="Copy TeX" testID={testID ? `${testID}-copy` : 'copy-tex'} />
+    <View testID={testID}>
+      <WithResultMenu actions={actions} testID={testID ?? 'formula'}>
+        {shortened ? (
+          <Pressable
+            accessibilityRole="button"
+            accessibilityHint={full ? 'Shows the value at the display precision' : 'Shows every computed digit'}
+            onPress={() => setFull(!full)}
+            testID={testID ? `${testID}-digits` : undefined}
+          >
+            {formula}
+            <Text style={styles.hint}>{full ? 'all digits · tap to shorten' : `${digits} digits · tap for all`}</Text>
+          </Pressable>
+        ) : (
+          formula
+        )}
+      </WithResultMenu>
     </View>
   );
 }
 
+/** One copy action as a chip (tables and blocks that are not a single formula). */
 export function CopyButton({ text, label, testID }: { text: string; label: string; testID?: string }) {
   const [copied, setCopied] = useState<boolean | null>(null);
   const copy = async () => {
@@ -27,6 +70,5 @@ export function CopyButton({ text, label, testID }: { text: string; label: strin
 }
 
 const styles = StyleSheet.create({
-  row: { flexDirection: 'row', alignItems: 'center', gap: spacing.sm },
-  formula: { flex: 1, minWidth: 0, overflow: 'hidden' },
+  hint: { fontFamily: fonts.regular, fontSize: 11, color: colors.inkSoft },
 });

@@ -249,11 +249,75 @@ export function residualGeometry(result: CompareResult, xDomain: [number, number
 
 const dashAttribute = (dash?: string) => (dash ? ` stroke-dasharray="${dash}"` : '');
 
-/** A standalone SVG file of the overlay plot, legend included. */
+export interface LegendEntry {
+  label: string;
+  style: VariantStyle;
+  dots?: boolean;
+}
+
+export interface LegendSlot extends LegendEntry {
+  /** Start of the sample line and baseline of the label. */
+  x: number;
+  y: number;
+}
+
+const LEGEND_ROW = 18;
+const LEGEND_SAMPLE = 24;
+/** A generous width per character of an 11 px label, so entries never run into each other. */
+const LEGEND_CHAR = 6.5;
+
+/**
+ * Legend entries in rows below the picture (under the x-axis title), wrapped to its width: outside the plot
+ * area, so no entry can cover a curve. `skipRows` leaves room for a caption line first.
+ */
+export function legendBelow(entries: LegendEntry[], frame: { width: number; height: number; plotLeft: number }, skipRows = 0): { slots: LegendSlot[]; height: number } {
+  const slots: LegendSlot[] = [];
+  const right = frame.width - 8;
+  let row = skipRows;
+  let x = frame.plotLeft;
+  for (const entry of entries) {
+    const span = LEGEND_SAMPLE + 6 + entry.label.length * LEGEND_CHAR;
+    if (x > frame.plotLeft && x + span > right) {
+      row += 1;
+      x = frame.plotLeft;
+    }
+    slots.push({ ...entry, x, y: frame.height + 14 + row * LEGEND_ROW });
+    x += span + 16;
+  }
+  const rows = slots.length ? row + 1 : skipRows;
+  return { slots, height: rows ? rows * LEGEND_ROW + 8 : 0 };
+}
+
+/** Lowercase Greek in the math face, so ν in a saved file never reads as v (a viewer without it falls back to a serif italic). */
+export function svgLabel(text: string): string {
+  return escapeXml(text).replace(/[\u03B1-\u03C9\u03D1\u03D5\u03D6\u03F5]+/g, (greek) => `<tspan font-family="KaTeX_Math, 'Latin Modern Math', 'STIX Two Math', 'Cambria Math', serif" font-style="italic">${greek}</tspan>`);
+}
+
+export function legendSvg(slots: LegendSlot[]): string[] {
+  return slots.flatMap((slot) => [
+    slot.dots
+      ? `<circle cx="${px(slot.x + LEGEND_SAMPLE / 2)}" cy="${slot.y - 4}" r="3" fill="${slot.style.color}"/>`
+      : `<line x1="${px(slot.x)}" x2="${px(slot.x + LEGEND_SAMPLE)}" y1="${slot.y - 4}" y2="${slot.y - 4}" stroke="${slot.style.color}" stroke-width="2"${dashAttribute(slot.style.dash)}/>`,
+    `<text x="${px(slot.x + LEGEND_SAMPLE + 6)}" y="${slot.y}" fill="${colors.ink}">${svgLabel(slot.label)}</text>`,
+  ]);
+}
+
+/** The comparison's legend entries: each variant, the data, and the kinks when there are any. */
+export function comparisonLegend(g: ComparisonGeometry, dataLabel: string): LegendEntry[] {
+  return [
+    ...g.curves.map((curve) => ({ label: curve.label, style: curve.style })),
+    { label: dataLabel, style: { color: comparisonPlot.data }, dots: g.data.show === 'points' },
+    ...(g.kinks.length ? [{ label: 'kink ± uncertainty', style: { color: comparisonPlot.kink } }] : []),
+  ];
+}
+
+/** A standalone SVG file of the overlay plot, its legend below the axes (outside the plot area). */
 export function comparisonSvg(g: ComparisonGeometry, dataLabel: string): string {
+  const legend = legendBelow(comparisonLegend(g, dataLabel), g);
+  const height = g.height + legend.height;
   const parts: string[] = [
     `<?xml version="1.0" encoding="UTF-8"?>`,
-    `<svg xmlns="http://www.w3.org/2000/svg" width="${g.width}" height="${g.height}" viewBox="0 0 ${g.width} ${g.height}" font-family="Inter, Helvetica, Arial, sans-serif" font-size="11">`,
+    `<svg xmlns="http://www.w3.org/2000/svg" width="${g.width}" height="${height}" viewBox="0 0 ${g.width} ${height}" font-family="Inter, Helvetica, Arial, sans-serif" font-size="11">`,
     `<rect width="100%" height="100%" fill="#FFFFFF"/>`,
   ];
   if (g.band) parts.push(`<rect x="${g.band.x0}" y="${g.plotTop}" width="${Math.max(1, px(g.band.x1 - g.band.x0))}" height="${g.plotBottom - g.plotTop}" fill="${comparisonPlot.dataBand}"/>`);
@@ -279,13 +343,7 @@ export function comparisonSvg(g: ComparisonGeometry, dataLabel: string): string 
     parts.push(`<line x1="${kink.x0}" x2="${kink.x1}" y1="${kink.cy}" y2="${kink.cy}" stroke="${comparisonPlot.kink}" stroke-width="2"/>`);
     parts.push(`<path d="M${kink.cx},${kink.cy - 6} L${kink.cx + 6},${kink.cy} L${kink.cx},${kink.cy + 6} L${kink.cx - 6},${kink.cy} Z" fill="${comparisonPlot.kink}"/>`);
   }
-  const legend = [...g.curves.map((curve) => ({ label: curve.label, style: curve.style })), { label: dataLabel, style: { color: comparisonPlot.data } as VariantStyle }];
-  const legendX = Math.max(g.plotLeft + 8, g.plotRight - 170);
-  legend.forEach((entry, i) => {
-    const y = g.plotTop + 10 + i * 16;
-    parts.push(`<line x1="${legendX}" x2="${legendX + 24}" y1="${y}" y2="${y}" stroke="${entry.style.color}" stroke-width="2"${dashAttribute(entry.style.dash)}/>`);
-    parts.push(`<text x="${legendX + 30}" y="${y + 4}" fill="${colors.ink}">${escapeXml(entry.label)}</text>`);
-  });
+  parts.push(...legendSvg(legend.slots));
   parts.push('</svg>');
   return parts.join('\n') + '\n';
 }

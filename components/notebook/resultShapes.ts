@@ -212,6 +212,8 @@ export interface FixedPointShape {
   notes: string[];
   /** What must be read before the point's numbers (complex at ε, undecided stability, …). */
   caveats: FixedPointCaveat[];
+  /** Eigen-operators of the quadratic-operator matrix at the point, as the engine wrote them (read by QuadraticOperators). */
+  quadraticOperators?: unknown;
 }
 
 const isCaveat = (value: unknown): value is FixedPointCaveat => isObject(value) && typeof value.kind === 'string' && typeof value.message === 'string';
@@ -235,6 +237,7 @@ export function asFixedPoints(result: unknown): { eps: string | null; points: Fi
       stabilitySeries: (raw.stability?.series ?? []).map((row) => (Array.isArray(row) ? coefficients(row as Coefficient[]) : null)),
       notes: (raw.notes ?? []).filter((note): note is string => typeof note === 'string'),
       caveats: ((raw.caveats ?? []) as unknown[]).filter(isCaveat),
+      quadraticOperators: raw.quadraticOperators ?? undefined,
     });
   }
   return { eps: found.eps ?? null, points, contract: reading.earlier ? null : reading.result, earlier: reading.earlier };

@@ -1,5 +1,8 @@
 /** Turning engine results into TeX and plain text. */
+import Decimal from 'decimal.js';
 import { monomialTex } from '../../shared/notebook/exports';
+import { DIGITS_TO_RECOGNISE, rationalOf } from '../../shared/notebook/latex/numbers';
+import { shortenDecimal } from './displayPrecision';
 
 export interface SymbolicCoefficient {
   expr: string;
@@ -25,8 +28,46 @@ export function shortDecimal(value: string, significant = 10): string {
   return String(Number(number.toPrecision(significant)));
 }
 
-/** TeX of a decimal, with a real minus and scientific notation as ×10^k. */
+/** Every digit: what copies and exports carry (shortDecimal with this keeps the text). */
+export const FULL_PRECISION = Number.POSITIVE_INFINITY;
+
+/**
+ * The fraction p/q (q > 1) a long decimal is the rounding of, e.g. "-0.45454545454545454545" → [-5, 11]; null when
+ * none is. One rule for the app and the LaTeX export (shared/notebook/latex/numbers.ts): at least
+ * DIGITS_TO_RECOGNISE digits and q ≤ MAX_DENOMINATOR. Short decimals (1.75) stay as typed here.
+ */
+const significantDigits = (value: string) => value.replace(/^[+-]/, '').replace(/[eE].*$/, '').replace('.', '').replace(/^0+/, '').length;
+
+export function exactFraction(value: string): [number, number] | null {
+  if (!isDecimal(value) || /[eE]/.test(value) || significantDigits(value) < DIGITS_TO_RECOGNISE) return null;
+  const rational = rationalOf(value);
+  return rational && rational.q > 1n ? [Number(rational.p), Number(rational.q)] : null;
+}
+
+/** "p/q" text (a weight or symmetry factor the engine writes as a fraction) → [p, q]; null otherwise. */
+export function fractionOfText(value: string): [number, number] | null {
+  const match = /^\s*([+-]?\d{1,15})\s*\/\s*(\d{1,15})\s*$/.exec(value);
+  return match && Number(match[2]) !== 0 ? [Number(match[1]), Number(match[2])] : null;
+}
+
+/** TeX of p/q with the sign in front: "-\tfrac{5}{11}". */
+export function fractionTex([numerator, denominator]: [number, number]): string {
+  const sign = numerator < 0 ? '-' : '';
+  const magnitude = Math.abs(numerator);
+  return denominator === 1 ? `${sign}${magnitude}` : `${sign}\\tfrac{${magnitude}}{${denominator}}`;
+}
+
+/** Plain text of a value for reading: the fraction it is exactly, else the decimal at `significant` digits. */
+export function readableValue(value: string, significant: number): string {
+  const fraction = exactFraction(value) ?? fractionOfText(value);
+  if (fraction) return `${fraction[0]}/${fraction[1]}`.replace(/^-/, '−');
+  return shortenDecimal(value, significant);
+}
+
+/** TeX of a decimal, with a real minus and scientific notation as ×10^k; an exact rational as a fraction. */
 export function decimalTex(value: string, significant = 10): string {
+  const fraction = exactFraction(value) ?? fractionOfText(value);
+  if (fraction) return fractionTex(fraction);
   const short = shortDecimal(value, significant);
   const match = /^(-?)([\d.]+)(?:[eE]([+-]?\d+))?$/.exec(short);
   if (!match) return short;
@@ -119,11 +160,11 @@ export const texOfQuantity = (key: string) => quantityTex[key] ?? `\\mathrm{${ke
 export const nameOfQuantity = (key: string): string => (key.startsWith('pade:') ? `${nameOfQuantity(key.slice(5))} (Padé)` : quantityNames[key] ?? key);
 
 /** TeX of Σ coeff·monomial, e.g. β-functions and anomalous dimensions. */
-export function polynomialTex(terms: { monomial: string; coeff: Coefficient }[]): string {
+export function polynomialTex(terms: { monomial: string; coeff: Coefficient }[], significant = 10): string {
   const parts: string[] = [];
   for (const term of terms) {
     if (isZero(term.coeff)) continue;
-    let tex = coefficientTex(term.coeff).trim();
+    let tex = coefficientTex(term.coeff, significant).trim();
     if (isTopLevelSum(tex)) tex = `\\left(${tex}\\right)`;
     const negative = tex.startsWith('-');
     const magnitude = negative ? tex.slice(1).trim() : tex;
@@ -132,3 +173,25 @@ export function polynomialTex(terms: { monomial: string; coeff: Coefficient }[])
   }
   return parts.length ? parts.join(' ') : '0';
 }
+
+/** Plain text of Σ c_k ε^(lowest+k) with every digit, e.g. "1.75 - 0.4545…·ε + O(ε^3)" (for "Copy as text"). */
+export function seriesText(lowest: number, coeffs: Coefficient[], truncated = true): string {
+  const terms = coeffs.flatMap((coefficient, k) => {
+    if (isZero(coefficient)) return [];
+    const power = lowest + k;
+    const value = coefficientText(coefficient).trim();
+    const factor = isSymbolic(coefficient) && isTopLevelSum(value) ? `(${value})` : value;
+    return [power === 0 ? factor : `${factor}·ε${power === 1 ? '' : `^${power}`}`];
+  });
+  const body = terms.length ? terms.join(' + ').replace(/\+ -/g, '- ') : '0';
+  return truncated ? `${body} + O(ε^${lowest + coeffs.length})` : body;
+}
+
+/** Plain text of Σ coeff·monomial with every digit ("-1·eps*u + 3.666…·u^2"). */
+export function polynomialText(terms: { monomial: string; coeff: Coefficient }[]): string {
+  const parts = terms.filter((term) => !isZero(term.coeff)).map((term) => `${coefficientText(term.coeff).trim()}·${term.monomial}`);
+  return parts.length ? parts.join(' + ').replace(/\+ -/g, '- ') : '0';
+}
+
+/** The coefficients one per line with every digit ("Copy full-precision values"). */
+export const coefficientLines = (coeffs: Coefficient[]) => coeffs.map(coefficientText).join('\n');

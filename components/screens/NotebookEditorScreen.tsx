@@ -5,6 +5,7 @@ import { colors, fonts, spacing } from '../../constants/theme';
 import { useMeQuery } from '../../hooks/api/auth';
 import { useNotebookLive, type NotebookLive } from '../../hooks/api/live';
 import { fetchNotebookExport, useAddCellMutation, useNotebookQuery, useRunAllMutation } from '../../hooks/api/notebooks';
+import { useDisplayDigitsSetting } from '../../hooks/useDisplayDigits';
 import { useWideLayout } from '../../hooks/useWideLayout';
 import type { CellKind, CellView, NotebookDetail } from '../../shared/notebook';
 import { can } from '../../shared/notebook/sharing';
@@ -16,6 +17,7 @@ import { otherViewers, PresenceList } from '../live/PresenceList';
 import { PresenterBar } from '../live/PresenterBar';
 import { useFollowPresenter } from '../live/useFollowPresenter';
 import { sharingHref } from '../sharing/paths';
+import { DisplayDigitsPicker } from '../ui/DisplayDigitsPicker';
 import { Notice } from '../ui/Notice';
 import { AddCellBar } from '../notebook/AddCellBar';
 import { CellCard } from '../notebook/CellCard';
@@ -29,6 +31,7 @@ import { useKeyboardShortcuts } from '../notebook/useKeyboardShortcuts';
 import { NotebookTitle } from '../notebook/NotebookTitle';
 import { useUnsavedEdits, useUnsavedPrompt } from '../notebook/unsavedEdits';
 import { DatasetPanel } from '../datasets/DatasetPanel';
+import { DisplayDigitsProvider } from '../notebook/displayPrecision';
 
 /** `focusCellId` (the `?cell=` parameter of links from comments and activity) scrolls to that cell and highlights it. */
 export function NotebookEditorScreen({ notebookId, focusCellId }: { notebookId: string; focusCellId?: string }) {
@@ -76,6 +79,7 @@ function NotebookEditor({ notebook, live, focusCellId }: { notebook: NotebookDet
   const wide = useWideLayout();
   const sideColumn = useWindowDimensions().width >= SIDE_COLUMN_MIN_WIDTH;
   const me = useMeQuery().data;
+  const [displayDigits, chooseDisplayDigits] = useDisplayDigitsSetting(notebook.id, me?.id);
   const scroll = useRef<ScrollView>(null);
   const scroller = useCellScroller(scroll);
   const runners = useRef(new Map<string, () => void>());
@@ -185,6 +189,7 @@ function NotebookEditor({ notebook, live, focusCellId }: { notebook: NotebookDet
           <ChipButton label="JSON" onPress={() => void exportAs('json')} testID="export-json" accessibilityLabel="Export as JSON" />
           <ChipButton label={notebook.datasets?.length ? `Data (${notebook.datasets.length})` : 'Data'} selected={dataOpen} onPress={() => setDataOpen(!dataOpen)} testID="data-toggle" accessibilityLabel="Datasets of this notebook" />
           {wide && notebook.canEdit ? <ChipButton label="Shortcuts" onPress={() => setHelpOpen(true)} testID="open-shortcuts" /> : null}
+          <DisplayDigitsPicker digits={displayDigits} onChoose={chooseDisplayDigits} />
         </View>
         {runAllPrompt.prompt}
         {runAll.data && runAll.data.runs.length === 0 && runAll.data.waiting.length === 0 ? <Notice tone="info" message="Every cell is already up to date." testID="run-all-nothing" /> : null}
@@ -195,25 +200,27 @@ function NotebookEditor({ notebook, live, focusCellId }: { notebook: NotebookDet
         {dataOpen ? <DatasetPanel notebook={notebook} onCellAdded={reveal} /> : null}
 
         {notebook.cells.length === 0 ? <Notice tone="info" message="This notebook has no cells yet. Start with a model & parameters cell, then add what it should compute." /> : null}
-        {notebook.cells.map((cell, index) => (
-          <View key={cell.id} onLayout={(event) => scroller.laidOut(cell.id, event.nativeEvent.layout.y)} style={cell.id === highlightedId && styles.highlighted} testID={cell.id === highlightedId ? 'highlighted-cell' : undefined}>
-            {follow.following && cell.id === presenterCell?.id ? <Text style={styles.presenterHere} testID={`cell-${cell.label}-presenter`}>{follow.presenter?.name} is here</Text> : null}
-            <CellCard
-              // A role change remounts the card, so an editor open when editing was taken away closes.
-              key={notebook.canEdit ? 'editable' : 'read-only'}
-              notebook={notebook}
-              cell={cell}
-              index={index}
-              wide={wide}
-              selected={cell.id === selectedId}
-              onSelect={() => setSelectedId(cell.id)}
-              startEditing={cell.id === justAdded}
-              onStartedEditing={() => setJustAdded(null)}
-              registerRunner={(run) => runners.current.set(cell.id, run)}
-              openComments={cell.id === focusCellId}
-            />
-          </View>
-        ))}
+        <DisplayDigitsProvider value={displayDigits}>
+          {notebook.cells.map((cell, index) => (
+            <View key={cell.id} onLayout={(event) => scroller.laidOut(cell.id, event.nativeEvent.layout.y)} style={cell.id === highlightedId && styles.highlighted} testID={cell.id === highlightedId ? 'highlighted-cell' : undefined}>
+              {follow.following && cell.id === presenterCell?.id ? <Text style={styles.presenterHere} testID={`cell-${cell.label}-presenter`}>{follow.presenter?.name} is here</Text> : null}
+              <CellCard
+                // A role change remounts the card, so an editor open when editing was taken away closes.
+                key={notebook.canEdit ? 'editable' : 'read-only'}
+                notebook={notebook}
+                cell={cell}
+                index={index}
+                wide={wide}
+                selected={cell.id === selectedId}
+                onSelect={() => setSelectedId(cell.id)}
+                startEditing={cell.id === justAdded}
+                onStartedEditing={() => setJustAdded(null)}
+                registerRunner={(run) => runners.current.set(cell.id, run)}
+                openComments={cell.id === focusCellId}
+              />
+            </View>
+          ))}
+        </DisplayDigitsProvider>
         {notebook.canEdit ? (
           adding || notebook.cells.length === 0 ? (
             <AddCellBar onAdd={add} busy={addCell.isPending} onClose={notebook.cells.length ? () => setAdding(false) : undefined} />

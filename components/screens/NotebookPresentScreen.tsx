@@ -1,10 +1,11 @@
 import { useState } from 'react';
-import { Pressable, ScrollView, StyleSheet, Text, View, type GestureResponderEvent, type LayoutChangeEvent } from 'react-native';
+import { Pressable, ScrollView, StyleSheet, Text, useWindowDimensions, View, type GestureResponderEvent, type LayoutChangeEvent } from 'react-native';
 import { router } from 'expo-router';
 import { colors, fonts, spacing } from '../../constants/theme';
 import { useMeQuery } from '../../hooks/api/auth';
 import { stopPresenting, useNotebookLive, usePresenting, type NotebookLive } from '../../hooks/api/live';
 import { useNotebookQuery } from '../../hooks/api/notebooks';
+import { useDisplayDigitsSetting } from '../../hooks/useDisplayDigits';
 import { cellKindTitles, type NotebookDetail } from '../../shared/notebook';
 import { can } from '../../shared/notebook/sharing';
 import { AccessRemoved } from '../live/AccessRemoved';
@@ -15,11 +16,15 @@ import { useFollowPresenter } from '../live/useFollowPresenter';
 import { CellOutput } from '../notebook/CellOutput';
 import { CellStateBadge } from '../notebook/CellStateBadge';
 import { cellSummary } from '../notebook/cellSummary';
+import { DisplayDigitsProvider } from '../notebook/displayPrecision';
 import { ChipButton } from '../notebook/ChipButton';
 import { LargeType } from '../notebook/LargeType';
 import { NoteView } from '../notebook/NoteView';
 import { useKeyboardShortcuts } from '../notebook/useKeyboardShortcuts';
 import { Notice } from '../ui/Notice';
+import { PointerHighlight, usePointerHighlight } from '../ui/PointerHighlight';
+import { PresentationModeProvider } from '../ui/presentationMode';
+import { slideScale } from '../ui/slideScale';
 
 export function NotebookPresentScreen({ notebookId }: { notebookId: string }) {
   const notebook = useNotebookQuery(notebookId);
@@ -42,13 +47,17 @@ function presentsToOthers(notebook: NotebookDetail, live: NotebookLive, myId: st
 }
 
 /**
- * One cell at a time in large type; tap the right or left part of the slide, or use the arrow keys.
+ * One cell at a time in type scaled to the screen, without editing controls; tap the right or left part of the slide, or use the arrow keys.
  * An editor or owner presents: others who have the notebook open can follow the cell shown here.
  */
 function Presentation({ notebook, live }: { notebook: NotebookDetail; live: NotebookLive }) {
   const me = useMeQuery().data;
   const [index, setIndex] = useState(0);
   const [slideWidth, setSlideWidth] = useState(0);
+  const window = useWindowDimensions();
+  const scale = slideScale(window.width, window.height);
+  const [displayDigits] = useDisplayDigitsSetting(notebook.id, me?.id);
+  const pointer = usePointerHighlight();
   const count = notebook.cells.length;
   const at = Math.min(index, Math.max(0, count - 1));
   const next = () => setIndex(Math.min(count - 1, at + 1));
@@ -71,8 +80,8 @@ function Presentation({ notebook, live }: { notebook: NotebookDetail; live: Note
   };
   return (
     <View style={styles.root} testID="presentation">
-      <View style={styles.bar}>
-        <Text style={styles.barTitle} numberOfLines={1}>{notebook.title}</Text>
+      <View style={[styles.bar, scale.compact && styles.compactBar]}>
+        <Text style={[styles.barTitle, scale.compact && styles.compactTitle]} numberOfLines={1}>{notebook.title}</Text>
         <LiveStatus connection={live.connection} />
         <Text style={styles.counter} testID="presentation-counter">{count ? `${at + 1} / ${count}` : '0 / 0'}</Text>
         <ChipButton label="Previous" disabled={at === 0} onPress={previous} testID="presentation-previous" />
@@ -83,23 +92,28 @@ function Presentation({ notebook, live }: { notebook: NotebookDetail; live: Note
       <PresenterBar follow={follow} cellLabel={presenterCell?.label ?? null} />
       {presentation.error && presenting ? <Notice tone="error" message={`Others cannot follow right now: ${presentation.error}`} testID="presenting-error" /> : null}
       {cell ? (
-        <ScrollView contentContainerStyle={styles.scroll}>
-          <Pressable onPress={onSlidePress} onLayout={(event: LayoutChangeEvent) => setSlideWidth(event.nativeEvent.layout.width)} style={styles.slide} testID={`slide-${cell.label}`} accessibilityHint="Tap the right part for the next cell, the left part for the previous one">
+        <ScrollView contentContainerStyle={[styles.scroll, { padding: scale.padding }]} testID="presentation-scroll">
+          <Pressable onPress={onSlidePress} onLayout={(event: LayoutChangeEvent) => setSlideWidth(event.nativeEvent.layout.width)} style={styles.slide} testID={`slide-${cell.label}`} accessibilityHint="Tap the right part for the next cell, the left part for the previous one" {...pointer.handlers}>
             <View style={styles.slideHead}>
-              <Text style={styles.kind}>{cellKindTitles[cell.kind]}</Text>
+              <Text style={[styles.kind, { fontSize: scale.kind }]}>{cellKindTitles[cell.kind]}</Text>
               <Text style={styles.label}>{cell.label}</Text>
               <CellStateBadge state={cell.state} />
             </View>
-            <LargeType size={26}>
-              {cell.input.kind === 'note' ? (
-                <NoteView text={cell.input.text} large />
-              ) : (
-                <View style={styles.body}>
-                  <Text style={styles.summary}>{cellSummary(cell.input)}</Text>
-                  <CellOutput notebook={notebook} cell={cell} />
-                </View>
-              )}
-            </LargeType>
+            <PresentationModeProvider value>
+              <DisplayDigitsProvider value={displayDigits}>
+                <LargeType size={scale.type}>
+                  {cell.input.kind === 'note' ? (
+                    <NoteView text={cell.input.text} large />
+                  ) : (
+                    <View style={styles.body}>
+                      <Text style={[styles.summary, scale.compact && styles.compactSummary]}>{cellSummary(cell.input)}</Text>
+                      <CellOutput notebook={notebook} cell={cell} />
+                    </View>
+                  )}
+                </LargeType>
+              </DisplayDigitsProvider>
+            </PresentationModeProvider>
+            <PointerHighlight at={pointer.at} />
           </Pressable>
         </ScrollView>
       ) : (
@@ -112,15 +126,18 @@ function Presentation({ notebook, live }: { notebook: NotebookDetail; live: Note
 const styles = StyleSheet.create({
   root: { flex: 1, backgroundColor: colors.paper },
   bar: { flexDirection: 'row', alignItems: 'center', gap: spacing.sm, padding: spacing.md, backgroundColor: colors.surface, borderBottomWidth: 1, borderBottomColor: colors.rule, flexWrap: 'wrap' },
+  compactBar: { paddingVertical: spacing.xs, paddingHorizontal: spacing.sm, gap: spacing.xs },
   barTitle: { flex: 1, minWidth: 120, fontFamily: fonts.semibold, fontSize: 15, color: colors.ink },
+  compactTitle: { minWidth: 80, fontSize: 13 },
   counter: { fontFamily: fonts.medium, fontSize: 14, color: colors.inkSoft },
-  scroll: { padding: spacing.xl, flexGrow: 1 },
-  slide: { flexGrow: 1, width: '100%', maxWidth: 1200, alignSelf: 'center', gap: spacing.xl },
+  scroll: { flexGrow: 1 },
+  slide: { flexGrow: 1, width: '100%', maxWidth: 1200, minWidth: 0, alignSelf: 'center', gap: spacing.lg },
   slideHead: { flexDirection: 'row', alignItems: 'center', gap: spacing.md, flexWrap: 'wrap' },
   kind: { fontFamily: fonts.semibold, fontSize: 34, color: colors.ink },
   label: { fontFamily: fonts.medium, fontSize: 20, color: colors.inkFaint },
   body: { gap: spacing.lg },
   summary: { fontFamily: fonts.regular, fontSize: 22, lineHeight: 32, color: colors.inkSoft },
+  compactSummary: { fontSize: 16, lineHeight: 22 },
   padded: { padding: spacing.xl },
   muted: { fontFamily: fonts.regular, fontSize: 14, color: colors.inkFaint, padding: spacing.xl },
 });

@@ -1,7 +1,7 @@
 import { StyleSheet, Text, View } from 'react-native';
 import Svg, { Circle, G, Line, Path, Rect, Text as SvgText } from 'react-native-svg';
 import { colors, comparisonPlot, fonts, spacing } from '../../../constants/theme';
-import type { ComparisonGeometry, VariantStyle } from '../plotSvg';
+import { comparisonLegend, type ComparisonGeometry, type VariantStyle } from '../plotSvg';
 import { PlotAxes } from './PlotAxes';
 
 /**
@@ -10,11 +10,11 @@ import { PlotAxes } from './PlotAxes';
  */
 export const svgTestID = (id: string): object => ({ testID: id, 'data-testid': id });
 
-/** Series variants as lines (broken where a value is missing), the data as points with error bars or a boundary, marks and kinks. */
+/** Series variants as lines (broken where a value is missing), the data as points with error bars or a boundary, marks and kinks; the legend below the plot, never over it. */
 export function ComparisonPlot({ geometry: g, dataLabel }: { geometry: ComparisonGeometry; dataLabel: string }) {
   return (
     <View style={styles.wrap}>
-      <Svg width={g.width} height={g.height} {...svgTestID('comparison-plot')} accessibilityLabel={`${g.yTitle} against ${g.xTitle}: series and data`}>
+      <Svg width={g.width} height={g.height} {...svgTestID('comparison-plot')} accessibilityLabel={`${g.yTitle} against ${g.xTitle}: series and data`} fontFamily={fonts.regular}>
         <Rect x={0} y={0} width={g.width} height={g.height} fill={colors.surface} />
         {g.band ? (
           <Rect x={g.band.x0} y={g.plotTop} width={Math.max(1, g.band.x1 - g.band.x0)} height={g.plotBottom - g.plotTop} fill={comparisonPlot.dataBand} {...svgTestID('comparison-data-range')} />
@@ -49,11 +49,9 @@ export function ComparisonPlot({ geometry: g, dataLabel }: { geometry: Compariso
         ))}
       </Svg>
       <View style={styles.legend} testID="comparison-legend">
-        {g.curves.map((curve) => (
-          <LegendEntry key={curve.key} label={curve.label} style={curve.style} />
+        {comparisonLegend(g, dataLabel).map((entry) => (
+          <LegendEntry key={entry.label} label={entry.label} style={entry.style} dots={entry.dots} />
         ))}
-        <LegendEntry label={dataLabel} style={{ color: comparisonPlot.data }} dots={g.data.show === 'points'} />
-        {g.kinks.length ? <LegendEntry label="kink ± uncertainty" style={{ color: comparisonPlot.kink }} /> : null}
       </View>
     </View>
   );

@@ -3,9 +3,10 @@ import { colors, fonts, spacing } from '../../../constants/theme';
 import { FieldAnomalousSpectrum, type PadeCheck } from '../../../shared/jobs/contract';
 import { CopyableFormula } from '../CopyableFormula';
 import { isObject, type ExponentsShape } from '../resultShapes';
-import { coefficientText, nameOfQuantity, seriesTex, texOfQuantity } from '../texFormat';
+import { coefficientLines, coefficientText, decimalTex, nameOfQuantity, seriesTex, seriesText, texOfQuantity } from '../texFormat';
 import { CoefficientTable } from './CoefficientTable';
 import { FieldDirections } from './FieldDirections';
+import { QuadraticOperators, quadraticOperatorsOf } from './QuadraticOperators';
 import { StructuredResult } from './StructuredResult';
 
 export interface ResultNotice {
@@ -66,7 +67,9 @@ export const stringRecord = (value: unknown): Record<string, string> => (isObjec
 export function ExponentsOutput({ result, fileName, testID }: { result: ExponentsShape; fileName: string; testID?: string }) {
   const seriesKeys = Object.keys(result.series);
   const order = Math.max(0, ...seriesKeys.map((key) => result.series[key].length));
-  const { pade, relations, fixedPoint, meanField, notices, sources, unavailable, shortRange, fieldAnomalous, ...rest } = result.extra;
+  const { pade, relations, fixedPoint, meanField, notices, sources, unavailable, shortRange, fieldAnomalous, statement, quadraticOperators, ...known } = result.extra;
+  const operators = quadraticOperatorsOf(quadraticOperators);
+  const rest = operators || quadraticOperators === undefined ? known : { ...known, quadraticOperators };
   const spectrum = FieldAnomalousSpectrum.safeParse(fieldAnomalous);
   const extra = spectrum.success || fieldAnomalous === undefined ? rest : { ...rest, fieldAnomalous };
   const sourceOf = stringRecord(sources);
@@ -90,9 +93,17 @@ export function ExponentsOutput({ result, fileName, testID }: { result: Exponent
       <Text style={styles.caption}>
         {[typeof fixedPoint === 'string' ? `At the ${fixedPoint} fixed point.` : null, meanField === true ? 'Mean-field: the Gaussian fixed point is stable and these values are exact.' : null, result.eps && result.eps !== 'eps' ? `Series in ε at fixed s; values at ε = ${result.eps}.` : 'Series in ε at fixed s.', crossover].filter(Boolean).join(' ')}
       </Text>
+      {typeof statement === 'string' ? <Text style={styles.caption}>{statement}</Text> : null}
       {seriesKeys.map((key) => (
-        <CopyableFormula key={key} tex={`${texOfQuantity(key)} = ${seriesTex(0, result.series[key])}`} testID={`exponent-${key}`} />
+        <CopyableFormula
+          key={key}
+          tex={(significant) => `${texOfQuantity(key)} = ${seriesTex(0, result.series[key], true, significant)}`}
+          text={`${nameOfQuantity(key)} = ${seriesText(0, result.series[key])}`}
+          values={coefficientLines(result.series[key])}
+          testID={`exponent-${key}`}
+        />
       ))}
+      {seriesKeys.length === 0 && Object.keys(result.values).length ? <ValuesFormula values={result.values} eps={result.eps} /> : null}
       <CoefficientTable header={header} rows={rows} fileName={fileName} testID={testID ? `${testID}-table` : undefined} />
       {spectrum.success ? <FieldDirections spectrum={spectrum.data} eps={result.eps} fileName={fileName} testID={testID ? `${testID}-fields` : undefined} /> : null}
       {Object.keys(missing).length ? (
@@ -118,9 +129,18 @@ export function ExponentsOutput({ result, fileName, testID }: { result: Exponent
           {Object.entries(relations).map(([key, text]) => <Text key={key} style={styles.caption}>{String(text)}</Text>)}
         </View>
       ) : null}
+      {operators ? <QuadraticOperators operators={operators} eps={result.eps} testID={testID ? `${testID}-operators` : undefined} /> : null}
       {hasExtra ? <StructuredResult value={extra} fileName={fileName} /> : null}
     </View>
   );
+}
+
+/** Values without series (the mean-field exponents): one typeset list that breaks between quantities. */
+function ValuesFormula({ values, eps }: { values: Record<string, string>; eps: string | null }) {
+  const entries = Object.entries(values);
+  const tex = (significant: number) => entries.map(([key, value]) => `${texOfQuantity(key)} = ${decimalTex(value, significant)}`).join(',\\quad\\allowbreak ');
+  const text = entries.map(([key, value]) => `${nameOfQuantity(key)} = ${value}`).join('\n');
+  return <CopyableFormula tex={tex} text={text} label={eps ? `values at ε = ${eps}` : undefined} testID="exponent-values" />;
 }
 
 const styles = StyleSheet.create({

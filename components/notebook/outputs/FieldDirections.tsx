@@ -2,7 +2,7 @@ import { StyleSheet, Text, View } from 'react-native';
 import { colors, fonts } from '../../../constants/theme';
 import type { FieldAnomalousSpectrum } from '../../../shared/jobs/contract';
 import { CopyableFormula } from '../CopyableFormula';
-import { seriesTex } from '../texFormat';
+import { coefficientLines, seriesTex, seriesText } from '../texFormat';
 import { CoefficientTable } from './CoefficientTable';
 
 /** TeX of a field name: "phi1" → \phi_{1}, any other name upright. */
@@ -30,7 +30,7 @@ export function FieldDirections({ spectrum, eps, fileName, testID }: { spectrum:
     <View style={styles.wrap} testID={testID}>
       <Text style={styles.heading}>{spectrum.proportional ? 'γ_φ is the same in every field direction' : 'η per field direction (γ_φ is a matrix here; its eigen-directions differ)'}</Text>
       {spectrum.directions.map((direction) => (
-        <CopyableFormula key={direction.field} tex={`${etaName(direction.field)} = ${seriesTex(0, direction.series.eta)}`} testID={`exponent-eta-${direction.field}`} />
+        <CopyableFormula key={direction.field} tex={(n) => `${etaName(direction.field)} = ${seriesTex(0, direction.series.eta, true, n)}`} text={`η ${direction.field} = ${seriesText(0, direction.series.eta)}`} values={coefficientLines(direction.series.eta)} testID={`exponent-eta-${direction.field}`} />
       ))}
       <CoefficientTable header={header} rows={rows} fileName={`${fileName}-fields`} testID={testID ? `${testID}-table` : undefined} />
     </View>

@@ -10,7 +10,7 @@ export function ResidualPlot({ geometry: g }: { geometry: ResidualGeometry }) {
   return (
     <View>
       <Text style={styles.caption}>{g.measure === 'pull' ? 'Residuals in units of the data’s error, r / σ (r = series − data)' : 'Residuals r = series − data'}</Text>
-      <Svg width={g.width} height={g.height} {...svgTestID('comparison-residual-plot')}>
+      <Svg width={g.width} height={g.height} {...svgTestID('comparison-residual-plot')} fontFamily={fonts.regular}>
         <Rect x={0} y={0} width={g.width} height={g.height} fill={colors.surface} />
         <PlotAxes geometry={g} />
         <Line x1={g.plotLeft} x2={g.plotRight} y1={g.zeroY} y2={g.zeroY} stroke={comparisonPlot.zero} strokeWidth={1.5} {...svgTestID('comparison-residual-zero')} />

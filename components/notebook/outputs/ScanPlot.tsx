@@ -8,13 +8,14 @@ import { saveTextFile } from '../saveFile';
 import { nameOfQuantity } from '../texFormat';
 import { monoFont } from '../monoFont';
 import { tickLabel } from '../plotAxes';
-import { nearestPoint, plotGeometry, plotSvg } from './plotGeometry';
+import { followedCaption, followedRuns, labelX, nearestPoint, plotGeometry, plotSvg } from './plotGeometry';
 import { PlotAxes } from './PlotAxes';
 
 const PLOT_HEIGHT = 280;
 
 /**
- * Exponents against s: axes, ticks, legend, s = d/2 and s* marked, a read-out where you tap or point
+ * Exponents against s: the fixed point followed named above the plot (and each change marked in it), axes,
+ * ticks, the legend below the plot (never over a curve), s = d/2 and s* marked, a read-out where you tap or point
  * (with the kinds of notice that apply at that point, from `pointNotices` keyed by s).
  */
 export function ScanPlot({ scan, pointNotices, fileName, testID }: { scan: ScanShape; pointNotices?: Map<number, string[]>; fileName: string; testID?: string }) {
@@ -22,11 +23,13 @@ export function ScanPlot({ scan, pointNotices, fileName, testID }: { scan: ScanS
   const [picked, setPicked] = useState<ScanPoint | null>(null);
   const onLayout = (event: LayoutChangeEvent) => setWidth(Math.round(event.nativeEvent.layout.width));
   const geometry = width > 0 ? plotGeometry(scan, width, PLOT_HEIGHT) : null;
+  const caption = followedCaption(followedRuns(scan), scan.variable);
   const pick = (event: GestureResponderEvent) => {
     if (geometry) setPicked(nearestPoint(scan, geometry.invertX(event.nativeEvent.locationX)));
   };
   return (
     <View style={styles.wrap} testID={testID}>
+      {caption ? <Text style={styles.caption} testID={testID ? `${testID}-followed` : undefined}>{caption}</Text> : null}
       <View
         style={styles.canvas}
         onLayout={onLayout}
@@ -37,13 +40,19 @@ export function ScanPlot({ scan, pointNotices, fileName, testID }: { scan: ScanS
         testID={testID ? `${testID}-canvas` : undefined}
       >
         {geometry ? (
-          <Svg width={geometry.width} height={geometry.height} pointerEvents="none">
+          <Svg width={geometry.width} height={geometry.height} pointerEvents="none" fontFamily={fonts.regular}>
             <Rect x={0} y={0} width={geometry.width} height={geometry.height} fill={colors.surface} />
             <PlotAxes geometry={geometry} />
             {geometry.markers.map((marker) => (
               <G key={marker.label}>
                 <Line x1={marker.x} x2={marker.x} y1={geometry.plotTop} y2={geometry.plotBottom} stroke={colors.amberDeep} strokeDasharray="4 3" />
-                <SvgText x={marker.x + 4} y={geometry.plotTop + 12} fontSize={11} fill={colors.amberDeep}>{marker.label}</SvgText>
+                <SvgText x={labelX(marker.x, geometry.width, marker.label)} y={geometry.markRow} fontSize={11} fill={colors.amberDeep}>{marker.label}</SvgText>
+              </G>
+            ))}
+            {geometry.changes.map((change) => (
+              <G key={`change-${change.x}`} testID={testID ? `${testID}-change` : undefined}>
+                <Line x1={change.x} x2={change.x} y1={geometry.plotTop} y2={geometry.plotBottom} stroke={colors.inkSoft} strokeDasharray="1 3" />
+                <SvgText x={labelX(change.x, geometry.width, change.label)} y={geometry.changeRow} fontSize={11} fill={colors.inkSoft}>{change.label}</SvgText>
               </G>
             ))}
             {geometry.lines.map((plotLine) => (
@@ -53,7 +62,7 @@ export function ScanPlot({ scan, pointNotices, fileName, testID }: { scan: ScanS
           </Svg>
         ) : null}
       </View>
-      <View style={styles.legend}>
+      <View style={styles.legend} testID={testID ? `${testID}-legend` : undefined}>
         {(geometry?.lines ?? []).map((plotLine) => (
           <View key={plotLine.key} style={styles.legendItem}>
             <View style={[styles.swatch, { backgroundColor: plotLine.color }]} />
@@ -84,6 +93,7 @@ function hoverProps(pick: (event: GestureResponderEvent) => void): object {
 const styles = StyleSheet.create({
   wrap: { gap: spacing.sm, alignItems: 'flex-start' },
   canvas: { width: '100%', height: PLOT_HEIGHT, borderWidth: 1, borderColor: colors.rule, borderRadius: 6, overflow: 'hidden' },
+  caption: { fontFamily: fonts.medium, fontSize: 13, color: colors.inkSoft },
   legend: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.md },
   legendItem: { flexDirection: 'row', alignItems: 'center', gap: spacing.xs },
   swatch: { width: 14, height: 3, borderRadius: 2 },

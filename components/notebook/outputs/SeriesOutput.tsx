@@ -2,7 +2,7 @@ import { View } from 'react-native';
 import { spacing } from '../../../constants/theme';
 import { CopyableFormula } from '../CopyableFormula';
 import type { SeriesShape } from '../resultShapes';
-import { coefficientText, seriesTex } from '../texFormat';
+import { coefficientLines, coefficientText, seriesTex, seriesText } from '../texFormat';
 import { CoefficientTable } from './CoefficientTable';
 
 function prefactorTex(prefactor: SeriesShape['prefactor']): string {
@@ -12,14 +12,16 @@ function prefactorTex(prefactor: SeriesShape['prefactor']): string {
   return pi || two ? `${two}${pi}\\,` : '';
 }
 
-/** A Laurent series in ε: the typeset sum, and its coefficients with every digit. */
+/** A Laurent series in ε: the typeset sum (breaking across lines where it is long), and its coefficients. */
 export function SeriesOutput({ series, name, fileName, testID }: { series: SeriesShape; name: string; fileName: string; testID?: string }) {
   const prefix = prefactorTex(series.prefactor);
-  const body = seriesTex(series.lowest, series.coeffs);
-  const tex = `${name} = ${prefix ? `${prefix}\\Big[${body}\\Big]` : body}`;
+  const tex = (significant: number) => {
+    const body = seriesTex(series.lowest, series.coeffs, true, significant);
+    return `${name} = ${prefix ? `${prefix}\\Big[${body}\\Big]` : body}`;
+  };
   return (
     <View style={{ gap: spacing.md }} testID={testID}>
-      <CopyableFormula tex={tex} testID={testID ? `${testID}-formula` : undefined} />
+      <CopyableFormula tex={tex} text={seriesText(series.lowest, series.coeffs)} values={coefficientLines(series.coeffs)} testID={testID ? `${testID}-formula` : undefined} />
       <CoefficientTable
         header={['power of ε', 'coefficient']}
         rows={series.coeffs.map((coefficient, k) => [`ε^${series.lowest + k}`, coefficientText(coefficient)])}

@@ -5,7 +5,7 @@ import { ChipButton } from '../ChipButton';
 import { CopyableFormula } from '../CopyableFormula';
 import { monoFont } from '../monoFont';
 import { asPolynomial, asSeries, isObject } from '../resultShapes';
-import { isSymbolic, polynomialTex, seriesTex } from '../texFormat';
+import { coefficientLines, isSymbolic, polynomialTex, polynomialText, seriesTex, seriesText } from '../texFormat';
 import { JsonBlock } from './JsonBlock';
 
 const MAX_DEPTH = 5;
@@ -25,9 +25,9 @@ export function StructuredResult({ value, fileName, depth = 0 }: { value: unknow
   if (depth > MAX_DEPTH) return <JsonBlock value={value} />;
   if (isSymbolic(value)) return <CopyableFormula tex={value.latex} />;
   const series = asSeries(value);
-  if (series) return <CopyableFormula tex={seriesTex(series.lowest, series.coeffs)} />;
+  if (series) return <CopyableFormula tex={(n) => seriesTex(series.lowest, series.coeffs, true, n)} text={seriesText(series.lowest, series.coeffs)} values={coefficientLines(series.coeffs)} />;
   const polynomial = asPolynomial(value);
-  if (polynomial && polynomial.length) return <CopyableFormula tex={polynomialTex(polynomial)} />;
+  if (polynomial && polynomial.length) return <CopyableFormula tex={(n) => polynomialTex(polynomial, n)} text={polynomialText(polynomial)} />;
   if (typeof value === 'string') return <Text selectable style={styles.number}>{value}</Text>;
   if (typeof value === 'number' || typeof value === 'boolean' || value === null) return <Text style={styles.number}>{value === true ? 'yes' : value === false ? 'no' : String(value)}</Text>;
   if (Array.isArray(value)) {
