@@ -3,7 +3,7 @@ import { safeNextPath } from '../../components/sharing/paths';
 import { useMeQuery } from '../../hooks/api/auth';
 
 /** Links from e-mails open whoever is signed in here (a confirmation link signs its owner in itself). */
-const OPEN_WHEN_SIGNED_IN = new Set(['/reset-password', '/verify-email']);
+const OPEN_WHEN_SIGNED_IN = new Set(['/reset-password', '/verify-email', '/confirm-email']);
 
 /** Pages for signed-out people; a signed-in visitor goes straight on (to `next` or the notebooks; e-mailed links still open). */
 export default function AuthLayout() {

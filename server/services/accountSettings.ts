@@ -89,7 +89,7 @@ export function createAccountSettingsService({ dataSource, mailer, sessions, acc
       subject: 'Confirm the new address of your Rungbook account',
       text:
         `Hello ${mailSafe(user.name)},\n\nyou asked to use this address for your Rungbook account instead of ${user.email}. ` +
-        `Open this link within 24 hours to make the change (it works once):\n\n${publicUrl}/account?confirmEmail=${token}\n\n` +
+        `Open this link within 24 hours to make the change (it works once):\n\n${publicUrl}/confirm-email?token=${token}\n\n` +
         `Until then you keep signing in with ${user.email}. If you did not ask for this, ignore this message: nothing changes.\n`,
     };
   }

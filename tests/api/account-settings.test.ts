@@ -14,7 +14,7 @@ const CHROME_ANDROID = 'Mozilla/5.0 (Linux; Android 14; Pixel 8) AppleWebKit/537
 const EDGE_WINDOWS = 'Mozilla/5.0 (Windows NT 10.0; Win64; x64) AppleWebKit/537.36 (KHTML, like Gecko) Chrome/126.0.0.0 Safari/537.36 Edg/126.0.0.0';
 const CHROME_MAC = 'Mozilla/5.0 (Macintosh; Intel Mac OS X 10_15_7) AppleWebKit/537.36 (KHTML, like Gecko) Chrome/126.0.0.0 Safari/537.36';
 
-const CHANGE_LINK = /\/account\?confirmEmail=([A-Za-z0-9_-]+)/;
+const CHANGE_LINK = /\/confirm-email\?token=([A-Za-z0-9_-]+)/;
 
 function changeTokenFrom(text: string): string {
   const match = CHANGE_LINK.exec(text);

@@ -199,9 +199,12 @@ for (const viewport of viewports) {
         // Not changed until the link is opened.
         assert.equal(await page.getByTestId('account-email-current').innerText(), oldEmail);
         const link = await linkFromMail(viewport, newEmail, 'Confirm the new address of your Rungbook account');
-        assert.match(link, /\/account\?confirmEmail=/);
-        await page.goto(link);
-        await page.getByTestId('email-change-confirmed').waitFor();
+        assert.match(link, /\/confirm-email\?token=/);
+        // Opened where nobody is signed in (the other browser was signed out by the password change):
+        // the link alone confirms the address.
+        await otherPage.goto(link);
+        await otherPage.getByTestId('email-change-confirmed').waitFor();
+        await page.reload();
         await page.getByText(newEmail, { exact: true }).first().waitFor();
         await shot('13-account-email-changed');
         await linkFromMail(viewport, oldEmail, 'The address of your Rungbook account has changed');
