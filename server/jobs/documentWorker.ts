@@ -5,7 +5,7 @@ import { createHash } from 'node:crypto';
 import { compareSnapshots, type VersionSnapshot } from '../../shared/notebook/comparison';
 import type { CellComparison } from '../../shared/notebook/api';
 import type { CellInput } from '../../shared/notebook/cells';
-import { notebookDocument, toLatexDocument, type NotebookDocument } from '../../shared/notebook/exports';
+import { notebookDocument, toLatexDocument, type LatexExportOptions, type NotebookDocument } from '../../shared/notebook/exports';
 import type { ErrorCode } from '../../shared/api/errors';
 import { AppError } from '../http/errors';
 import { parseInput } from '../http/validation';
@@ -29,14 +29,14 @@ export function compareVersions({ fromJson, toJson }: { fromJson: string; toJson
 /** A dataset as the LaTeX export is sent it: `rowCount` in place of its points (the document names it and counts its points, nothing more). */
 type CountedDataset = Omit<ExportedDataset, 'points'> & { rowCount: number };
 
-export function latex(documentJson: string): string {
+export function latex({ documentJson, style }: { documentJson: string; style: LatexExportOptions }): string {
   const document = JSON.parse(documentJson) as Omit<NotebookDocument, 'datasets'> & { datasets?: (ExportedDataset | CountedDataset)[] };
   const datasets = document.datasets?.map((dataset) => {
     if ('points' in dataset) return dataset;
     const { rowCount, ...rest } = dataset;
     return { ...rest, points: { x: new Array<string>(rowCount), y: [] } };
   });
-  return toLatexDocument({ ...document, datasets } as NotebookDocument);
+  return toLatexDocument({ ...document, datasets } as NotebookDocument, style);
 }
 
 export function restorable(snapshotJson: string): RestorableSnapshot {

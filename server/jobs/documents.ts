@@ -3,6 +3,7 @@ import { Piscina } from 'piscina';
 import type { CellComparison } from '../../shared/notebook/api';
 import type { DatasetPoints } from '../../shared/notebook/datasets';
 import type { ImportOutcome, ReadDatasetOutcome, ReadDatasetTask, RestorableSnapshot } from './documentWorker';
+import type { LatexExportOptions } from '../../shared/notebook/exports';
 import { AppError } from '../http/errors';
 
 export type { RestorableSnapshot } from './documentWorker';
@@ -14,7 +15,7 @@ export type { RestorableSnapshot } from './documentWorker';
  */
 export interface DocumentRenderer {
   /** The LaTeX file of a notebook document given as JSON text (see shared/notebook/exports.ts; datasets with `rowCount` in place of their points). */
-  latex(documentJson: string, person: string): Promise<string>;
+  latex(documentJson: string, person: string, style?: LatexExportOptions): Promise<string>;
   compare(fromJson: string, toJson: string, person: string): Promise<CellComparison[]>;
   /** A version snapshot's title, summary and cell inputs, without its outputs. */
   restorable(snapshotJson: string, person: string): Promise<RestorableSnapshot>;
@@ -137,7 +138,7 @@ export function createDocumentRenderer(options: DocumentPoolOptions = {}): Docum
   }
 
   return {
-    latex: (documentJson, person) => run<string>(documentJson, 'latex', person),
+    latex: (documentJson, person, style = { exact: true }) => run<string>({ documentJson, style }, 'latex', person),
     compare: (fromJson, toJson, person) => run<CellComparison[]>({ fromJson, toJson }, 'compareVersions', person),
     restorable: (snapshotJson, person) => run<RestorableSnapshot>(snapshotJson, 'restorable', person),
     readDataset: (task, person) => run<ReadDatasetOutcome>(task, 'readDataset', person),

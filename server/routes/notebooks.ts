@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { idParam } from '../../shared/api/schemas';
+import { idParam, latexExportQuery } from '../../shared/api/schemas';
 import {
   createCellInput,
   createNotebookInput,
@@ -64,10 +64,11 @@ export function notebookRoutes({ notebooks, versions, documents }: Services) {
         const document = await versions.exportDocument(user!, params.notebookId);
         return new FileReply('application/json', fileName(document.title, 'json'), document.json);
       } }),
-    route({ method: 'get', path: '/notebooks/:notebookId/export.tex', access: 'signed-in', summary: 'The notebook as a LaTeX document (429 queue_full while the document pool is busy)', params: notebookParams,
-      handler: async ({ user, params }) => {
+    route({ method: 'get', path: '/notebooks/:notebookId/export.tex', access: 'signed-in', summary: 'The notebook as a LaTeX document; ?digits=N rounds numbers, ?exact=false keeps decimals (429 queue_full while the document pool is busy)', params: notebookParams, query: latexExportQuery,
+      handler: async ({ user, params, query }) => {
         const document = await versions.exportDocument(user!, params.notebookId, 'count');
-        return new FileReply('application/x-tex', fileName(document.title, 'tex'), await documents.latex(document.json, user!.id));
+        const style = { digits: query.digits, exact: query.exact !== 'false' };
+        return new FileReply('application/x-tex', fileName(document.title, 'tex'), await documents.latex(document.json, user!.id, style));
       } }),
   ];
 }

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { JOB_LIMITS } from '../jobs/contract/limits';
 
 /** Input schemas shared by the API (validation at the edge) and the app (form checks). */
 
@@ -115,3 +116,10 @@ export interface HealthReport {
   mail: 'fake' | 'smtp';
   version: string;
 }
+
+/** Numbers in the LaTeX export: `digits` significant digits (all computed digits when absent); `exact=false` keeps decimals instead of fractions. */
+export const latexExportQuery = z.strictObject({
+  digits: z.coerce.number().int('Digits must be a whole number').min(3, 'At least 3 digits').max(JOB_LIMITS.maxDigits, `At most ${JOB_LIMITS.maxDigits} digits`).optional(),
+  exact: z.enum(['true', 'false'], 'exact is true or false').optional(),
+});
+export type LatexExportQuery = z.infer<typeof latexExportQuery>;

@@ -131,6 +131,13 @@ describe('notebooks, cells, runs, versions and exports', () => {
     assert.match(tex.text, /^\\documentclass(\[[^\]]*\])?\{article\}/);
     assert.match(tex.text, /\\end\{document\}\s*$/);
     assert.match(String(tex.headers['content-disposition']), /attachment; filename="?Invented-O-1-check\.tex"?/);
+    // Rounded to 6 significant digits on request: no number keeps a 7th digit (the full export has longer ones).
+    const longNumber = /\d\.\d{7,}|\d{8,}/;
+    const rounded = await owner.get(`/api/notebooks/${notebook.id}/export.tex?digits=6&exact=false`).expect(200);
+    assert.doesNotMatch(rounded.text.replace(/\\(?:begin|end)\{[^}]*\}/g, ''), longNumber);
+    if (longNumber.test(tex.text)) assert.notEqual(rounded.text, tex.text);
+    const tooFew = await owner.get(`/api/notebooks/${notebook.id}/export.tex?digits=2`).expect(400);
+    assert.match(Object.values(tooFew.body.error.fields ?? {}).join(' ') + tooFew.body.error.message, /At least 3 digits/);
   });
 
   test('outsiders can neither read, edit nor run the notebook', async () => {
