@@ -1,14 +1,14 @@
 import 'reflect-metadata';
-import { pino } from 'pino';
 import { startRungbook } from './boot';
 import { ConfigError, loadConfig } from './config';
+import { processLogger } from './jobs/logging';
 import { demoPeople } from './seed/demo';
 
 async function main() {
   const config = loadConfigOrExit();
-  const logger = pino({ level: config.logLevel });
+  const logger = processLogger(config.logLevel, 'server');
   const rungbook = await startRungbook(config, logger, { listen: true });
-  logger.info({ databasePath: config.databasePath, port: rungbook.port, demoDataCreated: rungbook.demoDataCreated }, 'started');
+  logger.info({ databasePath: config.databaseUrl ? undefined : config.databasePath, jobs: config.jobQueueUrl ? 'queue' : 'in-process', port: rungbook.port, demoDataCreated: rungbook.demoDataCreated }, 'started');
   printWelcome(config.publicUrl, config.seedDemoData && config.localOnly, config.mail.startFake && config.localOnly);
 
   let stopping = false;

@@ -1,4 +1,4 @@
-import { rateLimit, ipKeyGenerator } from 'express-rate-limit';
+import { rateLimit, ipKeyGenerator, type Store } from 'express-rate-limit';
 import type { Request, RequestHandler } from 'express';
 import { addMemberInput, resendVerificationInput, signInInput, verifyEmailInput } from '../../shared/api/schemas';
 import type { KnownDevices } from '../auth/knownDevices';
@@ -18,6 +18,21 @@ export const SIGN_IN_DELAY_AT_CAP_MS = 1000;
 export const CONFIRMATION_MAILS_PER_ADDRESS_PER_HOUR = 5;
 
 const CAP_REACHED = 'signInCapReached';
+
+let sharedStores: ((prefix: string) => Store) | null = null;
+
+/**
+ * With several server processes, counters must be shared (e.g. a Redis store): limiters created after
+ * this call count in stores from `factory` (one per limiter, by prefix); null returns to in-memory counting.
+ */
+export function useSharedLimitStores(factory: ((prefix: string) => Store) | null): void {
+  sharedStores = factory;
+}
+
+/** The store a limiter named `name` counts in: shared when configured, else undefined (express-rate-limit's memory store). */
+export function limitStore(name: string): Store | undefined {
+  return sharedStores?.(`rungbook:limit:${name}:`);
+}
 
 function refuse(message: string): RequestHandler {
   return (_req, _res, next) => next(new AppError('rate_limited', message));
@@ -40,8 +55,9 @@ function inSequence(...handlers: RequestHandler[]): RequestHandler {
   };
 }
 
-function perSource(limit: number, message: string): RequestHandler {
+function perSource(name: string, limit: number, message: string): RequestHandler {
   return rateLimit({
+    store: limitStore(name),
     windowMs: FIFTEEN_MINUTES,
     limit,
     standardHeaders: 'draft-8',
@@ -71,6 +87,7 @@ export function signInLimiters(limits: SignInLimits, knownDevices: KnownDevices)
   // A shared network address (campus NAT) must not let one stranger lock everyone out: successes do not
   // count, and a browser that has signed in to the named account before is not counted per address.
   const perIp = rateLimit({
+    store: limitStore('sign-in-per-source'),
     windowMs: FIFTEEN_MINUTES,
     limit: limits.perIpPer15Min,
     standardHeaders: 'draft-8',
@@ -82,6 +99,7 @@ export function signInLimiters(limits: SignInLimits, knownDevices: KnownDevices)
   });
   // Failures count per (account, source): a known device of the account, else the network address.
   const perAccountAndSource = rateLimit({
+    store: limitStore('sign-in-per-account-and-source'),
     windowMs: FIFTEEN_MINUTES,
     limit: limits.perAccountPer15Min,
     standardHeaders: false,
@@ -98,6 +116,7 @@ export function signInLimiters(limits: SignInLimits, knownDevices: KnownDevices)
   // checked (so no stranger can lock the owner out), but slowly, and a wrong one is refused and counted:
   // see checkAtAccountCap. The account's known devices are neither slowed nor counted.
   const perAccountFromAnywhere = rateLimit({
+    store: limitStore('sign-in-per-account'),
     windowMs: ONE_HOUR,
     limit: limits.failedPerAccountPerHour ?? FAILED_SIGNINS_PER_ACCOUNT_PER_HOUR,
     standardHeaders: false,
@@ -149,10 +168,11 @@ export interface AuthRequestLimiters {
 
 export function authRequestLimiters(limits: ServerConfig['authLimits']): AuthRequestLimiters {
   return {
-    signUp: perSource(limits.signUpPerIpPer15Min, 'Too many sign-ups from this network. Wait a few minutes.'),
-    forgot: perSource(limits.forgotPerIpPer15Min, 'Too many reset requests. Wait a few minutes.'),
-    reset: perSource(limits.resetPerIpPer15Min, 'Too many password-reset attempts from this network. Wait a few minutes.'),
+    signUp: perSource('sign-up', limits.signUpPerIpPer15Min, 'Too many sign-ups from this network. Wait a few minutes.'),
+    forgot: perSource('forgot', limits.forgotPerIpPer15Min, 'Too many reset requests. Wait a few minutes.'),
+    reset: perSource('reset', limits.resetPerIpPer15Min, 'Too many password-reset attempts from this network. Wait a few minutes.'),
     verify: rateLimit({
+      store: limitStore('verify'),
       windowMs: FIFTEEN_MINUTES,
       limit: limits.resetPerIpPer15Min,
       standardHeaders: 'draft-8',
@@ -163,8 +183,9 @@ export function authRequestLimiters(limits: ServerConfig['authLimits']): AuthReq
       handler: (req, res, next) => refuse('Too many failed confirmations from this network. Wait a few minutes.')(req, res, next),
     }),
     resendVerification: inSequence(
-      perSource(limits.forgotPerIpPer15Min, 'Too many confirmation e-mails asked for from this network. Wait a few minutes.'),
+      perSource('resend-per-source', limits.forgotPerIpPer15Min, 'Too many confirmation e-mails asked for from this network. Wait a few minutes.'),
       rateLimit({
+        store: limitStore('resend-per-address'),
         windowMs: ONE_HOUR,
         limit: CONFIRMATION_MAILS_PER_ADDRESS_PER_HOUR,
         standardHeaders: 'draft-8',
@@ -176,6 +197,7 @@ export function authRequestLimiters(limits: ServerConfig['authLimits']): AuthReq
       }),
     ),
     groupAdds: rateLimit({
+      store: limitStore('group-adds'),
       windowMs: ONE_HOUR,
       limit: limits.groupAddsPerUserPerHour,
       standardHeaders: 'draft-8',

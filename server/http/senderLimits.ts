@@ -1,6 +1,7 @@
 import { ipKeyGenerator, MemoryStore, rateLimit, type Options, type Store } from 'express-rate-limit';
 import type { Request, RequestHandler } from 'express';
 import { AppError } from './errors';
+import { limitStore } from './rateLimits';
 
 const ONE_HOUR = 60 * 60 * 1000;
 const FIFTEEN_MINUTES = 15 * 60 * 1000;
@@ -18,7 +19,7 @@ export interface SenderLimit {
 }
 
 /** `name` says what is counted, in the plural, e.g. "invitation e-mails". */
-export function senderLimit(limitPerHour: number, name: string, store: Store = new MemoryStore()): SenderLimit {
+export function senderLimit(limitPerHour: number, name: string, store: Store = limitStore(`sender-${name.replace(/\W+/g, '-')}`) ?? new MemoryStore()): SenderLimit {
   void store.init?.({ windowMs: ONE_HOUR } as Options);
   const key = (userId: string) => `sender:${userId}`;
 
@@ -43,6 +44,7 @@ export function senderLimit(limitPerHour: number, name: string, store: Store = n
 /** Mount on /shared: every request through a share link counts against its source address (slows anyone guessing tokens; SHARED_LINK_LIMIT_PER_IP). */
 export function sharedLinkOpenLimiter(limit: number): RequestHandler {
   return rateLimit({
+    store: limitStore('shared-link-opens'),
     windowMs: FIFTEEN_MINUTES,
     limit,
     standardHeaders: 'draft-8',

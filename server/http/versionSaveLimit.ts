@@ -1,6 +1,7 @@
 import { rateLimit } from 'express-rate-limit';
 import type { Request, RequestHandler } from 'express';
 import { AppError } from './errors';
+import { limitStore } from './rateLimits';
 
 const ONE_HOUR = 60 * 60 * 1000;
 
@@ -11,6 +12,7 @@ const ONE_HOUR = 60 * 60 * 1000;
 export function versionSaveLimiter(limit: number): RequestHandler {
   const userId = (req: Request) => (req.res?.locals.user as { id?: string } | null | undefined)?.id;
   return rateLimit({
+    store: limitStore('version-saves'),
     windowMs: ONE_HOUR,
     limit,
     standardHeaders: 'draft-8',

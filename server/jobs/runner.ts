@@ -7,6 +7,8 @@ export interface RunHooks {
   /** Called when a worker actually starts the job (after any wait in the queue or for a worker to boot). */
   onStarted?: () => void;
   onProgress?: (fraction: number) => void;
+  /** The run's id: a shared queue names its job by it, so any server can cancel the run. */
+  runId?: string;
 }
 
 /** Where engine jobs execute. One small interface, so another runner (a queue, a cluster) can replace the pool. */
@@ -17,6 +19,9 @@ export interface JobRunner {
 }
 
 export class RunAborted extends Error {}
+
+/** No worker of a shared queue took the job within the queue-wait limit; it was taken out of the queue. */
+export class QueueWaitExceeded extends RunAborted {}
 
 /**
  * The run service's fair queue (scheduler.ts) hands the pool at most `threads` jobs at a time, so the order

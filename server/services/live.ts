@@ -63,6 +63,15 @@ export interface LiveDeps {
   limits?: Partial<LiveLimits>;
 }
 
+/**
+ * What one server process's hub tells the others when several serve the same notebooks: its presenter
+ * changes, the people watching each notebook through its own streams, and a request to repeat both.
+ */
+export type LiveRelayMessage =
+  | { type: 'presenter'; notebookId: string; presenter: PresenterState | null }
+  | { type: 'presence'; notebookId: string; viewers: ViewerPresence[] }
+  | { type: 'sync' };
+
 const COMMENT_KINDS = new Set(['comment-added', 'comment-edited', 'comment-deleted', 'comment-resolved', 'comment-reopened']);
 
 /**
@@ -79,21 +88,42 @@ export function createLiveHub(deps: LiveDeps) {
   const perAddress = new Map<string, number>();
   let total = 0;
   let heartbeat: NodeJS.Timeout | null = null;
+  // Other server processes' watchers by notebook and process, refreshed at their heartbeats; a process
+  // that stopped refreshing (it died) drops out after a few heartbeats.
+  const remoteViewers = new Map<string, Map<string, { viewers: ViewerPresence[]; at: number }>>();
+  const remoteTtlMs = () => 3 * limits.heartbeatMs;
+  let relay: ((message: LiveRelayMessage) => void) | null = null;
 
   const watchersOf = (notebookId: string) => [...(watching.get(notebookId) ?? [])].filter((w) => w.stream && !w.stream.closed);
   const send = (watcher: Watcher, event: LiveEvent) => watcher.stream?.send(event.type, event);
   const broadcast = (notebookId: string, event: LiveEvent) => watchersOf(notebookId).forEach((w) => send(w, event));
 
-  function viewersOf(notebookId: string): ViewerPresence[] {
+  function localViewersOf(notebookId: string): ViewerPresence[] {
     const people = new Map<string, ViewerPresence>();
-    const presenter = presenters.get(notebookId);
     for (const { viewer } of watchersOf(notebookId)) {
-      if (viewer && !people.has(viewer.id)) people.set(viewer.id, { userId: viewer.id, name: viewer.name, presenting: presenter?.userId === viewer.id });
+      if (viewer && !people.has(viewer.id)) people.set(viewer.id, { userId: viewer.id, name: viewer.name, presenting: false });
     }
     return [...people.values()];
   }
 
-  const isWatching = (notebookId: string, userId: string) => watchersOf(notebookId).some((w) => w.viewer?.id === userId);
+  function remoteViewersOf(notebookId: string): ViewerPresence[] {
+    const fresh = Date.now() - remoteTtlMs();
+    return [...(remoteViewers.get(notebookId)?.values() ?? [])].filter((entry) => entry.at >= fresh).flatMap((entry) => entry.viewers);
+  }
+
+  /** Everyone watching the notebook through any server process. */
+  function viewersOf(notebookId: string): ViewerPresence[] {
+    const people = new Map<string, ViewerPresence>();
+    const presenter = presenters.get(notebookId);
+    for (const viewer of [...localViewersOf(notebookId), ...remoteViewersOf(notebookId)]) {
+      if (!people.has(viewer.userId)) people.set(viewer.userId, { ...viewer, presenting: presenter?.userId === viewer.userId });
+    }
+    return [...people.values()];
+  }
+
+  const isWatching = (notebookId: string, userId: string) => viewersOf(notebookId).some((viewer) => viewer.userId === userId);
+
+  const relayPresence = (notebookId: string) => relay?.({ type: 'presence', notebookId, viewers: localViewersOf(notebookId) });
 
   function count(map: Map<string, number>, key: string, step: number) {
     const next = (map.get(key) ?? 0) + step;
@@ -132,7 +162,8 @@ export function createLiveHub(deps: LiveDeps) {
   function startHeartbeat() {
     if (heartbeat) return;
     heartbeat = setInterval(() => {
-      for (const set of watching.values()) {
+      for (const [notebookId, set] of watching) {
+        relayPresence(notebookId);
         for (const watcher of set) {
           watcher.stream?.comment('ping');
           checkStillAdmitted(watcher);
@@ -160,6 +191,7 @@ export function createLiveHub(deps: LiveDeps) {
     // link holders may follow a presenter but are not told who else is looking
     const viewers = watcher.viewer ? viewersOf(watcher.notebookId) : [];
     send(watcher, { type: 'hello', role: watcher.role, viewers, presenter: presenters.get(watcher.notebookId) ?? null });
+    relayPresence(watcher.notebookId);
     if (!wasWatching) broadcastPresence(watcher.notebookId, watcher);
   }
 
@@ -174,6 +206,7 @@ export function createLiveHub(deps: LiveDeps) {
     if (!set.size) watching.delete(watcher.notebookId);
     release(watcher);
     stopHeartbeatWhenIdle();
+    relayPresence(watcher.notebookId);
     const userId = watcher.viewer?.id;
     if (!userId || isWatching(watcher.notebookId, userId)) return;
     // the presenter's state lives as long as one of their pages on the notebook is open
@@ -184,6 +217,29 @@ export function createLiveHub(deps: LiveDeps) {
   function endPresentation(notebookId: string) {
     if (!presenters.delete(notebookId)) return;
     broadcast(notebookId, { type: 'presenter', presenter: null });
+    relay?.({ type: 'presenter', notebookId, presenter: null });
+  }
+
+  /** A message from the hub of another server process (`origin` names that process). */
+  function receive(origin: string, message: LiveRelayMessage) {
+    if (message.type === 'sync') {
+      for (const notebookId of watching.keys()) relayPresence(notebookId);
+      for (const [notebookId, presenter] of presenters) relay?.({ type: 'presenter', notebookId, presenter });
+      return;
+    }
+    if (message.type === 'presence') {
+      let byOrigin = remoteViewers.get(message.notebookId);
+      if (!byOrigin) remoteViewers.set(message.notebookId, (byOrigin = new Map()));
+      if (message.viewers.length) byOrigin.set(origin, { viewers: message.viewers, at: Date.now() });
+      else byOrigin.delete(origin);
+      if (!byOrigin.size) remoteViewers.delete(message.notebookId);
+      broadcastPresence(message.notebookId);
+      return;
+    }
+    if (message.presenter) presenters.set(message.notebookId, message.presenter);
+    else if (!presenters.delete(message.notebookId)) return;
+    broadcast(message.notebookId, { type: 'presenter', presenter: message.presenter });
+    broadcastPresence(message.notebookId);
   }
 
   function onChange(change: NotebookChange) {
@@ -292,6 +348,7 @@ export function createLiveHub(deps: LiveDeps) {
       const state: PresenterState = { userId: viewer.id, name: viewer.name, cellId, since: takesOver ? new Date().toISOString() : current!.since };
       presenters.set(notebookId, state);
       broadcast(notebookId, { type: 'presenter', presenter: state });
+      relay?.({ type: 'presenter', notebookId, presenter: state });
       if (takesOver) broadcastPresence(notebookId);
       return state;
     },
@@ -309,6 +366,14 @@ export function createLiveHub(deps: LiveDeps) {
     presenter: (notebookId: string): PresenterState | null => presenters.get(notebookId) ?? null,
     /** Streams open now (for health and tests). */
     openStreams: () => total,
+
+    /** Tells other server processes (through `send`) what they need to know, and asks them to do the same. */
+    relayTo(send: (message: LiveRelayMessage) => void): void {
+      relay = send;
+      send({ type: 'sync' });
+    },
+    /** A message relayed from another server process. */
+    deliver: receive,
 
     /** End every stream (server shutdown); clients reconnect to the next server. */
     closeAll() {

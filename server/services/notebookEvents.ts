@@ -18,19 +18,36 @@ export interface NotebookChange {
 /** Whose access may have changed: everyone on one notebook, or one person everywhere (e.g. left a group). */
 export type AccessChange = { notebookId: string } | { userId: string };
 
+/** A change as it travels between server processes (see relayTo). */
+export type RelayedEvent = { type: 'change'; change: NotebookChange } | { type: 'access'; change: AccessChange };
+
 /**
- * In-process fan-out of notebook changes and access changes to the live streams. Writers record the
- * change in their transaction (recordNotebookChange) and publish it after commit.
+ * Fan-out of notebook changes and access changes to the live streams. Writers record the change in their
+ * transaction (recordNotebookChange) and publish it after commit. With several server processes a relay
+ * (Redis pub/sub) carries what is published here to the others, which `deliver` it to their own listeners.
  */
 export function createNotebookEventBus() {
   const emitter = new EventEmitter();
   emitter.setMaxListeners(0);
+  const relays = new Set<(event: RelayedEvent) => void>();
+  const forward = (event: RelayedEvent) => relays.forEach((send) => send(event));
   return {
     publish(change: NotebookChange): void {
       emitter.emit('change', change);
+      forward({ type: 'change', change });
     },
     accessChanged(change: AccessChange): void {
       emitter.emit('access', change);
+      forward({ type: 'access', change });
+    },
+    /** An event published by another server process: told to this process's listeners only. */
+    deliver(event: RelayedEvent): void {
+      emitter.emit(event.type, event.change);
+    },
+    /** Sends every event published here to `send` as well; returns the function that stops it. */
+    relayTo(send: (event: RelayedEvent) => void): () => void {
+      relays.add(send);
+      return () => relays.delete(send);
     },
     onChange(listener: (change: NotebookChange) => void): () => void {
       emitter.on('change', listener);
