@@ -4,6 +4,7 @@ import { exponentSeriesPartial, powerCoefficients, type Quantity } from '../engi
 import { type Crossover, crossoverFor } from '../engine/exponents/shortRange';
 import { findFixedPoints } from '../engine/fixedpoints/fixedPoints';
 import { checkPropagatorPower } from '../engine/flows/flow';
+import { omittedFixedPoints } from '../engine/flows/family';
 import { type ModelSpec } from '../engine/models/model';
 import { EngineError, fail } from '../engine/precision/errors';
 import { type Real, GUARD_DIGITS, rationalToReal, realContext, toExactRational } from '../engine/precision/real';
@@ -244,9 +245,9 @@ function seriesEvaluator(context: EvaluatorContext): (sValues: Q[]) => SeriesAt[
   const grid = { d, shortRangeS, crossover, quantities: [quantity], digits: job.digits, onProgress, keepCoefficients: true };
   const toVariants = (p: ScanPoint & { fixedPoint?: string | null; note?: string }): SeriesAt => atPoint(p, context);
   if (model.couplings.length > 1) {
-    return (sValues) => scanFlow({ ...grid, model, flow, sValues, choose: (candidates) => chooseFixedPoint(candidates, job.fixedPoint, false) }).map(toVariants);
+    return (sValues) => scanFlow({ ...grid, model, flow, sValues, choose: (candidates) => chooseFixedPoint(candidates, job.fixedPoint, false, omittedFixedPoints(flow)) }).map(toVariants);
   }
-  const point = chooseFixedPoint(findFixedPoints(model, flow, { eps: null }), job.fixedPoint, true);
+  const point = chooseFixedPoint(findFixedPoints(model, flow, { eps: null }), job.fixedPoint, true, omittedFixedPoints(flow));
   const { series, unavailable } = exponentSeriesPartial(flow, point);
   if (unavailable[quantity]) fail('not-representable', unavailable[quantity] as string);
   const compiled = (k: Quantity) => ({ coefficients: powerCoefficients(series[k] as LaurentSeries<Expression>) });

@@ -15,7 +15,7 @@ import { type CouplingPolynomial } from '../engine/models/couplingPolynomial';
 import { customModel } from '../engine/models/custom';
 import { type ModelSpec } from '../engine/models/model';
 import { cubicFamily, onFamily, presetModel } from '../engine/models/presets';
-import { type PoleSource } from '../engine/flows/family';
+import { type OmittedPoint, type PoleSource, omittedFixedPoints } from '../engine/flows/family';
 import { EngineError, fail } from '../engine/precision/errors';
 import { type Real, realContext, toExactRational } from '../engine/precision/real';
 import { type ExternalPoint, type ScanPoint, meanFieldEnd, padeFields, scanSeries } from '../engine/scans/scan';
@@ -326,10 +326,16 @@ export function decimalText(x: Q, digits: number): string {
  * possibly one that is complex there or whose stability is undecided; with a physical ε that choice
  * is added to the point's caveats.
  */
-export function chooseFixedPoint<C>(points: FixedPoint<C>[], name: string | undefined, symbolic: boolean): FixedPoint<C> {
+/**
+ * The fixed point a job follows: the named one, else the IR-stable one. `omitted` are the points left out at
+ * this N because their ε-series have a pole there (see omittedFixedPoints); asking for one names the pole.
+ */
+export function chooseFixedPoint<C>(points: FixedPoint<C>[], name: string | undefined, symbolic: boolean, omitted: readonly OmittedPoint[] = []): FixedPoint<C> {
   if (name !== undefined) {
     const byBase = points.filter((p) => baseName(p.name) === name);
     const found = points.find((p) => p.name === name) ?? (byBase.length === 1 ? byBase[0] : undefined);
+    const poleAtN = omitted.find((o) => o.point === name);
+    if (!found && poleAtN) fail('domain', poleAtN.message);
     if (!found) fail('invalid', `no fixed point named ${JSON.stringify(name)}; available: ${points.map((p) => p.name).join(', ')}`);
     return found;
   }
@@ -339,6 +345,7 @@ export function chooseFixedPoint<C>(points: FixedPoint<C>[], name: string | unde
   const leadingSign = (e: LaurentSeries<C>) => sign(e.coefficients().slice(1).find((c) => sign(c) !== 0) ?? e.coefficient(0));
   const stableByLeadingOrder = (p: FixedPoint<C>) => (p.stable !== false || p.status === 'complex') && !!p.eigenvalueSeries && p.eigenvalueSeries.every((e) => e !== null && leadingSign(e) > 0);
   const stable = candidates.find((p) => p.stable === true && p.status !== 'complex') ?? candidates.find(stableByLeadingOrder);
+  if (!stable && !candidates.length && omitted.length) fail('domain', omitted.map((o) => o.message).join('; '));
   if (!stable) {
     const names = candidates.map((p) => p.name).join(', ');
     fail('not-representable', symbolic ? `which fixed point is IR-stable depends on the symbolic parameters; name one with "fixedPoint" (${names}) or give N and s as numbers` : `no IR-stable non-Gaussian fixed point; name one with "fixedPoint" (${names})`);
@@ -403,7 +410,7 @@ function runExponents(job: z.infer<typeof ExponentsJob>) {
   }
   // series only: no physical ε, or symbolic N or s
   const flow = any.flow as DerivedFlow<unknown>;
-  const point = chooseFixedPoint(findFixedPoints(model, flow, { eps: null }), job.fixedPoint, any.mode !== 'numeric');
+  const point = chooseFixedPoint(findFixedPoints(model, flow, { eps: null }), job.fixedPoint, any.mode !== 'numeric', omittedFixedPoints(flow));
   const fieldGamma = flow.gammaPhiMatrix ? fieldGammaOf(fieldAnomalousSpectrum(flow, point), point.name) : undefined;
   const { series, unavailable } = exponentSeriesPartial(flow, point, singletAtPoint(any, point, s, model), fieldGamma);
   const quadratic = quadraticOf(point);
@@ -426,7 +433,7 @@ function runExponents(job: z.infer<typeof ExponentsJob>) {
  */
 function exponentsAtS(any: Extract<AnyFlow, { mode: 'numeric' }>, model: ModelSpec, fixedPoint: string | undefined, at: PhysicalPoint, digits: number) {
   const e = any.flow.calculus.ctx.ring.fromRational(at.eps.num, at.eps.den);
-  const point = chooseFixedPoint(findFixedPoints(model, any.flow, { eps: e }), fixedPoint, false);
+  const point = chooseFixedPoint(findFixedPoints(model, any.flow, { eps: e }), fixedPoint, false, omittedFixedPoints(any.flow));
   return { point, at: exponentsAtPoint(any.flow, point, at, digits, singletAtPoint(any, point, at.s, model)) };
 }
 
@@ -477,7 +484,7 @@ function runScan(job: z.infer<typeof ScanJob>, hooks: JobHooks) {
   const grid = { d, sValues, quantities: job.quantities, digits: job.digits, shortRangeS, crossover, onProgress, shortRangePoint };
   if (model.couplings.length > 1) {
     // several couplings: fixed points solved numerically at each ε (flow derived once in s)
-    const points = scanFlow({ ...grid, model, flow, choose: (candidates) => chooseFixedPoint(candidates, job.fixedPoint, false) });
+    const points = scanFlow({ ...grid, model, flow, choose: (candidates) => chooseFixedPoint(candidates, job.fixedPoint, false, omittedFixedPoints(flow)) });
     const used = points.find((p) => p.fixedPoint !== null && p.regime === 'long-range')?.fixedPoint ?? points.find((p) => p.fixedPoint !== null)?.fixedPoint ?? null;
     return {
       notices: scanNotices(points, job.digits),
@@ -488,7 +495,7 @@ function runScan(job: z.infer<typeof ScanJob>, hooks: JobHooks) {
       points: points.map((p) => ({ ...pointText(p), fixedPoint: p.fixedPoint, ...(p.note ? { note: p.note } : {}) })),
     };
   }
-  const point = chooseFixedPoint(findFixedPoints(model, flow, { eps: null }), job.fixedPoint, true);
+  const point = chooseFixedPoint(findFixedPoints(model, flow, { eps: null }), job.fixedPoint, true, omittedFixedPoints(flow));
   const { series } = exponentSeriesPartial(flow, point);
   const compiled = (k: Quantity) => (series[k] ? { coefficients: powerCoefficients(series[k] as LaurentSeries<Expression>) } : { coefficients: [] });
   const primaries = { nuInv: series.nuInv ? compiled('nuInv') : null, omega: compiled('omega'), eta: compiled('eta') };

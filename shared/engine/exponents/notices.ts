@@ -39,14 +39,20 @@ export function fixedPointNotices<C>(point: FixedPoint<C>, atEps: boolean): Noti
   return notices;
 }
 
-/** Regime notices of a result at one (d, s): the crossover to short range, the Gaussian regime, d = 2s. */
+/** Regime notices of a result at one (d, s): the short-range theory at s = 2, the crossover to short range, the Gaussian regime, d = 2s. */
 export function regimeNotices(d: Q, s: Q, crossover: Crossover | null): Notice[] {
   const twoS = qMul(q(2), s);
   const atUpper = qCompare(d, twoS) === 0;
   if (atUpper) return [upperCriticalNotice(d)];
   if (qCompare(d, twoS) > 0) return [meanFieldNotice(d, s)];
-  if (crossover && qCompare(s, crossover.sStar) >= 0 && qCompare(s, q(2)) < 0) return [beyondCrossoverNotice(s, crossover)];
+  if (qCompare(s, q(2)) >= 0) return [shortRangeFlowNotice()];
+  if (crossover && qCompare(s, crossover.sStar) >= 0) return [beyondCrossoverNotice(s, crossover)];
   return [];
+}
+
+/** s = 2: the local theory and its own flow (the same kind and words in an exponents result and at a scan's s = 2 point). */
+export function shortRangeFlowNotice(): Notice {
+  return { kind: 'short-range-flow', message: 's = 2 is the short-range (local) theory: its point uses the flow derived at s = 2 (with field renormalization, Δ_{φ³} = Δ_φ + 2), not the long-range series.' };
 }
 
 export function upperCriticalNotice(d: Q): Notice {
@@ -80,7 +86,7 @@ export function scanRegimeNotices(d: Q, s: Q, crossover: Crossover | null): Noti
   const twoS = qMul(q(2), s);
   if (qCompare(d, twoS) === 0) return [upperCriticalNotice(d)];
   if (qCompare(d, twoS) > 0) return [{ kind: 'mean-field', message: `s < d/2 = ${text(qMul(d, q(1, 2)))}: Gaussian regime. The mean-field exponents are exact; hyperscaling (α = 2 − dν, β = νΔ_φ) does not hold there.` }];
-  if (qCompare(s, q(2)) >= 0) return [{ kind: 'short-range-flow', message: 's = 2 is the short-range (local) theory: its point uses the flow derived at s = 2 (with field renormalization, Δ_{φ³} = Δ_φ + 2), not the long-range series.' }];
+  if (qCompare(s, q(2)) >= 0) return [shortRangeFlowNotice()];
   if (crossover && qCompare(s, crossover.sStar) >= 0) {
     return [{ kind: 'beyond-s-star', message: `s ≥ s* = ${text(crossover.sStar)} (${crossover.source}): beyond the crossover the short-range fixed point governs the critical behaviour, so the long-range values there do not describe it.` }];
   }

@@ -85,12 +85,36 @@ export function complexRootNear(flow: DerivedFlow<Real>, seriesAt: (eps: number)
   }
   for (const seed of seeds) {
     const root = polishComplexRoot(flow, seed, eps);
-    if (!root) continue;
-    const first = root.find((z) => Math.abs(num(z.im)) > 1e-20 * (1 + c.abs(z)));
-    if (!first) continue;
-    return num(first.im) > 0 ? root : root.map((z) => c.of(z.re, ring.neg(z.im)));
+    const upper = root ? withPositiveImaginary(flow, root) : null;
+    if (upper) return upper;
   }
   return null;
+}
+
+/** The member of a conjugate pair with positive imaginary part of its first non-real coupling; null for a real root. */
+function withPositiveImaginary(flow: DerivedFlow<Real>, root: ComplexReal[]): ComplexReal[] | null {
+  const { ring } = flow.calculus.ctx;
+  const c = complexOps(ring);
+  const first = root.find((z) => Math.abs(num(z.im)) > 1e-20 * (1 + c.abs(z)));
+  if (!first) return null;
+  return num(first.im) > 0 ? root : root.map((z) => c.of(z.re, ring.neg(z.im)));
+}
+
+/**
+ * The root of the truncated β at ε that belongs to the branch of a real ε-series (several couplings):
+ * its real root at a small ε continued along a path through complex ε, which passes beside every
+ * crossing and fold on the real axis, polished in full precision. Real (`complex` null) or one of a
+ * conjugate pair; null when the continuation or the polish fails.
+ */
+export function trackedBranchRoot(flow: DerivedFlow<Real>, seriesAt: (eps: number) => number[], eps: Real): { real: Real[] | null; complex: ComplexReal[] | null } | null {
+  const c = complexOps(flow.calculus.ctx.ring);
+  const tracked = trackInComplexEps(flow, seriesAt, num(eps));
+  const root = tracked ? polishComplexRoot(flow, tracked.map((z) => c.fromDouble(z)), eps) : null;
+  if (!root) return null;
+  // a real root polishes to an imaginary part at rounding level; half the working digits separate the two
+  const real = root.every((z) => Math.abs(num(z.im)) <= 10 ** -Math.floor(flow.calculus.digits / 2) * (1 + c.abs(z)));
+  const complex = real ? null : withPositiveImaginary(flow, root);
+  return complex ? { real: null, complex } : { real: root.map((z) => z.re), complex: null };
 }
 
 
@@ -130,23 +154,32 @@ function newtonDouble(system: ReturnType<typeof doubleSystem>, start: Complex[],
   return null;
 }
 
-/** Continue the real branch of the ε-series from a small ε to the physical ε through complex ε. */
+/**
+ * Continue the real branch of the ε-series from a small ε to the physical ε through complex ε: Euler
+ * predictor along dg/dε = J⁻¹g (from ∂β/∂ε = −g), Newton corrector, a step accepted only when the
+ * correction is small against the predicted move — so the path cannot slip onto a neighbouring root
+ * where two branches come close (a crossing near the physical ε).
+ */
 function trackInComplexEps(flow: DerivedFlow<Real>, seriesAt: (eps: number) => number[], eps: number): Complex[] | null {
   const system = doubleSystem(flow);
+  const size = (v: Complex[]) => Math.max(...v.map(cabs));
   for (let j = 2; j <= 12; j++) {
     const eps0 = eps / 2 ** j;
     const guess = seriesAt(eps0);
-    const size = Math.max(...guess.map(Math.abs));
     const real = newtonDouble(system, guess.map((x) => ({ re: x, im: 0 })), { re: eps0, im: 0 }, 50);
-    if (!real || real.some((z, i) => Math.abs(z.re - guess[i]) > 0.25 * size)) continue;
+    if (!real || real.some((z, i) => Math.abs(z.re - guess[i]) > 0.25 * Math.max(...guess.map(Math.abs)))) continue;
     let g = real;
     let t = 0;
     let dt = 1 / 64;
     const at = (u: number): Complex => ({ re: eps0 + (eps - eps0) * u, im: 0.5 * (eps - eps0) * u * (1 - u) });
-    while (t < 1 && dt > 1e-6) {
+    while (t < 1 && dt > 1e-7) {
       const next = Math.min(1, t + dt);
-      const moved = newtonDouble(system, g, at(next), 12);
-      if (moved && Math.max(...moved.map((z, i) => cabs(csub(z, g[i])))) < 0.2 * (1e-300 + Math.max(...g.map(cabs)))) {
+      const tangent = solveComplex(system(g, at(t)).jac, g);
+      const step = csub(at(next), at(t));
+      const predicted = tangent ? g.map((x, i) => cadd(x, cmul(tangent[i], step))) : g;
+      const moved = newtonDouble(system, predicted, at(next), 12);
+      const move = size(predicted.map((x, i) => csub(x, g[i])));
+      if (moved && size(moved.map((z, i) => csub(z, predicted[i]))) <= 0.1 * move + 1e-13 * size(g)) {
         g = moved;
         t = next;
         dt = Math.min(dt * 1.5, 1 / 16);

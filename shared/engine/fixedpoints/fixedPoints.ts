@@ -1,11 +1,11 @@
 import { type DerivedFlow } from '../diagrams';
-import { betaAt, stabilityMatrixAt } from '../flows';
+import { betaAt, omittedFixedPoints, stabilityMatrixAt } from '../flows';
 import { type Complex, type ComplexReal, complexOps, eigenvaluesFullPrecision, solveLinear } from '../linalg';
 import { type ModelSpec } from '../models';
 import { type Real, fail } from '../precision';
 import { type LaurentSeries } from '../series';
 import { type Branch, type FlowPieces, couplingBranches, flowPieces } from './branches';
-import { complexRootNear, complexStabilityMatrix, polishComplexRoot } from './complexRoots';
+import { complexRootNear, complexStabilityMatrix, polishComplexRoot, trackedBranchRoot } from './complexRoots';
 import { eigenvalueSeries, stabilitySeriesMatrices } from './eigenvalueSeries';
 import { newtonSolve } from './newton';
 import { type OneLoopRoot, oneLoopRootsFactored, oneLoopRootsNumeric, oneLoopRootsSingle } from './oneLoop';
@@ -59,6 +59,7 @@ function oneLoopRoots<C>(flow: DerivedFlow<C>): OneLoopRoot<C>[] {
 export function findFixedPoints<C>(spec: ModelSpec, flow: DerivedFlow<C>, options: FixedPointOptions<C>): FixedPoint<C>[] {
   const pieces = flowPieces(flow);
   const points: FixedPoint<C>[] = [];
+  const onBranches: OnBranch<C>[] = [];
   for (const root of oneLoopRoots(flow)) {
     if (!root.g1) {
       points.push(complexOneLoopPoint(spec, root.complex as Complex[]));
@@ -67,9 +68,20 @@ export function findFixedPoints<C>(spec: ModelSpec, flow: DerivedFlow<C>, option
     const branches = couplingBranches(pieces, root.g1);
     const described = branches.map((branch, i) => describeBranch(spec, pieces, branch, branches.filter((_, j) => j !== i), options));
     described.forEach((p, i) => degeneracyCaveat(spec, pieces, p, branches[i], described.filter((_, j) => j !== i)));
+    described.forEach((point, i) => onBranches.push({ point, branch: branches[i] }));
     points.push(...described);
   }
+  if (options.eps !== null && !flow.calculus.symbolic) separateSharedRoots(pieces, onBranches, options.eps as unknown as Real);
+  noteOmittedPoints(flow, points);
   return uniqueNames(withoutDuplicates(points, pieces), flow.couplings);
+}
+
+/** A family evaluated at a pole of one of its fixed points: that point is absent; the Gaussian point says which and why. */
+function noteOmittedPoints<C>(flow: DerivedFlow<C>, points: FixedPoint<C>[]): void {
+  const gaussian = points.find((p) => p.name === 'Gaussian');
+  for (const omitted of omittedFixedPoints(flow as DerivedFlow<unknown>)) {
+    if (gaussian && !points.some((p) => baseName(p.name) === omitted.point)) gaussian.notes.push(omitted.message);
+  }
 }
 
 function complexOneLoopPoint<C>(spec: ModelSpec, g: Complex[]): FixedPoint<C> {
@@ -147,6 +159,8 @@ function continuedRoot(flow: DerivedFlow<Real>, startAt: (e: Real) => Real[], si
   return t < 1 ? null : root;
 }
 
+const COMPLEX_ROOT_NOTE = 'the truncated β has no real root on this branch at the physical ε: the root is complex (given with positive imaginary part; its conjugate is a root too); the ε-series and its truncated values are real';
+
 interface AtEps {
   couplingValues: Real[] | null;
   complexValues?: ComplexReal[];
@@ -175,7 +189,7 @@ function valuesAtEps<C>(pieces: FlowPieces<C>, branch: Branch<C>, siblings: Bran
     couplingValues: null,
     complexValues,
     eigenvalueFull: eigenAt(complexStabilityMatrix(flow, complexValues, eps)),
-    notes: ['the truncated β has no real root on this branch at the physical ε: the root is complex (given with positive imaginary part; its conjugate is a root too); the ε-series and its truncated values are real'],
+    notes: [COMPLEX_ROOT_NOTE],
   };
 }
 
@@ -197,32 +211,118 @@ function multipleRootValues(flow: DerivedFlow<Real>, g: Real[], accuracy: number
 function describeBranch<C>(spec: ModelSpec, pieces: FlowPieces<C>, branch: Branch<C>, siblings: Branch<C>[], options: FixedPointOptions<C>): FixedPoint<C> {
   const { flow } = pieces;
   const eigen = eigenvalueSeries(pieces, stabilitySeriesMatrices(pieces, branch.series));
-  const notes = [...eigen.notes];
-  const caveats: FixedPointCaveat[] = [];
-  const point: FixedPoint<C> = { name: nameOf(spec, pieces, branch.series), status: branch.status, couplingSeries: branch.series, eigenvalueSeries: eigen.series, couplingValues: null, eigenvalueValues: null, stable: null, notes, caveats };
+  const point: FixedPoint<C> = { name: nameOf(spec, pieces, branch.series), status: branch.status, couplingSeries: branch.series, eigenvalueSeries: eigen.series, couplingValues: null, eigenvalueValues: null, stable: null, notes: [...eigen.notes], caveats: [] };
   if (options.eps === null || flow.calculus.symbolic) {
     if (branch.status === 'complex') point.stable = false;
     return point;
   }
   const eps = options.eps as unknown as Real;
-  const at = valuesAtEps(pieces, branch, siblings, eps);
-  notes.push(...at.notes);
+  applyValuesAtEps(flow as unknown as DerivedFlow<Real>, point, valuesAtEps(pieces, branch, siblings, eps), eps);
+  return point;
+}
+
+/**
+ * A point's root at ε, its stability and caveats. The stability check (truncated series against its
+ * Padé approximant, and against the eigenvalues at a real root) runs for every point: a complex point
+ * is never stable, but a sign that depends on resummation is still said.
+ */
+function applyValuesAtEps<C>(flow: DerivedFlow<Real>, point: FixedPoint<C>, at: AtEps, eps: Real): void {
+  const caveats = point.caveats as FixedPointCaveat[];
+  point.notes.push(...at.notes);
   point.couplingValues = at.couplingValues;
   if (at.eigenvalueFull) {
     point.eigenvalueFull = at.eigenvalueFull;
-    point.eigenvalueValues = at.eigenvalueFull.map(complexOps((flow as unknown as DerivedFlow<Real>).calculus.ctx.ring).toDouble);
+    point.eigenvalueValues = at.eigenvalueFull.map(complexOps(flow.calculus.ctx.ring).toDouble);
   }
-  if (at.complexValues || branch.status === 'complex') {
+  const complex = !!at.complexValues || point.status === 'complex';
+  const { calculus } = flow;
+  const verdict = stabilityAt(point.eigenvalueSeries as unknown as (LaurentSeries<Real> | null)[] | null, complex ? null : point.eigenvalueValues, eps, calculus.isNegligible, calculus.digits);
+  if (complex) {
     if (at.complexValues) point.complexValues = at.complexValues;
     point.status = 'complex';
     point.stable = false;
-    caveats.push({ kind: 'complex-at-eps', message: `at ε = ${(eps as Real).toSignificantDigits(6).toString()} the truncated β has no real fixed point on this branch, only a complex pair: not a physical fixed point there, never IR-stable; results that use it evaluate its real ε-series` });
-    return point;
+    caveats.push({ kind: 'complex-at-eps', message: `at ε = ${eps.toSignificantDigits(6).toString()} the truncated β has no real fixed point on this branch, only a complex pair: not a physical fixed point there, never IR-stable; results that use it evaluate its real ε-series` }, ...verdict.caveats);
+    return;
   }
-  const verdict = stabilityAt(eigen.series as unknown as (LaurentSeries<Real> | null)[] | null, point.eigenvalueValues, eps, flow.calculus.isNegligible as unknown as (c: Real) => boolean, flow.calculus.digits);
   point.stable = verdict.stable;
   caveats.push(...verdict.caveats);
-  return point;
+}
+
+interface OnBranch<C> {
+  point: FixedPoint<C>;
+  branch: Branch<C>;
+}
+
+const realRoot = <C>(p: FixedPoint<C>) => (p.status !== 'complex' ? p.couplingValues : null);
+
+function sameRoot(a: Real[], b: Real[], digits: number): boolean {
+  const tolerance = 10 ** -Math.floor(digits / 2);
+  return a.every((x, i) => x.minus(b[i]).abs().lte(tolerance * (1 + Math.abs(toNumber(x)))));
+}
+
+/** Different one-loop couplings: points of different branches (merging siblings are told apart by continuedRoot). */
+function otherBranch<C>(pieces: FlowPieces<C>, a: FixedPoint<C>, b: FixedPoint<C>): boolean {
+  const { ring } = pieces.flow.calculus.ctx;
+  const first = (p: FixedPoint<C>) => (p.couplingSeries as LaurentSeries<C>[]).map((s) => (s.order >= 1 ? s.coefficient(1) : ring.zero()));
+  return !!a.couplingSeries && !!b.couplingSeries && first(a).some((x, i) => !pieces.isZero(ring.sub(x, first(b)[i])));
+}
+
+/**
+ * Two points of different branches cannot share one root of the truncated β, yet Newton from a series
+ * value can reach a neighbour's root (past a crossing of the branches, or after its own branch turned
+ * complex). A branch's own root is its real root at a small ε continued through complex ε
+ * (trackedBranchRoot); a point whose continuation ends elsewhere takes that root, real or complex. A
+ * point whose continuation fails keeps the shared root only if it is the nearest to its series value.
+ */
+function separateSharedRoots<C>(pieces: FlowPieces<C>, onBranches: OnBranch<C>[], eps: Real): void {
+  const flow = pieces.flow as unknown as DerivedFlow<Real>;
+  const digits = flow.calculus.digits;
+  const sharing = () => onBranches.filter((a) => onBranches.some((b) => b !== a && realRoot(a.point) && realRoot(b.point) && otherBranch(pieces, a.point, b.point) && sameRoot(realRoot(a.point) as Real[], realRoot(b.point) as Real[], digits)));
+  const unresolved: OnBranch<C>[] = [];
+  for (const entry of sharing()) {
+    const seriesAt = (e: number) => (entry.branch.series as unknown as LaurentSeries<Real>[]).map((sr) => toNumber(sr.evaluate(flow.calculus.ctx.ring.fromRational(BigInt(Math.round(e * 1e15)), 10n ** 15n))));
+    const own = trackedBranchRoot(flow, seriesAt, eps);
+    if (!own) unresolved.push(entry);
+    else if (!own.real || !sameRoot(own.real, entry.point.couplingValues as Real[], digits)) moveToOwnRoot(flow, entry.point, own, eps);
+  }
+  const distanceToSeries = (e: OnBranch<C>) => Math.max(...(e.point.couplingValues as Real[]).map((x, i) => Math.abs(toNumber(x) - toNumber((e.branch.series as unknown as LaurentSeries<Real>[])[i].evaluate(eps)))));
+  const stillShared = sharing();
+  for (const entry of unresolved.filter((e) => stillShared.includes(e))) {
+    const nearer = stillShared.some((o) => o !== entry && sameRoot(o.point.couplingValues as Real[], entry.point.couplingValues as Real[], digits) && distanceToSeries(o) <= distanceToSeries(entry));
+    if (nearer) clearValues(entry.point, 'Newton from the ε-series value reached the root of another fixed point, and the continuation of this branch to the physical ε failed: no root of the truncated β is given for it here');
+  }
+}
+
+/** Replace a point's values at ε by its branch's own root (its former values belonged to another point). */
+function moveToOwnRoot<C>(flow: DerivedFlow<Real>, point: FixedPoint<C>, own: { real: Real[] | null; complex: ComplexReal[] | null }, eps: Real): void {
+  const { ring } = flow.calculus.ctx;
+  const c = complexOps(ring);
+  const eigenAt = (m: ComplexReal[][]) => eigenvaluesFullPrecision(ring, m, flow.calculus.isNegligible);
+  const note = 'Newton from the ε-series value reached the root of another fixed point; the root given is this branch continued from a small ε';
+  resetValues(point);
+  if (own.complex) {
+    const at = { couplingValues: null, complexValues: own.complex, eigenvalueFull: eigenAt(complexStabilityMatrix(flow, own.complex, eps)), notes: [note, COMPLEX_ROOT_NOTE] };
+    applyValuesAtEps(flow, point, at, eps);
+    return;
+  }
+  const g = (own.real as Real[]).map((x) => (flow.calculus.isNegligible(x) ? ring.zero() : x));
+  applyValuesAtEps(flow, point, { couplingValues: g, eigenvalueFull: eigenAt(stabilityMatrixAt(flow, g, eps).map((row) => row.map((x) => c.of(x)))), notes: [note] }, eps);
+}
+
+/** Forget a point's values at ε, its verdict and the caveats that came with them (a one-loop degeneracy stays). */
+function resetValues<C>(point: FixedPoint<C>): void {
+  point.couplingValues = null;
+  point.eigenvalueValues = null;
+  delete point.eigenvalueFull;
+  delete point.complexValues;
+  point.stable = null;
+  if (point.status === 'complex') point.status = 'real';
+  point.caveats = (point.caveats ?? []).filter((c) => c.kind === 'degenerate-one-loop');
+}
+
+function clearValues<C>(point: FixedPoint<C>, note: string): void {
+  resetValues(point);
+  point.notes.push(note);
 }
 
 /** The 'degenerate-one-loop' caveat: which points merge at one loop and what was done. */

@@ -36,26 +36,44 @@ function signOfValues(values: Complex[]): boolean | null {
   return values.every((z) => z.re > 1e-12 * size) ? true : null;
 }
 
+/** The root's eigenvalues paired with the series by rank (both ascending): the i-th smallest belongs to the i-th smallest. */
+function rootValueFor(truncated: Real[], values: Complex[] | null): (number | null)[] {
+  if (!values || values.length !== truncated.length) return truncated.map(() => null);
+  const byValue = (order: number[], at: (i: number) => number) => order.sort((i, j) => at(i) - at(j));
+  const seriesOrder = byValue(truncated.map((_, i) => i), (i) => Number(truncated[i].toString()));
+  const rootOrder = byValue(values.map((_, i) => i), (i) => values[i].re);
+  const paired: (number | null)[] = truncated.map(() => null);
+  seriesOrder.forEach((i, rank) => (paired[i] = values[rootOrder[rank]].re));
+  return paired;
+}
+
+const signOfNumber = (x: number, size: number): Sign => (Math.abs(x) <= 1e-12 * size ? 'zero' : x > 0 ? 'positive' : 'negative');
+
 /**
- * IR stability at a physical ε from the eigenvalue series: each eigenvalue's truncated value and its
- * [1/1] Padé approximant must agree in sign; where they do not, that eigenvalue is undecided and a
- * caveat names both values. Stable: all positive; unstable: some eigenvalue negative in both;
- * otherwise undecided (null). Without complete series, or where a series vanishes through its order,
- * the eigenvalues at the numeric root decide.
+ * IR stability at a physical ε. Each eigenvalue's truncated series, its [1/1] Padé approximant and
+ * (given `values`, the eigenvalues at the real root of the truncated β) its value at the root must
+ * agree in sign; where they do not, that eigenvalue is undecided and a caveat names every value.
+ * Stable: all positive; unstable: some eigenvalue negative throughout; otherwise undecided (null).
+ * Without complete series, or where a series vanishes through its order, the eigenvalues at the
+ * numeric root decide.
  */
 export function stabilityAt(eigen: (LaurentSeries<Real> | null)[] | null, values: Complex[] | null, eps: Real, isZero: (c: Real) => boolean, digits: number): { stable: boolean | null; caveats: FixedPointCaveat[] } {
   if (!eigen || eigen.some((e) => e === null)) return { stable: values ? signOfValues(values) : null, caveats: [] };
   const caveats: FixedPointCaveat[] = [];
-  const signs: Sign[] = (eigen as LaurentSeries<Real>[]).map((series, i) => {
-    const truncated = series.evaluate(eps);
+  const series = eigen as LaurentSeries<Real>[];
+  const truncatedValues = series.map((s) => s.evaluate(eps));
+  const atRoot = rootValueFor(truncatedValues, values);
+  const size = Math.max(...(values ?? []).map((z) => Math.abs(z.re)), 1e-300);
+  const signs: Sign[] = series.map((s, i) => {
+    const truncated = truncatedValues[i];
     const sign: Sign = isZero(truncated) ? 'zero' : truncated.isPositive() ? 'positive' : 'negative';
-    const pade = padeAt(series, eps, isZero, digits);
-    if (!pade || sign === 'zero') return sign;
-    const padeSign = pade.value === null ? 'pole' : pade.value.isPositive() ? 'positive' : 'negative';
-    if (padeSign === sign) return sign;
-    const poles = pade.poles.length > 0 ? ` (a pole at ε = ${pade.poles.map(short).join(', ')} lies in (0, ε))` : '';
-    const padeText = pade.value === null ? 'has a pole there' : `gives ${short(pade.value)}`;
-    caveats.push({ kind: 'stability-sign-disagrees', message: `stability eigenvalue λ${i + 1}: the truncated series gives ${short(truncated)} at ε = ${short(eps)}, its [1/1] Padé approximant ${padeText}${poles}; the signs disagree, so this eigenvalue does not decide stability` });
+    if (sign === 'zero') return sign;
+    const pade = padeAt(s, eps, isZero, digits);
+    const padeSign = !pade ? sign : pade.value === null ? 'pole' : pade.value.isPositive() ? 'positive' : 'negative';
+    const root = atRoot[i];
+    const rootSign = root === null ? sign : signOfNumber(root, size);
+    if (padeSign === sign && (rootSign === sign || rootSign === 'zero')) return sign;
+    caveats.push({ kind: 'stability-sign-disagrees', message: disagreementMessage(i, truncated, pade, root, eps) });
     return 'undecided';
   });
   if (signs.includes('negative')) return { stable: false, caveats };
@@ -63,4 +81,14 @@ export function stabilityAt(eigen: (LaurentSeries<Real> | null)[] | null, values
   // a series that vanishes through its order (a merging point): the eigenvalues at the root decide, if any
   if (signs.includes('zero')) return { stable: values ? signOfValues(values) : null, caveats };
   return { stable: true, caveats };
+}
+
+function disagreementMessage(i: number, truncated: Real, pade: { value: Real | null; poles: Real[] } | null, root: number | null, eps: Real): string {
+  const parts = [`the truncated series gives ${short(truncated)} at ε = ${short(eps)}`];
+  if (pade) {
+    const poles = pade.poles.length > 0 ? ` (a pole at ε = ${pade.poles.map(short).join(', ')} lies in (0, ε))` : '';
+    parts.push(`its [1/1] Padé approximant ${pade.value === null ? 'has a pole there' : `gives ${short(pade.value)}`}${poles}`);
+  }
+  if (root !== null) parts.push(`the eigenvalue at the root of the truncated β is ${Number(root.toPrecision(6))}`);
+  return `stability eigenvalue λ${i + 1}: ${parts.join(', ')}; the signs disagree, so this eigenvalue does not decide stability`;
 }

@@ -133,12 +133,36 @@ function vanishesAt(factor: Poly, N: Q, s: Q | null): boolean {
   return s !== null && polyVariables(atN).every((v) => v === 's') && polyEvaluate(atN, { s }).num === 0n;
 }
 
-function assertNoPole(entry: FamilyEntry, point: FamilyPoint, s: Q | null, poleSources: (flow: DerivedFlow<Expression>) => PoleSource[]): void {
+/** A fixed point of a symbolic-N family that has no data at one N: its ε-series have a pole there. */
+export interface OmittedPoint {
+  point: string;
+  N: Q;
+  /** The denominator factor of its ε-series that vanishes at N. */
+  factor: string;
+  message: string;
+}
+
+/** Per flow evaluated from a family at one N: its omitted points, found only when asked for (flow jobs never need them). */
+const omittedByFlow = new WeakMap<object, () => OmittedPoint[]>();
+
+/**
+ * The fixed points of the family that have a pole at the N this flow was evaluated at (empty for a
+ * flow not evaluated from a family, or without pole sources). Only those points lack data there:
+ * β itself is polynomial in N, and every other point is unaffected.
+ */
+export function omittedFixedPoints(flow: DerivedFlow<unknown>): OmittedPoint[] {
+  return omittedByFlow.get(flow)?.() ?? [];
+}
+
+function polesAt(entry: FamilyEntry, point: FamilyPoint, s: Q | null, poleSources: (flow: DerivedFlow<Expression>) => PoleSource[]): OmittedPoint[] {
   entry.poles ??= denominatorsInN(poleSources(entry.flow));
-  const pole = entry.poles.find((p) => vanishesAt(p.factor, point.N, s));
-  if (pole) {
-    fail('domain', `${familyPointLabel(point)}: the fixed point "${pole.point}" has a pole at N = ${qToString(point.N)} (its ε-series divide by ${polyToString(pole.factor)}), so there are no fixed-point data at this N; choose another N`);
-  }
+  const byPoint = new Map<string, Poly>();
+  for (const pole of entry.poles) if (!byPoint.has(pole.point) && vanishesAt(pole.factor, point.N, s)) byPoint.set(pole.point, pole.factor);
+  return [...byPoint.entries()].map(([name, factor]) => {
+    const N = qToString(point.N);
+    const message = `${familyPointLabel(point)}: the fixed point "${name}" is not listed at N = ${N}: its ε-series divide by ${polyToString(factor)}, which vanishes there (a pole of the family in N); the other fixed points are unaffected`;
+    return { point: name, N: point.N, factor: polyToString(factor), message };
+  });
 }
 
 export interface FamilyPointRequest {
@@ -146,19 +170,19 @@ export interface FamilyPointRequest {
   s: Q | null;
   loops: number;
   digits: number;
-  /** The ε-series of the family's fixed points, for the pole check (omitted: no check). */
+  /** The ε-series of the family's fixed points, to name the points with a pole at N (omitted: none named). */
   poleSources?: (flow: DerivedFlow<Expression>) => PoleSource[];
 }
 
 /**
  * A preset at a numeric N without explicit tensors: the symbolic-N family flow (derived once),
- * checked for poles of its fixed points at N, then evaluated exactly at N — to numbers when s is
- * given, else still symbolic in s.
+ * evaluated exactly at N — to numbers when s is given, else still symbolic in s. β is polynomial in N,
+ * so every N has a flow; the fixed points with a pole at N are named by omittedFixedPoints.
  */
 export function familyPointFlow(request: FamilyPointRequest): { mode: 'numeric'; flow: DerivedFlow<Real> } | { mode: 'symbolic'; flow: DerivedFlow<Expression> } {
-  const { point, s, loops, digits } = request;
+  const { point, s, loops, digits, poleSources } = request;
   const entry = familyEntry(point.family, s, loops);
-  if (request.poleSources) assertNoPole(entry, point, s, request.poleSources);
-  if (s) return { mode: 'numeric', flow: flowAt(entry.flow, { s, N: point.N }, digits) };
-  return { mode: 'symbolic', flow: flowAtN(entry.flow, point.N) };
+  const result = s ? { mode: 'numeric' as const, flow: flowAt(entry.flow, { s, N: point.N }, digits) } : { mode: 'symbolic' as const, flow: flowAtN(entry.flow, point.N) };
+  if (poleSources) omittedByFlow.set(result.flow, () => polesAt(entry, point, s, poleSources));
+  return result;
 }

@@ -10,7 +10,7 @@ export interface FlowRequest {
   s: Q | null;
   loops: 1 | 2;
   digits: number;
-  /** For a preset at a numeric N without tensors: the ε-series of its family's fixed points, checked for poles at N. */
+  /** For a preset at a numeric N without tensors: the ε-series of its family's fixed points, to name those with a pole at N (omittedFixedPoints). */
   poleSources?: (flow: DerivedFlow<Expression>) => PoleSource[];
 }
 
