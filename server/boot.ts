@@ -26,7 +26,7 @@ export interface RunningRungbook {
 
 /** Open the database (running migrations), start the mail capture, seed, and optionally listen. */
 export async function startRungbook(config: ServerConfig, logger: Logger, options: { listen: boolean }): Promise<RunningRungbook> {
-  const dataSource = await openDatabase(config.databasePath);
+  const dataSource = await openDatabase(config.databasePath, config.databaseUrl);
   let smtpFake: SmtpFake | undefined;
   if (config.mail.startFake) {
     smtpFake = await startSmtpFake(dataSource, config.mail.smtpPort, logger);

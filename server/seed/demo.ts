@@ -8,6 +8,7 @@ import type { SignedInUser } from '../auth/sessions';
 import type { DatasetService } from '../services/datasets';
 import { demoDatasets } from './demoDatasets';
 import type { GroupRole, SiteRole } from '../../shared/api/schemas';
+import { runSql } from '../db/sql';
 
 /**
  * DEMO DATA — an invented research group with invented people, created on first start so a new
@@ -154,7 +155,11 @@ export async function disarmPublishedDemoAccounts(dataSource: DataSource): Promi
   }
   if (changed.length) {
     // Sessions signed in with the published password end too.
-    await dataSource.query(`DELETE FROM sessions WHERE userId IN (SELECT id FROM users WHERE emailKey IN (${changed.map(() => '?').join(', ')}))`, changed.map((e) => e.toLowerCase()));
+    await runSql(
+      dataSource,
+      `DELETE FROM "sessions" WHERE "userId" IN (SELECT "id" FROM "users" WHERE "emailKey" IN (${changed.map(() => '?').join(', ')}))`,
+      changed.map((e) => e.toLowerCase()),
+    );
   }
   return changed;
 }

@@ -6,6 +6,7 @@ import { AppError } from '../http/errors';
 import { newId } from '../ids';
 import type { Mailer, OutgoingMessage } from '../mail/mailer';
 import type { EmailVerificationService } from './emailVerification';
+import { isUniqueViolation } from '../db/sql';
 
 export const emailKey = (email: string) => email.trim().toLowerCase();
 
@@ -51,7 +52,7 @@ export function createAccountService(dataSource: DataSource, mailer: Mailer, ver
       await users.insert(user);
       return true;
     } catch (error) {
-      if (String(error).includes('UNIQUE')) return false;
+      if (isUniqueViolation(error)) return false;
       throw error;
     }
   }

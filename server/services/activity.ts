@@ -6,6 +6,7 @@ import { Notebook, NotebookEvent, NotebookFollow, Notification } from '../db/ent
 import type { NotebookChange, NotebookEventBus } from './notebookEvents';
 import { NOTEBOOKS_SHARED_WITH_ME, type NotebookService } from './notebooks';
 import { addNotification } from './notifications';
+import { dialectOf, insertionOrder, momentParameter } from '../db/sql';
 
 export const ACTIVITY_PAGE = 100;
 
@@ -14,9 +15,6 @@ export interface NotebookActivityFilter {
   actorId?: string;
   before?: string;
 }
-
-/** SQLite datetime text as TypeORM writes it, for comparisons inside queries. */
-const sqliteTime = (date: Date) => date.toISOString().replace('T', ' ').replace('Z', '');
 
 /** The text of an entry that stands for several changes: `3 changes in "Title" since you last looked; latest: …`. */
 const COALESCED = /^(\d+) changes in ".*" since you last looked; latest: /s;
@@ -31,7 +29,7 @@ const changeLine = (change: NotebookChange) => `${change.actorName ?? 'Someone'}
 
 /** Entries the person may still see: those of notebooks they can open (owner, own grant or a group's). */
 const VISIBLE = `(a.notebookId IS NULL
-  OR a.notebookId IN (SELECT n.id FROM notebooks n WHERE n.ownerId = :me)
+  OR a.notebookId IN (SELECT "n"."id" FROM "notebooks" "n" WHERE "n"."ownerId" = :me)
   OR a.notebookId IN ${NOTEBOOKS_SHARED_WITH_ME})`;
 
 /** One person's activity list, following notebooks, and each notebook's log of who did what. */
@@ -40,6 +38,7 @@ export function createActivityService(dataSource: DataSource, notebooks: Noteboo
   const follows = dataSource.getRepository(NotebookFollow);
   // Changes are handled one at a time, so coalescing sees the entry written for the previous change.
   let handling: Promise<void> = Promise.resolve();
+  const dialect = dialectOf(dataSource);
 
   const visibleTo = (viewer: SignedInUser) => notifications.createQueryBuilder('a').where('a.userId = :me', { me: viewer.id }).andWhere(VISIBLE, { me: viewer.id });
 
@@ -107,7 +106,7 @@ export function createActivityService(dataSource: DataSource, notebooks: Noteboo
     },
 
     async list(viewer: SignedInUser, options: { unreadOnly?: boolean } = {}): Promise<ActivityReply> {
-      const query = visibleTo(viewer).leftJoinAndSelect('a.notebook', 'notebook').orderBy('a.createdAt', 'DESC').addOrderBy('a.rowid', 'DESC').limit(ACTIVITY_PAGE);
+      const query = visibleTo(viewer).leftJoinAndSelect('a.notebook', 'notebook').orderBy('a.createdAt', 'DESC').addOrderBy(insertionOrder(dialect, 'a'), 'DESC').limit(ACTIVITY_PAGE);
       if (options.unreadOnly) query.andWhere('a.readAt IS NULL');
       const [rows, unread] = await Promise.all([query.getMany(), visibleTo(viewer).andWhere('a.readAt IS NULL').getCount()]);
       return { items: rows.map(notificationView), unread };
@@ -116,7 +115,7 @@ export function createActivityService(dataSource: DataSource, notebooks: Noteboo
     /** Marks the given entries (all when none are named) as read; returns what is still unread. */
     async markRead(viewer: SignedInUser, ids?: string[]): Promise<{ unread: number }> {
       if (!ids || ids.length) {
-        const update = notifications.createQueryBuilder().update().set({ readAt: new Date() }).where('userId = :me AND readAt IS NULL', { me: viewer.id });
+        const update = notifications.createQueryBuilder().update().set({ readAt: new Date() }).where('"userId" = :me AND "readAt" IS NULL', { me: viewer.id });
         if (ids) update.andWhere('id IN (:...ids)', { ids });
         await update.execute();
       }
@@ -147,8 +146,8 @@ export function createActivityService(dataSource: DataSource, notebooks: Noteboo
       const query = dataSource.getRepository(NotebookEvent).createQueryBuilder('e').where('e.notebookId = :notebookId', { notebookId });
       if (filter.kind) query.andWhere('e.kind = :kind', { kind: filter.kind });
       if (filter.actorId) query.andWhere('e.actorId = :actorId', { actorId: filter.actorId });
-      if (filter.before) query.andWhere('e.createdAt < :before', { before: sqliteTime(new Date(filter.before)) });
-      const rows = await query.orderBy('e.createdAt', 'DESC').addOrderBy('e.rowid', 'DESC').limit(ACTIVITY_PAGE).getMany();
+      if (filter.before) query.andWhere('e.createdAt < :before', { before: momentParameter(dialect, new Date(filter.before)) });
+      const rows = await query.orderBy('e.createdAt', 'DESC').addOrderBy(insertionOrder(dialect, 'e'), 'DESC').limit(ACTIVITY_PAGE).getMany();
       return rows.map((row) => ({
         id: row.id,
         kind: row.kind,

@@ -12,13 +12,14 @@ import type { DocumentRenderer } from '../jobs/documents';
 import type { CheckedDataset, ReadDatasetOutcome } from '../jobs/documentWorker';
 import { megabytes } from '../../shared/jobs/cost';
 import type { NotebookService } from './notebooks';
+import { countFrom, dialectOf, momentFrom, momentParameter, runSql } from '../db/sql';
 
 /** Every column of a dataset but its points, which may be megabytes. */
 const VIEW_COLUMNS = `"id", "label", "name", "source", "note", "shape", "xAxisJson", "yAxisJson", "yErrors", "xErrors", "rowCount", "rangesJson", "fileName", "contentHash", "createdAt", "createdByName"`;
 
 type ViewRow = Omit<Dataset, 'pointsJson' | 'notebookId' | 'notebook' | 'createdById' | 'removedAt' | 'createdAt' | 'xErrors'> & { createdAt: string | Date; xErrors: number | boolean };
 
-const isoDate = (value: string | Date) => (value instanceof Date ? value : new Date(`${value.replace(' ', 'T')}${value.endsWith('Z') ? '' : 'Z'}`)).toISOString();
+const isoDate = (value: string | Date) => momentFrom(value).toISOString();
 
 function toView(row: ViewRow): DatasetView {
   const ranges = JSON.parse(row.rangesJson) as { x: [string, string]; y: [string, string] };
@@ -45,14 +46,14 @@ function toView(row: ViewRow): DatasetView {
 
 /** The datasets currently in the notebook, without their points, by label. */
 export async function currentDatasetViews(manager: EntityManager, notebookId: string): Promise<DatasetView[]> {
-  const rows: ViewRow[] = await manager.query(`SELECT ${VIEW_COLUMNS} FROM "datasets" WHERE "notebookId" = ? AND "removedAt" IS NULL ORDER BY "label" ASC`, [notebookId]);
+  const rows: ViewRow[] = await runSql(manager, `SELECT ${VIEW_COLUMNS} FROM "datasets" WHERE "notebookId" = ? AND "removedAt" IS NULL ORDER BY "label" ASC`, [notebookId]);
   return rows.map(toView);
 }
 
 /** Content hash of each current dataset by label: what comparison cells' fingerprints include. */
 export async function currentDatasetHashes(manager: EntityManager, notebookId: string): Promise<Map<string, string>> {
-  const rows: { label: string; contentHash: string }[] = await manager.query(
-    `SELECT "label" AS label, "contentHash" AS contentHash FROM "datasets" WHERE "notebookId" = ? AND "removedAt" IS NULL`,
+  const rows: { label: string; contentHash: string }[] = await runSql(manager,
+    `SELECT "label" AS "label", "contentHash" AS "contentHash" FROM "datasets" WHERE "notebookId" = ? AND "removedAt" IS NULL`,
     [notebookId],
   );
   return new Map(rows.map((row) => [row.label, row.contentHash]));
@@ -75,7 +76,7 @@ export function datasetReader(manager: EntityManager, documents: DocumentRendere
   const parsed = new Map<string, DatasetPoints>();
   const cut = new Map<string, { points: DatasetPoints; kept: number }>();
   return async (cell) => {
-    const [row]: JobDatasetRow[] = await manager.query(
+    const [row]: JobDatasetRow[] = await runSql(manager,
       `SELECT "label", "shape", "xAxisJson", "yAxisJson", "pointsJson", "contentHash" FROM "datasets" WHERE "notebookId" = ? AND "label" = ? AND "removedAt" IS NULL`,
       [notebookId, cell.dataset],
     );
@@ -117,7 +118,7 @@ function pointsInRange(points: DatasetPoints, from?: string, to?: string): { poi
 
 /** Record which datasets a new version holds: the notebook's current ones. */
 export async function recordVersionDatasets(manager: EntityManager, notebookId: string, versionId: string): Promise<void> {
-  await manager.query(
+  await runSql(manager,
     `INSERT INTO "notebook_version_datasets" ("versionId", "datasetId") SELECT ?, "id" FROM "datasets" WHERE "notebookId" = ? AND "removedAt" IS NULL`,
     [versionId, notebookId],
   );
@@ -125,7 +126,7 @@ export async function recordVersionDatasets(manager: EntityManager, notebookId: 
 
 /** Views of the datasets a version holds (for its snapshot). */
 export async function versionDatasetViews(manager: EntityManager, versionId: string): Promise<DatasetView[]> {
-  const rows: ViewRow[] = await manager.query(
+  const rows: ViewRow[] = await runSql(manager,
     `SELECT ${VIEW_COLUMNS.split(', ').map((c) => `d.${c}`).join(', ')} FROM "datasets" d JOIN "notebook_version_datasets" v ON v."datasetId" = d."id" WHERE v."versionId" = ? ORDER BY d."label" ASC`,
     [versionId],
   );
@@ -134,7 +135,7 @@ export async function versionDatasetViews(manager: EntityManager, versionId: str
 
 /** Removed datasets that no version holds any more are deleted (their points are not needed by anything). */
 export async function deleteUnheldDatasets(manager: EntityManager, notebookId: string): Promise<void> {
-  await manager.query(
+  await runSql(manager,
     `DELETE FROM "datasets" WHERE "notebookId" = ? AND "removedAt" IS NOT NULL AND NOT EXISTS (SELECT 1 FROM "notebook_version_datasets" v WHERE v."datasetId" = "datasets"."id")`,
     [notebookId],
   );
@@ -145,12 +146,12 @@ export async function deleteUnheldDatasets(manager: EntityManager, notebookId: s
  * Versions saved before datasets existed hold none, so restoring one leaves the notebook without datasets.
  */
 export async function restoreVersionDatasets(manager: EntityManager, notebookId: string, versionId: string): Promise<number> {
-  const now = new Date().toISOString().replace('T', ' ').replace('Z', '');
+  const now = momentParameter(dialectOf(manager), new Date());
   const held = `SELECT "datasetId" FROM "notebook_version_datasets" WHERE "versionId" = ?`;
-  await manager.query(`UPDATE "datasets" SET "removedAt" = ? WHERE "notebookId" = ? AND "removedAt" IS NULL AND "id" NOT IN (${held})`, [now, notebookId, versionId]);
-  await manager.query(`UPDATE "datasets" SET "removedAt" = NULL WHERE "notebookId" = ? AND "id" IN (${held})`, [notebookId, versionId]);
-  const [{ count }]: { count: number }[] = await manager.query(`SELECT COUNT(*) AS count FROM (${held})`, [versionId]);
-  return Number(count);
+  await runSql(manager, `UPDATE "datasets" SET "removedAt" = ? WHERE "notebookId" = ? AND "removedAt" IS NULL AND "id" NOT IN (${held})`, [now, notebookId, versionId]);
+  await runSql(manager, `UPDATE "datasets" SET "removedAt" = NULL WHERE "notebookId" = ? AND "id" IN (${held})`, [notebookId, versionId]);
+  const [{ count }]: { count: number | string }[] = await runSql(manager, `SELECT COUNT(*) AS "count" FROM (${held}) AS "held"`, [versionId]);
+  return countFrom(count);
 }
 
 /**
@@ -159,7 +160,7 @@ export async function restoreVersionDatasets(manager: EntityManager, notebookId:
  */
 export async function exportedDatasetsText(manager: EntityManager, notebookId: string, pointsAs: 'points' | 'count' = 'points'): Promise<string> {
   const pointsColumn = pointsAs === 'points' ? '"pointsJson"' : 'NULL AS "pointsJson"';
-  const rows: (Pick<Dataset, 'label' | 'name' | 'source' | 'note' | 'shape' | 'xAxisJson' | 'yAxisJson' | 'fileName' | 'rowCount'> & { pointsJson: string | null })[] = await manager.query(
+  const rows: (Pick<Dataset, 'label' | 'name' | 'source' | 'note' | 'shape' | 'xAxisJson' | 'yAxisJson' | 'fileName' | 'rowCount'> & { pointsJson: string | null })[] = await runSql(manager,
     `SELECT "label", "name", "source", "note", "shape", "xAxisJson", "yAxisJson", "fileName", "rowCount", ${pointsColumn} FROM "datasets" WHERE "notebookId" = ? AND "removedAt" IS NULL ORDER BY "label" ASC`,
     [notebookId],
   );
@@ -244,7 +245,7 @@ export function createDatasetService({ dataSource, notebooks, documents, uploadL
 
   /** Label free and room left among the notebook's current datasets (and its stored ones) for `bytes` more points. */
   async function assertRoomFor(manager: EntityManager, notebookId: string, label: string, bytes = 0) {
-    const rows: { label: string }[] = await manager.query(`SELECT "label" AS label FROM "datasets" WHERE "notebookId" = ? AND "removedAt" IS NULL`, [notebookId]);
+    const rows: { label: string }[] = await runSql(manager, `SELECT "label" AS "label" FROM "datasets" WHERE "notebookId" = ? AND "removedAt" IS NULL`, [notebookId]);
     if (rows.some((row) => row.label === label)) {
       throw new AppError('conflict', `A dataset labelled "${label}" is already in this notebook; choose another label or remove that dataset first.`, { label: 'Label already used' });
     }
@@ -255,8 +256,8 @@ export function createDatasetService({ dataSource, notebooks, documents, uploadL
   }
 
   async function assertBytesFit(manager: EntityManager, notebookId: string, bytes: number) {
-    const [{ current, stored }]: { current: number | null; stored: number | null }[] = await manager.query(
-      `SELECT SUM(CASE WHEN "removedAt" IS NULL THEN length("pointsJson") ELSE 0 END) AS current, SUM(length("pointsJson")) AS stored FROM "datasets" WHERE "notebookId" = ?`,
+    const [{ current, stored }]: { current: number | null; stored: number | null }[] = await runSql(manager,
+      `SELECT SUM(CASE WHEN "removedAt" IS NULL THEN length("pointsJson") ELSE 0 END) AS "current", SUM(length("pointsJson")) AS "stored" FROM "datasets" WHERE "notebookId" = ?`,
       [notebookId],
     );
     const currentBytes = Number(current ?? 0) + bytes;
@@ -276,7 +277,7 @@ export function createDatasetService({ dataSource, notebooks, documents, uploadL
   }
 
   async function viewOf(datasetId: string): Promise<DatasetView> {
-    const [row]: ViewRow[] = await dataSource.query(`SELECT ${VIEW_COLUMNS} FROM "datasets" WHERE "id" = ?`, [datasetId]);
+    const [row]: ViewRow[] = await runSql(dataSource, `SELECT ${VIEW_COLUMNS} FROM "datasets" WHERE "id" = ?`, [datasetId]);
     return toView(row);
   }
 

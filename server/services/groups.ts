@@ -86,9 +86,11 @@ export function createGroupService(dataSource: DataSource, events?: Pick<Noteboo
         .createQueryBuilder('g')
         .leftJoin('g.memberships', 'all_members')
         .leftJoin('g.memberships', 'mine', 'mine.userId = :viewerId', { viewerId: viewer.id })
-        .select(['g.id AS id', 'g.name AS name', 'g.description AS description', 'mine.role AS myRole'])
+        .select(['g.id AS id', 'g.name AS name', 'g.description AS description', 'mine.role AS "myRole"'])
         .addSelect('COUNT(all_members.userId)', 'memberCount')
         .groupBy('g.id')
+        // one row of `mine` at most per group; PostgreSQL wants every selected column grouped or aggregated
+        .addGroupBy('mine.role')
         .orderBy('g.name');
       if (viewer.siteRole !== 'admin') query.where('mine.userId IS NOT NULL');
       const rows = await query.getRawMany<GroupSummary>();

@@ -11,6 +11,7 @@ import { newId } from '../ids';
 import { recordNotebookChange, type NotebookChange, type NotebookEventBus } from './notebookEvents';
 import type { NotebookAccess } from './notebooks';
 import { currentDatasetViews, deleteUnheldDatasets, recordVersionDatasets } from './datasets';
+import { dialectOf, runSql } from '../db/sql';
 
 /** At most this many versions per notebook: beyond it the oldest automatic ones make room. */
 export const MAX_VERSIONS_PER_NOTEBOOK = 200;
@@ -48,8 +49,9 @@ export function resultBudget() {
  * result beyond the notebook's result budget is left out (null), so the text stays bounded.
  */
 export async function storedCells(manager: EntityManager, notebookId: string): Promise<StoredCell[]> {
-  const rows: { label: string; kind: string; inputJson: string; holderId: string | null; bytes: number | null }[] = await manager.query(
-    `SELECT c."label" AS label, c."kind" AS kind, c."inputJson" AS inputJson, h."id" AS holderId, length(h."resultJson") AS bytes
+  const rows: { label: string; kind: string; inputJson: string; holderId: string | null; bytes: number | null }[] = await runSql(
+    manager,
+    `SELECT c."label" AS "label", c."kind" AS "kind", c."inputJson" AS "inputJson", h."id" AS "holderId", length(h."resultJson") AS "bytes"
        FROM "cells" c
        LEFT JOIN "job_runs" r ON r."id" = c."lastRunId"
        LEFT JOIN "job_runs" h ON h."id" = COALESCE(r."resultRunId", r."id")
@@ -62,8 +64,9 @@ export async function storedCells(manager: EntityManager, notebookId: string): P
   const holderIds = [...new Set(shown.filter((id): id is string => id !== null))];
   const texts = new Map<string, string>();
   if (holderIds.length) {
-    const holders: { id: string; resultJson: string }[] = await manager.query(
-      `SELECT "id" AS id, "resultJson" AS resultJson FROM "job_runs" WHERE "id" IN (${holderIds.map(() => '?').join(', ')})`,
+    const holders: { id: string; resultJson: string }[] = await runSql(
+      manager,
+      `SELECT "id" AS "id", "resultJson" AS "resultJson" FROM "job_runs" WHERE "id" IN (${holderIds.map(() => '?').join(', ')})`,
       holderIds,
     );
     for (const holder of holders) texts.set(holder.id, holder.resultJson);
@@ -193,6 +196,15 @@ export async function writeCellsByLabel(manager: EntityManager, notebookId: stri
 }
 
 /**
+ * Writes to one notebook take turns, as they do on SQLite, where one transaction writes at a time: on
+ * PostgreSQL the notebook's row is locked until the transaction ends (version numbers, cell positions and
+ * revisions are read and then written inside it).
+ */
+async function lockNotebook(manager: EntityManager, notebookId: string): Promise<void> {
+  if (dialectOf(manager) === 'postgres') await runSql(manager, 'SELECT "id" FROM "notebooks" WHERE "id" = ? FOR UPDATE', [notebookId]);
+}
+
+/**
  * The one writer of notebooks and their cells: checks the role, runs the caller's checks, then in one
  * transaction writes, keeps automatic versions and records the change in the notebook's log; after the
  * commit it drops cached views and tells the live streams.
@@ -207,6 +219,7 @@ export function createNotebookWriter(dataSource: DataSource, deps: WriterDeps) {
     const prepared = (await spec.prepare?.(access)) as Prepared;
     let change: NotebookChange | null = null;
     const value = await dataSource.transaction(async (manager) => {
+      await lockNotebook(manager, notebookId);
       const saveVersion = (message: string, automatic = true) => saveVersionIn(manager, actor, notebookId, message, automatic);
       const before = await spec.versionBefore?.(manager, prepared);
       if (before) await saveVersion(before);

@@ -17,6 +17,7 @@ import type { NotebookEventBus } from './notebookEvents';
 import { createNotebookWriter, type WrittenChange } from './notebookWriter';
 import { currentDatasetHashes, currentDatasetViews, datasetReader, type DatasetReader } from './datasets';
 import type { DocumentRenderer } from '../jobs/documents';
+import { commaList, dialectOf, momentFrom, runSql, type Dialect } from '../db/sql';
 
 export const MAX_CELLS_PER_NOTEBOOK = 200;
 /** Characters of JSON the settled cell views of all notebooks may hold in memory together (results counted once per notebook). */
@@ -55,26 +56,27 @@ export interface NotebookAccess {
  * The grants reaching one person on notebook `n` (parameters: the person's id twice): their own grant,
  * and the grants of their groups as a comma-separated list. The one place this rule is written in SQL.
  */
-const GRANTS_COLUMNS = `(SELECT m.role FROM notebook_members m WHERE m.notebookId = n.id AND m.userId = ?) AS personalRole,
-  (SELECT group_concat(m.role) FROM notebook_members m JOIN group_memberships g ON g.groupId = m.groupId
-    WHERE m.notebookId = n.id AND g.userId = ?) AS groupRoles`;
+const grantsColumns = (dialect: Dialect) => `(SELECT "m"."role" FROM "notebook_members" "m" WHERE "m"."notebookId" = "n"."id" AND "m"."userId" = ?) AS "personalRole",
+  (SELECT ${commaList(dialect, '"m"."role"')} FROM "notebook_members" "m" JOIN "group_memberships" "g" ON "g"."groupId" = "m"."groupId"
+    WHERE "m"."notebookId" = "n"."id" AND "g"."userId" = ?) AS "groupRoles"`;
 
 /** Grant rows `m` (notebook_members) that reach the person named by the :me parameter: their own, or their groups'. */
-export const GRANT_REACHES_ME = `(m.userId = :me OR m.groupId IN (SELECT gm.groupId FROM group_memberships gm WHERE gm.userId = :me))`;
+export const GRANT_REACHES_ME = `("m"."userId" = :me OR "m"."groupId" IN (SELECT "gm"."groupId" FROM "group_memberships" "gm" WHERE "gm"."userId" = :me))`;
 /** Ids of the notebooks shared with :me (not counting ownership). */
-export const NOTEBOOKS_SHARED_WITH_ME = `(SELECT m.notebookId FROM notebook_members m WHERE ${GRANT_REACHES_ME})`;
+export const NOTEBOOKS_SHARED_WITH_ME = `(SELECT "m"."notebookId" FROM "notebook_members" "m" WHERE ${GRANT_REACHES_ME})`;
 
 /** A person's current role on a notebook (null = none), inside any transaction: the rule of access(). */
 export async function roleOn(manager: EntityManager, userId: string, notebookId: string): Promise<NotebookRole | null> {
-  const [row]: { ownerId: string; personalRole: string | null; groupRoles: string | null }[] = await manager.query(
-    `SELECT n.ownerId AS ownerId, ${GRANTS_COLUMNS} FROM notebooks n WHERE n.id = ?`,
+  const [row]: { ownerId: string; personalRole: string | null; groupRoles: string | null }[] = await runSql(
+    manager,
+    `SELECT "n"."ownerId" AS "ownerId", ${grantsColumns(dialectOf(manager))} FROM "notebooks" "n" WHERE "n"."id" = ?`,
     [userId, userId, notebookId],
   );
   if (!row) return null;
   return row.ownerId === userId ? 'owner' : roleFromGrants(row.personalRole, row.groupRoles);
 }
 
-/** The strongest of a personal grant and a comma-separated list of group grants (as group_concat returns them). */
+/** The strongest of a personal grant and a comma-separated list of group grants (as commaList returns them). */
 export function roleFromGrants(personal: string | null | undefined, groupRoles: string | null | undefined): NotebookRole | null {
   let role = (personal as NotebookRole | null | undefined) ?? null;
   for (const groupRole of groupRoles ? groupRoles.split(',') : []) role = strongerRole(role, groupRole as NotebookRole);
@@ -99,14 +101,17 @@ export function refusal(action: NotebookAction, role: NotebookRole): string {
   return `As ${role === 'editor' ? 'an' : 'a'} ${role} you cannot ${ACTION_WORDS[action]}; it needs the ${ROLE_NEEDED[action]} role.`;
 }
 
-/** The better-sqlite3 database under the data source, for the few hot queries written by hand. */
-function sqliteHandle(dataSource: DataSource): { prepare(sql: string): { get(...params: unknown[]): unknown } } {
-  return (dataSource.driver as unknown as { databaseConnection: { prepare(sql: string): { get(...params: unknown[]): unknown } } }).databaseConnection;
-}
+type RowReader = (...params: unknown[]) => Promise<Record<string, string | Date | null> | undefined>;
 
-/** SQLite datetime text (UTC, as TypeORM and datetime('now') write it) to a Date. */
-export function sqliteDate(text: string): Date {
-  return new Date(`${text.replace(' ', 'T')}${text.endsWith('Z') ? '' : 'Z'}`);
+/**
+ * One hot query written by hand: on SQLite a statement prepared once on the better-sqlite3 database under
+ * the data source; on PostgreSQL a plain parameterised query through the pool.
+ */
+function preparedRow(dataSource: DataSource, sql: string): RowReader {
+  if (dialectOf(dataSource) === 'postgres') return async (...params) => (await runSql<Record<string, string | Date | null>[]>(dataSource, sql, params))[0];
+  const sqlite = (dataSource.driver as unknown as { databaseConnection: { prepare(sql: string): { get(...params: unknown[]): unknown } } }).databaseConnection;
+  const statement = sqlite.prepare(sql);
+  return async (...params) => statement.get(...params) as Record<string, string | null> | undefined;
 }
 
 export function parseCellInput(json: string): CellInput {
@@ -142,21 +147,25 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
    * not other people's research. No role at all is answered exactly like a missing notebook (404).
    */
   // Every notebook request starts here, so it is one prepared statement rather than several ORM queries.
-  const accessQuery = sqliteHandle(dataSource).prepare(`SELECT n.id, n.title, n.summary, n.ownerId, n.groupId, n.createdAt, n.updatedAt, ${GRANTS_COLUMNS} FROM notebooks n WHERE n.id = ?`);
+  const accessRow = preparedRow(
+    dataSource,
+    `SELECT "n"."id", "n"."title", "n"."summary", "n"."ownerId", "n"."groupId", "n"."createdAt", "n"."updatedAt", ${grantsColumns(dialectOf(dataSource))} FROM "notebooks" "n" WHERE "n"."id" = ?`,
+  );
 
   async function access(viewer: SignedInUser, notebookId: string): Promise<NotebookAccess> {
-    const row = accessQuery.get(viewer.id, viewer.id, notebookId) as Record<string, string | null> | undefined;
+    const row = await accessRow(viewer.id, viewer.id, notebookId);
     if (!row) throw new AppError('not_found', 'No such notebook.');
+    const text = (column: string) => row[column] as string | null;
     const notebook = notebooks.create({
-      id: row.id!,
-      title: row.title!,
-      summary: row.summary ?? '',
-      ownerId: row.ownerId!,
-      groupId: row.groupId,
-      createdAt: sqliteDate(row.createdAt!),
-      updatedAt: sqliteDate(row.updatedAt!),
+      id: text('id')!,
+      title: text('title')!,
+      summary: text('summary') ?? '',
+      ownerId: text('ownerId')!,
+      groupId: text('groupId'),
+      createdAt: momentFrom(row.createdAt!),
+      updatedAt: momentFrom(row.updatedAt!),
     });
-    const role = notebook.ownerId === viewer.id ? 'owner' : roleFromGrants(row.personalRole, row.groupRoles);
+    const role = notebook.ownerId === viewer.id ? 'owner' : roleFromGrants(text('personalRole'), text('groupRoles'));
     if (!role) throw new AppError('not_found', 'No such notebook.');
     return { notebook, role, canEdit: can(role, 'edit') };
   }
@@ -323,10 +332,11 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
 
   /** Characters of result JSON each cell's latest run holds; queued and running ones by their estimate. */
   async function resultBytesByCell(notebookId: string): Promise<Map<string, number>> {
-    const rows: { cellId: string; status: string; pendingJob: string | null; bytes: number | null }[] = await dataSource.query(
-      `SELECT c."id" AS cellId, r."status" AS status,
-              CASE WHEN r."status" IN ('queued', 'running') THEN r."jobJson" END AS pendingJob,
-              length(h."resultJson") AS bytes
+    const rows: { cellId: string; status: string; pendingJob: string | null; bytes: number | null }[] = await runSql(
+      dataSource,
+      `SELECT c."id" AS "cellId", r."status" AS "status",
+              CASE WHEN r."status" IN ('queued', 'running') THEN r."jobJson" END AS "pendingJob",
+              length(h."resultJson") AS "bytes"
          FROM "cells" c
          JOIN "job_runs" r ON r."id" = c."lastRunId"
          LEFT JOIN "job_runs" h ON h."id" = COALESCE(r."resultRunId", r."id")
@@ -473,12 +483,13 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
 
     /** Everyone who can open the notebook, with their effective role (owner first, then by name). */
     async peopleWithAccess(notebookId: string): Promise<{ id: string; name: string; email: string; role: NotebookRole }[]> {
-      const rows: { id: string; name: string; email: string; role: NotebookRole }[] = await dataSource.query(
-        `SELECT u.id AS id, u.name AS name, u.email AS email, 'owner' AS role FROM notebooks n JOIN users u ON u.id = n.ownerId WHERE n.id = ?
+      const rows: { id: string; name: string; email: string; role: NotebookRole }[] = await runSql(
+        dataSource,
+        `SELECT u."id" AS "id", u."name" AS "name", u."email" AS "email", 'owner' AS "role" FROM "notebooks" n JOIN "users" u ON u."id" = n."ownerId" WHERE n."id" = ?
          UNION ALL
-         SELECT u.id, u.name, u.email, m.role FROM notebook_members m JOIN users u ON u.id = m.userId WHERE m.notebookId = ?
+         SELECT u."id", u."name", u."email", m."role" FROM "notebook_members" m JOIN "users" u ON u."id" = m."userId" WHERE m."notebookId" = ?
          UNION ALL
-         SELECT u.id, u.name, u.email, m.role FROM notebook_members m JOIN group_memberships g ON g.groupId = m.groupId JOIN users u ON u.id = g.userId WHERE m.notebookId = ?`,
+         SELECT u."id", u."name", u."email", m."role" FROM "notebook_members" m JOIN "group_memberships" g ON g."groupId" = m."groupId" JOIN "users" u ON u."id" = g."userId" WHERE m."notebookId" = ?`,
         [notebookId, notebookId, notebookId],
       );
       const strongest = new Map<string, { id: string; name: string; email: string; role: NotebookRole }>();
@@ -492,7 +503,7 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
 
     async list(viewer: SignedInUser, options: { q?: string; filter?: 'all' | 'mine' | 'shared' | 'group'; groupId?: string } = {}): Promise<NotebookSummary[]> {
       const reaching = `n.id IN ${NOTEBOOKS_SHARED_WITH_ME}`;
-      const throughGroup = `n.id IN (SELECT m.notebookId FROM notebook_members m WHERE m.groupId IN (SELECT gm.groupId FROM group_memberships gm WHERE gm.userId = :me)${options.groupId ? ' AND m.groupId = :groupId' : ''})`;
+      const throughGroup = `n.id IN (SELECT "m"."notebookId" FROM "notebook_members" "m" WHERE "m"."groupId" IN (SELECT "gm"."groupId" FROM "group_memberships" "gm" WHERE "gm"."userId" = :me)${options.groupId ? ' AND "m"."groupId" = :groupId' : ''})`;
       const where = {
         all: `(n.ownerId = :me OR ${reaching})`,
         mine: 'n.ownerId = :me',
@@ -501,7 +512,8 @@ export function createNotebookService(dataSource: DataSource, runs: RunService, 
       }[options.filter ?? 'all'];
       const query = notebooks.createQueryBuilder('n').orderBy('n.updatedAt', 'DESC').addOrderBy('n.title', 'ASC').take(500);
       query.where(where, { me: viewer.id, groupId: options.groupId });
-      if (options.q) query.andWhere('(n.title LIKE :q ESCAPE \'\\\' OR n.summary LIKE :q ESCAPE \'\\\')', { q: `%${options.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%` });
+      // lower() on both sides: SQLite's LIKE ignores ASCII case, PostgreSQL's does not
+      if (options.q) query.andWhere('(lower(n.title) LIKE lower(:q) ESCAPE \'\\\' OR lower(n.summary) LIKE lower(:q) ESCAPE \'\\\')', { q: `%${options.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%` });
       return summaries(await query.getMany(), viewer);
     },
 

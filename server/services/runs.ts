@@ -275,7 +275,7 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
       .createQueryBuilder('r')
       .select('r.id', 'id')
       .addSelect('length(r.resultJson)', 'bytes')
-      .where("r.inputHash = :inputHash AND r.status = 'done' AND r.cached = 0", { inputHash })
+      .where("r.inputHash = :inputHash AND r.status = 'done' AND r.cached = FALSE", { inputHash })
       .orderBy('r.createdAt', 'DESC')
       .limit(1)
       .getRawOne();

@@ -26,8 +26,9 @@ import type { Mailer, OutgoingMessage } from '../mail/mailer';
 import { mailSafe } from '../mail/mailSafe';
 import { emailKey } from './accounts';
 import { commitNotebookChange, recordNotebookChange, type NotebookChange, type NotebookEventBus } from './notebookEvents';
-import { roleOn, sqliteDate, type NotebookAccess, type NotebookService } from './notebooks';
+import { roleOn, type NotebookAccess, type NotebookService } from './notebooks';
 import { addNotification } from './notifications';
+import { momentFrom, runSql } from '../db/sql';
 
 export const INVITATION_LIFETIME_MS = 14 * 24 * 3600 * 1000;
 const DAY_MS = 24 * 3600 * 1000;
@@ -146,15 +147,16 @@ export function createSharingService({ dataSource, notebooks, events, mailer, pu
   }
 
   async function memberViews(notebook: Notebook, showEmails: boolean): Promise<NotebookMemberView[]> {
-    const rows: { id: string; userId: string | null; groupId: string | null; role: GrantableRole; createdAt: string; personName: string | null; email: string | null; groupName: string | null; grantedByName: string | null }[] =
-      await dataSource.query(
-        `SELECT m.id AS id, m.userId AS userId, m.groupId AS groupId, m.role AS role, m.createdAt AS createdAt,
-                u.name AS personName, u.email AS email, g.name AS groupName, b.name AS grantedByName
-           FROM notebook_members m
-           LEFT JOIN users u ON u.id = m.userId
-           LEFT JOIN research_groups g ON g.id = m.groupId
-           LEFT JOIN users b ON b.id = m.grantedById
-          WHERE m.notebookId = ?`,
+    const rows: { id: string; userId: string | null; groupId: string | null; role: GrantableRole; createdAt: string | Date; personName: string | null; email: string | null; groupName: string | null; grantedByName: string | null }[] =
+      await runSql(
+        dataSource,
+        `SELECT m."id" AS "id", m."userId" AS "userId", m."groupId" AS "groupId", m."role" AS "role", m."createdAt" AS "createdAt",
+                u."name" AS "personName", u."email" AS "email", g."name" AS "groupName", b."name" AS "grantedByName"
+           FROM "notebook_members" m
+           LEFT JOIN "users" u ON u."id" = m."userId"
+           LEFT JOIN "research_groups" g ON g."id" = m."groupId"
+           LEFT JOIN "users" b ON b."id" = m."grantedById"
+          WHERE m."notebookId" = ?`,
         [notebook.id],
       );
     const owner = await dataSource.getRepository(User).findOneByOrFail({ id: notebook.ownerId });
@@ -170,7 +172,7 @@ export function createSharingService({ dataSource, notebooks, events, mailer, pu
       email: row.userId && showEmails ? row.email : null,
       role: row.role,
       grantedByName: row.grantedByName,
-      createdAt: sqliteDate(row.createdAt).toISOString(),
+      createdAt: momentFrom(row.createdAt).toISOString(),
     }));
     grants.sort((a, b) => roleRank(b.role) - roleRank(a.role) || a.kind.localeCompare(b.kind) || a.name.localeCompare(b.name));
     return [ownerView, ...grants];

@@ -16,6 +16,7 @@ import { MAX_CELLS_PER_NOTEBOOK, type NotebookService } from './notebooks';
 import { jobHash } from './runs';
 import { assertImportedDatasetsFit, currentDatasetHashes, datasetReader, deleteUnheldDatasets, exportedDatasetsText, insertImportedDatasets, restoreVersionDatasets, type DatasetReader } from './datasets';
 import { cellText, resultBudget, storedCells, toSummary, writeCellsByLabel, SUMMARY_COLUMNS, type StoredCell } from './notebookWriter';
+import { runSql } from '../db/sql';
 
 export { MAX_VERSIONS_PER_NOTEBOOK } from './notebookWriter';
 
@@ -53,9 +54,10 @@ async function cachedResults(manager: EntityManager, notebookId: string, cells: 
     }
     if (!job) continue;
     // only a run that computed the result holds it; its size is measured, its text is not read here
-    const [run]: (HoldingRun & { bytes: number | null })[] = await manager.query(
-      `SELECT "id" AS id, "inputHash" AS inputHash, "engineVersion" AS engineVersion, "jobJson" AS jobJson, length("resultJson") AS bytes
-         FROM "job_runs" WHERE "inputHash" = ? AND "status" = 'done' AND "cached" = 0
+    const [run]: (HoldingRun & { bytes: number | null })[] = await runSql(
+      manager,
+      `SELECT "id" AS "id", "inputHash" AS "inputHash", "engineVersion" AS "engineVersion", "jobJson" AS "jobJson", length("resultJson") AS "bytes"
+         FROM "job_runs" WHERE "inputHash" = ? AND "status" = 'done' AND "cached" = FALSE
         ORDER BY "createdAt" DESC LIMIT 1`,
       [jobHash(job)],
     );

@@ -6,6 +6,7 @@ import type { AddressInfo } from 'node:net';
 import { after, before, describe, test } from 'node:test';
 import { apiRouteTable } from '../../server/app';
 import { ResearchGroup } from '../../server/db/entities';
+import { runSql } from '../../server/db/sql';
 import { newId } from '../../server/ids';
 import { GRANTABLE_ROLES, NOTEBOOK_ROLES, type NotebookRole } from '../../shared/notebook/sharing';
 import { ORIGIN, startHarness, type Harness } from './harness';
@@ -218,7 +219,7 @@ describe('access matrix: every route × every kind of caller', () => {
     await createPerson(h, { tag: 'newcomer', signIn: false }).then(async (p) => {
       newcomerId = p.id;
       // The account "add member" routes add: a verified person outside every group and notebook.
-      await h.rungbook.services.dataSource.query('UPDATE users SET email = ?, emailKey = ? WHERE id = ?', ['newcomer@test.rungbook.example', 'newcomer@test.rungbook.example', p.id]);
+      await runSql(h.rungbook.services.dataSource, 'UPDATE "users" SET "email" = ?, "emailKey" = ? WHERE "id" = ?', ['newcomer@test.rungbook.example', 'newcomer@test.rungbook.example', p.id]);
     });
   });
   after(async () => {

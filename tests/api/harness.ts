@@ -6,6 +6,7 @@ import supertest from 'supertest';
 import { startRungbook, type RunningRungbook } from '../../server/boot';
 import { loadConfig, type ServerConfig } from '../../server/config';
 import { CapturedMail } from '../../server/db/entities';
+import { freshPostgresDatabase, testsUsePostgres } from '../db/postgres';
 
 export const ORIGIN = 'http://localhost:8080';
 
@@ -19,7 +20,18 @@ export interface Harness {
   close(): Promise<void>;
 }
 
-/** A real server stack on a fresh temporary SQLite file, with the mail capture on a free port. */
+/** On PostgreSQL, a test that names a database file (to open it again later) gets the same database each time. */
+const postgresDatabasesByPath = new Map<string, Promise<string>>();
+function postgresDatabaseFor(databasePath: string | undefined): Promise<string> {
+  if (!databasePath) return freshPostgresDatabase();
+  if (!postgresDatabasesByPath.has(databasePath)) postgresDatabasesByPath.set(databasePath, freshPostgresDatabase());
+  return postgresDatabasesByPath.get(databasePath)!;
+}
+
+/**
+ * A real server stack on a fresh temporary SQLite file (or, with RUNGBOOK_TEST_DATABASE=postgres, a fresh
+ * database on this test process's PostgreSQL cluster), with the mail capture on a free port.
+ */
 export async function startHarness(env: Record<string, string> = {}): Promise<Harness> {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'rungbook-api-'));
   const webRoot = path.join(dir, 'web');
@@ -31,6 +43,7 @@ export async function startHarness(env: Record<string, string> = {}): Promise<Ha
     PUBLIC_URL: ORIGIN,
     WEB_ROOT: webRoot,
     SEED_DEMO_DATA: 'false',
+    ...(testsUsePostgres() ? { DATABASE_URL: await postgresDatabaseFor(env.DATABASE_PATH) } : {}),
     ...env,
   });
   const rungbook = await startRungbook(config, pino({ level: 'silent' }), { listen: false });

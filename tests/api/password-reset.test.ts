@@ -49,7 +49,7 @@ describe('forgot password → e-mailed single-use link → new password', () => 
       .createQueryBuilder()
       .update()
       .set({ expiresAt: new Date(Date.now() - 1000) })
-      .where('usedAt IS NULL')
+      .where('"usedAt" IS NULL')
       .execute();
     const hashBefore = (await h.rungbook.services.dataSource.getRepository(User).findOneByOrFail({ emailKey: person(1).email })).passwordHash;
     const reply = await h.browser().post('/api/auth/reset').send({ token, password: 'expired-attempt-pass' }).expect(400);

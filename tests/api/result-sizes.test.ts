@@ -7,6 +7,7 @@ import { createDataSource, openDatabase } from '../../server/db/data-source';
 import { Cell, JobRun } from '../../server/db/entities';
 import { migrations } from '../../server/db/migrations';
 import { newId } from '../../server/ids';
+import { runSql } from '../../server/db/sql';
 import type { NotebookDetail, RunView } from '../../shared/notebook/api';
 import { cellInput } from '../../shared/notebook/cells';
 import { jobForCell, type SetupInput } from '../../shared/notebook/jobs';
@@ -52,7 +53,8 @@ describe('stored results: shared by cache hits, bounded per result and per noteb
 
     const rows = await h.rungbook.services.dataSource.getRepository(JobRun).findBy({ cellId: cellId(notebook, 'b2') });
     assert.deepEqual(rows.map((r) => [r.resultJson, r.resultRunId]), [[null, computed.id]], 'a pointer, not a copy');
-    const stored = await h.rungbook.services.dataSource.query(
+    const stored = await runSql<{ n: string | number; bytes: string | number }[]>(
+      h.rungbook.services.dataSource,
       `SELECT COUNT(*) AS n, SUM(length("resultJson")) AS bytes FROM "job_runs" WHERE "cellId" IN (?, ?, ?)`,
       ['b1', 'b2', 'b3'].map((label) => cellId(notebook, label)),
     );
