@@ -1,15 +1,18 @@
-import { useMemo } from 'react';
-import { colors } from '../../constants/theme';
+import { useMemo, useRef } from 'react';
+import { colors, fonts } from '../../constants/theme';
+import { fitDisplaysIn, useRefitOnResize } from '../formula/fitWidth';
 import { ensureKatexStylesheet } from '../formula/katexStylesheet.web';
+import { monoFont } from '../notebook/monoFont';
 import { commentHtml } from './commentMarkdown';
 
-const BODY_STYLE = { fontFamily: 'Inter_400Regular, system-ui, sans-serif', fontSize: 14, color: colors.ink, lineHeight: 1.5, overflowX: 'auto' as const, overflowWrap: 'anywhere' as const };
+/** The theme's text face, whose Greek comes from the math face (so ν in a comment never reads as v). */
+const BODY_STYLE = { fontFamily: `${fonts.regular}, system-ui, sans-serif`, fontSize: 14, color: colors.ink, lineHeight: 1.5, overflowX: 'auto' as const, overflowWrap: 'anywhere' as const };
 const COMMENT_CSS = `
 .rungbook-comment > :first-child { margin-top: 0; }
 .rungbook-comment > :last-child { margin-bottom: 0; }
 .rungbook-comment p, .rungbook-comment ul, .rungbook-comment ol, .rungbook-comment pre { margin: 0.4em 0; }
 .rungbook-comment ul, .rungbook-comment ol { padding-left: 1.4em; }
-.rungbook-comment code { font-family: ui-monospace, Menlo, Consolas, monospace; font-size: 0.92em; background: ${colors.paper}; border-radius: 3px; padding: 0 3px; }
+.rungbook-comment code { font-family: ${monoFont}; font-size: 0.92em; background: ${colors.paper}; border-radius: 3px; padding: 0 3px; }
 .rungbook-comment pre { background: ${colors.paper}; padding: 8px; border-radius: 6px; overflow-x: auto; }
 .rungbook-comment pre code { padding: 0; }
 .rungbook-comment a { color: ${colors.amberDeep}; }
@@ -29,5 +32,7 @@ export function CommentBody({ text, testID }: { text: string; testID?: string })
   ensureKatexStylesheet();
   ensureCommentStyles();
   const html = useMemo(() => commentHtml(text), [text]);
-  return <div className="rungbook-comment" data-testid={testID} style={BODY_STYLE} dangerouslySetInnerHTML={{ __html: html }} />;
+  const root = useRef<HTMLDivElement>(null);
+  useRefitOnResize(root, html, fitDisplaysIn);
+  return <div ref={root} className="rungbook-comment" data-testid={testID} style={BODY_STYLE} dangerouslySetInnerHTML={{ __html: html }} />;
 }

@@ -3,6 +3,7 @@ import { colors, fonts, spacing } from '../../constants/theme';
 import { isRunActive, useCancelRunMutation, useRunQuery } from '../../hooks/api/notebooks';
 import type { CellInput, CellView, NotebookDetail, RunView } from '../../shared/notebook';
 import { Notice } from '../ui/Notice';
+import { usePresentationMode } from '../ui/presentationMode';
 import { ChipButton } from './ChipButton';
 import { CopyableFormula } from './CopyableFormula';
 import { epsilonOf } from './cellSummary';
@@ -31,14 +32,25 @@ export function CellOutput({ notebook, cell }: { notebook: NotebookDetail; cell:
   const lastRun = cell.lastRun;
   if (!lastRun) return <Text style={styles.hint}>Not computed yet. Run it to see the result.</Text>;
   if (isRunActive(lastRun)) return <RunningOutput notebookId={notebook.id} cell={cell} run={lastRun} />;
+  return <FinishedOutput notebook={notebook} cell={cell} run={lastRun} />;
+}
+
+/**
+ * A finished run: its error or result, then how it ran (left off a slide). A result of earlier inputs keeps
+ * full contrast (fading it would drop text below WCAG AA's 4.5:1) and is marked by an amber rule and a label.
+ */
+function FinishedOutput({ notebook, cell, run: lastRun }: { notebook: NotebookDetail; cell: CellView; run: RunView }) {
+  const presenting = usePresentationMode();
+  const stale = cell.state === 'out-of-date';
   return (
-    <View style={[styles.output, cell.state === 'out-of-date' && styles.faded]} testID={`cell-${cell.label}-output`}>
+    <View style={[styles.output, stale && styles.stale]} testID={`cell-${cell.label}-output`}>
+      {stale ? <Text style={styles.staleLabel} testID={`cell-${cell.label}-output-stale`}>Result of earlier inputs</Text> : null}
       {lastRun.status === 'failed' || lastRun.status === 'cancelled' ? (
         <Notice tone="error" message={lastRun.error?.message ?? (lastRun.status === 'cancelled' ? 'The run was cancelled.' : 'The run failed.')} testID={`cell-${cell.label}-error`} />
       ) : (
         <ResultView kind={cell.kind} result={lastRun.result} label={cell.label} setupD={setupDOf(notebook, cell.input)} {...comparisonDisplay(cell.input, notebook.datasets)} />
       )}
-      <Text style={styles.meta}>{runFacts(lastRun)}</Text>
+      {presenting ? null : <Text style={styles.meta} testID={`cell-${cell.label}-facts`}>{runFacts(lastRun)}</Text>}
     </View>
   );
 }
@@ -46,11 +58,12 @@ export function CellOutput({ notebook, cell }: { notebook: NotebookDetail; cell:
 function RunningOutput({ notebookId, cell, run }: { notebookId: string; cell: CellView; run: RunView }) {
   const live = useRunQuery(notebookId, run.id).data ?? run;
   const cancel = useCancelRunMutation(notebookId);
+  const presenting = usePresentationMode();
   return (
     <View style={styles.output} testID={`cell-${cell.label}-running`}>
       <Text style={styles.meta}>{live.status === 'queued' ? 'Waiting for a worker…' : `Computing… ${Math.round(live.progress * 100)} %`}</Text>
       <ProgressBar progress={live.progress} testID={`cell-${cell.label}-progress`} />
-      <ChipButton label="Cancel" tone="danger" onPress={() => cancel.mutate(run.id)} testID={`cell-${cell.label}-cancel`} />
+      {presenting ? null : <ChipButton label="Cancel" tone="danger" onPress={() => cancel.mutate(run.id)} testID={`cell-${cell.label}-cancel`} />}
     </View>
   );
 }
@@ -75,7 +88,8 @@ function runFacts(run: RunView): string {
 
 const styles = StyleSheet.create({
   output: { gap: spacing.sm, borderTopWidth: 1, borderTopColor: colors.rule, paddingTop: spacing.md },
-  faded: { opacity: 0.6 },
+  stale: { borderLeftWidth: 3, borderLeftColor: colors.amber, paddingLeft: spacing.md },
+  staleLabel: { fontFamily: fonts.medium, fontSize: 12, color: colors.amberDeep },
   hint: { fontFamily: fonts.regular, fontSize: 13, color: colors.inkFaint },
   meta: { fontFamily: fonts.regular, fontSize: 12, color: colors.inkFaint },
 });

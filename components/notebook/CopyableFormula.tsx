@@ -2,6 +2,7 @@ import { useState } from 'react';
 import { Pressable, StyleSheet, Text, View } from 'react-native';
 import { colors, fonts } from '../../constants/theme';
 import { Formula } from '../formula';
+import { usePresentationMode } from '../ui/presentationMode';
 import { ChipButton } from './ChipButton';
 import { copyText } from './clipboard';
 import { useDisplayDigits } from './displayPrecision';
@@ -29,6 +30,8 @@ interface CopyableFormulaProps {
 export function CopyableFormula({ tex, text, values, label, testID }: CopyableFormulaProps) {
   const digits = useDisplayDigits();
   const [full, setFull] = useState(false);
+  // On a slide a tap moves to the next cell, so the formula is not a digits toggle there.
+  const presenting = usePresentationMode();
   const fullTex = typeof tex === 'string' ? tex : tex(FULL_PRECISION);
   const shortTex = typeof tex === 'string' ? tex : tex(digits);
   const shortened = shortTex !== fullTex;
@@ -41,7 +44,7 @@ export function CopyableFormula({ tex, text, values, label, testID }: CopyableFo
   return (
     <View testID={testID}>
       <WithResultMenu actions={actions} testID={testID ?? 'formula'}>
-        {shortened ? (
+        {shortened && !presenting ? (
           <Pressable
             accessibilityRole="button"
             accessibilityHint={full ? 'Shows the value at the display precision' : 'Shows every computed digit'}
@@ -62,6 +65,8 @@ export function CopyableFormula({ tex, text, values, label, testID }: CopyableFo
 /** One copy action as a chip (tables and blocks that are not a single formula). */
 export function CopyButton({ text, label, testID }: { text: string; label: string; testID?: string }) {
   const [copied, setCopied] = useState<boolean | null>(null);
+  const presenting = usePresentationMode();
+  if (presenting) return null;
   const copy = async () => {
     setCopied(await copyText(text));
     setTimeout(() => setCopied(null), 1500);

@@ -1,6 +1,7 @@
 import { useState, type ReactNode } from 'react';
 import { Pressable, StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, spacing } from '../../constants/theme';
+import { usePresentationMode } from '../ui/presentationMode';
 import { ChipButton } from './ChipButton';
 import { copyText } from './clipboard';
 
@@ -45,9 +46,11 @@ function CopyChip({ action, testID }: { action: CopyAction; testID?: string }) {
   return <ChipButton label={copied === null ? action.label : copied ? 'Copied' : 'Copy failed'} onPress={() => void copy()} testID={testID} />;
 }
 
-/** A result with a compact menu of copy actions in its top-right corner. */
+/** A result with a compact menu of copy actions in its top-right corner (none on a slide). */
 export function WithResultMenu({ actions, children, testID }: { actions: CopyAction[]; children: ReactNode; testID?: string }) {
   const [open, setOpen] = useState(false);
+  const presenting = usePresentationMode();
+  if (presenting) return <View style={styles.wrap}>{children}</View>;
   return (
     <View style={styles.wrap}>
       <View style={styles.row}>

@@ -126,6 +126,8 @@ export interface ScanPoint {
   x: number;
   values: Record<string, number>;
   flagged: boolean;
+  /** The fixed point followed at this point (the contract's ScanPointResult.fixedPoint, else the scan's); null when none was chosen. */
+  fixedPoint: string | null;
 }
 
 export interface ScanShape {
@@ -166,13 +168,20 @@ export function asScan(result: unknown, meanFieldD?: string): ScanShape | null {
     };
     take(raw.values, '');
     take(raw.pade, PADE_PREFIX);
-    points.push({ x, values, flagged: raw.flagged === true });
+    points.push({ x, values, flagged: raw.flagged === true, fixedPoint: followedAt(raw, scan) });
   }
   if (points.length === 0) return null;
   const d = numberOf(scan.d) ?? numberOf(meanFieldD);
   const meanField = numberOf(scan.marks?.meanFieldEnd) ?? (d !== null ? d / 2 : null);
   const ordered = [...quantities].sort((a, b) => Number(a.startsWith(PADE_PREFIX)) - Number(b.startsWith(PADE_PREFIX)));
   return { variable: 's', points, quantities: ordered, sStar: numberOf(scan.marks?.sStar), meanField, contract: reading.earlier ? null : reading.result, earlier: reading.earlier };
+}
+
+/** A string name or null: earlier results may carry anything (or nothing) here. */
+const nameOrNull = (value: unknown): string | null => (typeof value === 'string' && value.trim() !== '' ? value : null);
+
+function followedAt(point: { fixedPoint?: unknown }, scan: Earlier<ScanResult>): string | null {
+  return nameOrNull(point.fixedPoint) ?? nameOrNull(scan.fixedPoint);
 }
 
 export { isObject };

@@ -63,9 +63,12 @@ for (const viewport of viewports) {
       await waitForState(page, 'exponents', /Up to date/);
       await waitForState(page, 'flow', /Up to date/);
       // O(1) at d = 3, s = 1.75: the ε coefficient of 1/ν is −(N+2)/(N+8) = −1/3
-      // (Fisher, Ma & Nickel 1972, as quoted in Pagni et al. arXiv:2510.02458 eq. (44)).
-      assert.match(await texOf(page, 'exponent-nuInv'), /1\/\\nu = 1\.75 - 0\.3333333333\\,\\varepsilon/);
-      assert.match(await page.getByTestId('cell-exponents-result-table').innerText(), /-0\.33333333333333333333/);
+      // (Fisher, Ma & Nickel 1972, as quoted in Pagni et al. arXiv:2510.02458 eq. (44)), printed as a fraction.
+      assert.match(await texOf(page, 'exponent-nuInv'), /1\/\\nu = 1\.75 - \\tfrac\{1\}\{3\}\\,\\varepsilon/);
+      // The table shows −1/3 (real minus sign); a tap shows every computed digit of −1/3.
+      const table = page.getByTestId('cell-exponents-result-table');
+      await table.getByText('\u22121/3', { exact: true }).first().click();
+      assert.match(await table.innerText(), /-0\.33333333333333333333/);
       await page.getByTestId('beta-u').locator('.katex').first().waitFor();
       await shot('02-results');
 
@@ -89,8 +92,8 @@ for (const viewport of viewports) {
       await page.getByTestId('run-all').click();
       await waitForState(page, 'exponents', /Up to date/);
       await waitForState(page, 'flow', /Up to date/);
-      // O(3): −(N+2)/(N+8) = −5/11 = −0.4545…
-      assert.match(await texOf(page, 'exponent-nuInv'), /- 0\.4545454545\\,\\varepsilon/);
+      // O(3): −(N+2)/(N+8) = −5/11 = −0.4545…, printed as the fraction
+      assert.match(await texOf(page, 'exponent-nuInv'), /- \\tfrac\{5\}\{11\}\\,\\varepsilon/);
       await page.getByTestId('version-message').fill('Heisenberg, N = 3');
       await page.getByTestId('version-save').click();
       await page.getByTestId('version-saved').filter({ hasText: /version/ }).waitFor();
@@ -121,7 +124,7 @@ for (const viewport of viewports) {
       assert.match(await texOf(page, 'cell-setup-parameters'), /O\(1\)/);
       await page.getByTestId('run-all').click();
       await waitForState(page, 'exponents', /Up to date/);
-      assert.match(await texOf(page, 'exponent-nuInv'), /- 0\.3333333333\\,\\varepsilon/);
+      assert.match(await texOf(page, 'exponent-nuInv'), /- \\tfrac\{1\}\{3\}\\,\\varepsilon/);
       await shot('05-restored');
 
       await page.getByTestId('open-present').click();

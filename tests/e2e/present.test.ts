@@ -74,6 +74,8 @@ for (const size of sizes) {
         await page.waitForTimeout(300);
         for (const element of await overflowing(page)) problems.push(`${label}: ${element}`);
         assert.equal(await page.locator('[data-testid$="-edit"], [data-testid$="-run"]').count(), 0, `slide ${label} shows editing controls`);
+        // Nor copy menus, run facts, "Show points", "Save SVG" or export chips: they are clutter on a slide.
+        assert.equal(await page.locator('[aria-label="Copy options"], [data-testid$="-facts"], [data-testid$="-result-points"], [data-testid$="-plot-svg"], [data-testid="comparison-menu"]').count(), 0, `slide ${label} shows result actions`);
         await page.screenshot({ path: path.join(ARTIFACTS, `present-${size.name}-${String(index + 1).padStart(2, '0')}-${label}.png`) });
         if (index < demo.labels.length - 1) await page.getByTestId('presentation-next').click();
       }

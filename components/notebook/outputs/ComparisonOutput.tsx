@@ -4,6 +4,7 @@ import { colors, fonts, spacing } from '../../../constants/theme';
 import type { CompareResult } from '../../../shared/jobs/contract';
 import { comparisonCsv, comparisonTexTable } from '../../../shared/notebook/comparisonTable';
 import type { CellInput, DatasetView } from '../../../shared/notebook';
+import { usePresentationMode } from '../../ui/presentationMode';
 import { ChipButton } from '../ChipButton';
 import { copyText } from '../clipboard';
 import { axisName, comparisonGeometry, comparisonSvg, residualGeometry, type DataShow } from '../plotSvg';
@@ -109,6 +110,8 @@ function KinkList({ result }: { result: CompareResult }) {
 function ExportMenu({ result, drawn, dataLabel, fileName }: { result: CompareResult; drawn: DataShow; dataLabel: string; fileName: string }) {
   const [open, setOpen] = useState(false);
   const [copied, setCopied] = useState<boolean | null>(null);
+  const presenting = usePresentationMode();
+  if (presenting) return null;
   const copyTex = async () => {
     setCopied(await copyText(comparisonTexTable(result)));
     setTimeout(() => setCopied(null), 1500);

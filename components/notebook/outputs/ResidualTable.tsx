@@ -2,6 +2,7 @@ import { useState } from 'react';
 import { ScrollView, StyleSheet, Text, View, type LayoutChangeEvent } from 'react-native';
 import { colors, fonts, spacing } from '../../../constants/theme';
 import type { CompareResult } from '../../../shared/jobs/contract';
+import { usePresentationMode } from '../../ui/presentationMode';
 import { ChipButton } from '../ChipButton';
 import { monoFont } from '../monoFont';
 import { shortDecimal } from '../texFormat';
@@ -84,6 +85,7 @@ function columnsOf(result: CompareResult): Column[] {
 export function ResidualTable({ result }: { result: CompareResult }) {
   const [showAll, setShowAll] = useState(false);
   const [viewWidth, setViewWidth] = useState(0);
+  const presenting = usePresentationMode();
   const columns = columnsOf(result);
   const rows = showAll ? result.points : result.points.slice(0, FIRST_ROWS);
   const contentWidth = columns.reduce((sum, column) => sum + column.width, 0);
@@ -99,7 +101,7 @@ export function ResidualTable({ result }: { result: CompareResult }) {
             <Text key={i} style={[styles.cell, styles.number, { width: X_WIDTH }]} numberOfLines={1} selectable>{point.x}</Text>
           ))}
         </View>
-        <ScrollView horizontal onLayout={(event: LayoutChangeEvent) => setViewWidth(event.nativeEvent.layout.width)} style={styles.scroller}>
+        <ScrollView horizontal onLayout={(event: LayoutChangeEvent) => setViewWidth(event.nativeEvent.layout.width)} style={styles.scroller} testID="comparison-residuals-hscroll">
           <View>
             <View style={styles.row}>
               {columns.map((column, i) => (
@@ -118,7 +120,7 @@ export function ResidualTable({ result }: { result: CompareResult }) {
           </View>
         </ScrollView>
       </View>
-      {result.points.length > FIRST_ROWS ? (
+      {result.points.length > FIRST_ROWS && !presenting ? (
         <ChipButton
           label={showAll ? `Show the first ${FIRST_ROWS} rows` : `Show all ${result.points.length.toLocaleString('en')} rows`}
           onPress={() => setShowAll(!showAll)}

@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, spacing } from '../../../constants/theme';
+import { usePresentationMode } from '../../ui/presentationMode';
 import { ChipButton } from '../ChipButton';
 import { isObject, PADE_PREFIX, type ScanPoint, type ScanShape } from '../resultShapes';
 import { nameOfQuantity } from '../texFormat';
@@ -44,6 +45,7 @@ function cellOf(point: ScanPoint, key: string, details: ScanDetails): string {
 /** A scan: its notices first, then the plot, the numbers behind it on request. `result` is the job's raw result (notices, mark notes). */
 export function ScanOutput({ scan, result, fileName, testID }: { scan: ScanShape; result?: unknown; fileName: string; testID?: string }) {
   const [showTable, setShowTable] = useState(false);
+  const presenting = usePresentationMode();
   const details = scanDetailsOf(result);
   const marks = [
     scan.meanField !== null ? `s = d/2 = ${scan.meanField}${details.meanFieldEndNote ? ` (${details.meanFieldEndNote})` : ''}` : null,
@@ -55,8 +57,8 @@ export function ScanOutput({ scan, result, fileName, testID }: { scan: ScanShape
       <Notices notices={noticesOf(result)} testID={testID ? `${testID}-notices` : undefined} />
       {marks.length ? <Text style={styles.caption} testID={testID ? `${testID}-marks` : undefined}>{marks.join(' · ')}</Text> : null}
       <ScanPlot scan={scan} pointNotices={details.pointNotices} fileName={fileName} testID={testID ? `${testID}-plot` : undefined} />
-      <ChipButton label={showTable ? 'Hide points' : `Show ${scan.points.length} points`} onPress={() => setShowTable(!showTable)} testID={testID ? `${testID}-points` : undefined} />
-      {showTable ? (
+      {presenting ? null : <ChipButton label={showTable ? 'Hide points' : `Show ${scan.points.length} points`} onPress={() => setShowTable(!showTable)} testID={testID ? `${testID}-points` : undefined} />}
+      {showTable && !presenting ? (
         <CoefficientTable
           header={[scan.variable, ...scan.quantities.map(nameOfQuantity), ...(withNotices ? ['notices'] : [])]}
           rows={scan.points.map((point) => [

@@ -2,6 +2,7 @@ import { useState } from 'react';
 import { StyleSheet, Text, View, type GestureResponderEvent, type LayoutChangeEvent } from 'react-native';
 import Svg, { G, Line, Path, Rect, Text as SvgText } from 'react-native-svg';
 import { colors, fonts, spacing } from '../../../constants/theme';
+import { usePresentationMode } from '../../ui/presentationMode';
 import { ChipButton } from '../ChipButton';
 import type { ScanPoint, ScanShape } from '../resultShapes';
 import { saveTextFile } from '../saveFile';
@@ -21,6 +22,7 @@ const PLOT_HEIGHT = 280;
 export function ScanPlot({ scan, pointNotices, fileName, testID }: { scan: ScanShape; pointNotices?: Map<number, string[]>; fileName: string; testID?: string }) {
   const [width, setWidth] = useState(0);
   const [picked, setPicked] = useState<ScanPoint | null>(null);
+  const presenting = usePresentationMode();
   const onLayout = (event: LayoutChangeEvent) => setWidth(Math.round(event.nativeEvent.layout.width));
   const geometry = width > 0 ? plotGeometry(scan, width, PLOT_HEIGHT) : null;
   const caption = followedCaption(followedRuns(scan), scan.variable);
@@ -75,7 +77,7 @@ export function ScanPlot({ scan, pointNotices, fileName, testID }: { scan: ScanS
           ? `${scan.variable} = ${tickLabel(picked.x)}: ${scan.quantities.map((key) => `${nameOfQuantity(key)} = ${picked.values[key] !== undefined ? tickLabel(picked.values[key]) : '—'}`).join(', ')}${picked.flagged ? ' (outside d/2 < s < s*)' : ''}${noticeText(pointNotices?.get(picked.x))}`
           : 'Tap or point at the plot to read values.'}
       </Text>
-      {geometry ? <ChipButton label="Save SVG" onPress={() => void saveTextFile(`${fileName}.svg`, plotSvg(geometry), 'image/svg+xml')} testID={testID ? `${testID}-svg` : undefined} /> : null}
+      {geometry && !presenting ? <ChipButton label="Save SVG" onPress={() => void saveTextFile(`${fileName}.svg`, plotSvg(geometry), 'image/svg+xml')} testID={testID ? `${testID}-svg` : undefined} /> : null}
     </View>
   );
 }

@@ -46,12 +46,11 @@ export interface PlotGeometry extends AxisFrame {
   invertX: (pixel: number) => number;
 }
 
-/** The fixed point followed along the scan, in runs of equal name (from the contract's per-point `fixedPoint`). */
+/** The fixed point followed along the scan, in runs of equal name (each point's `fixedPoint`). */
 export function followedRuns(scan: ScanShape): FollowedRun[] {
-  const points = scan.contract?.points ?? [];
-  const named = points
-    .map((point) => ({ s: Number(point.s), name: point.fixedPoint ?? scan.contract?.fixedPoint ?? null }))
-    .filter((point): point is { s: number; name: string } => Number.isFinite(point.s) && point.name !== null)
+  const named = scan.points
+    .map((point) => ({ s: point.x, name: point.fixedPoint }))
+    .filter((point): point is { s: number; name: string } => point.name !== null)
     .sort((a, b) => a.s - b.s);
   const runs: FollowedRun[] = [];
   for (const point of named) {

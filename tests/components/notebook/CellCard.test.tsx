@@ -1,5 +1,7 @@
 import { fireEvent, screen, waitFor } from '@testing-library/react-native';
+import { StyleSheet } from 'react-native';
 import { CellCard } from '../../../components/notebook/CellCard';
+import { colors } from '../../../constants/theme';
 import type { CellView, NotebookDetail } from '../../../shared/notebook';
 import { mockFetchOnce, renderWithQueryClient } from '../testUtils';
 
@@ -40,11 +42,16 @@ function renderCard(target: CellView, cells: CellView[], wide = true) {
 }
 
 describe('CellCard', () => {
-  it('shows an exponents result as a typeset series and a table with every digit', () => {
+  it('shows an exponents result as a typeset series and a table whose values show every digit on a tap', () => {
     renderCard(exponents, [setup, exponents]);
     expect(screen.getByTestId('cell-exponents-state')).toHaveTextContent('Up to date');
     const formulas = screen.getAllByTestId('tex').map((node) => node.props.children as string);
-    expect(formulas).toContain('1/\\nu = 1.75 - 0.3333333333\\,\\varepsilon - 0.1420323257\\,\\varepsilon^{2} + O(\\varepsilon^{3})');
+    // -0.33333333333333333333 is the 20-digit rounding of -1/3 (hand division), so it prints as a fraction;
+    // -0.14203232574896878531 is not a small-denominator rational and shows at the default 10 significant
+    // digits (the 11th digit is 4, so it rounds down to 0.1420323257).
+    expect(formulas).toContain('1/\\nu = 1.75 - \\tfrac{1}{3}\\,\\varepsilon - 0.1420323257\\,\\varepsilon^{2} + O(\\varepsilon^{3})');
+    // The table shows −1/3 (with a real minus sign, U+2212); a tap shows every computed digit.
+    fireEvent.press(screen.getByText('\u22121/3'));
     expect(screen.getByText('-0.33333333333333333333')).toBeTruthy();
     expect(screen.getByTestId('cell-exponents-earlier')).toHaveTextContent(/earlier shape/);
   });
@@ -54,6 +61,12 @@ describe('CellCard', () => {
     renderCard(stale, [setup, stale]);
     expect(screen.getByTestId('cell-exponents-state')).toHaveTextContent('Out of date');
     expect(screen.getByTestId('cell-exponents-stale')).toHaveTextContent(/Run it again/);
+    // The earlier result keeps full contrast: an amber rule and a label mark it, no opacity (WCAG 2.1
+    // 1.4.3 asks 4.5:1 for the text itself, which a 0.6 opacity would lower).
+    const output = StyleSheet.flatten(screen.getByTestId('cell-exponents-output').props.style);
+    expect(output.opacity).toBeUndefined();
+    expect(output.borderLeftColor).toBe(colors.amber);
+    expect(screen.getByTestId('cell-exponents-output-stale')).toHaveTextContent('Result of earlier inputs');
   });
 
   it('shows a queued run as waiting, with the jobs ahead of it and when the wait is given up', async () => {

@@ -206,8 +206,9 @@ describe('ComparisonOutput', () => {
     expect([svgName, svgType]).toEqual(['cmp.svg', 'image/svg+xml']);
     expect(svg).toMatch(/^<\?xml[^>]*\?>\n<svg xmlns="http:\/\/www\.w3\.org\/2000\/svg" /);
     expect((svg as string).trim().endsWith('</svg>')).toBe(true);
-    // Every variant drawn in the file with its dash pattern; three data points.
-    expect((svg as string).match(/<circle /g)).toHaveLength(3);
+    // Every variant drawn in the file with its dash pattern; three data points, plus one dot as the data's
+    // sample in the legend below the axes.
+    expect((svg as string).match(/<circle /g)).toHaveLength(3 + 1);
     expect(svg).toContain('stroke-dasharray="8 4"');
   });
 

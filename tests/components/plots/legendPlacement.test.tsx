@@ -69,6 +69,16 @@ test('the plot names the fixed point it follows and marks where it changes', () 
   expect(followedCaption(followedRuns(asScan(scanResult(['cubic', 'cubic', 'cubic']))!))).toBe('Follows the cubic fixed point');
 });
 
+test('each scan point carries the fixed point it follows, falling back to the scan\'s, also in an earlier-shape result', () => {
+  expect(asScan(scanResult(['cubic', null, 'O(2)']))!.points.map((point) => point.fixedPoint)).toEqual(['cubic', null, 'O(2)']);
+  // An earlier-shape result (no notices, no regime) naming only the scan's fixed point: every point follows it.
+  const earlier = { d: '3', fixedPoint: 'Wilson-Fisher', quantities: ['nuInv'], points: [{ s: '1.6', values: { nuInv: '1.5' } }, { s: '1.7', values: { nuInv: '1.6' } }] };
+  const scan = asScan(earlier)!;
+  expect(scan.earlier).toBe(true);
+  expect(scan.points.map((point) => point.fixedPoint)).toEqual(['Wilson-Fisher', 'Wilson-Fisher']);
+  expect(followedCaption(followedRuns(scan))).toBe('Follows the Wilson-Fisher fixed point');
+});
+
 test('Greek letters in saved labels take the math face; Latin letters stay in the text face', () => {
   expect(svgLabel('1/ν vs v')).toBe(`1/<tspan font-family="KaTeX_Math, 'Latin Modern Math', 'STIX Two Math', 'Cambria Math', serif" font-style="italic">ν</tspan> vs v`);
 });

@@ -43,6 +43,9 @@ describe('SharedNotebookScreen', () => {
     expect(await screen.findByTestId('shared-title')).toHaveTextContent('Invented two-loop check');
     expect(screen.getByTestId('shared-banner')).toHaveTextContent('Read-only view through a shared link');
     expect(screen.getByTestId('cell-exponents-state')).toHaveTextContent('Up to date');
+    // -0.33333333333333333333 is the 20-digit rounding of -1/3 (hand division): the table shows −1/3
+    // (real minus sign, U+2212) and a tap, allowed to readers too, shows every computed digit.
+    fireEvent.press(screen.getByText('\u22121/3'));
     expect(screen.getByText('-0.33333333333333333333')).toBeTruthy();
     // The stored result has an earlier shape than today's contract (no notices, relations, sources): it says so.
     expect(screen.getByTestId('cell-exponents-earlier')).toBeTruthy();
