@@ -18,6 +18,8 @@ import { PresenterBar } from '../live/PresenterBar';
 import { useFollowPresenter } from '../live/useFollowPresenter';
 import { sharingHref } from '../sharing/paths';
 import { DisplayDigitsPicker } from '../ui/DisplayDigitsPicker';
+import { LatexExportPanel } from '../notebook/LatexExportPanel';
+import type { LatexExportQuery } from '../../shared/api/schemas';
 import { Notice } from '../ui/Notice';
 import { AddCellBar } from '../notebook/AddCellBar';
 import { CellCard } from '../notebook/CellCard';
@@ -80,6 +82,8 @@ function NotebookEditor({ notebook, live, focusCellId }: { notebook: NotebookDet
   const sideColumn = useWindowDimensions().width >= SIDE_COLUMN_MIN_WIDTH;
   const me = useMeQuery().data;
   const [displayDigits, chooseDisplayDigits] = useDisplayDigitsSetting(notebook.id, me?.id);
+  const [latexOpen, setLatexOpen] = useState(false);
+  const [exporting, setExporting] = useState(false);
   const scroll = useRef<ScrollView>(null);
   const scroller = useCellScroller(scroll);
   const runners = useRef(new Map<string, () => void>());
@@ -134,14 +138,17 @@ function NotebookEditor({ notebook, live, focusCellId }: { notebook: NotebookDet
     if (focusKnown && focusCellId) reveal(focusCellId);
     // Only a new `?cell=` moves the view; later edits of the notebook must not.
   }, [focusCellId, focusKnown]);
-  const exportAs = async (format: 'tex' | 'json') => {
+  const exportAs = async (format: 'tex' | 'json', query: LatexExportQuery = {}) => {
     setExportError(null);
+    setExporting(true);
     try {
-      const text = await fetchNotebookExport(notebook.id, format);
+      const text = await fetchNotebookExport(notebook.id, format, query);
       const base = notebook.title.replace(/[^A-Za-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'notebook';
       await saveTextFile(`${base}.${format}`, text, format === 'tex' ? 'application/x-tex' : 'application/json');
     } catch (error) {
       setExportError(error instanceof Error ? error.message : 'The export failed.');
+    } finally {
+      setExporting(false);
     }
   };
 
@@ -185,7 +192,7 @@ function NotebookEditor({ notebook, live, focusCellId }: { notebook: NotebookDet
           )}
           <ChipButton label="Versions" onPress={() => router.push(`/notebooks/${notebook.id}/versions`)} testID="open-history" />
           <ChipButton label="Present" onPress={() => router.push(`/notebooks/${notebook.id}/present`)} testID="open-present" />
-          <ChipButton label="LaTeX" onPress={() => void exportAs('tex')} testID="export-tex" accessibilityLabel="Export as LaTeX" />
+          <ChipButton label="LaTeX" selected={latexOpen} onPress={() => setLatexOpen(!latexOpen)} testID="export-tex" accessibilityLabel="Export as LaTeX" />
           <ChipButton label="JSON" onPress={() => void exportAs('json')} testID="export-json" accessibilityLabel="Export as JSON" />
           <ChipButton label={notebook.datasets?.length ? `Data (${notebook.datasets.length})` : 'Data'} selected={dataOpen} onPress={() => setDataOpen(!dataOpen)} testID="data-toggle" accessibilityLabel="Datasets of this notebook" />
           {wide && notebook.canEdit ? <ChipButton label="Shortcuts" onPress={() => setHelpOpen(true)} testID="open-shortcuts" /> : null}
@@ -195,6 +202,7 @@ function NotebookEditor({ notebook, live, focusCellId }: { notebook: NotebookDet
         {runAll.data && runAll.data.runs.length === 0 && runAll.data.waiting.length === 0 ? <Notice tone="info" message="Every cell is already up to date." testID="run-all-nothing" /> : null}
         {runAllWaiting.length ? <Notice tone="info" message={waitingMessage(runAllWaiting)} testID="run-all-waiting" /> : null}
         {runAll.isError ? <Notice tone="error" message={runAll.error.message} /> : null}
+        {latexOpen ? <LatexExportPanel displayDigits={displayDigits} busy={exporting} onExport={(query) => void exportAs('tex', query)} /> : null}
         {exportError ? <Notice tone="error" message={exportError} /> : null}
         {versionFormOpen && notebook.canEdit ? <SaveVersionForm notebookId={notebook.id} /> : null}
         {dataOpen ? <DatasetPanel notebook={notebook} onCellAdded={reveal} /> : null}

@@ -208,10 +208,11 @@ export function useRestoreVersionMutation(notebookId: string) {
 }
 
 /** An export as text (LaTeX or JSON), fetched with the session cookie. */
-export async function fetchNotebookExport(notebookId: string, format: 'tex' | 'json'): Promise<string> {
+export async function fetchNotebookExport(notebookId: string, format: 'tex' | 'json', query: Record<string, string | number> = {}): Promise<string> {
   let response: Response;
+  const search = new URLSearchParams(Object.entries(query).map(([key, value]) => [key, String(value)])).toString();
   try {
-    response = await fetch(`${API_BASE}/api/notebooks/${notebookId}/export.${format}`, { credentials: 'include' });
+    response = await fetch(`${API_BASE}/api/notebooks/${notebookId}/export.${format}${search ? `?${search}` : ''}`, { credentials: 'include' });
   } catch {
     throw new ApiError(0, 'network', 'Cannot reach the Rungbook server. Check your connection and try again.');
   }

@@ -98,8 +98,9 @@ for (const viewport of viewports) {
       await page.getByTestId('version-save').click();
       await page.getByTestId('version-saved').filter({ hasText: /version/ }).waitFor();
 
-      const download = page.waitForEvent('download');
       await page.getByTestId('export-tex').click();
+      const download = page.waitForEvent('download');
+      await page.getByTestId('export-tex-download').click();
       const texFile = await (await download).path();
       const tex = fs.readFileSync(texFile, 'utf8');
       assert.match(tex, /\\begin\{document\}/);
