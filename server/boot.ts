@@ -9,7 +9,7 @@ import { openDatabase } from './db/data-source';
 import { createMailer } from './mail/mailer';
 import { startSmtpFake, type SmtpFake } from './mail/smtp-fake';
 import { attachDemoDatasets, disarmPublishedDemoAccounts, seedDemoDataIfEmpty } from './seed/demo';
-import { createWorkerPoolRunner } from './jobs/runner';
+import { connectSharedState } from './jobs/sharedState';
 import { createServices, type Services } from './services';
 import { failInterruptedRuns } from './services/runs';
 
@@ -33,8 +33,10 @@ export async function startRungbook(config: ServerConfig, logger: Logger, option
     config.mail.smtpPort = smtpFake.port;
   }
   const mailer = createMailer(config.mail, logger, smtpFake?.credential);
-  await failInterruptedRuns(dataSource);
-  const services = createServices(config, logger, dataSource, mailer, createWorkerPoolRunner({ threads: config.jobs.threads }));
+  // with a shared queue, other servers' runs are still going: only a lone server knows its runs were cut off
+  if (!config.jobQueueUrl) await failInterruptedRuns(dataSource);
+  const shared = await connectSharedState(config, logger);
+  const services = createServices(config, logger, dataSource, mailer, shared.runner);
   const demoSeed = config.localOnly ? {} : { reachable: { password: config.demoPassword } };
   const demoDataCreated = config.seedDemoData ? await seedDemoDataIfEmpty(dataSource, demoSeed) : false;
   if (demoDataCreated) await attachDemoDatasets(dataSource, services.datasets);
@@ -42,6 +44,7 @@ export async function startRungbook(config: ServerConfig, logger: Logger, option
     const disarmed = await disarmPublishedDemoAccounts(dataSource);
     if (disarmed.length) logger.warn({ accounts: disarmed }, 'demo accounts still had their published passwords: given random passwords and no site-admin rights, because this start can be reached by others');
   }
+  shared.attach(services);
   const app = createApp(services);
 
   let server: Server | undefined;
@@ -69,6 +72,7 @@ export async function startRungbook(config: ServerConfig, logger: Logger, option
         await closed;
       }
       await services.runs.close();
+      await shared.close();
       await services.documents.close();
       await mailer.close();
       await smtpFake?.stop();

@@ -1,5 +1,6 @@
 import { spawn, spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
+import type { Socket } from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import { freePort } from '../freePort';
@@ -8,6 +9,10 @@ export interface RunningRedis {
   /** redis://127.0.0.1:<port> */
   url: string;
   stop(): Promise<void>;
+  /** Kills the server at once, for process exit handlers, which cannot wait for promises. */
+  stopNow(): void;
+  /** Lets this process exit while the server still runs (an exit handler then calls stopNow). */
+  unref(): void;
 }
 
 const REDIS_BINARY = 'redis-server';
@@ -37,6 +42,15 @@ export async function startRedis(): Promise<RunningRedis> {
   });
   return {
     url: `redis://127.0.0.1:${port}`,
+    unref() {
+      child.unref();
+      // the output pipes are sockets: unreferenced, they no longer hold this process either
+      for (const pipe of [child.stdout, child.stderr]) (pipe as unknown as Socket).unref();
+    },
+    stopNow() {
+      if (child.exitCode === null && child.signalCode === null) child.kill('SIGKILL');
+      rmSync(dir, { recursive: true, force: true });
+    },
     async stop() {
       if (child.exitCode === null) {
         const exited = new Promise((resolve) => child.once('exit', resolve));

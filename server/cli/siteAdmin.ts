@@ -11,7 +11,8 @@ async function siteAdmin(action: string | undefined, email: string | undefined) 
   if ((action !== 'grant' && action !== 'revoke') || !email) {
     throw new Error('usage: npm run site-admin -- grant|revoke <e-mail of an existing account>');
   }
-  const dataSource = await openDatabase(loadConfig().databasePath);
+  const { databasePath, databaseUrl } = loadConfig();
+  const dataSource = await openDatabase(databasePath, databaseUrl);
   try {
     const users = dataSource.getRepository(User);
     const user = await users.findOneBy({ emailKey: email.trim().toLowerCase() });

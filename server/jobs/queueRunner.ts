@@ -25,6 +25,10 @@ export class WorkerFailure extends Error {}
 /** Keeps finished jobs briefly for inspection; the database holds the results. */
 const KEEP_FINISHED = { age: 3600, count: 1000 };
 
+/** Marks a run cancelled from another server, so its own server does not add the job after the cancel. */
+const cancelledKey = (jobId: string) => `rungbook:engine:cancelled:${jobId}`;
+const CANCELLED_MARK_SECONDS = 24 * 3600;
+
 /**
  * The JobRunner served by a BullMQ queue on Redis: `run` adds a job and follows its events (active,
  * progress, completed, failed) until it ends; workers in other processes (`npm run worker`) execute it.
@@ -44,6 +48,8 @@ export async function createQueueRunner(options: QueueRunnerOptions): Promise<Jo
   });
   events.on('completed', ({ jobId, returnvalue }) => settle(jobId, (entry) => entry.resolve(returnvalue)));
   events.on('failed', ({ jobId, failedReason }) => settle(jobId, (entry) => entry.reject(new WorkerFailure(failedReason))));
+  // another server cancelled a job that was still waiting
+  events.on('removed', ({ jobId }) => settle(jobId, (entry) => entry.reject(new RunAborted('cancelled by request'))));
   events.on('error', (error) => options.logger.error({ err: error }, 'reading the job queue events failed'));
 
   function markStarted(entry: Waiting | undefined) {
@@ -66,12 +72,21 @@ export async function createQueueRunner(options: QueueRunnerOptions): Promise<Jo
     if (!removed) await publisher.publish(CANCEL_CHANNEL, JSON.stringify({ jobId, reason }));
   }
 
+  const cancelledElsewhere = async (runId: string | undefined) => runId !== undefined && (await publisher.exists(cancelledKey(runId))) === 1;
+
   return {
     async run(job, hooks) {
       if (hooks.signal.aborted) throw abortedBy(hooks.signal);
       const jobId = hooks.runId ?? randomUUID();
       const finished = new Promise<unknown>((resolve, reject) => waiting.set(jobId, { hooks, started: false, resolve, reject }));
-      await queue.add('engine', { job, timeLimitMs: options.timeLimitMs }, { jobId, attempts: 1, removeOnComplete: KEEP_FINISHED, removeOnFail: KEEP_FINISHED });
+      // it may end (removed by another server's cancel) before this awaits it below
+      finished.catch(() => undefined);
+      try {
+        await queue.add('engine', { job, timeLimitMs: options.timeLimitMs }, { jobId, attempts: 1, removeOnComplete: KEEP_FINISHED, removeOnFail: KEEP_FINISHED });
+      } catch (error) {
+        waiting.delete(jobId);
+        throw error;
+      }
       const gaveUp = new AbortController();
       const waitTimer = setTimeout(() => gaveUp.abort(), options.queueWaitLimitMs);
       const stop = (error: Error) => {
@@ -85,6 +100,9 @@ export async function createQueueRunner(options: QueueRunnerOptions): Promise<Jo
       };
       hooks.signal.addEventListener('abort', onAbort, { once: true });
       gaveUp.signal.addEventListener('abort', onWaitedTooLong, { once: true });
+      // a cancel (from here, or from another server by the run's id) made while the job was being added found nothing to withdraw
+      if (hooks.signal.aborted) onAbort();
+      else if (await cancelledElsewhere(hooks.runId)) stop(new RunAborted('cancelled by request'));
       try {
         return await finished;
       } catch (error) {
@@ -94,6 +112,11 @@ export async function createQueueRunner(options: QueueRunnerOptions): Promise<Jo
         clearTimeout(waitTimer);
         hooks.signal.removeEventListener('abort', onAbort);
       }
+    },
+
+    async cancel(runId, reason) {
+      await publisher.set(cancelledKey(runId), reason, 'EX', CANCELLED_MARK_SECONDS);
+      await withdraw(runId, reason);
     },
 
     status: () => queueStatus(queue),

@@ -15,6 +15,11 @@ export interface RunHooks {
 export interface JobRunner {
   /** Resolves with the engine's result; rejects with RunAborted when cancelled or over time, or on a worker crash. */
   run(job: unknown, hooks: RunHooks): Promise<unknown>;
+  /**
+   * Stops the job of a run by its id wherever it is (a shared queue only): the run another server started.
+   * That server's `run` then rejects, and a job it has not added yet is refused.
+   */
+  cancel?(runId: string, reason: string): Promise<void>;
   close(): Promise<void>;
 }
 

@@ -1,10 +1,7 @@
 import type { HealthReport } from '../../shared/api/schemas';
 import { route } from '../http/route';
-import { sharedStateOf, type JobsStatus } from '../jobs/sharedState';
+import { sharedStateOf } from '../jobs/sharedState';
 import type { Services } from '../services';
-
-/** HealthReport plus where jobs run: the in-process pool, or the shared queue and how many workers serve it. */
-export type HealthWithJobs = HealthReport & { status: 'ok' | 'degraded'; queue: JobsStatus['queue'] | 'unknown'; workers: number };
 
 export function healthRoutes(services: Services) {
   const { dataSource, config } = services;
@@ -13,7 +10,7 @@ export function healthRoutes(services: Services) {
       method: 'get',
       path: '/health',
       access: 'public',
-      async handler(): Promise<HealthWithJobs> {
+      async handler(): Promise<HealthReport> {
         let database: HealthReport['database'] = 'ok';
         try {
           await dataSource.query('SELECT 1');

@@ -1,6 +1,6 @@
 import { createHash } from 'node:crypto';
 import { isDataJob } from '../../shared/jobs/contract';
-import { IsNull, type DataSource } from 'typeorm';
+import { In, IsNull, type DataSource } from 'typeorm';
 import type { Logger } from 'pino';
 import { canonicalJson } from '../../shared/notebook/dependencies';
 import { estimatedResultBytes, jobCostProblem, megabytes } from '../../shared/jobs/cost';
@@ -11,7 +11,7 @@ import { JobRun } from '../db/entities';
 import { AppError } from '../http/errors';
 import { newId } from '../ids';
 import { ENGINE_VERSION } from '../jobs/engineVersion';
-import { RunAborted, type JobRunner } from '../jobs/runner';
+import { QueueWaitExceeded, RunAborted, type JobRunner } from '../jobs/runner';
 import { FairQueue, type QueuedJob } from '../jobs/scheduler';
 
 export interface RunRequest {
@@ -114,8 +114,17 @@ class TimeLimitExceeded extends Error {
   }
 }
 
+const errorJson = (code: string, message: string) => JSON.stringify({ code, message });
+
+/** A run no worker took within the queue-wait limit, whether it waited in this server's queue or the shared one. */
+function queueWaitFailure(limitMs: number): Partial<JobRun> {
+  const message = `Waited ${duration(limitMs)} in the queue without a free worker, so it was given up. Run it again when the queue is shorter.`;
+  return { status: 'failed', errorJson: errorJson('queue-wait', message) };
+}
+
 /** A time-limited job failed; a cancelled one was cancelled; anything else means the worker crashed (and was replaced). */
-function failureOf(error: unknown, abortReason: unknown): Partial<JobRun> {
+function failureOf(error: unknown, abortReason: unknown, limits: JobQueueConfig): Partial<JobRun> {
+  if (error instanceof QueueWaitExceeded) return queueWaitFailure(limits.queueWaitLimitMs);
   if (error instanceof RunAborted && abortReason instanceof TimeLimitExceeded) {
     return { status: 'failed', errorJson: JSON.stringify({ code: 'time-limit', message: abortReason.message }) };
   }
@@ -123,14 +132,19 @@ function failureOf(error: unknown, abortReason: unknown): Partial<JobRun> {
   return { status: 'failed', errorJson: JSON.stringify({ code: 'worker-crashed', message: 'The calculation worker crashed; it has been replaced. Run the cell again.' }) };
 }
 
-const errorJson = (code: string, message: string) => JSON.stringify({ code, message });
-
 /** A finished result is stored unless it is too large to keep (and to send to the browser). */
 function finished(resultJson: string): Partial<JobRun> {
   if (resultJson.length <= RESULT_LIMITS.maxResultBytes) return { status: 'done', progress: 1, resultJson };
   const message = `The result took ${megabytes(resultJson.length)}, over the limit of ${megabytes(RESULT_LIMITS.maxResultBytes)} per result, so it was not kept; reduce the points, quantities or digits.`;
   return { status: 'failed', errorJson: errorJson('result-too-large', message) };
 }
+
+/** Beyond the longest a run can take, before an open run is taken to have lost its server. */
+const ORPHAN_GRACE_MS = 60_000;
+const INTERRUPTED_ERROR = JSON.stringify({ code: 'interrupted', message: 'The server restarted while this ran. Run it again.' });
+
+/** A run whose job may still be waiting or running somewhere. */
+const OPEN_STATUSES: JobRun['status'][] = ['queued', 'running'];
 
 interface InFlight {
   userId: string;
@@ -180,16 +194,17 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
     };
     let patch: Partial<JobRun>;
     try {
-      const result = await runner.run(job, { signal: abort.signal, onStarted, onProgress });
+      const result = await runner.run(job, { signal: abort.signal, onStarted, onProgress, runId: run.id });
       patch = isEngineError(result) ? { status: 'failed', errorJson: JSON.stringify(result.error) } : finished(JSON.stringify(result));
     } catch (error) {
-      patch = failureOf(error, abort.signal.reason);
+      patch = failureOf(error, abort.signal.reason, limits);
       if (!(error instanceof RunAborted)) logger.error({ err: error, runId: run.id }, 'engine worker failed');
     } finally {
       clearTimeout(timer);
     }
-    await runs.update({ id: run.id }, { ...patch, finishedAt: new Date(), durationMs: Date.now() - started });
-    announceFinished(run.id, patch.status!);
+    // another server may have cancelled the run meanwhile (shared queue): its record stands, and it announced the end
+    const recorded = await runs.update({ id: run.id, status: In(OPEN_STATUSES) }, { ...patch, finishedAt: new Date(), durationMs: Date.now() - started });
+    if (recorded.affected !== 0) announceFinished(run.id, patch.status!);
   }
 
   /** Hands free workers to waiting jobs, fairly across people. */
@@ -226,8 +241,18 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
   }
 
   function giveUpWaiting(id: string) {
-    const message = `Waited ${duration(limits.queueWaitLimitMs)} in the queue without a free worker, so it was given up. Run it again when the queue is shorter.`;
-    void endWaiting(id, { status: 'failed', errorJson: errorJson('queue-wait', message) });
+    void endWaiting(id, queueWaitFailure(limits.queueWaitLimitMs));
+  }
+
+  /** A run this server does not hold, started by another server on the shared queue: record the cancel, then stop its job. */
+  async function cancelElsewhere(run: JobRun) {
+    if (!runner.cancel || !OPEN_STATUSES.includes(run.status)) return;
+    const patch = { status: 'cancelled' as const, errorJson: errorJson('cancelled', 'Cancelled: cancelled by request'), finishedAt: new Date() };
+    const recorded = await runs.update({ id: run.id, status: In(OPEN_STATUSES) }, patch);
+    await runner.cancel(run.id, 'cancelled by request');
+    if (recorded.affected === 0) return;
+    cellOf.set(run.id, run.cellId);
+    announceFinished(run.id, 'cancelled');
   }
 
   function assertRoomInQueue(userId: string) {
@@ -265,8 +290,23 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
   async function find(runId: string) {
     const run = await runs.findOneBy({ id: runId });
     if (!run) throw new AppError('not_found', 'No such run.');
+    if (isOrphaned(run)) {
+      await markInterrupted(run.id);
+      return find(runId);
+    }
     if (run.resultRunId) run.resultJson = (await runs.findOne({ select: { id: true, resultJson: true }, where: { id: run.resultRunId } }))?.resultJson ?? null;
     return run;
+  }
+
+  /**
+   * No run stays open longer than waiting here, waiting in a shared queue and running: one still open
+   * after that, held by no live server here, lost its server (stopped or crashed while other servers run on).
+   */
+  const orphanAfterMs = 2 * limits.queueWaitLimitMs + limits.timeLimitMs + ORPHAN_GRACE_MS;
+  const isOrphaned = (run: JobRun) => OPEN_STATUSES.includes(run.status) && !inFlight.has(run.id) && Date.now() - run.createdAt.getTime() > orphanAfterMs;
+
+  async function markInterrupted(id: string) {
+    await runs.update({ id, status: In(OPEN_STATUSES) }, { status: 'failed', errorJson: INTERRUPTED_ERROR, finishedAt: new Date() });
   }
 
   /** The newest run that computed this job's result itself (cache hits only point at such runs). */
@@ -330,7 +370,10 @@ export function createRunService(dataSource: DataSource, runner: JobRunner, logg
     async cancel(runId) {
       const run = await find(runId);
       const pending = inFlight.get(runId);
-      if (!pending) return run;
+      if (!pending) {
+        await cancelElsewhere(run);
+        return find(runId);
+      }
       const cancelled = errorJson('cancelled', 'Cancelled while waiting in the queue.');
       if (!(await endWaiting(runId, { status: 'cancelled', errorJson: cancelled }))) {
         pending.abort.abort(new Error('cancelled by request'));
@@ -367,7 +410,7 @@ export async function failInterruptedRuns(dataSource: DataSource): Promise<void>
     .getRepository(JobRun)
     .createQueryBuilder()
     .update()
-    .set({ status: 'failed', errorJson: JSON.stringify({ code: 'interrupted', message: 'The server restarted while this ran. Run it again.' }) })
+    .set({ status: 'failed', errorJson: INTERRUPTED_ERROR })
     .where('status IN (:...open)', { open: ['queued', 'running'] })
     .execute();
 }

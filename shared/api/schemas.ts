@@ -113,6 +113,10 @@ export interface CapturedMessage {
 export interface HealthReport {
   status: 'ok' | 'degraded';
   database: 'ok' | 'unreachable';
+  /** Where engine jobs run: this server's own threads, or a shared queue (reachable or not). */
+  queue: 'in-process' | 'ok' | 'unreachable' | 'unknown';
+  /** Worker processes serving the shared queue, or this server's job threads. */
+  workers: number;
   mail: 'fake' | 'smtp';
   version: string;
 }

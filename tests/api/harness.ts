@@ -7,6 +7,7 @@ import { startRungbook, type RunningRungbook } from '../../server/boot';
 import { loadConfig, type ServerConfig } from '../../server/config';
 import { CapturedMail } from '../../server/db/entities';
 import { freshPostgresDatabase, testsUsePostgres } from '../db/postgres';
+import { forgetRateLimitCounts, sharedQueueUrl, testsUseQueue } from './sharedQueue';
 
 export const ORIGIN = 'http://localhost:8080';
 
@@ -28,9 +29,31 @@ function postgresDatabaseFor(databasePath: string | undefined): Promise<string> 
   return postgresDatabasesByPath.get(databasePath)!;
 }
 
+/** JOB_QUEUE_URL of this test process's Redis queue and workers (RUNGBOOK_TEST_QUEUE=redis), with fresh rate-limit counts. */
+async function sharedQueueSettings(): Promise<Record<string, string>> {
+  if (!testsUseQueue()) return {};
+  const url = await sharedQueueUrl();
+  await forgetRateLimitCounts(url);
+  return { JOB_QUEUE_URL: url };
+}
+
+/**
+ * The settings that put a server on the services the tests were asked to use: DATABASE_URL of a database
+ * on PostgreSQL (the same one for the same `databasePath`) and JOB_QUEUE_URL of the Redis queue; none by default.
+ */
+export async function testServiceSettings(databasePath?: string): Promise<Record<string, string>> {
+  return {
+    ...(testsUsePostgres() ? { DATABASE_URL: await postgresDatabaseFor(databasePath) } : {}),
+    ...(await sharedQueueSettings()),
+  };
+}
+
 /**
  * A real server stack on a fresh temporary SQLite file (or, with RUNGBOOK_TEST_DATABASE=postgres, a fresh
- * database on this test process's PostgreSQL cluster), with the mail capture on a free port.
+ * database on this test process's PostgreSQL cluster), with the mail capture on a free port. With
+ * RUNGBOOK_TEST_QUEUE=redis its engine jobs go through the test process's Redis queue to two worker
+ * processes; job limits (time, queue wait, per person) are the server's settings, and the time limit
+ * travels with each job to the worker.
  */
 export async function startHarness(env: Record<string, string> = {}): Promise<Harness> {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'rungbook-api-'));
@@ -43,7 +66,7 @@ export async function startHarness(env: Record<string, string> = {}): Promise<Ha
     PUBLIC_URL: ORIGIN,
     WEB_ROOT: webRoot,
     SEED_DEMO_DATA: 'false',
-    ...(testsUsePostgres() ? { DATABASE_URL: await postgresDatabaseFor(env.DATABASE_PATH) } : {}),
+    ...(await testServiceSettings(env.DATABASE_PATH)),
     ...env,
   });
   const rungbook = await startRungbook(config, pino({ level: 'silent' }), { listen: false });

@@ -162,7 +162,7 @@ describe('production defaults', () => {
     try {
       const person = await createPerson(h, { signIn: false });
       const cli = (action: string) =>
-        spawnSync(process.execPath, ['--import', 'tsx', 'server/cli/siteAdmin.ts', action, person.email.toUpperCase()], { cwd: ROOT, env: { ...process.env, DATABASE_PATH: databasePath }, encoding: 'utf8' });
+        spawnSync(process.execPath, ['--import', 'tsx', 'server/cli/siteAdmin.ts', action, person.email.toUpperCase()], { cwd: ROOT, env: { ...process.env, DATABASE_PATH: databasePath, ...(h.config.databaseUrl ? { DATABASE_URL: h.config.databaseUrl } : {}) }, encoding: 'utf8' });
       assert.equal(cli('grant').status, 0);
       assert.equal((await h.rungbook.services.dataSource.getRepository(User).findOneByOrFail({ id: person.id })).siteRole, 'admin');
       assert.equal(cli('revoke').status, 0);

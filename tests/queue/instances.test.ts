@@ -8,19 +8,19 @@ import supertest from 'supertest';
 import { startRedis, type RunningRedis } from '../../scripts/services/redis';
 import { startRungbook, type RunningRungbook } from '../../server/boot';
 import { loadConfig } from '../../server/config';
-import { connectSharedState, sharedStateOf, type SharedState } from '../../server/jobs/sharedState';
 import type { NotebookDetail } from '../../shared/notebook/api';
 import { ORIGIN, type Harness } from '../api/harness';
 import { createPerson, type TestPerson } from '../api/people';
+import { JobRun } from '../../server/db/entities';
+import { newId } from '../../server/ids';
 import { openEventStream, type EventStreamClient } from './eventStream';
+import { slowScanJob } from './processes';
 
 const setupCell = { label: 'setup', input: { kind: 'setup', model: { preset: 'on', N: 1 }, d: '3', s: '1.5', loops: 2, digits: 20 } };
 
 interface Instance {
   rungbook: RunningRungbook;
   port: number;
-  /** Set when this test connected the shared state itself (a start-up that does not do so yet). */
-  shared?: SharedState;
 }
 
 describe('two server instances on one database file and one Redis', () => {
@@ -35,13 +35,8 @@ describe('two server instances on one database file and one Redis', () => {
     const config = loadConfig({
       DATABASE_PATH: path.join(dir, 'shared.sqlite'), JOB_QUEUE_URL: redis.url, PORT: '0', SMTP_PORT: '0', PUBLIC_URL: ORIGIN, WEB_ROOT: dir, SEED_DEMO_DATA: 'false',
     });
-    const logger = pino({ level: 'silent' });
-    const rungbook = await startRungbook(config, logger, { listen: true });
+    const rungbook = await startRungbook(config, pino({ level: 'silent' }), { listen: true });
     const instance: Instance = { rungbook, port: rungbook.port! };
-    if (!sharedStateOf(rungbook.services)) {
-      instance.shared = await connectSharedState(config, logger);
-      instance.shared.attach(rungbook.services);
-    }
     instances.push(instance);
     return instance;
   }
@@ -60,11 +55,7 @@ describe('two server instances on one database file and one Redis', () => {
 
   after(async () => {
     streams.forEach((stream) => stream.close());
-    for (const { rungbook, shared } of instances) {
-      await rungbook.stop();
-      await shared?.runner.close();
-      await shared?.close();
-    }
+    for (const { rungbook } of instances) await rungbook.stop();
     fs.rmSync(dir, { recursive: true, force: true });
     await redis.stop();
   });
@@ -96,5 +87,35 @@ describe('two server instances on one database file and one Redis', () => {
     const reply = (await owner.client.post(`/api/notebooks/${notebook.id}/presentation`).send({ cellId: cells[0].id }).expect(200)).body.presenter;
     const followed = await stream.next('presenter');
     assert.deepEqual(followed.presenter, reply);
+  });
+
+  test('a run started through one server is cancelled through the other, and its own server lets it go', async () => {
+    const [first, second] = instances;
+    // no worker serves this queue: the job waits in it until cancelled
+    const submitted = await first.rungbook.services.runs.submit({ job: slowScanJob('0.9'), userId: owner.id });
+    assert.equal(submitted.status, 'queued');
+    const cancelled = await second.rungbook.services.runs.cancel(submitted.id);
+    assert.equal(cancelled.status, 'cancelled');
+    const seenByItsServer = await first.rungbook.services.runs.settle(submitted.id, 30_000);
+    assert.equal(seenByItsServer.status, 'cancelled');
+    assert.equal((JSON.parse(seenByItsServer.errorJson!) as { code: string }).code, 'cancelled');
+  });
+
+  test('health names the shared queue, and is degraded while no worker serves it', async () => {
+    const health = (await supertest(instances[0].rungbook.app).get('/api/health').expect(200)).body;
+    assert.equal(health.queue, 'ok');
+    assert.equal(health.workers, 0);
+    assert.equal(health.status, 'degraded');
+  });
+
+  test('a run whose server stopped for good is reported interrupted once it is older than any run can last', async () => {
+    const [, second] = instances;
+    // the defaults allow 600 s of waiting on the server, 600 s in the shared queue and 120 s of engine time: a day is past all of them
+    const aDayAgo = new Date(Date.now() - 24 * 3600 * 1000);
+    const id = newId();
+    await second.rungbook.services.dataSource.getRepository(JobRun).insert({ id, inputHash: newId(), engineVersion: 'test', jobJson: '{}', status: 'running', progress: 0.5, cached: false, cellId: null, requestedBy: owner.id, startedAt: aDayAgo, createdAt: aDayAgo });
+    const run = await second.rungbook.services.runs.find(id);
+    assert.equal(run.status, 'failed');
+    assert.equal((JSON.parse(run.errorJson!) as { code: string }).code, 'interrupted');
   });
 });

@@ -115,4 +115,13 @@ describe('engine jobs through the shared queue (Redis + worker processes, SQLite
     await only.waitForLine((line) => line.msg === 'job stopped');
     await only.stop();
   });
+
+  test('a job no worker takes within the queue-wait limit fails with the queue-wait reason', async () => {
+    // every worker of the earlier tests has stopped: nobody serves the queue now
+    const { runs, shared } = await service({ queueWaitLimitMs: 1000 });
+    assert.equal((await shared.status()).workers, 0);
+    const run = await finishedRun(runs, (await runs.submit({ job: { ...gammaQuarterJob, digits: 32 }, userId })).id);
+    assert.equal(run.status, 'failed');
+    assert.equal(errorCode(run.errorJson), 'queue-wait');
+  });
 });
