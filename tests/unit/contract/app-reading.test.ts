@@ -48,7 +48,8 @@ test('an exponents result in an earlier shape is read loosely: fields that no lo
 test('a scan in an earlier shape keeps its points; shapes of another kind are not recognised', () => {
   const scan = asScan({ points: [{ s: '1.6', values: { nuInv: '1.55' } }] }, '3');
   assert.equal(scan?.earlier, true);
-  assert.deepEqual(scan?.points, [{ x: 1.6, values: { nuInv: 1.55 }, flagged: false }]);
+  // an earlier-shaped scan names no followed fixed point: the plot then names none (null, not a guess)
+  assert.deepEqual(scan?.points, [{ x: 1.6, values: { nuInv: 1.55 }, flagged: false, fixedPoint: null }]);
   assert.equal(scan?.meanField, 1.5);
   assert.equal(asExponents({ something: 1 }), null);
   assert.equal(asScan({ points: 'many' }), null);
