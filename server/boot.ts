@@ -49,6 +49,8 @@ export async function startRungbook(config: ServerConfig, logger: Logger, option
 
   let server: Server | undefined;
   if (options.listen) {
+    // the first cell run after a start should not pay for loading the engine (server/jobs/worker.ts)
+    await engineWarmOrTimeout(shared.runner.ready?.(), logger);
     server = app.listen(config.port, config.host);
     await new Promise<void>((resolve, reject) => {
       server!.once('listening', resolve);
@@ -79,4 +81,16 @@ export async function startRungbook(config: ServerConfig, logger: Logger, option
       if (dataSource.isInitialized) await dataSource.destroy();
     },
   };
+}
+
+const ENGINE_WARM_WAIT_MS = 30_000;
+
+/** Waits for the job threads to warm up, but never keeps the server from listening for long. */
+async function engineWarmOrTimeout(ready: Promise<void> | undefined, logger: Logger): Promise<void> {
+  if (!ready) return;
+  let timer: NodeJS.Timeout | undefined;
+  const timedOut = new Promise<'timeout'>((resolve) => { timer = setTimeout(() => resolve('timeout'), ENGINE_WARM_WAIT_MS); });
+  const outcome = await Promise.race([ready.then(() => 'warm' as const), timedOut]);
+  clearTimeout(timer);
+  if (outcome === 'timeout') logger.warn({ waitedMs: ENGINE_WARM_WAIT_MS }, 'job threads did not report a warm engine in time; listening anyway');
 }

@@ -20,8 +20,13 @@ export interface JobRunner {
    * That server's `run` then rejects, and a job it has not added yet is refused.
    */
   cancel?(runId: string, reason: string): Promise<void>;
+  /** Resolves once a job would start at once: for the pool, when every thread has loaded and warmed up the engine. */
+  ready?(): Promise<void>;
   close(): Promise<void>;
 }
+
+/** What a pool thread posts once its engine is loaded and warmed up (worker.ts). */
+export const ENGINE_WARM_MESSAGE = 'engine-warm';
 
 export class RunAborted extends Error {}
 
@@ -35,12 +40,14 @@ export class QueueWaitExceeded extends RunAborted {}
 export function createWorkerPoolRunner(options: { threads: number }): JobRunner {
   const pool = new Piscina({
     filename: path.join(__dirname, 'worker.ts'),
-    minThreads: 1,
+    // Every thread starts with the pool and is never retired for idleness: loading and warming up the
+    // engine takes over a second per thread, which no job should wait for. A replaced thread starts at once.
+    minThreads: options.threads,
     maxThreads: options.threads,
-    idleTimeout: 60_000,
     // Each engine job is CPU-bound: one at a time per thread.
     concurrentTasksPerWorker: 1,
   });
+  const warmed = threadsWarmed(pool, options.threads);
   return {
     async run(job, { signal, onStarted, onProgress }) {
       const { port1, port2 } = new MessageChannel();
@@ -58,6 +65,20 @@ export function createWorkerPoolRunner(options: { threads: number }): JobRunner 
         port1.close();
       }
     },
+    ready: () => warmed,
     close: () => pool.destroy(),
   };
+}
+
+/** Resolves when `threads` threads of the pool have reported a warm engine. */
+function threadsWarmed(pool: Piscina, threads: number): Promise<void> {
+  let waiting = threads;
+  return new Promise((resolve) => {
+    const onMessage = (message: { type?: string }) => {
+      if (message?.type !== ENGINE_WARM_MESSAGE || --waiting > 0) return;
+      pool.off('message', onMessage);
+      resolve();
+    };
+    pool.on('message', onMessage);
+  });
 }
