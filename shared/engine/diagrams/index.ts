@@ -1,5 +1,6 @@
 /** Diagrams: the graph catalogue, tensor weights, loop integrals, subtraction, Z-factors → RG functions. */
 export * from './graphs';
+export * from './generate';
 export * from './weights';
 export * from './integrals';
 export * from './catalogue';
