@@ -168,7 +168,7 @@ function flowSummary<C>(flow: DerivedFlow<C>, digits: number) {
 
 // ---- jobs ------------------------------------------------------------------------------------------
 
-export function deriveFor(model: ModelSpec, s: Q | null, loops: 1 | 2, digits: number): AnyFlow {
+export function deriveFor(model: ModelSpec, s: Q | null, loops: 1 | 2 | 3, digits: number): AnyFlow {
   return flowFor({ model, s, loops, digits, poleSources: (flow) => familyPoleSources(model, flow) });
 }
 

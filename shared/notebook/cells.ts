@@ -70,7 +70,7 @@ export const setupInput = z.strictObject({
   model: modelSpec,
   d: dimension.optional(),
   s: propagatorPower.optional(),
-  loops: z.union([z.literal(1), z.literal(2)]),
+  loops: z.union([z.literal(1), z.literal(2), z.literal(3)]),
   digits: wholeNumber.min(JOB_LIMITS.minDigits, `At least ${JOB_LIMITS.minDigits} digits`).max(JOB_LIMITS.maxFlowDigits, `At most ${JOB_LIMITS.maxFlowDigits} digits in a notebook`),
 });
 

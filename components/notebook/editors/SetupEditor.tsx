@@ -45,7 +45,7 @@ export function SetupEditor({ input, errors, onChange, testPrefix }: EditorProps
           <TextField label="s" value={input.s ?? ''} onChangeText={(s) => onChange({ ...input, s: optionalText(s) })} error={errors.s} hint="Empty: symbolic" testID={`${testPrefix}-s`} />
         </View>
       </View>
-      <ChoiceRow label="Loop order" options={[{ value: 1, label: '1 loop' }, { value: 2, label: '2 loops' }]} value={input.loops} onChange={(loops) => onChange({ ...input, loops })} testID={`${testPrefix}-loops`} />
+      <ChoiceRow label="Loop order" options={[{ value: 1, label: '1 loop' }, { value: 2, label: '2 loops' }, { value: 3, label: '3 loops' }]} value={input.loops} onChange={(loops) => onChange({ ...input, loops })} testID={`${testPrefix}-loops`} />
       <WholeNumberField label="Digits" value={input.digits} onChange={(digits) => onChange({ ...input, digits: digits as number })} error={errors.digits} testID={`${testPrefix}-digits`} />
     </View>
   );

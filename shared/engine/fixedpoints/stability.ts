@@ -12,16 +12,20 @@ const short = (x: Real) => x.toSignificantDigits(6).toString();
 
 type Sign = 'positive' | 'negative' | 'zero' | 'undecided';
 
-/** The [1/1] Padé approximant of a stability-eigenvalue series λ = a₁ε + a₂ε² at ε, with its poles in (0, ε); null when it does not exist. */
-function padeAt(series: LaurentSeries<Real>, eps: Real, isZero: (c: Real) => boolean, digits: number): { value: Real | null; poles: Real[] } | null {
+/**
+ * The [n−1/1] Padé approximant of a stability-eigenvalue series λ = a₁ε + … + a_nε^n at ε ([1/1] at two
+ * loops, [2/1] at three), with its poles in (0, ε); null when it does not exist.
+ */
+function padeAt(series: LaurentSeries<Real>, eps: Real, isZero: (c: Real) => boolean, digits: number): { value: Real | null; poles: Real[]; L: number } | null {
   if (series.order < 2 || isZero(series.coefficient(1))) return null;
+  const n = series.order;
   try {
-    const pade = padeApproximant([series.coefficient(0), series.coefficient(1), series.coefficient(2)], 1, 1, digits);
+    const pade = padeApproximant(Array.from({ length: n + 1 }, (_, m) => series.coefficient(m)), n - 1, 1, digits);
     const poles = polesInInterval(pade, 0, eps, digits);
     try {
-      return { value: evaluatePade(pade, eps, digits), poles };
+      return { value: evaluatePade(pade, eps, digits), poles, L: n - 1 };
     } catch (e) {
-      if (e instanceof EngineError) return { value: null, poles };
+      if (e instanceof EngineError) return { value: null, poles, L: n - 1 };
       throw e;
     }
   } catch (e) {
@@ -50,7 +54,7 @@ function rootValueFor(truncated: Real[], values: Complex[] | null): (number | nu
 const signOfNumber = (x: number, size: number): Sign => (Math.abs(x) <= 1e-12 * size ? 'zero' : x > 0 ? 'positive' : 'negative');
 
 /**
- * IR stability at a physical ε. Each eigenvalue's truncated series, its [1/1] Padé approximant and
+ * IR stability at a physical ε. Each eigenvalue's truncated series, its [n−1/1] Padé approximant and
  * (given `values`, the eigenvalues at the real root of the truncated β) its value at the root must
  * agree in sign; where they do not, that eigenvalue is undecided and a caveat names every value.
  * Stable: all positive; unstable: some eigenvalue negative throughout; otherwise undecided (null).
@@ -83,11 +87,11 @@ export function stabilityAt(eigen: (LaurentSeries<Real> | null)[] | null, values
   return { stable: true, caveats };
 }
 
-function disagreementMessage(i: number, truncated: Real, pade: { value: Real | null; poles: Real[] } | null, root: number | null, eps: Real): string {
+function disagreementMessage(i: number, truncated: Real, pade: { value: Real | null; poles: Real[]; L: number } | null, root: number | null, eps: Real): string {
   const parts = [`the truncated series gives ${short(truncated)} at ε = ${short(eps)}`];
   if (pade) {
     const poles = pade.poles.length > 0 ? ` (a pole at ε = ${pade.poles.map(short).join(', ')} lies in (0, ε))` : '';
-    parts.push(`its [1/1] Padé approximant ${pade.value === null ? 'has a pole there' : `gives ${short(pade.value)}`}${poles}`);
+    parts.push(`its [${pade.L}/1] Padé approximant ${pade.value === null ? 'has a pole there' : `gives ${short(pade.value)}`}${poles}`);
   }
   if (root !== null) parts.push(`the eigenvalue at the root of the truncated β is ${Number(root.toPrecision(6))}`);
   return `stability eigenvalue λ${i + 1}: ${parts.join(', ')}; the signs disagree, so this eigenvalue does not decide stability`;

@@ -8,7 +8,7 @@ export interface FlowRequest {
   model: ModelSpec;
   /** Propagator power; null keeps s symbolic. */
   s: Q | null;
-  loops: 1 | 2;
+  loops: 1 | 2 | 3;
   digits: number;
   /** For a preset at a numeric N without tensors: the ε-series of its family's fixed points, to name those with a pole at N (omittedFixedPoints). */
   poleSources?: (flow: DerivedFlow<Expression>) => PoleSource[];

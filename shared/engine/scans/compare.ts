@@ -37,10 +37,10 @@ export interface VariantSpec {
   M?: number;
 }
 
-const ORDER_LABELS = ['mean field (ε⁰)', 'one loop (ε¹)', 'two loops (ε²)'];
+const ORDER_LABELS = ['mean field (ε⁰)', 'one loop (ε¹)', 'two loops (ε²)', 'three loops (ε³)'];
 
 /** Truncations through ε¹ … ε^loops, then the Padé approximants [L/M] with M ≥ 1 and L + M ≤ loops. */
-export function seriesVariants(loops: 1 | 2): VariantSpec[] {
+export function seriesVariants(loops: 1 | 2 | 3): VariantSpec[] {
   const truncated: VariantSpec[] = Array.from({ length: loops }, (_, i) => ({ key: `order${i + 1}`, label: ORDER_LABELS[i + 1], kind: 'truncated', order: i + 1 }));
   const pade: VariantSpec[] = [];
   for (let total = 1; total <= loops; total++) {

@@ -53,7 +53,8 @@ export const ParameterValues = z.record(
 );
 
 /** Flow jobs: loop order and digits (flow, fixedpoints, exponents, scan, compare). */
-export const Loops = z.union([z.literal(1), z.literal(2)]).default(2);
+export const Loops = z.union([z.literal(1), z.literal(2), z.literal(3)]).default(2);
+export type LoopOrder = 1 | 2 | 3;
 export const FlowDigits = Digits.max(JOB_LIMITS.maxFlowDigits).default(JOB_LIMITS.defaultFlowDigits);
 
 /** The name of a fixed point a job asks for ("fixedPoint"), as the fixedpoints job lists them. */
