@@ -499,7 +499,7 @@ function runScan(job: z.infer<typeof ScanJob>, hooks: JobHooks) {
   const { series } = exponentSeriesPartial(flow, point);
   const compiled = (k: Quantity) => (series[k] ? { coefficients: powerCoefficients(series[k] as LaurentSeries<Expression>) } : { coefficients: [] });
   const primaries = { nuInv: series.nuInv ? compiled('nuInv') : null, omega: compiled('omega'), eta: compiled('eta') };
-  const beta = { quadratic: flow.beta[0].terms.get('2')?.coeff ?? Expression.rational(q(0)), cubic: flow.beta[0].terms.get('3')?.coeff ?? null };
+  const beta = { quadratic: flow.beta[0].terms.get('2')?.coeff ?? Expression.rational(q(0)), cubic: flow.beta[0].terms.get('3')?.coeff ?? null, quartic: flow.beta[0].terms.get('4')?.coeff ?? null };
   const points = scanSeries({ ...grid, series: job.quantities.map(compiled), primaries, beta });
   return {
     notices: scanNotices(points, job.digits),

@@ -43,7 +43,8 @@ const isNegligibleSeries = <C>(flow: DerivedFlow<C>, x: LaurentSeries<C>) => x.c
 export function fieldAnomalousSpectrum<C>(flow: DerivedFlow<C>, point: FixedPoint<C>, eps: C | null = null): FieldAnomalousSpectrum<C> {
   if (!point.couplingSeries) return fail('not-representable', `fixed point ${point.name} has no real ε-series`);
   const g = point.couplingSeries;
-  const order = flow.loops;
+  // a branch given through a lower order than the flow's (a persisting degeneracy) keeps that order
+  const order = Math.min(flow.loops, ...g.map((s) => s.order));
   const valueAt = (series: LaurentSeries<C>) => (eps === null ? null : series.evaluate(eps));
   const rootValues = !flow.calculus.symbolic && point.couplingValues ? (point.couplingValues as unknown as C[]) : null;
   const matrix = flow.gammaPhiMatrix;
@@ -61,9 +62,9 @@ export function fieldAnomalousSpectrum<C>(flow: DerivedFlow<C>, point: FixedPoin
   const digits = numeric.calculus.digits;
   const { ring } = numeric.calculus.ctx;
   const coefficientMatrix = (m: number) => (series as unknown as LaurentSeries<Real>[][]).map((row) => row.map((x) => (x.order >= m && x.lowest <= m ? x.coefficient(m) : ring.zero())));
-  const spaces = eigenspaces(coefficientMatrix(1), order >= 2 ? coefficientMatrix(2) : null, digits);
-  const directions = spaces.map(({ basis, g1, g2 }) => {
-    const gammaSeries = LaurentSeries.of(ring, 0, [ring.zero(), g1, ...(g2 ? [g2] : [])].slice(0, order + 1), order) as unknown as LaurentSeries<C>;
+  const spaces = eigenspaces(coefficientMatrix(1), order >= 2 ? coefficientMatrix(2) : null, digits, order >= 3 ? coefficientMatrix(3) : null);
+  const directions = spaces.map(({ basis, g1, g2, g3 }) => {
+    const gammaSeries = LaurentSeries.of(ring, 0, [ring.zero(), g1, ...(g2 ? [g2] : []), ...(g2 && g3 ? [g3] : [])].slice(0, order + 1), order) as unknown as LaurentSeries<C>;
     const atRoot = atRootMatrix ? (restrictedEigenvalues(atRootMatrix as unknown as Real[][], basis, digits) as unknown as C[]) : null;
     return { field: fieldText(basis[0].map(Number)), multiplicity: basis.length, basis: basis.map((v) => v.map(Number)), gammaSeries, value: valueAt(gammaSeries), atRoot };
   });

@@ -77,24 +77,50 @@ function clusters(values: Real[], scale: number): number[][] {
   return out;
 }
 
-/** The eigenspaces of γ(ε) = M₁ε + M₂ε² (M₂ optional), each with its basis and (γ₁, γ₂); M₁, M₂ symmetric. */
-export function eigenspaces(m1: Real[][], m2: Real[][] | null, digits: number): { basis: Real[][]; g1: Real; g2: Real | null }[] {
+/**
+ * The eigenspaces of γ(ε) = M₁ε + M₂ε² + M₃ε³ (M₂, M₃ optional), each with its basis and (γ₁, γ₂, γ₃);
+ * M₁, M₂, M₃ symmetric. Degenerate perturbation theory: γ₂ are the eigenvalues of M₂ on each M₁
+ * eigenspace V; γ₃ those of Uᵀ(M₃ + M₂ S M₂)U on each resulting subspace U, S = Σ_j v_j v_jᵀ/(γ₁ − λ_j)
+ * over the other eigenvectors of M₁ (the reduced resolvent).
+ */
+export function eigenspaces(m1: Real[][], m2: Real[][] | null, digits: number, m3: Real[][] | null = null): { basis: Real[][]; g1: Real; g2: Real | null; g3: Real | null }[] {
+  const R = realContext(digits);
   const first = symmetricEigen(m1, digits);
   const scale = Math.max(...first.values.map((x) => Math.abs(toNumber(x))), 1e-30);
-  const out: { basis: Real[][]; g1: Real; g2: Real | null }[] = [];
-  for (const cluster of clusters(first.values, scale)) {
+  const out: { basis: Real[][]; g1: Real; g2: Real | null; g3: Real | null }[] = [];
+  const combine = (vecs: Real[][], coords: Real[][], c: number) => vecs[0].map((_, r) => vecs.reduce((s, vec, l) => s.plus(vec[r].times(coords[l][c])), new R(0)));
+  const apply = (a: Real[][], v: Real[]) => a.map((row) => row.reduce((s, x, j) => s.plus(x.times(v[j])), new R(0)));
+  const dot = (a: Real[], b: Real[]) => a.reduce((s, x, i) => s.plus(x.times(b[i])), new R(0));
+  const groups = clusters(first.values, scale);
+  for (const cluster of groups) {
     const vecs = cluster.map((j) => column(first.vectors, j));
     const g1 = first.values[cluster[0]];
     if (!m2) {
-      out.push({ basis: vecs, g1, g2: null });
+      out.push({ basis: vecs, g1, g2: null, g3: null });
       continue;
     }
+    // M₃ + M₂ S M₂ on this eigenspace (third order)
+    const others = first.values.map((_, j) => j).filter((j) => !cluster.includes(j));
+    const resolvent = (x: Real[]) => others.reduce((acc, j) => {
+      const v = column(first.vectors, j);
+      const c = dot(v, x).div(g1.minus(first.values[j]));
+      return acc.map((a, r) => a.plus(v[r].times(c)));
+    }, x.map(() => new R(0)));
+    const second = m3 ? vecs.map((v) => apply(m3, v).map((x, r) => x.plus(apply(m2, resolvent(apply(m2, v)))[r]))) : null;
+    const h2 = second ? vecs.map((u) => second.map((col) => dot(u, col))) : null;
     const inner = symmetricEigen(restrict(m2, vecs, digits), digits);
     const scale2 = Math.max(...inner.values.map((x) => Math.abs(toNumber(x))), scale);
     for (const sub of clusters(inner.values, scale2)) {
-      const R = realContext(digits);
-      const basis = sub.map((c) => vecs[0].map((_, r) => vecs.reduce((s, vec, l) => s.plus(vec[r].times(inner.vectors[l][c])), new R(0))));
-      out.push({ basis, g1, g2: inner.values[sub[0]] });
+      const basis = sub.map((c) => combine(vecs, inner.vectors, c));
+      const g2 = inner.values[sub[0]];
+      if (!h2) {
+        out.push({ basis, g1, g2, g3: null });
+        continue;
+      }
+      const coords = sub.map((c) => inner.vectors.map((row) => row[c]));
+      const third = symmetricEigen(restrict(h2, coords, digits), digits);
+      const scale3 = Math.max(...third.values.map((x) => Math.abs(toNumber(x))), scale2);
+      for (const last of clusters(third.values, scale3)) out.push({ basis: last.map((c) => combine(basis, third.vectors, c)), g1, g2, g3: third.values[last[0]] });
     }
   }
   return out;
@@ -157,10 +183,10 @@ export function quadraticSpectrum(flow: DerivedFlow<Real>, point: FixedPoint<Rea
   const digits = flow.calculus.digits;
   const { ring } = flow.calculus.ctx;
   const pairs = flow.quadratic.pairs;
-  const [m1, m2] = seriesMatrices(flow, point).map((m) => symmetrized(m, pairs, digits));
-  const order = flow.loops;
-  const operators = eigenspaces(m1, m2 ?? null, digits).map(({ basis, g1, g2 }) => {
-    const gammaCoeffs = [ring.zero(), g1, ...(g2 ? [g2] : [])].slice(0, order + 1);
+  const [m1, m2, m3] = seriesMatrices(flow, point).map((m) => symmetrized(m, pairs, digits));
+  const order = Math.min(flow.loops, ...point.couplingSeries.map((s) => s.order));
+  const operators = eigenspaces(m1, order >= 2 ? m2 : null, digits, order >= 3 ? m3 : null).map(({ basis, g1, g2, g3 }) => {
+    const gammaCoeffs = [ring.zero(), g1, ...(g2 ? [g2] : []), ...(g2 && g3 ? [g3] : [])].slice(0, order + 1);
     const gammaSeries = LaurentSeries.of(ring, 0, gammaCoeffs, order);
     const dMinusS = LaurentSeries.of(ring, 0, [s, ring.fromRational(-1n)], order);
     return { name: nameOf(basis, pairs, fields), multiplicity: basis.length, containsSinglet: singletOverlap(basis, pairs, fields) > 1 - 1e-12, operator: operatorText(basis[0], pairs), gammaSeries, deltaSeries: dMinusS.add(gammaSeries), basis };

@@ -1,3 +1,4 @@
+import type Decimal from 'decimal.js';
 import { expressionValueAt } from '../flows';
 import { type Real, GUARD_DIGITS, rationalToReal, realContext } from '../precision';
 import { type Expression, type Q, q, qCompare, qMul, qSub } from '../symbolic';
@@ -63,8 +64,8 @@ export interface ScanRequest {
   quantities?: readonly Quantity[];
   /** With quantities: values follow from 1/ν, ω and η by the stated relations (valuesFromPrimaries). */
   primaries?: PrimarySeries;
-  /** One coupling: β = −εu + quadratic·u² + cubic·u³; a point where this truncated β has no real root is noted. */
-  beta?: { quadratic: Expression; cubic: Expression | null };
+  /** One coupling: β = −εu + quadratic·u² + cubic·u³ + quartic·u⁴; a point where this truncated β has no real root on the branch is noted. */
+  beta?: { quadratic: Expression; cubic: Expression | null; quartic?: Expression | null };
   digits: number;
   shortRangeS: Q | null;
   /** Where s* came from (for the notices); its sStar equals shortRangeS. */
@@ -188,15 +189,39 @@ export function padeFields(checked: (CheckedPade | null)[]): Pick<ScanPoint, 'pa
 }
 
 /**
- * One coupling: the truncated β at this ε has no real non-trivial root when
- * quadratic² + 4·cubic·ε < 0 (the fixed point is complex there), and the point is not IR-stable when ω ≤ 0.
+ * One coupling: the fixed point's branch u(ε) solves ε = E(u) = b₂u + b₃u² + b₄u³ (β/u = 0), starting at
+ * u = 0. It stays real up to the physical ε exactly when E is monotone from u = 0 until it reaches ε:
+ * with u_c the first zero of E′(u) = b₂ + 2b₃u + 3b₄u² in the direction of travel (sign of ε/b₂), the
+ * branch is complex at ε when |ε| > |E(u_c)|. Two loops (b₄ = 0): b₂² + 4b₃ε < 0.
  */
+export function branchIsComplexAt(b2: Real, b3: Real, b4: Real, eps: Real): boolean {
+  if (b2.isZero() || eps.isZero()) return false;
+  const direction = eps.div(b2).isPositive() ? 1 : -1;
+  const R = b2.constructor as typeof Decimal;
+  // zeros of E′(u) = 3b₄u² + 2b₃u + b₂
+  const critical: Real[] = [];
+  if (b4.isZero()) {
+    if (!b3.isZero()) critical.push(b2.neg().div(b3.times(2)));
+  } else {
+    const disc = b3.times(b3).minus(b4.times(b2).times(3));
+    if (!disc.isNegative()) {
+      const root = disc.sqrt();
+      critical.push(b3.neg().plus(root).div(b4.times(3)), b3.neg().minus(root).div(b4.times(3)));
+    }
+  }
+  const ahead = critical.filter((u) => (direction > 0 ? u.isPositive() : u.isNegative()) && !u.isZero()).sort((x, y) => x.abs().comparedTo(y.abs()));
+  if (ahead.length === 0) return false;
+  const uc = ahead[0];
+  const reach = b2.times(uc).plus(b3.times(uc.pow(2))).plus(b4.times(uc.pow(3)));
+  return eps.abs().gt(new R(reach).abs());
+}
+
 function oneCouplingNotices(request: ScanRequest, primaries: PrimaryCoefficients | null, at: Record<string, Q>, eps: Real, atoms: Map<string, Real>, work: number): Notice[] {
   const notices: Notice[] = [];
-  if (request.beta?.cubic) {
-    const b2 = expressionValueAt(request.beta.quadratic, at, work, atoms);
-    const b3 = expressionValueAt(request.beta.cubic, at, work, atoms);
-    if (b2.times(b2).plus(b3.times(eps).times(4)).isNegative()) notices.push({ kind: 'complex-at-eps', message: 'the fixed point is complex there: the truncated β has no real root at that ε. The values are the truncated ε-series of its real branch.' });
+  if (request.beta?.cubic || request.beta?.quartic) {
+    const value = (e: Expression | null | undefined) => (e ? expressionValueAt(e, at, work, atoms) : eps.mul(0));
+    const [b2, b3, b4] = [value(request.beta.quadratic), value(request.beta.cubic), value(request.beta.quartic)];
+    if (branchIsComplexAt(b2, b3, b4, eps)) notices.push({ kind: 'complex-at-eps', message: 'the fixed point is complex there: the truncated β has no real root at that ε. The values are the truncated ε-series of its real branch.' });
   }
   if (primaries && !sumAt(primaries.omega, eps).isPositive()) notices.push({ kind: 'not-ir-stable', message: 'ω ≤ 0: the fixed point is not IR-stable there.' });
   return notices;
