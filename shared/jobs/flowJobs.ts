@@ -8,6 +8,7 @@ import { type PhysicalPoint, exponentsAtPoint, fieldGammaOf } from '../engine/ex
 import { fixedPointNotices, noSingletNotice, regimeNotices, scanNotices } from '../engine/exponents/notices';
 import { crossoverFor } from '../engine/exponents/shortRange';
 import { type CheckedPade } from '../engine/pade/pade';
+import { BOREL_METHOD, type BorelValue } from '../engine/pade/borel';
 import { type FixedPoint, baseName, findFixedPoints } from '../engine/fixedpoints/fixedPoints';
 import { type ComplexReal } from '../engine/fixedpoints/complexRoots';
 import { type AnyFlow, checkPropagatorPower, flowFor } from '../engine/flows/flow';
@@ -392,6 +393,7 @@ function runExponents(job: z.infer<typeof ExponentsJob>) {
     const { point, at } = exponentsAtS(any, model, job.fixedPoint, { d, s, eps, crossover }, job.digits);
     const quadratic = quadraticOf(point);
     const padeText = (entry: CheckedPade) => ({ L: entry.L, M: entry.M, value: entry.value ? (text(entry.value) as string) : null, flagged: entry.flagged, poles: entry.poles.map((p) => text(p) as string), signChange: entry.signChange, reason: entry.reason });
+    const borelText = (entry: BorelValue) => ({ L: entry.L, M: entry.M, value: entry.value ? entry.value.toString() : null, error: entry.error ? entry.error.toSignificantDigits(2).toString() : null, flagged: entry.flagged, poles: entry.poles.map((p) => text(p) as string), reason: entry.reason });
     return {
       notices: at.notices,
       eps: decimalText(eps, job.digits),
@@ -405,6 +407,8 @@ function runExponents(job: z.infer<typeof ExponentsJob>) {
       ...(at.fieldSpectrum && !('member' in model) ? { fieldAnomalous: formatFieldAnomalous(any.flow, point, s, eps, model.fields, job.digits) } : {}),
       values: Object.fromEntries(SERIES_QUANTITIES.map((k) => [k, at.values[k] === null ? null : text(at.values[k])])),
       pade: Object.fromEntries(SERIES_QUANTITIES.flatMap((k) => (at.pade[k] ? [[k, (at.pade[k] as CheckedPade[]).map(padeText)]] : []))),
+      borel: Object.fromEntries(SERIES_QUANTITIES.flatMap((k) => (at.borel[k]?.length ? [[k, (at.borel[k] as BorelValue[]).map(borelText)]] : []))),
+      borelMethod: BOREL_METHOD,
       ...shortRange,
     };
   }

@@ -57,6 +57,26 @@ function padeDefect(entry: PadeEntry): string {
 /** A flagged approximant (or one without a value) never shows a number. */
 const padeCell = (entry: PadeEntry | undefined) => (!entry ? '' : entry.flagged || entry.value === null ? `defective: ${padeDefect(entry)}` : entry.value);
 
+/** A Padé–Borel sum as the exponents job lists it. */
+type BorelEntry = { L: number; M: number; value: string | null; error: string | null; flagged: boolean; poles?: string[]; reason?: string | null };
+
+const isBorelEntry = (value: unknown): value is BorelEntry => isObject(value) && typeof value.L === 'number' && typeof value.M === 'number' && typeof value.flagged === 'boolean';
+
+/** Quantity → its Padé–Borel sums; null for any other shape (an earlier result has none). */
+function borelTableOf(borel: unknown): Record<string, BorelEntry[]> | null {
+  if (!isObject(borel)) return null;
+  const table: Record<string, BorelEntry[]> = {};
+  for (const [key, entries] of Object.entries(borel)) if (Array.isArray(entries) && entries.every(isBorelEntry)) table[key] = entries;
+  return Object.keys(table).length ? table : null;
+}
+
+/** A flagged Padé–Borel sum never shows a number; a value carries its error estimate. */
+const borelCell = (entry: BorelEntry | undefined) => {
+  if (!entry) return '';
+  if (entry.flagged || entry.value === null) return `defective: ${entry.reason ?? (entry.poles?.length ? `pole at t = ${entry.poles.join(', ')}` : 'no value')}`;
+  return entry.error && entry.error !== '0' ? `${entry.value} (± ${entry.error})` : entry.value;
+};
+
 /** The text-valued entries of an object (a loosely read result may hold anything). */
 export const stringRecord = (value: unknown): Record<string, string> => (isObject(value) ? Object.fromEntries(Object.entries(value).filter((e): e is [string, string] => typeof e[1] === 'string')) : {});
 
@@ -67,7 +87,7 @@ export const stringRecord = (value: unknown): Record<string, string> => (isObjec
 export function ExponentsOutput({ result, fileName, testID }: { result: ExponentsShape; fileName: string; testID?: string }) {
   const seriesKeys = Object.keys(result.series);
   const order = Math.max(0, ...seriesKeys.map((key) => result.series[key].length));
-  const { pade, relations, fixedPoint, meanField, notices, sources, unavailable, shortRange, fieldAnomalous, statement, quadraticOperators, ...known } = result.extra;
+  const { pade, borel, borelMethod, relations, fixedPoint, meanField, notices, sources, unavailable, shortRange, fieldAnomalous, statement, quadraticOperators, ...known } = result.extra;
   const operators = quadraticOperatorsOf(quadraticOperators);
   const rest = operators || quadraticOperators === undefined ? known : { ...known, quadraticOperators };
   const spectrum = FieldAnomalousSpectrum.safeParse(fieldAnomalous);
@@ -85,6 +105,8 @@ export function ExponentsOutput({ result, fileName, testID }: { result: Exponent
   ]);
   const padeTable = padeTableOf(pade);
   const padeColumns = padeTable ? [...new Map(Object.values(padeTable).flat().map((e) => [`[${e.L}/${e.M}]`, e])).keys()] : [];
+  const borelTable = borelTableOf(borel);
+  const borelColumns = borelTable ? [...new Map(Object.values(borelTable).flat().map((e) => [`[${e.L}/${e.M}]`, e])).keys()] : [];
   const crossover = isObject(shortRange) && typeof shortRange.sStar === 'string' ? `s* = ${shortRange.sStar} (${String(shortRange.source ?? '')}).` : null;
   const hasExtra = Object.keys(extra).length > 0;
   return (
@@ -120,6 +142,18 @@ export function ExponentsOutput({ result, fileName, testID }: { result: Exponent
             rows={Object.entries(padeTable).map(([key, entries]) => [nameOfQuantity(key), ...padeColumns.map((column) => padeCell(entries.find((e) => `[${e.L}/${e.M}]` === column)))])}
             fileName={`${fileName}-pade`}
             testID={testID ? `${testID}-pade` : undefined}
+          />
+        </View>
+      ) : null}
+      {borelTable ? (
+        <View style={styles.relations} testID={testID ? `${testID}-borel` : undefined}>
+          <Text style={styles.heading}>Padé–Borel sums at ε (Borel–Padé [L/M]; a pole on the positive t axis leaves no value)</Text>
+          {typeof borelMethod === 'string' ? <Text style={styles.caption} testID={testID ? `${testID}-borel-method` : undefined}>{`Method: ${borelMethod}`}</Text> : null}
+          <CoefficientTable
+            header={['quantity', ...borelColumns]}
+            rows={Object.entries(borelTable).map(([key, entries]) => [nameOfQuantity(key), ...borelColumns.map((column) => borelCell(entries.find((e) => `[${e.L}/${e.M}]` === column)))])}
+            fileName={`${fileName}-borel`}
+            testID={testID ? `${testID}-borel-table` : undefined}
           />
         </View>
       ) : null}

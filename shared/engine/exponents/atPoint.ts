@@ -1,6 +1,6 @@
 import { type DerivedFlow } from '../diagrams';
 import { type FixedPoint } from '../fixedpoints';
-import { type CheckedPade, checkedPadeTable } from '../pade';
+import { type BorelValue, type CheckedPade, checkedPadeTable, padeBorelTable } from '../pade';
 import { type Real } from '../precision';
 import { type LaurentSeries } from '../series';
 import { type Q } from '../symbolic';
@@ -19,6 +19,8 @@ export interface ExponentsAtPoint {
   values: Record<Quantity, Real | null>;
   /** Every [L/M] (M ≥ 1, L + M ≤ loops) of each quantity's own series, checked for poles on the way to ε. */
   pade: Partial<Record<Quantity, CheckedPade[]>>;
+  /** Padé–Borel sums of each quantity's own series: every Borel–Padé [L/M] with M ≥ 1 and L + M = loops (BOREL_METHOD). */
+  borel: Partial<Record<Quantity, BorelValue[]>>;
   notices: Notice[];
   /** γ_φ per field direction when it is a matrix (s = 2, anisotropic models). */
   fieldSpectrum: FieldAnomalousSpectrum<Real> | null;
@@ -46,16 +48,19 @@ export function exponentsAtPoint(flow: DerivedFlow<Real>, point: FixedPoint<Real
   const values = valuesFromPrimaries({ nuInv: valueOf('nuInv'), omega: valueOf('omega') as Real, eta: valueOf('eta') }, real(at.d), real(at.s));
   for (const k of SERIES_QUANTITIES) if (values[k] === null && !unavailable[k]) unavailable[k] = 'undefined here (its relation divides by zero)';
   const pade: Partial<Record<Quantity, CheckedPade[]>> = {};
+  const borel: Partial<Record<Quantity, BorelValue[]>> = {};
   for (const k of SERIES_QUANTITIES) {
     const s = series[k];
-    if (s) pade[k] = checkedPadeTable(powerCoefficients(s), flow.loops, eps, digits);
+    if (!s) continue;
+    pade[k] = checkedPadeTable(powerCoefficients(s), flow.loops, eps, digits);
+    borel[k] = padeBorelTable(powerCoefficients(s), Math.min(flow.loops, s.order), eps, digits);
   }
   const notices = [...fixedPointNotices(point, true), ...regimeNotices(at.d, at.s, at.crossover)];
   // 1/ν is missing only when the φ² insertion mixes and no singlet is an eigen-operator here
   const fieldGamma = fieldGammaOf(fieldSpectrum, point.name);
   if (fieldGamma && !fieldGamma.proportional) notices.push(fieldDirectionsNotice(fieldGamma.reason));
   if (unavailable.nuInv) notices.push(noSingletNotice(point.name, unavailable.nuInv, !!fieldGamma && !fieldGamma.proportional));
-  return { regime: exponentRegime(at.s, at.eps), series, unavailable, values, pade, notices, fieldSpectrum };
+  return { regime: exponentRegime(at.s, at.eps), series, unavailable, values, pade, borel, notices, fieldSpectrum };
 }
 
 /** One γ_φ for every field, or why η is given per field direction instead. */

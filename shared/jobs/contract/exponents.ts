@@ -50,6 +50,24 @@ export const PadeCheck = z.strictObject({
 });
 export type PadeCheck = z.infer<typeof PadeCheck>;
 
+/**
+ * One Padé–Borel sum at the physical ε: the [L/M] Padé approximant of the Borel transform
+ * B(t) = Σ a_k t^k/k!, Laplace-integrated (method in `borelMethod`). A flagged entry (a pole of the
+ * approximant on the positive t axis, or a degenerate approximant) has no value.
+ */
+export const BorelCheck = z.strictObject({
+  L: z.number().int().min(0),
+  M: z.number().int().min(1),
+  value: z.string().nullable(),
+  /** Estimated absolute error of the value (null when flagged). */
+  error: z.string().nullable(),
+  flagged: z.boolean(),
+  /** Real poles on the positive t axis. */
+  poles: z.array(z.string()),
+  reason: z.string().nullable(),
+});
+export type BorelCheck = z.infer<typeof BorelCheck>;
+
 /** The crossover to short-range behaviour used for the notices. */
 export const ShortRangeCrossover = z.strictObject({ sStar: z.string(), Delta_sigma: z.string(), source: z.string() });
 
@@ -86,6 +104,10 @@ export const SeriesExponents = z.strictObject({
   values: PerQuantity(z.string().nullable()).optional(),
   /** Quantity → every [L/M] with M ≥ 1 and L + M ≤ loops, each checked. */
   pade: SomeQuantities(z.array(PadeCheck)).optional(),
+  /** Quantity → its Padé–Borel sums, every Borel–Padé [L/M] with M ≥ 1 and L + M = loops. */
+  borel: SomeQuantities(z.array(BorelCheck)).optional(),
+  /** How the Padé–Borel sums are computed (transform, approximant, quadrature, error estimate). */
+  borelMethod: z.string().optional(),
   shortRange: ShortRangeCrossover.optional(),
 });
 

@@ -82,6 +82,22 @@ describe('ExponentsOutput', () => {
     expect(within(omegaRow).getAllByText(/^defective: degenerate approximant/)).toHaveLength(2);
   });
 
+  it('shows the Padé–Borel sums with their method; a pole on the positive t axis is a defect, never a number', () => {
+    const withBorel = ExponentsResult.parse({
+      ...o1d2Json,
+      borel: {
+        nuInv: [{ L: 1, M: 1, value: null, error: null, flagged: true, poles: ['3.5'], reason: 'the Borel–Padé approximant has a pole on the positive t axis (t = 3.5): the Laplace integral does not exist' }],
+        omega: [{ L: 1, M: 1, value: '0.91234567', error: '2.1e-32', flagged: false, poles: [], reason: null }],
+      },
+      borelMethod: 'Padé–Borel: B(t) = Σ a_k t^k/k!, Padé [L/M] of B, Laplace integral by double-exponential quadrature',
+    });
+    render(<ExponentsOutput result={asExponents(withBorel)!} fileName="exp" testID="out" />);
+    expect(screen.getByTestId('out-borel-method')).toHaveTextContent(/^Method: Padé–Borel: B\(t\) = Σ a_k t\^k\/k!/);
+    const table = screen.getByTestId('out-borel-table');
+    expect(within(rowOf(table, '1/ν')).getByText(/^defective: the Borel–Padé approximant has a pole on the positive t axis/)).toBeTruthy();
+    expect(within(rowOf(table, 'ω')).getByText('0.91234567 (± 2.1e-32)')).toBeTruthy();
+  });
+
   it('gives η per field direction, typeset, when γ_φ is a matrix, and says why the single η is missing', () => {
     render(<ExponentsOutput result={asExponents(isingPlusFree)!} fileName="exp" testID="out" />);
     // phi1 is an Ising field: η = (N + 2) ε² / (2 (N + 8)²) = ε²/54 = 0.018518519 ε² at N = 1 (textbook two-loop result, recalled from memory);

@@ -112,3 +112,20 @@ test('two decoupled Ising copies at three loops: the doubly degenerate eigenvalu
     for (let m = 1; m <= 3; m++) near(e.coefficient(m), omega[m], 1e-25, `ε^${m}`);
   }
 });
+
+test('O(1) at three loops, d = 3 (ε = 1): the exponents carry the Padé table through L + M = 3 and the Padé–Borel sums [2/1], [1/2], [0/3]', async () => {
+  const { exponentsAtPoint } = await import('../../../shared/engine/exponents/index');
+  const flow = onThreeLoopFlow(1);
+  const eps = flow.calculus.ctx.ring.fromRational(1n);
+  const wf = findFixedPoints(presetModel('on', q(1)), flow, { eps }).find((p) => p.name !== 'Gaussian') as FixedPoint<Real>;
+  assert.equal(wf.stable, true);
+  const at = exponentsAtPoint(flow, wf, { d: q(3), s: q(2), eps: q(1), crossover: null }, 30);
+  assert.deepEqual(at.pade.nuInv?.map((e) => `[${e.L}/${e.M}]`), ['[0/1]', '[1/1]', '[0/2]', '[2/1]', '[1/2]', '[0/3]']);
+  assert.deepEqual(at.borel.omega?.map((e) => `[${e.L}/${e.M}]`), ['[2/1]', '[1/2]', '[0/3]']);
+  // the 3D Ising ω ≈ 0.83 (common practice: resummed higher-loop and bootstrap values); three loops [2/1] lands near it
+  const omega = at.borel.omega?.[0];
+  assert.ok(omega?.value && omega.value.gt(0.75) && omega.value.lt(0.85), String(omega?.value));
+  assert.ok(omega?.error?.lt('1e-29'));
+  // every flagged sum has no value and says why
+  for (const entries of Object.values(at.borel)) for (const e of entries ?? []) assert.equal(e.flagged, e.value === null, JSON.stringify(e.reason));
+});
