@@ -7,3 +7,7 @@ export * from './catalogue';
 export * from './calculus';
 export * from './subtraction';
 export * from './renormalization';
+export * from './lineGraph';
+export * from './seriesParallel';
+export * from './forests';
+export * from './forestFlow';

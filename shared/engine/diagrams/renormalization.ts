@@ -4,6 +4,7 @@ import { type LaurentSeries } from '../series';
 import { type Calculus } from './calculus';
 import { type CatalogueEntry, catalogueUpTo } from './catalogue';
 import { explainLegCorrection, fieldPairLabels, selfEnergyMatrixWeight } from './fieldWeights';
+import { deriveFlowByForests } from './forestFlow';
 import { type Graph, graphSign, symmetryData } from './graphs';
 import { integralKit } from './integrals';
 import { ConsistencyError, type SubtractedGraph, subtractGraph } from './subtraction';
@@ -87,6 +88,7 @@ function assertVanishes<C>(calc: Calculus<C>, p: CouplingPolynomial<C>, message:
 }
 
 export function deriveFlow<C>(spec: ModelSpec, calc: Calculus<C>, loops: number): DerivedFlow<C> {
+  if (loops >= 3) return deriveFlowByForests(spec, calc, loops, { tetrahedron: (kit) => calc.ctx.tetrahedron(kit.s) });
   const { ring } = calc.ctx;
   const k = spec.couplings.length;
   const zero = () => new CouplingPolynomial<C>(ring, k);

@@ -1,19 +1,30 @@
-import { type Real } from '../precision';
+import { type Real, fail } from '../precision';
 import { type CoefficientRing, numericRing } from '../series';
-import { gamma, polygamma } from '../special';
-import { type Affine, type Expression, type Q, evaluateAffine, gammaExpr, isConstantAffine, psiExpr, qToString, symbolicRing } from '../symbolic';
+import { gamma, polygamma, zetaInteger } from '../special';
+import { type Affine, type Expression, type Q, evaluateAffine, gammaExpr, isConstantAffine, psiExpr, qToString, symbolicRing, tetrahedronExpr } from '../symbolic';
 
 /** Where Γ(x) and ψ^(k)(x) come from: numbers at a parameter point, or canonical symbols. */
 export interface ExpansionContext<C> {
   ring: CoefficientRing<C>;
   gamma(x: Affine): C;
   psi(k: number, x: Affine): C;
+  /** P(x), the period of the non-reducible three-loop graph (special/tetrahedron.ts). */
+  tetrahedron(x: Affine): C;
   /** Substitute parameter values (numeric mode); symbolic mode returns x unchanged. */
   resolve(x: Affine): Affine;
 }
 
 export function symbolicContext(): ExpansionContext<Expression> {
-  return { ring: symbolicRing(), gamma: gammaExpr, psi: psiExpr, resolve: (x) => x };
+  return { ring: symbolicRing(), gamma: gammaExpr, psi: psiExpr, tetrahedron: tetrahedronExpr, resolve: (x) => x };
+}
+
+/**
+ * P(s) as a number: 6ζ(3) at s = 2 (docs/tetrahedron.md); other s wait for the period's evaluation with
+ * an error bound, so they are refused rather than approximated.
+ */
+export function tetrahedronValue(s: Q, digits: number): Real {
+  if (s.num === 2n && s.den === 1n) return zetaInteger(3, digits).times(6);
+  return fail('not-representable', `three loops at s = ${qToString(s)} need the tetrahedron period P(s), which is evaluated only at s = 2 so far`);
 }
 
 /** Numeric mode at parameter values `at` (exact rationals); coefficients carry `workingDigits`. */
@@ -40,6 +51,10 @@ export function numericContext(at: Readonly<Record<string, Q>>, workingDigits: n
     psi: (k, x) => {
       const p = point(x);
       return memo(`p${k}:${qToString(p)}`, () => polygamma(k, p, workingDigits));
+    },
+    tetrahedron: (x) => {
+      const p = point(x);
+      return memo(`t:${qToString(p)}`, () => tetrahedronValue(p, workingDigits));
     },
     resolve: (x) => {
       if (isConstantAffine(x)) return x;

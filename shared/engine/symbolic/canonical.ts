@@ -25,6 +25,12 @@ export function zetaExpr(n: number): Expression {
   return Expression.atomPower({ kind: 'zeta', n });
 }
 
+/** P(x), the tetrahedron period (docs/tetrahedron.md): exactly 6ζ(3) at x = 2, an atom otherwise. */
+export function tetrahedronExpr(x: Affine): Expression {
+  if (isConstantAffine(x) && qEquals(x.constant, q(2))) return zetaExpr(3).scale(q(6));
+  return Expression.atomPower({ kind: 'tetrahedron', arg: x });
+}
+
 function factorial(n: number): bigint {
   let f = 1n;
   for (let i = 2n; i <= BigInt(n); i++) f *= i;

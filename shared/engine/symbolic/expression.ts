@@ -10,7 +10,9 @@ export type Atom =
   | { kind: 'eulergamma' }
   | { kind: 'zeta'; n: number } // odd n ≥ 3 (even values reduce to π^n)
   | { kind: 'psi'; order: number; arg: Affine }
-  | { kind: 'gamma'; arg: Affine };
+  | { kind: 'gamma'; arg: Affine }
+  /** P(s): the period of the non-reducible three-loop graph (docs/tetrahedron.md); P(2) = 6ζ(3) is reduced on construction. */
+  | { kind: 'tetrahedron'; arg: Affine };
 
 export function atomKey(a: Atom): string {
   switch (a.kind) {
@@ -26,11 +28,13 @@ export function atomKey(a: Atom): string {
       return `psi(${a.order}, ${affineKey(a.arg)})`;
     case 'gamma':
       return `gamma(${affineKey(a.arg)})`;
+    case 'tetrahedron':
+      return `tetrahedron(${affineKey(a.arg)})`;
   }
 }
 
 /** Ordering of atoms inside a monomial and of monomials inside a sum (printing order). */
-const KIND_RANK: Record<Atom['kind'], number> = { pi: 0, log2: 1, eulergamma: 2, zeta: 3, psi: 4, gamma: 5 };
+const KIND_RANK: Record<Atom['kind'], number> = { pi: 0, log2: 1, eulergamma: 2, zeta: 3, psi: 4, gamma: 5, tetrahedron: 6 };
 
 export interface Power {
   atom: Atom;

@@ -19,6 +19,8 @@ function atomText(a: Atom): string {
       return `psi(${a.order}, ${affineToString(a.arg)})`;
     case 'gamma':
       return `gamma(${affineToString(a.arg)})`;
+    case 'tetrahedron':
+      return `tetrahedron(${affineToString(a.arg)})`;
     default:
       return atomKey(a);
   }
@@ -118,6 +120,8 @@ function atomLatex(a: Atom): string {
       return `${a.order === 0 ? '\\psi' : a.order === 1 ? "\\psi'" : `\\psi^{(${a.order})}`}\\left(${affineToLatex(a.arg)}\\right)`;
     case 'gamma':
       return `\\Gamma\\left(${affineToLatex(a.arg)}\\right)`;
+    case 'tetrahedron':
+      return `P\\left(${affineToLatex(a.arg)}\\right)`;
   }
 }
 

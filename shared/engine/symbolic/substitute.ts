@@ -17,7 +17,7 @@ export function ratSubstitute(r: RatFunc, name: string, value: Q): RatFunc {
   return result;
 }
 
-const dependsOn = (a: Atom, name: string): boolean => (a.kind === 'psi' || a.kind === 'gamma') && !qIsZero(coefficientOf(a.arg, name));
+const dependsOn = (a: Atom, name: string): boolean => (a.kind === 'psi' || a.kind === 'gamma' || a.kind === 'tetrahedron') && !qIsZero(coefficientOf(a.arg, name));
 
 /**
  * e with the parameter `name` set to an exact number, in canonical form. Only rational-function
