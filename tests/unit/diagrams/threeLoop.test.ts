@@ -143,3 +143,17 @@ test('s < 2: the three-loop self-energy has no pole (no field renormalization: �
     }
   }
 });
+
+test('exponents job, loops 3, O(1) at s = 2, d = 3: 1/ν, η, ω to ε³ equal the classic three-loop values (Kleinert & Schulte-Frohlinde 2001, N = 1; docs/physics.md §7, recalled from memory)', async () => {
+  const { runJob } = await import('../../../shared/jobs/run');
+  const result = runJob({ job: 'exponents', model: { preset: 'on', N: '1' }, s: '2', d: '3', loops: 3, digits: 15 }) as { series: Record<string, string[]> };
+  const z3 = ZETA3;
+  const N = 1;
+  const nuInv3 = new Decimal(N + 2).div(8 * (N + 8) ** 5).times(new Decimal(3 * N ** 3 - 452 * N ** 2 - 2672 * N - 5312).plus(z3.times(96 * (N + 8) * (5 * N + 22))));
+  const eta3 = new Decimal((N + 2) * (-N * N + 56 * N + 272)).div(8 * (N + 8) ** 4);
+  const omega3 = new Decimal(33 * N ** 3 + 538 * N ** 2 + 4288 * N + 9568).plus(z3.times(96 * (N + 8) * (5 * N + 22))).div(4 * (N + 8) ** 4);
+  close(new Decimal(result.series.nuInv[3]), nuInv3, '1/ν ε³', 1e-13);
+  close(new Decimal(result.series.eta[3]), eta3, 'η ε³', 1e-13);
+  close(new Decimal(result.series.omega[3]), omega3, 'ω ε³', 1e-13);
+  close(new Decimal(result.series.nuInv[2]), new Decimal(-(N + 2) * (13 * N + 44)).div(2 * (N + 8) ** 3), '1/ν ε²', 1e-13);
+});
