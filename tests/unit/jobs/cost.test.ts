@@ -143,3 +143,16 @@ test('the unit is calibrated to the limit in seconds the messages print', () => 
   assert.ok(COST_LIMITS.maxUnits >= 30_000 && COST_LIMITS.maxUnits <= 60_000);
   assert.equal(runJob({ job: 'special', fn: 'gamma', x: '5', digits: 10 }).hasOwnProperty('value'), true);
 });
+
+test('three loops: accepted by the contract and charged more than two (derivation factor and Padé–Borel sums); a heavy three-loop job is refused up front', () => {
+  const exponents = (loops: number, model: unknown, digits = 30) => ({ job: 'exponents', model, s: '1.75', d: '3', loops, digits });
+  assert.equal(jobCostProblem(exponents(3, { preset: 'on', N: 1 })), null);
+  assert.equal((runJob({ job: 'flow', model: { preset: 'on', N: 1 }, loops: 4 }) as { error?: { code: string } }).error?.code, 'invalid-job');
+  // a custom model with six fields and many couplings at three loops and 200 digits is over the limit, and says what to reduce
+  const heavy = exponents(3, { preset: 'custom', fields: 6, potential: 'u/24*(phi1^2+phi2^2+phi3^2+phi4^2+phi5^2+phi6^2)^2 + v/24*(phi1^4+phi2^4+phi3^4+phi4^4+phi5^4+phi6^4)' }, 200);
+  assert.equal(jobCostProblem({ ...heavy, loops: 2 }), null);
+  const problem = jobCostProblem(heavy);
+  assert.ok(problem, 'refused');
+  assert.match(problem, /at 3 loops and 200 digits/);
+  assert.match(problem, /reduce digits, loops or the number of couplings/);
+});
