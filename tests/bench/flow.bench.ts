@@ -1,9 +1,12 @@
 /**
  * Flow benchmark: `npm run bench:flow`.
  * (a) full two-loop O(N) derivation symbolic in N and s (diagrams → β → fixed point → 1/ν, ω) vs sympy;
- * (b) 1000-point scan of 1/ν and ω at 30 digits vs mpmath evaluating the closed-form series.
+ * (b) 1000-point scan of 1/ν and ω at 30 digits vs mpmath evaluating the closed-form series;
+ * (c)–(e) three loops: O(N) and cubic derivations symbolic in N at a numeric s (graphs → β → fixed
+ * point → exponents), and a 200-point three-loop scan (targets: 10 s, 10 s, 60 s at 30 digits).
  */
 import { execFileSync, spawnSync } from 'node:child_process';
+import { runJob } from '../../shared/jobs/run';
 import { join } from 'node:path';
 import { onFamily, onModel } from '../../shared/engine/models/index';
 import { flowFor } from '../../shared/engine/flows/index';
@@ -70,3 +73,26 @@ console.log('|---|---|---|---|---|');
 for (const [task, ours, ref, target] of rows) console.log(`| ${task} | ${ours.toFixed(3)} | ${ref.toFixed(3)} | ${(ours / ref).toFixed(3)} | ${Number.isFinite(target) ? `≤ ${target}` : '—'} |`);
 console.log(`memory: rss ${(process.memoryUsage().rss / 2 ** 20).toFixed(0)} MiB, scan heap growth ${((heapAfter - heapBefore) / 2 ** 20).toFixed(1)} MiB`);
 console.log(`check: first scan point ours 1/ν = ${scan.value[0].values[0]?.toFixed(25)}, mpmath ${reference.sample[0]}`);
+
+// ---- three loops ------------------------------------------------------------------------------------
+const THREE_LOOP_S = process.env.RUNGBOOK_BENCH_S ?? '1.75';
+function threeLoopJob(model: Record<string, string>): unknown {
+  const result = runJob({ job: 'exponents', model, s: THREE_LOOP_S, d: '3', loops: 3, digits: 30, ...(model.preset === 'cubic' ? { fixedPoint: 'cubic' } : {}) } as never) as { error?: { message: string } };
+  if (result.error) throw new Error(result.error.message);
+  return result;
+}
+function timeOnce(run: () => unknown): number {
+  const start = process.hrtime.bigint();
+  run();
+  return Number(process.hrtime.bigint() - start) / 1e9;
+}
+const threeRows: [string, number, number][] = [
+  [`(c) three-loop O(N) derivation symbolic in N at s = ${THREE_LOOP_S}, exponents of O(1) at d = 3`, timeOnce(() => threeLoopJob({ preset: 'on', N: 'N' })) + timeOnce(() => threeLoopJob({ preset: 'on', N: '1' })), 10],
+  [`(d) three-loop cubic derivation symbolic in N at s = ${THREE_LOOP_S}, exponents of cubic(3) at d = 3`, timeOnce(() => runJob({ job: 'flow', model: { preset: 'cubic', N: 'N' }, s: THREE_LOOP_S, loops: 3, digits: 30 } as never)) + timeOnce(() => threeLoopJob({ preset: 'cubic', N: '3' })), 10],
+  ['(e) 200-point three-loop scan of 1/ν and ω, O(1), d = 3, s from 1.55 to 1.95, 30 digits', timeOnce(() => runJob({ job: 'scan', model: { preset: 'on', N: '1' }, d: '3', loops: 3, s: { from: '1.55', to: '1.95', points: 200 }, quantities: ['nuInv', 'omega'], digits: 30 } as never)), 60],
+];
+console.log('');
+console.log('| three loops | ours (s) | target |');
+console.log('|---|---|---|');
+for (const [task, seconds, target] of threeRows) console.log(`| ${task} | ${seconds.toFixed(2)} | ≤ ${target} |`);
+console.log(`memory after the three-loop rows: rss ${(process.memoryUsage().rss / 2 ** 20).toFixed(0)} MiB, heap ${(process.memoryUsage().heapUsed / 2 ** 20).toFixed(0)} MiB`);

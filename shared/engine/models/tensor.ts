@@ -149,7 +149,37 @@ function fitsInDoubles(factors: readonly LabelledTensor[], open: readonly string
 export function contract(factors: readonly LabelledTensor[], open: readonly string[]): Tensor {
   if (factors.length === 0) fail('invalid', 'contraction of no tensors');
   const n = factors[0].tensor.n;
-  return fitsInDoubles(factors, open, n) ? contractWith(DOUBLE, factors, open, n) : contractWith(BIG, factors, open, n);
+  const ordered = cheapestOrder(factors, open, n);
+  return fitsInDoubles(ordered, open, n) ? contractWith(DOUBLE, ordered, open, n) : contractWith(BIG, ordered, open, n);
+}
+
+/** Cost of multiplying in this order: Σ n^(labels in play at each step) (each step loops over them). */
+function orderCost(factors: readonly LabelledTensor[], open: readonly string[], n: number): number {
+  let live: string[] = [];
+  let cost = 0;
+  factors.forEach((f, i) => {
+    const all = new Set([...live, ...f.labels]);
+    cost += n ** all.size;
+    const later = new Set([...open, ...factors.slice(i + 1).flatMap((g) => g.labels)]);
+    live = [...all].filter((l) => later.has(l));
+  });
+  return cost;
+}
+
+/** The cheapest order of up to six factors (tried exhaustively; more keep their order). */
+function cheapestOrder(factors: readonly LabelledTensor[], open: readonly string[], n: number): readonly LabelledTensor[] {
+  if (factors.length < 3 || factors.length > 6) return factors;
+  let best = factors;
+  let bestCost = orderCost(factors, open, n);
+  for (const perm of permutations(factors.length)) {
+    const candidate = perm.map((i) => factors[i]);
+    const cost = orderCost(candidate, open, n);
+    if (cost < bestCost) {
+      best = candidate;
+      bestCost = cost;
+    }
+  }
+  return best;
 }
 
 function contractWith<T>(arith: Arithmetic<T>, factors: readonly LabelledTensor[], open: readonly string[], n: number): Tensor {
