@@ -157,3 +157,32 @@ test('exponents job, loops 3, O(1) at s = 2, d = 3: 1/ν, η, ω to ε³ equal t
   close(new Decimal(result.series.omega[3]), omega3, 'ω ε³', 1e-13);
   close(new Decimal(result.series.nuInv[2]), new Decimal(-(N + 2) * (13 * N + 44)).div(2 * (N + 8) ** 3), '1/ν ε²', 1e-13);
 });
+
+test('large N, any s: 1/ν → s − ε, i.e. Δ_φ² → s, through ε³ (common practice: the leading large-N long-range result); symbolic in N and s, the tetrahedron term included', async () => {
+  const { flowFor } = await import('../../../shared/engine/flows/index');
+  const { findFixedPoints } = await import('../../../shared/engine/fixedpoints/index');
+  const { exponentSeries } = await import('../../../shared/engine/exponents/index');
+  const { flow } = flowFor({ model: onFamily, s: null, loops: 3, digits: 30 });
+  const f = flow as DerivedFlow<Expression>;
+  const point = findFixedPoints(onFamily, f, { eps: null }).find((p) => p.name !== 'Gaussian')!;
+  const nuInv = exponentSeries(f, point).nuInv;
+  const degreeInN = (p: Map<string, { monomial: [string, number][] }>) => Math.max(0, ...[...p.values()].map((t) => t.monomial.find(([n]) => n === 'N')?.[1] ?? 0));
+  const excess = (e: Expression) =>
+    Math.max(...[...e.terms.values()].map((t) => degreeInN(t.coeff.num as never) - [...t.coeff.den.values()].reduce((sum, fct) => sum + degreeInN(fct.poly as never) * fct.power, 0)));
+  // ε¹: −(N+2)/(N+8) → −1; ε² and ε³: every term vanishes as N → ∞ (numerator degree below denominator degree)
+  assert.equal(excess(nuInv.coefficient(1)), 0);
+  assert.ok(excess(nuInv.coefficient(2)) < 0, 'ε² coefficient of 1/ν vanishes at large N');
+  assert.ok(excess(nuInv.coefficient(3)) < 0, 'ε³ coefficient of 1/ν vanishes at large N');
+  assert.ok([...nuInv.coefficient(3).terms.values()].some((t) => t.monomial.some((p) => p.atom.kind === 'tetrahedron')), 'the ε³ coefficient contains P(s)');
+});
+
+test('generic s (symbolic): the three-loop pole equations hold exactly for O(N) and cubic(3), and γ_φ = 0 identically (Δφ = (d − s)/2 exactly for s < 2; docs/physics.md, exact statements)', async () => {
+  const { cubicModel } = await import('../../../shared/engine/models/index');
+  for (const spec of [onFamily, cubicModel(3)]) {
+    const flow = deriveFlow(spec, symbolicCalculus(null), 3);
+    assert.ok(flow.checks.some((c) => c.includes('1/ε^n pole (n = 2…3)')), spec.label);
+    assert.ok(flow.checks.some((c) => c.startsWith('φ² insertion')), spec.label);
+    assert.ok(flow.gammaPhi.isZero() || [...flow.gammaPhi.terms.values()].every((t) => t.coeff.isZero()), `${spec.label}: γ_φ = 0`);
+    assert.equal(flow.fieldRenormalized, false);
+  }
+});
