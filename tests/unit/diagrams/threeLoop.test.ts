@@ -81,7 +81,7 @@ test('three loops at s = 2 reproduce the two-loop catalogue below three loops (s
   }
 });
 
-test('cubic anisotropy at s = 2, N = 2: three-loop β is covariant under the 45° rotation (u, v) → (u + 3v/2, −v) that maps the model to itself (common practice)', () => {
+test('cubic anisotropy at s = 2, N = 2: three-loop β is covariant under the 45° rotation (u, v) → (u + 3v/2, −v) that maps the model to itself, and at u = 0 it is N decoupled Ising models (common practice)', () => {
   const flow = cubicAtTwo();
   const at = (p: CouplingPolynomial<Expression>, u: Decimal, v: Decimal) => {
     let sum = new Decimal(0);
@@ -94,6 +94,12 @@ test('cubic anisotropy at s = 2, N = 2: three-loop β is covariant under the 45�
   const betaV = at(flow.beta[1], u, v);
   close(at(flow.beta[0], u2, v2), betaU.plus(betaV.times(1.5)), 'β_u at the rotated point', 1e-28);
   close(at(flow.beta[1], u2, v2), betaV.neg(), 'β_v at the rotated point', 1e-28);
+  // u = 0: N decoupled Ising models, β_v(0, v) is the O(1) three-loop β and v alone does not generate u (common practice)
+  const w = new Decimal('0.21');
+  const zero = new Decimal(0);
+  const ising = KSF.beta.reduce((sum, c, i) => sum.plus(c(1).times(w.pow(i + 2))), new Decimal(0));
+  close(at(flow.beta[1], zero, w), ising, 'β_v(0, v) = Ising β(v)', 1e-28);
+  close(at(flow.beta[0], zero, w), zero, 'β_u(0, v) = 0', 1e-28);
 });
 
 test('infrared counterterms (R*) give the same pole as an infrared-safe routing, for every graph through three loops that has both', () => {
