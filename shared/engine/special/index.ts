@@ -10,6 +10,7 @@ import { zetaNegativeFloat } from './zeta-negative';
 
 export { bernoulliExact } from './bernoulli';
 export { zetaEvenRationalFactor } from './zeta';
+export { type TetrahedronResult, tetrahedronPeriod, tetrahedronPeriodWithBound } from './tetrahedron';
 
 /** Guard bits every public function adds on entry (results are rounded to `digits` on exit). */
 const GUARD_BITS = 20;
