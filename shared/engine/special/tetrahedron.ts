@@ -18,7 +18,7 @@ import { gammaScaled } from './gamma';
  *
  * so that   P(s) = Γ(s)/π · Σ_{l≥0} dim_l · I_l,   I_l = ∫_0^∞ R_l(t)³ dt,
  * dim_l = (l+λ)/λ·(2λ)_l/l! (λ = s − 1) the number of harmonics of degree l in D dimensions.
- * At s = 2: R_l = 1/((l+1)²/4 + t²), dim_l = (l+1)², I_l = 6/(l+1)^5·(1/dim_l)… and the sum is 6ζ(3).
+ * At s = 2: R_l = 1/((l+1)²/4 + t²), dim_l = (l+1)², I_l = 6π/(l+1)^5, and the sum is 6ζ(3).
  *
  * Each I_l (l < N) is an exp-sinh (double-exponential) quadrature; ln R_l comes from the centred
  * Stirling series of lnΓ(W+x₁) − lnΓ(W+x₂) (x₁ + x₂ = 1, only even powers of 1/W, DLMF 5.11.8 and
@@ -425,7 +425,7 @@ export function tetrahedronPeriodWithBound(s: RealInput | ExactRational, digits:
 export function tetrahedronPeriod(s: RealInput | ExactRational, digits: number): Real {
   checkDigits(digits);
   const sq = argument(s);
-  for (let extra = 2; extra <= 40; extra += 12) {
+  for (const extra of [8, 20, 40]) {
     const result = toResult(computeRaw(sq, digits + extra), digits);
     if (result.guaranteedDigits >= digits) return result.value;
   }

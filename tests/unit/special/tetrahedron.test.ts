@@ -1,0 +1,63 @@
+import { test } from 'node:test';
+import assert from 'node:assert/strict';
+import Decimal from 'decimal.js';
+import { special } from '../../../shared/engine/index';
+import { EngineError } from '../../../shared/engine/precision';
+import { assertDigits } from '../helpers/engine';
+import { TETRAHEDRON_MPMATH, TETRAHEDRON_MPMATH_DIGITS } from '../helpers/tetrahedron-values';
+
+// ζ(3) to 40 digits, OEIS A002117 (same value as tests/unit/special/constants.test.ts)
+const ZETA3_40 = '1.2020569031595942853997381615114499907650';
+const Wide = Decimal.clone({ precision: 120 });
+
+test('P(2) = 6ζ(3) to 30 digits (OEIS A002117; P(2) = 6ζ(3) is common practice: the wheel with three spokes)', () => {
+  const expected = new Wide(ZETA3_40).times(6).toString();
+  assertDigits(special.tetrahedronPeriod('2', 30), expected, 30, 'P(2)');
+});
+
+test('P(2) = 6ζ(3) to 50 digits (ζ(3) from the engine at 60 digits, itself checked against OEIS A002117 and mpmath)', () => {
+  const expected = new Wide(special.zetaInteger(3, 60).toString()).times(6).toString();
+  assertDigits(special.tetrahedronPeriod('2', 50), expected, 50, 'P(2)');
+});
+
+test('P(s) agrees with the independent two-fold Mellin–Barnes integration in mpmath (tests/unit/helpers/tetrahedron_mpmath.py)', () => {
+  for (const [s, value] of Object.entries(TETRAHEDRON_MPMATH)) {
+    assertDigits(special.tetrahedronPeriod(s, 30), value, TETRAHEDRON_MPMATH_DIGITS, `P(${s})`);
+  }
+});
+
+test('the 30-digit value agrees with a 45-digit run to 30 digits (self-consistency of the bound)', () => {
+  for (const s of ['1.6', '1.9', '0.75']) {
+    const high = special.tetrahedronPeriod(s, 45);
+    assertDigits(special.tetrahedronPeriod(s, 30), high.toString(), 30, `P(${s})`);
+  }
+});
+
+test('the error bound certifies the digits asked for, and is below 10^-digits relative', () => {
+  for (const s of ['1.75', '1.25']) {
+    const r = special.tetrahedronPeriodWithBound(s, 40);
+    const relative = new Wide(r.errorBound.toString()).div(new Wide(r.value.toString()).abs());
+    assert.ok(relative.lt(new Wide(10).pow(-30)), `P(${s}): relative bound ${relative.toExponential(3)} not below 1e-30`);
+    assert.ok(r.guaranteedDigits >= 30, `P(${s}): ${r.guaranteedDigits} guaranteed digits`);
+    // the certified 30-digit value lies within the bound of the 40-digit one
+    const diff = new Wide(special.tetrahedronPeriod(s, 30).toString()).minus(new Wide(r.value.toString())).abs();
+    assert.ok(diff.lt(new Wide(10).pow(-28).times(new Wide(r.value.toString()))), `P(${s}) 30 vs 40 digits`);
+  }
+});
+
+test('P(s) is continuous and decreasing on (1/3, 2] (sanity: larger s, faster-decaying kernel)', () => {
+  const grid = ['0.4', '0.5', '0.75', '1', '1.25', '1.5', '1.6', '1.75', '1.9', '2'];
+  const values = grid.map((s) => new Wide(special.tetrahedronPeriod(s, 20).toString()));
+  for (let i = 1; i < values.length; i++) assert.ok(values[i].lt(values[i - 1]), `P(${grid[i]}) < P(${grid[i - 1]})`);
+  const left = new Wide(special.tetrahedronPeriod('1.749999', 20).toString());
+  const right = new Wide(special.tetrahedronPeriod('1.750001', 20).toString());
+  const mid = new Wide(special.tetrahedronPeriod('1.75', 20).toString());
+  assert.ok(left.gt(mid) && mid.gt(right), 'monotone across 1.75 ± 1e-6');
+  assert.ok(left.minus(right).abs().lt(1e-3), 'continuous across 1.75 ± 1e-6');
+});
+
+test('outside 1/3 < s ≤ 2 the period is refused with a domain error', () => {
+  for (const s of ['0.3', '0', '2.5', '-1']) {
+    assert.throws(() => special.tetrahedronPeriod(s, 30), (e: unknown) => e instanceof EngineError && e.code === 'domain', `s = ${s}`);
+  }
+});
