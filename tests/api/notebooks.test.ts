@@ -39,7 +39,7 @@ describe('notebooks, cells, runs, versions and exports', () => {
   });
 
   test('invalid cell input is refused at the edge with field messages', async () => {
-    const reply = await owner.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'Bad Label', input: { kind: 'setup', model: { preset: 'on', N: 1 }, loops: 3, digits: 2 } }).expect(400);
+    const reply = await owner.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'Bad Label', input: { kind: 'setup', model: { preset: 'on', N: 1 }, loops: 4, digits: 2 } }).expect(400);
     assert.ok(reply.body.error.fields.label);
     assert.ok(reply.body.error.fields['input.loops'] || reply.body.error.fields.input);
     await owner.post(`/api/notebooks/${notebook.id}/cells`).send({ label: 'x', input: { kind: 'teleport' } }).expect(400);

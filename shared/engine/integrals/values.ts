@@ -1,6 +1,6 @@
-import { type Real, fail } from '../precision';
+import { type Real } from '../precision';
 import { type CoefficientRing, numericRing } from '../series';
-import { gamma, polygamma, zetaInteger } from '../special';
+import { gamma, polygamma, tetrahedronPeriod } from '../special';
 import { type Affine, type Expression, type Q, evaluateAffine, gammaExpr, isConstantAffine, psiExpr, qToString, symbolicRing, tetrahedronExpr } from '../symbolic';
 
 /** Where Γ(x) and ψ^(k)(x) come from: numbers at a parameter point, or canonical symbols. */
@@ -16,15 +16,6 @@ export interface ExpansionContext<C> {
 
 export function symbolicContext(): ExpansionContext<Expression> {
   return { ring: symbolicRing(), gamma: gammaExpr, psi: psiExpr, tetrahedron: tetrahedronExpr, resolve: (x) => x };
-}
-
-/**
- * P(s) as a number: 6ζ(3) at s = 2 (docs/tetrahedron.md); other s wait for the period's evaluation with
- * an error bound, so they are refused rather than approximated.
- */
-export function tetrahedronValue(s: Q, digits: number): Real {
-  if (s.num === 2n && s.den === 1n) return zetaInteger(3, digits).times(6);
-  return fail('not-representable', `three loops at s = ${qToString(s)} need the tetrahedron period P(s), which is evaluated only at s = 2 so far`);
 }
 
 /** Numeric mode at parameter values `at` (exact rationals); coefficients carry `workingDigits`. */
@@ -54,7 +45,7 @@ export function numericContext(at: Readonly<Record<string, Q>>, workingDigits: n
     },
     tetrahedron: (x) => {
       const p = point(x);
-      return memo(`t:${qToString(p)}`, () => tetrahedronValue(p, workingDigits));
+      return memo(`t:${qToString(p)}`, () => tetrahedronPeriod(p, workingDigits));
     },
     resolve: (x) => {
       if (isConstantAffine(x)) return x;

@@ -1,5 +1,5 @@
 import { type Real, GUARD_DIGITS, fail, rationalToReal, realContext } from '../precision';
-import { eulerGamma, gamma, ln2, pi, polygamma, zetaInteger } from '../special';
+import { eulerGamma, gamma, ln2, pi, polygamma, tetrahedronPeriod, zetaInteger } from '../special';
 import { evaluateAffine } from './affine';
 import { type Atom, type Expression } from './expression';
 import { type Q } from './rational';
@@ -22,12 +22,6 @@ export function evaluateExpression(e: Expression, values: Readonly<Record<string
   return new (realContext(digits))(sum).toSignificantDigits(digits);
 }
 
-/** P(x) as a number (see integrals/values.ts tetrahedronValue: only x = 2 so far). */
-function tetrahedronAt(x: Q, digits: number): Real {
-  if (x.num === 2n && x.den === 1n) return zetaInteger(3, digits).times(6);
-  return fail('not-representable', 'the tetrahedron period P(s) is evaluated only at s = 2 so far');
-}
-
 /** The value of one atom (ψ, Γ, π, ln 2, γ_E, ζ(n)) at numeric parameter values. */
 export function evaluateAtom(a: Atom, values: Readonly<Record<string, Q>>, digits: number): Real {
   switch (a.kind) {
@@ -44,7 +38,7 @@ export function evaluateAtom(a: Atom, values: Readonly<Record<string, Q>>, digit
     case 'gamma':
       return gamma(evaluateAffine(a.arg, values), digits);
     case 'tetrahedron':
-      return tetrahedronAt(evaluateAffine(a.arg, values), digits);
+      return tetrahedronPeriod(evaluateAffine(a.arg, values), digits);
   }
   return fail('invalid', 'unknown atom');
 }
