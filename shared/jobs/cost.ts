@@ -28,11 +28,20 @@ export const COST_LIMITS = {
   /** Derivation of a flow at two loops: units × fields² × couplings² × (1 + digits/50). */
   derivationUnit: 6,
   /**
-   * A three-loop derivation against a two-loop one (eight four-point graphs with nested subtractions
-   * instead of two, the three-loop self-energy and φ² insertions): an estimate, not yet measured —
-   * re-measure when diagrams/ derives three loops (docs/flows.md, "Three loops").
+   * A three-loop derivation of a custom model against a two-loop one (measured 0.22 s → 4.0 s for four
+   * fields and four couplings at 30 digits, i.e. 18×; the formula then over-estimates that model 7×).
    */
-  threeLoopFactor: 12,
+  threeLoopFactor: 18,
+  /**
+   * Three-loop derivations of the presets at 30 digits, units × (1 + digits/50)/1.6 (measured 0.5–0.8 s for
+   * O(n) and cubic(n) with n ≤ 6, 1.2 s for O(N) and 3.8–5.3 s for cubic(N) symbolic in N; tests/bench/flow.bench.ts).
+   */
+  threeLoopPresetUnits: { on: 1_000, onSymbolic: 1_500, cubic: 3_000, cubicSymbolic: 6_000 },
+  /**
+   * One value of the tetrahedron period P(s) (three loops at a numeric s < 2): units × (1 + digits/30)^4
+   * (measured about 0.1 s at 30 digits, 1.3 s at 100, 20 s at 200; docs/tetrahedron.md).
+   */
+  tetrahedronUnit: 6,
   /** One scan point of a one-coupling model, per quantity: units × (1 + digits/30). */
   seriesPointUnit: 0.4,
   /** One scan point (or one fixed-point search) of the cubic model: units × fields² × (1 + digits/60). */
@@ -259,25 +268,41 @@ interface ModelSize {
   fields: number;
   couplings: number;
   custom: boolean;
+  preset: 'on' | 'cubic' | 'custom';
+  /** N symbolic or not a whole number of fields (the symbolic-N family) */
+  symbolicN: boolean;
   label: string;
 }
 
 function modelSize(model: FlowCalcJob['model'] | CompareJob['model']): ModelSize {
   if (model.preset === 'custom') {
     const built = customModel(model.fields, model.potential);
-    return { fields: model.fields, couplings: built.couplings.length, custom: true, label: `a ${model.fields}-field model with ${built.couplings.length} couplings` };
+    return { fields: model.fields, couplings: built.couplings.length, custom: true, preset: 'custom', symbolicN: false, label: `a ${model.fields}-field model with ${built.couplings.length} couplings` };
   }
   // integer N from 1 to MAX_FIELDS use explicit tensors; symbolic and any other N the symbolic-N family (sized as one field)
   const n = model.N === 'N' ? NaN : Number(model.N);
-  const fields = Number.isInteger(n) && n >= 1 && n <= MAX_FIELDS ? n : 1;
+  const explicit = Number.isInteger(n) && n >= 1 && n <= MAX_FIELDS;
+  const fields = explicit ? n : 1;
   const couplings = model.preset === 'cubic' && fields > 1 ? 2 : 1;
-  return { fields, couplings, custom: false, label: `the ${model.preset === 'on' ? 'O' : 'cubic'}(${model.N}) model` };
+  return { fields, couplings, custom: false, preset: model.preset, symbolicN: !explicit, label: `the ${model.preset === 'on' ? 'O' : 'cubic'}(${model.N}) model` };
 }
 
-function derivationUnits(fields: number, couplings: number, loops: number, digits: number): number {
+function derivationUnits(size: ModelSize, loops: number, digits: number): number {
+  if (loops >= 3 && size.preset !== 'custom') {
+    const table = COST_LIMITS.threeLoopPresetUnits;
+    const units = size.preset === 'on' ? (size.symbolicN ? table.onSymbolic : table.on) : size.symbolicN ? table.cubicSymbolic : table.cubic;
+    return (units * (1 + digits / 50)) / 1.6;
+  }
   const perLoop = loops >= 3 ? COST_LIMITS.threeLoopFactor : loops === 2 ? 1 : 0.2;
-  return COST_LIMITS.derivationUnit * perLoop * fields ** 2 * couplings ** 2 * (1 + digits / 50);
+  return COST_LIMITS.derivationUnit * perLoop * size.fields ** 2 * size.couplings ** 2 * (1 + digits / 50);
 }
+
+/** The tetrahedron period at one numeric s (three loops only; s = 2 is exact and symbolic s keeps it as a symbol). */
+function periodUnits(loops: number, digits: number): number {
+  return loops >= 3 ? COST_LIMITS.tetrahedronUnit * (1 + digits / 30) ** 4 : 0;
+}
+
+const isTwo = (text: string) => qCompare(toExactRational(text), q(2)) === 0;
 
 /** A numeric fixed-point search at one ε (every scan point of a model with several couplings). */
 function numericPointUnits(size: ModelSize, digits: number): number {
@@ -290,8 +315,8 @@ function flowCostProblem(input: unknown): string | null {
   if (!parsed.success) return null;
   const job = parsed.data;
   const size = modelSize(job.model);
-  const derivation = derivationUnits(size.fields, size.couplings, job.loops, job.digits);
-  let units = derivation;
+  const derivation = derivationUnits(size, job.loops, job.digits);
+  let units = derivation + ('s' in job && typeof job.s === 'string' && !isTwo(job.s) ? periodUnits(job.loops, job.digits) : 0);
   let asked = `deriving the flow of ${size.label} at ${job.loops} loops and ${job.digits} digits`;
   let reduce = 'digits, loops or the number of couplings';
   if (job.job === 'fixedpoints' || job.job === 'exponents') {
@@ -306,9 +331,10 @@ function flowCostProblem(input: unknown): string | null {
       return `this scan's result would take about ${megabytes(resultBytes)} (${points} points × ${quantities} quantities × ${job.digits} digits), over the limit of ${megabytes(RESULT_LIMITS.maxResultBytes)} per result; reduce points, quantities or digits`;
     }
     units +=
-      size.couplings > 1
+      points * periodUnits(job.loops, job.digits) +
+      (size.couplings > 1
         ? points * (numericPointUnits(size, job.digits) + COST_LIMITS.seriesPointUnit * quantities * (1 + job.digits / 30))
-        : points * COST_LIMITS.seriesPointUnit * quantities * (1 + job.digits / 30);
+        : points * COST_LIMITS.seriesPointUnit * quantities * (1 + job.digits / 30));
     if (reachesShortRange(job.s)) units += shortRangePointUnits(size, job.loops, job.digits);
     asked = `this scan asks for ${points} points × ${quantities} quantities × ${job.digits} digits with ${size.label}`;
     reduce = 'points, quantities, digits or the number of couplings';
@@ -327,13 +353,12 @@ function padeTableUnits(loops: number, digits: number): number {
 
 /** s ≤ 2 in every scan, so the range holds s = 2 exactly when one of its ends is 2. */
 function reachesShortRange(range: { from: string; to: string }): boolean {
-  const isTwo = (text: string) => qCompare(toExactRational(text), q(2)) === 0;
   return isTwo(range.from) || isTwo(range.to);
 }
 
 /** s = 2 is computed like an exponents job: its own flow derived at s = 2, the fixed points there, the Padé tables. */
 function shortRangePointUnits(size: ModelSize, loops: number, digits: number): number {
-  return derivationUnits(size.fields, size.couplings, loops, digits) + 10 * numericPointUnits(size, digits) + padeTableUnits(loops, digits);
+  return derivationUnits(size, loops, digits) + 10 * numericPointUnits(size, digits) + padeTableUnits(loops, digits);
 }
 
 /** A spline fit per resample plus the first, each over the data points and the curvature grid. */
@@ -363,8 +388,8 @@ function compareCostProblem(job: CompareJob): string | null {
   }
   const padeVariants = padeTableEntries(job.loops);
   const series = COST_LIMITS.seriesPointUnit * (1 + job.digits / 30) + COST_LIMITS.padePointUnit * padeVariants * (1 + job.digits / 30);
-  const perPoint = size.couplings > 1 ? numericPointUnits(size, job.digits) + series : series;
-  const units = derivationUnits(size.fields, size.couplings, job.loops, job.digits) + points * perPoint + (job.data.boundary ? kinkUnits(job.data.x.length, undefined) : 0);
+  const perPoint = (size.couplings > 1 ? numericPointUnits(size, job.digits) + series : series) + periodUnits(job.loops, job.digits);
+  const units = derivationUnits(size, job.loops, job.digits) + points * perPoint + (job.data.boundary ? kinkUnits(job.data.x.length, undefined) : 0);
   if (units <= COST_LIMITS.maxUnits) return null;
   return `this comparison evaluates ${size.label} at ${points} values of s (${job.s.points} curve points and ${job.data.x.length} data points) at ${job.digits} digits — about ${seconds(units)} of engine time, over the limit of about ${seconds(COST_LIMITS.maxUnits)}; reduce the scan's points, the data's x-range, the digits or the number of couplings`;
 }
