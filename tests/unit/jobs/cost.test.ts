@@ -156,3 +156,13 @@ test('three loops: accepted by the contract and charged more than two (derivatio
   assert.match(problem, /at 3 loops and 200 digits/);
   assert.match(problem, /reduce digits, loops or the number of couplings/);
 });
+
+test('three loops: the P(s) evaluations are counted — a 200-point scan at 30 digits runs, the same at 80 digits or 5 points at 200 digits are refused before they start, naming what to reduce', () => {
+  // the unit is about a millisecond; P(s) at 30 digits takes about 0.1 s (docs/tetrahedron.md, measured)
+  assert.equal(jobCostProblem({ ...scan({ preset: 'on', N: '1' }, 200, ['nuInv', 'omega'], 30), loops: 3 }), null);
+  assert.match(jobCostProblem({ ...scan({ preset: 'on', N: '1' }, 200, ['nuInv', 'omega'], 80), loops: 3 }) ?? '', /reduce points, quantities, digits/);
+  assert.match(jobCostProblem({ ...scan({ preset: 'on', N: '1' }, 5, ['nuInv'], 200), loops: 3 }) ?? '', /over the limit/);
+  // at s = 2 the period is 6ζ(3): no P(s) work
+  assert.equal(jobCostProblem({ job: 'exponents', model: { preset: 'on', N: '1' }, s: '2', d: '3', loops: 3, digits: 100 }), null);
+  assert.ok(5 * COST_LIMITS.tetrahedronUnit * (1 + 200 / 30) ** 4 > COST_LIMITS.maxUnits);
+});
