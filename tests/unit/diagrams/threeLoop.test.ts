@@ -192,3 +192,16 @@ test('generic s (symbolic): the three-loop pole equations hold exactly for O(N) 
     assert.equal(flow.fieldRenormalized, false);
   }
 });
+
+test('exponents job, loops 3, s < 2: Δφ = (d − s)/2 exactly and Δφ + Δ_{φ³} = d (no field renormalization for the non-local kinetic term; docs/physics.md, exact statements), for O(1) and cubic(3)', async () => {
+  const { runJob } = await import('../../../shared/jobs/run');
+  for (const model of [{ preset: 'on', N: '1' }, { preset: 'cubic', N: '3' }]) {
+    const result = runJob({ job: 'exponents', model, s: '1.6', d: '3', loops: 3, digits: 30 }) as { values: Record<string, string>; series: Record<string, string[]> };
+    const label = `${model.preset}(${model.N})`;
+    // (3 − 1.6)/2 = 0.7 exactly, and Δ_{φ³} = 3 − 0.7 = 2.3
+    assert.equal(new Decimal(result.values.Delta_phi).toString(), '0.7', `${label} Δφ`);
+    assert.equal(new Decimal(result.values.Delta_phi3).toString(), '2.3', `${label} Δ_{φ³}`);
+    // η = 2 − s at every order: its series is 0.4 with no ε, ε², ε³ terms
+    assert.deepEqual(result.series.eta.map((c) => new Decimal(c).toString()), ['0.4', '0', '0', '0'], `${label} η series`);
+  }
+});
