@@ -5,6 +5,7 @@ import { special } from '../../../shared/engine/index';
 import { EngineError } from '../../../shared/engine/precision';
 import { assertDigits } from '../helpers/engine';
 import { TETRAHEDRON_MPMATH, TETRAHEDRON_MPMATH_DIGITS } from '../helpers/tetrahedron-values';
+import { TETRAHEDRON_SPECTRAL, TETRAHEDRON_SPECTRAL_DIGITS } from '../helpers/tetrahedron-spectral-values';
 
 // ζ(3) to 40 digits, OEIS A002117 (same value as tests/unit/special/constants.test.ts)
 const ZETA3_40 = '1.2020569031595942853997381615114499907650';
@@ -28,6 +29,13 @@ test('P(2) = 6ζ(3) to 100 digits (ζ(3) from the engine at 110 digits; the tail
 test('P(s) agrees with the independent two-fold Mellin–Barnes integration in mpmath (tests/unit/helpers/tetrahedron_mpmath.py)', () => {
   for (const [s, value] of Object.entries(TETRAHEDRON_MPMATH)) {
     assertDigits(special.tetrahedronPeriod(s, 30), value, TETRAHEDRON_MPMATH_DIGITS, `P(${s})`);
+  }
+});
+
+test('P(s) at 30 and at 48 digits agrees with an independent mpmath implementation of the spectral sum at nine s in (1/3, 2] (tests/unit/helpers/tetrahedron_spectral_mpmath.py)', () => {
+  for (const [s, value] of Object.entries(TETRAHEDRON_SPECTRAL)) {
+    assertDigits(special.tetrahedronPeriod(s, 30), value, 30, `P(${s}) at 30 digits`);
+    assertDigits(special.tetrahedronPeriod(s, TETRAHEDRON_SPECTRAL_DIGITS), value, TETRAHEDRON_SPECTRAL_DIGITS, `P(${s}) at ${TETRAHEDRON_SPECTRAL_DIGITS} digits`);
   }
 });
 
