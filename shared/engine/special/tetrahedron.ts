@@ -59,17 +59,25 @@ function gammaFixed(x: Q, bits: number): Fixed {
   return g.exp2 >= 0n ? g.mant << g.exp2 : g.mant >> -g.exp2;
 }
 
-/** B_n(x) for rational x, fixed point: B_n(x)·xd^n = Σ_k C(n,k) B_k xn^{n−k} xd^k. */
+/** B_n(x) for rational x, fixed point: B_n(x)·xd^n = Σ_k C(n,k) B_k xn^{n−k} xd^k, summed exactly over a common denominator. */
 function bernoulliPolynomial(n: number, x: Q, bits: number): Fixed {
-  const work = bits + 16;
-  let sum = 0n;
+  const terms: { num: bigint; den: bigint }[] = [];
   let binom = 1n;
+  let common = 1n;
+  let denPower = 1n; // xd^k
   for (let k = 0; k <= n; k++) {
-    if (k > 0) binom = (binom * BigInt(n - k + 1)) / BigInt(k);
+    if (k > 0) {
+      binom = (binom * BigInt(n - k + 1)) / BigInt(k);
+      denPower *= x.den;
+    }
     const b = bernoulliExact(k);
-    if (b.num !== 0n) sum += fromRational(binom * b.num * x.num ** BigInt(n - k) * x.den ** BigInt(k), b.den, work);
+    if (b.num === 0n) continue;
+    terms.push({ num: binom * b.num * x.num ** BigInt(n - k) * denPower, den: b.den });
+    common = (common / gcd(common, b.den)) * b.den;
   }
-  return changeBits(sum / x.den ** BigInt(n), work, bits);
+  let sum = 0n;
+  for (const t of terms) sum += t.num * (common / t.den);
+  return fromRational(sum, common * x.den ** BigInt(n), bits);
 }
 
 /** Coefficients of exp(Σ_{k≥1} g_k u^k) up to u^count (g_0 ignored). */
@@ -131,6 +139,7 @@ interface Setup {
   gamma: Fixed[];
   /** log₂ max_{j≥k} |γ_j| (for the truncation test) */
   gammaLog2: number[];
+  threeHalvesS: Fixed;
   shiftRadius: number;
 }
 
@@ -150,32 +159,63 @@ function setup(s: Q, bits: number): Setup {
   // a running maximum from the right: one γ_k close to zero (B_{2k+1}(x₁) changes sign with k) must not
   // end the series before the larger coefficients after it
   for (let k = gammaLog2.length - 2; k >= 1; k--) gammaLog2[k] = Math.max(gammaLog2[k], gammaLog2[k + 1]);
-  return { s, bits, gamma, gammaLog2, shiftRadius };
+  return { s, bits, gamma, gammaLog2, shiftRadius, threeHalvesS: fromRational(3n * s.num, 2n * s.den, bits) };
+}
+
+/** exp(lnWeight)·R_l(t)³ in fixed point, with α = l/2 + s/4, b = s/2, A' = α − x₁ = (l+s−1)/2. */
+/** Per-l constants of the integrand (α = l/2 + s/4, b = s/2, A' = α − x₁): squares of α+j and α+b+j for the shift. */
+interface Harmonic {
+  aPrime: Fixed;
+  aNum: number;
+  lo2: Fixed[];
+  hi2: Fixed[];
+}
+const harmonicCache = new WeakMap<Setup, Harmonic[]>();
+
+function harmonic(st: Setup, l: number): Harmonic {
+  let list = harmonicCache.get(st);
+  if (!list) {
+    list = [];
+    harmonicCache.set(st, list);
+  }
+  if (list[l]) return list[l];
+  const { bits, s } = st;
+  const alphaF = qFixed(qAdd(q(BigInt(l), 2n), q(s.num, 4n * s.den)), bits);
+  const bF = fromRational(s.num, 2n * s.den, bits);
+  const aPrimeQ = q(BigInt(l) * s.den + s.num - s.den, 2n * s.den);
+  const unit = one(bits);
+  const lo2: Fixed[] = [];
+  const hi2: Fixed[] = [];
+  for (let j = 0; j <= st.shiftRadius + 1; j++) {
+    const lo = alphaF + BigInt(j) * unit;
+    lo2.push(mul(lo, lo, bits));
+    hi2.push(mul(lo + bF, lo + bF, bits));
+  }
+  list[l] = { aPrime: qFixed(aPrimeQ, bits), aNum: qNumber(aPrimeQ), lo2, hi2 };
+  return list[l];
 }
 
 /** exp(lnWeight)·R_l(t)³ in fixed point, with α = l/2 + s/4, b = s/2, A' = α − x₁ = (l+s−1)/2. */
 function integrand(st: Setup, l: number, t: Fixed, lnWeight: Fixed): Fixed {
-  const { bits, s } = st;
-  const alpha = qAdd(q(BigInt(l), 2n), q(s.num, 4n * s.den));
-  const aPrime = q(BigInt(l) * s.den + s.num - s.den, 2n * s.den);
+  const { bits } = st;
+  const h = harmonic(st, l);
   const tNum = Number(t >> BigInt(Math.max(0, bitLength(t) - 52))) * 2 ** (Math.max(0, bitLength(t) - 52) - bits);
-  const aNum = qNumber(aPrime);
+  const aNum = h.aNum;
   let M = 0;
   if (aNum * aNum + tNum * tNum < st.shiftRadius * st.shiftRadius) M = Math.max(0, Math.ceil(st.shiftRadius - aNum));
   const t2 = mul(t, t, bits);
-  // Q = Π_{j<M} ((α+b+j)² + t²)/((α+j)² + t²)
+  // Q = Π_{j<M} ((α+b+j)² + t²)/((α+j)² + t²): numerator and denominator products, one division
   let ratio = one(bits);
   if (M > 0) {
-    const alphaF = qFixed(alpha, bits);
-    const bF = fromRational(s.num, 2n * s.den, bits);
-    const unit = one(bits);
-    for (let j = 0; j < M; j++) {
-      const lo = alphaF + BigInt(j) * unit;
-      const hi = lo + bF;
-      ratio = div(mul(ratio, mul(hi, hi, bits) + t2, bits), mul(lo, lo, bits) + t2, bits);
+    let numerator = h.hi2[0] + t2;
+    let denominator = h.lo2[0] + t2;
+    for (let j = 1; j < M; j++) {
+      numerator = mul(numerator, h.hi2[j] + t2, bits);
+      denominator = mul(denominator, h.lo2[j] + t2, bits);
     }
+    ratio = div(numerator, denominator, bits);
   }
-  const X = qFixed(aPrime, bits) + (BigInt(M) << BigInt(bits));
+  const X = h.aPrime + (BigInt(M) << BigInt(bits));
   const X2 = mul(X, X, bits);
   const modulus2 = X2 + t2; // |W_M|²
   // z = W_M^{−2} = (X² − t² − 2iXt)/|W_M|⁴
@@ -197,8 +237,7 @@ function integrand(st: Setup, l: number, t: Fixed, lnWeight: Fixed): Fixed {
     si = mul(ar, zi, bits) + mul(si, zr, bits);
     sr = nr;
   }
-  const threeHalvesS = fromRational(3n * s.num, 2n * s.den, bits);
-  const exponent = sr - mul(threeHalvesS, lnFixedPositive(modulus2, bits), bits) + lnWeight;
+  const exponent = sr - mul(st.threeHalvesS, lnFixedPositive(modulus2, bits), bits) + lnWeight;
   const r3 = mul(ratio, mul(ratio, ratio, bits), bits);
   // the shift factor r3 can be ~2^40 while exp(exponent) is small: take exp with a relative (mantissa)
   // precision, not an absolute one, or r3 magnifies its last bits
@@ -294,18 +333,18 @@ function integrateAll(st: Setup, dims: Fixed[], targetLog2: number): { values: F
 function hurwitzZeta(sigma: Q, aQ: Q, aPowMinusSigma: Fixed, bits: number): { value: Fixed; error: Fixed } {
   const sigmaMinusOne = qAdd(sigma, qInt(-1));
   let value = (aPowMinusSigma * aQ.num * sigmaMinusOne.den) / (aQ.den * sigmaMinusOne.num) + (aPowMinusSigma >> 1n);
-  // Σ_k B_{2k}/(2k)! (σ)_{2k−1} a^{1−2k} · a^{−σ}
-  let coef: Q = sigma; // (σ)_{2k−1}/(2k)!·a^{1−2k} without B_{2k}
-  coef = qMul(coef, q(aQ.den, 2n * aQ.num));
+  // Σ_k B_{2k}/(2k)! (σ)_{2k−1} a^{1−2k} · a^{−σ}; c = (σ)_{2k−1}/(2k)!·a^{1−2k} kept as an unreduced fraction
+  let cNum = sigma.num * aQ.den;
+  let cDen = sigma.den * 2n * aQ.num;
   let last = 0n;
   for (let k = 1; k < 400; k++) {
     const b = bernoulliExact(2 * k);
-    const term = (aPowMinusSigma * coef.num * b.num) / (coef.den * b.den);
+    const term = (aPowMinusSigma * cNum * b.num) / (cDen * b.den);
     value += term;
     last = term < 0n ? -term : term;
     if (log2Abs(last, bits) < -bits - 4) break;
-    // (σ)_{2k+1}/(2k+2)!·a^{−1−2k} from (σ)_{2k−1}/(2k)!·a^{1−2k}
-    coef = qMul(coef, q((sigma.num + BigInt(2 * k - 1) * sigma.den) * (sigma.num + BigInt(2 * k) * sigma.den) * aQ.den * aQ.den, sigma.den * sigma.den * BigInt((2 * k + 1) * (2 * k + 2)) * aQ.num * aQ.num));
+    cNum *= (sigma.num + BigInt(2 * k - 1) * sigma.den) * (sigma.num + BigInt(2 * k) * sigma.den) * aQ.den * aQ.den;
+    cDen *= sigma.den * sigma.den * BigInt((2 * k + 1) * (2 * k + 2)) * aQ.num * aQ.num;
   }
   return { value, error: 2n * last + 4n };
 }
@@ -439,9 +478,9 @@ function computeRaw(s: Q, digits: number, nFactor: number): Raw | null {
   return { value, error: totalError, bits };
 }
 
-/** computeRaw with N raised until the tail expansion reaches the target (1.25 was always enough in tests). */
+/** computeRaw with N raised until the tail expansion reaches the target (1.15 was always enough in tests). */
 function computeWithTail(s: Q, digits: number): Raw {
-  for (const nFactor of [1.25, 1.6, 2.2]) {
+  for (const nFactor of [1.15, 1.4, 2]) {
     const raw = computeRaw(s, digits, nFactor);
     if (raw) return raw;
   }
