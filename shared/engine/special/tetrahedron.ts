@@ -137,7 +137,7 @@ interface Setup {
   bits: number;
   /** γ_k = −12 B_{2k+1}(x₁)/((2k+1)2k): ln R³ = −3s ln|W| + Re Σ γ_k W^{−2k} */
   gamma: Fixed[];
-  /** log₂ max_{j≥k} |γ_j| (for the truncation test) */
+  /** log₂ max_{k≤j≤k+3} |γ_j| (for the truncation test) */
   gammaLog2: number[];
   threeHalvesS: Fixed;
   shiftRadius: number;
@@ -156,9 +156,9 @@ function setup(s: Q, bits: number): Setup {
     gamma.push(g);
     gammaLog2.push(log2Abs(g, bits));
   }
-  // a running maximum from the right: one γ_k close to zero (B_{2k+1}(x₁) changes sign with k) must not
-  // end the series before the larger coefficients after it
-  for (let k = gammaLog2.length - 2; k >= 1; k--) gammaLog2[k] = Math.max(gammaLog2[k], gammaLog2[k + 1]);
+  // the maximum over γ_k … γ_{k+3}: one γ_k close to zero must not end the series before larger
+  // coefficients after it (the truncation test compares with the largest of the next four terms)
+  for (let k = 1; k < gammaLog2.length; k++) gammaLog2[k] = Math.max(...gammaLog2.slice(k, k + 4));
   return { s, bits, gamma, gammaLog2, shiftRadius, threeHalvesS: fromRational(3n * s.num, 2n * s.den, bits) };
 }
 
