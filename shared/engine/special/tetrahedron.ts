@@ -495,7 +495,7 @@ function checkDigits(digits: number): void {
 function argument(x: RealInput | ExactRational): Q {
   const r = toExactRational(x);
   const v = q(r.num, r.den);
-  if (v.num * 3n <= v.den || v.num > 2n * v.den) fail('domain', 'tetrahedronPeriod needs 1/3 < s ≤ 2 (the spectral integral ∫ R³ dt converges only for 3s > 1)');
+  if (v.num * 3n <= v.den || v.num > 2n * v.den) fail('domain', 'the tetrahedron period P(s), needed at three loops, is computed for 1/3 < s ≤ 2 only (its spectral integral converges for 3s > 1; docs/tetrahedron.md): use at most two loops for s ≤ 1/3, or keep s symbolic');
   return v;
 }
 

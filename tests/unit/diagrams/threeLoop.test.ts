@@ -205,3 +205,18 @@ test('exponents job, loops 3, s < 2: Δφ = (d − s)/2 exactly and Δφ + Δ_{�
     assert.deepEqual(result.series.eta.map((c) => new Decimal(c).toString()), ['0.4', '0', '0', '0'], `${label} η series`);
   }
 });
+
+test('three loops at a numeric s ≤ 1/3 are refused with a domain error that says why and what to do (P(s) is computed for 1/3 < s ≤ 2; docs/tetrahedron.md)', async () => {
+  const { runJob } = await import('../../../shared/jobs/run');
+  for (const job of [
+    { job: 'exponents', model: { preset: 'on', N: '1' }, s: '0.3', d: '0.5', loops: 3, digits: 20 },
+    { job: 'flow', model: { preset: 'cubic', N: '3' }, s: '0.3333', loops: 3, digits: 20 },
+  ]) {
+    const result = runJob(job) as { error?: { code: string; message: string } };
+    assert.equal(result.error?.code, 'domain', JSON.stringify(result).slice(0, 200));
+    assert.match(result.error?.message ?? '', /1\/3 < s ≤ 2.*at most two loops/);
+  }
+  // the same model at two loops and s = 0.3 runs
+  const two = runJob({ job: 'exponents', model: { preset: 'on', N: '1' }, s: '0.3', d: '0.5', loops: 2, digits: 20 }) as { error?: unknown };
+  assert.equal(two.error, undefined);
+});
