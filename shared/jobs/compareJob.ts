@@ -17,7 +17,7 @@ import { type Q, q, qAdd, qCompare, qMul, qSub } from '../engine/symbolic/ration
 import { DATASET_LIMITS } from '../notebook/datasets';
 import { type CompareJob, type CompareResult } from './contract';
 import { decimal } from './kinksJob';
-import { type JobHooks, checkDimension, chooseFixedPoint, decimalText, deriveFor, exactPositive, formatCoefficient, modelFrom } from './flowJobs';
+import { type JobHooks, checkDimension, chooseFixedPoint, decimalText, deriveFor, exactPositive, formatCoefficient, modelFrom, refuseThirdAtThreeLoops } from './flowJobs';
 
 /**
  * The "compare" job: the series of one quantity at every order (truncations and Padé approximants)
@@ -245,15 +245,20 @@ function seriesEvaluator(context: EvaluatorContext): (sValues: Q[]) => SeriesAt[
   const grid = { d, shortRangeS, crossover, quantities: [quantity], digits: job.digits, onProgress, keepCoefficients: true };
   const toVariants = (p: ScanPoint & { fixedPoint?: string | null; note?: string }): SeriesAt => atPoint(p, context);
   if (model.couplings.length > 1) {
-    return (sValues) => scanFlow({ ...grid, model, flow, sValues, choose: (candidates) => chooseFixedPoint(candidates, job.fixedPoint, false, omittedFixedPoints(flow)) }).map(toVariants);
+    return (sValues) => {
+      refuseThirdAtThreeLoops(sValues, job.loops);
+      return scanFlow({ ...grid, model, flow, sValues, choose: (candidates) => chooseFixedPoint(candidates, job.fixedPoint, false, omittedFixedPoints(flow)) }).map(toVariants);
+    };
   }
   const point = chooseFixedPoint(findFixedPoints(model, flow, { eps: null }), job.fixedPoint, true, omittedFixedPoints(flow));
   const { series, unavailable } = exponentSeriesPartial(flow, point);
   if (unavailable[quantity]) fail('not-representable', unavailable[quantity] as string);
   const compiled = (k: Quantity) => ({ coefficients: powerCoefficients(series[k] as LaurentSeries<Expression>) });
   const primaries = { nuInv: series.nuInv ? compiled('nuInv') : null, omega: compiled('omega'), eta: compiled('eta') };
-  return (sValues) =>
-    scanSeries({ ...grid, sValues, series: [compiled(quantity)], primaries, withPade: false }).map((p) => ({ ...toVariants(p), fixedPoint: point.name }));
+  return (sValues) => {
+    refuseThirdAtThreeLoops(sValues, job.loops);
+    return scanSeries({ ...grid, sValues, series: [compiled(quantity)], primaries, withPade: false }).map((p) => ({ ...toVariants(p), fixedPoint: point.name }));
+  };
 }
 
 /**

@@ -441,6 +441,13 @@ function exponentsAtS(any: Extract<AnyFlow, { mode: 'numeric' }>, model: ModelSp
   return { point, at: exponentsAtPoint(any.flow, point, at, digits, singletAtPoint(any, point, at.s, model)) };
 }
 
+/** Three loops need the tetrahedron period P(s), which is not computed at exactly s = 1/3 (docs/tetrahedron.md). */
+export function refuseThirdAtThreeLoops(sValues: Q[], loops: number): void {
+  if (loops >= 3 && sValues.some((s) => qCompare(s, q(1, 3)) === 0)) {
+    fail('domain', 'the grid contains s = 1/3 exactly, where the three-loop tetrahedron period is not computed (docs/tetrahedron.md): shift the range or change the number of points');
+  }
+}
+
 function runScan(job: z.infer<typeof ScanJob>, hooks: JobHooks) {
   const model = modelFrom(job.model);
   if ('member' in model) fail('not-representable', 'scans need a numeric N (give "N" as a number, e.g. "N":3); the flow is derived once symbolically in s');
@@ -451,6 +458,7 @@ function runScan(job: z.infer<typeof ScanJob>, hooks: JobHooks) {
   checkPropagatorPower(from);
   checkPropagatorPower(to);
   const sValues = Array.from({ length: job.s.points }, (_, i) => qAdd(from, qMul(qSub(to, from), q(i, job.s.points - 1))));
+  refuseThirdAtThreeLoops(sValues, job.loops);
   const any = deriveFor(model, null, job.loops, job.digits);
   const flow = any.flow as DerivedFlow<Expression>;
   const crossover = crossoverFor(job.model, d, job.shortRange?.Delta_sigma);

@@ -246,6 +246,14 @@ function integrand(st: Setup, l: number, t: Fixed, lnWeight: Fixed): Fixed {
   return exp2 >= 0n ? product << exp2 : product >> -exp2;
 }
 
+/** weight·(1 + t²)^{−3s/2}: the large-t behaviour of every R_l³, subtracted below s = 1/2 (continuation). */
+function subtraction(st: Setup, t2: Fixed, lnWeight: Fixed): Fixed {
+  const { bits } = st;
+  const exponent = lnWeight - mul(st.threeHalvesS, lnFixedPositive(t2 + one(bits), bits), bits);
+  const [mantissa, exp2] = expFixedSplit(exponent, bits);
+  return exp2 >= 0n ? mantissa << exp2 : mantissa >> -exp2;
+}
+
 /**
  * I_l = ∫_0^∞ R_l³ dt for every l < count on one node set. At each node only R_0 and R_1 come from the
  * Stirling series; the rest follow upward from Γ(z+1) = zΓ(z):
@@ -255,7 +263,7 @@ function integrand(st: Setup, l: number, t: Fixed, lnWeight: Fixed): Fixed {
  * steps 4h, 2h, h, e₁ = |S_{4h} − S_{2h}|, e₂ = |S_{2h} − S_h|, estimate max(e₂²/|I|, e₂²/e₁) (the
  * double-exponential and the geometric extrapolation; e₂ itself when no convergence is seen).
  */
-function integrateAll(st: Setup, dims: Fixed[], targetLog2: number): { values: Fixed[]; estimates: Fixed[] } {
+function integrateAll(st: Setup, dims: Fixed[], targetLog2: number, subtract: boolean): { values: Fixed[]; estimates: Fixed[] } {
   const { bits, s } = st;
   const count = dims.length;
   const unit = one(bits);
@@ -267,7 +275,8 @@ function integrateAll(st: Setup, dims: Fixed[], targetLog2: number): { values: F
     alpha2.push(mul(a, a, bits));
     alphaB2.push(mul(ab, ab, bits));
   }
-  const tiny = bits + 8;
+  // with the subtraction the larger l decay like l²/t² more slowly than l = 0, 1 at large t
+  const tiny = bits + 8 + (subtract ? 16 : 0);
   /** Σ_k over the nodes of one level (all k at the first level, odd k after), per l. */
   const levelSum = (level: number, first: boolean): Fixed[] => {
     const sums: Fixed[] = new Array(count).fill(0n);
@@ -279,13 +288,14 @@ function integrateAll(st: Setup, dims: Fixed[], targetLog2: number): { values: F
         const t2 = mul(nd.t, nd.t, bits);
         const base = [integrand(st, 0, nd.t, nd.lnWeight), count > 1 ? integrand(st, 1, nd.t, nd.lnWeight) : 0n];
         const ratio = [unit, unit];
+        const sub = subtract ? subtraction(st, t2, nd.lnWeight) : 0n;
         for (let l = 0; l < count; l++) {
           const parity = l & 1;
           if (l >= 2) ratio[parity] = div(mul(ratio[parity], alpha2[l - 2] + t2, bits), alphaB2[l - 2] + t2, bits);
           const r = ratio[parity];
-          sums[l] += mul(base[parity], mul(r, mul(r, r, bits), bits), bits);
+          sums[l] += mul(base[parity], mul(r, mul(r, r, bits), bits), bits) - sub;
         }
-        if (log2Abs(base[0], bits) < -tiny && log2Abs(base[1], bits) < -tiny) {
+        if (log2Abs(base[0] - sub, bits) < -tiny && log2Abs(base[1] - sub, bits) < -tiny) {
           small++;
           if (small >= 2) break;
         } else small = 0;
@@ -364,7 +374,12 @@ interface Raw {
 
 /** Null when the large-l expansion cannot reach the target from this N (then a larger N is tried). */
 function computeRaw(s: Q, digits: number, nFactor: number): Raw | null {
-  const bits = bitsForDigits(digits + 4, 24);
+  // below s = 1/2 every I_l is continued analytically: ∫(R_l³ − (1+t²)^{−3s/2}) dt + K(s), K the continued
+  // ∫(1+t²)^{−3s/2} dt. For 3s < 1 both terms grow like t^{1−3s} (with the weight) before they cancel, so
+  // the fixed point needs that many more bits.
+  const subtract = 2n * s.num < s.den;
+  const growth = subtract && 3n * s.num < s.den ? (1 - (3 * Number(s.num)) / Number(s.den)) / (1 + (3 * Number(s.num)) / Number(s.den)) : 0;
+  const bits = Math.ceil(bitsForDigits(digits + 4, 24) * (1 + growth)) + (subtract ? 16 : 0);
   const st = setup(s, bits);
   const lambda = qAdd(s, qInt(-1));
   // l-tail: N with e^{−πN} far below the target (nFactor > 1 leaves room for the 2^K factor of the
@@ -381,10 +396,20 @@ function computeRaw(s: Q, digits: number, nFactor: number): Raw | null {
     else if (l > 1 && dim.num !== 0n) dim = qMul(dim, q((lambda.num + BigInt(l) * lambda.den) * (2n * lambda.num + BigInt(l - 1) * lambda.den), (lambda.num + BigInt(l - 1) * lambda.den) * BigInt(l) * lambda.den));
     dims.push(qFixed(dim, bits));
   }
-  const { values, estimates } = integrateAll(st, dims, targetLog2);
+  const { values, estimates } = integrateAll(st, dims, targetLog2, subtract);
   for (let l = 0; l < N; l++) {
     sum += mul(dims[l], values[l], bits);
     error += mul(dims[l] < 0n ? -dims[l] : dims[l], estimates[l], bits) + 4n;
+  }
+  if (subtract) {
+    // K(s) = ∫_0^∞ (1+t²)^{−3s/2} dt = √π Γ((3s−1)/2)/(2Γ(3s/2)), continued below s = 1/3 (pole at s = 1/3,
+    // where it cancels against the tail: that point is refused)
+    const K = div(mul(gammaFixed(q(1n, 2n), bits), gammaFixed(q(3n * s.num - s.den, 2n * s.den), bits), bits), 2n * gammaFixed(q(3n * s.num, 2n * s.den), bits), bits);
+    const dimSum = dims.reduce((a, b) => a + b, 0n);
+    const added = mul(K, dimSum, bits);
+    sum += added;
+    // its rounding, relative to the size of the terms that cancel
+    error += ((added < 0n ? -added : added) >> BigInt(bits - 8)) + 16n;
   }
   // tail Σ_{l≥N} f(l) = (2/Γ(2s−1)) Σ_q H_q ζ(s+1+2q, N+s−1)
   const twoSMinusOne = qAdd(qMul(qInt(2), s), qInt(-1));
@@ -469,6 +494,8 @@ function computeRaw(s: Q, digits: number, nFactor: number): Raw | null {
     }
     if (!converged) return null;
     sum += tail;
+    // rounding relative to the tail's size (large near s = 1/3, where it cancels against K(s)·Σ dim_l)
+    error += ((tail < 0n ? -tail : tail) >> BigInt(bits - 8)) + 16n;
   }
   // P = Γ(s)/π · sum
   const gs = gammaFixed(s, bits);
@@ -495,7 +522,8 @@ function checkDigits(digits: number): void {
 function argument(x: RealInput | ExactRational): Q {
   const r = toExactRational(x);
   const v = q(r.num, r.den);
-  if (v.num * 3n <= v.den || v.num > 2n * v.den) fail('domain', 'the tetrahedron period P(s), needed at three loops, is computed for 1/3 < s ≤ 2 only (its spectral integral converges for 3s > 1; docs/tetrahedron.md): use at most two loops for s ≤ 1/3, or keep s symbolic');
+  if (v.num <= 0n || v.num > 2n * v.den) fail('domain', 'the tetrahedron period P(s) is defined for 0 < s ≤ 2');
+  if (v.num * 3n === v.den) fail('domain', 'the tetrahedron period P(s), needed at three loops, is not computed at exactly s = 1/3 (two terms of its spectral sum have cancelling poles there; docs/tetrahedron.md): use s = 0.3333 or 0.3334, at most two loops, or keep s symbolic');
   return v;
 }
 

@@ -13,6 +13,7 @@ import {
 } from '../../../shared/engine/diagrams/index';
 import { type CouplingPolynomial, cubicFamily, onFamily } from '../../../shared/engine/models/index';
 import { type Expression, type Q, evaluateExpression, q } from '../../../shared/engine/symbolic/index';
+import { special } from '../../../shared/engine/index';
 
 const Decimal = DecimalBase.clone({ precision: 60 });
 type Decimal = InstanceType<typeof Decimal>;
@@ -206,17 +207,17 @@ test('exponents job, loops 3, s < 2: Δφ = (d − s)/2 exactly and Δφ + Δ_{�
   }
 });
 
-test('three loops at a numeric s ≤ 1/3 are refused with a domain error that says why and what to do (P(s) is computed for 1/3 < s ≤ 2; docs/tetrahedron.md)', async () => {
+test('three loops at exactly s = 1/3 are refused with a domain error that says why and what to do; s = 0.3 (below, through the continued P(s)) runs (docs/tetrahedron.md)', async () => {
   const { runJob } = await import('../../../shared/jobs/run');
-  for (const job of [
-    { job: 'exponents', model: { preset: 'on', N: '1' }, s: '0.3', d: '0.5', loops: 3, digits: 20 },
-    { job: 'flow', model: { preset: 'cubic', N: '3' }, s: '0.3333', loops: 3, digits: 20 },
-  ]) {
-    const result = runJob(job) as { error?: { code: string; message: string } };
-    assert.equal(result.error?.code, 'domain', JSON.stringify(result).slice(0, 200));
-    assert.match(result.error?.message ?? '', /1\/3 < s ≤ 2.*at most two loops/);
-  }
-  // the same model at two loops and s = 0.3 runs
-  const two = runJob({ job: 'exponents', model: { preset: 'on', N: '1' }, s: '0.3', d: '0.5', loops: 2, digits: 20 }) as { error?: unknown };
-  assert.equal(two.error, undefined);
+  // a typed s is a finite decimal, never 1/3; a scan grid can hit it (0.3 + 0.1·i/3 at i = 1)
+  const grid = runJob({ job: 'scan', model: { preset: 'on', N: '1' }, d: '0.5', loops: 3, s: { from: '0.3', to: '0.4', points: 4 }, quantities: ['nuInv'], digits: 20 }) as { error?: { code: string; message: string } };
+  assert.equal(grid.error?.code, 'domain');
+  assert.match(grid.error?.message ?? '', /s = 1\/3 exactly.*shift the range or change the number of points/);
+  assert.throws(() => special.tetrahedronPeriod({ num: 1n, den: 3n }, 20), /s = 1\/3.*at most two loops/);
+  const below = runJob({ job: 'exponents', model: { preset: 'on', N: '1' }, s: '0.3', d: '0.5', loops: 3, digits: 20 }) as { error?: unknown; series?: Record<string, string[]> };
+  assert.equal(below.error, undefined, JSON.stringify(below).slice(0, 300));
+  // leading orders are exact: 1/ν = s − (N+2)/(N+8) ε + …, ε⁰ = 0.3 and ε¹ = −1/3 at N = 1 (docs/physics.md §5)
+  assert.equal(new Decimal(below.series!.nuInv[0]).toString(), '0.3');
+  close(new Decimal(below.series!.nuInv[1]), new Decimal(-1).div(3), '1/ν ε¹', 1e-18);
+  assert.equal(below.series!.nuInv.length, 4, 'series to ε³');
 });

@@ -69,8 +69,16 @@ test('P(s) is continuous and decreasing on (1/3, 2] (sanity: larger s, faster-de
   assert.ok(left.minus(right).abs().lt(1e-3), 'continuous across 1.75 ± 1e-6');
 });
 
-test('outside 1/3 < s ≤ 2 the period is refused with a domain error', () => {
-  for (const s of ['0.3', '0', '2.5', '-1']) {
+test('outside 0 < s ≤ 2, and at exactly s = 1/3 (a removable singularity of the representation), the period is refused with a domain error', () => {
+  for (const s of ['0', '2.5', '-1']) {
     assert.throws(() => special.tetrahedronPeriod(s, 30), (e: unknown) => e instanceof EngineError && e.code === 'domain', `s = ${s}`);
   }
+  assert.throws(() => special.tetrahedronPeriod({ num: 1n, den: 3n }, 30), (e: unknown) => e instanceof EngineError && e.code === 'domain', 's = 1/3');
+});
+
+test('below s = 1/2 the continued integrals give a smooth P(s) across s = 1/3 (sanity: increasing up to its maximum near s = 0.45, the two sides of 1/3 close)', () => {
+  const grid = ['0.1', '0.2', '0.3', '0.3333', '0.3334', '0.35', '0.4', '0.45'];
+  const values = grid.map((s) => new Wide(special.tetrahedronPeriod(s, 20).toString()));
+  for (let i = 1; i < values.length; i++) assert.ok(values[i].gt(values[i - 1]), `P(${grid[i]}) > P(${grid[i - 1]})`);
+  assert.ok(values[4].minus(values[3]).abs().lt(0.002), 'continuous across s = 1/3');
 });
