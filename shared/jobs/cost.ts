@@ -297,10 +297,19 @@ function derivationUnits(size: ModelSize, loops: number, digits: number): number
   return COST_LIMITS.derivationUnit * perLoop * size.fields ** 2 * size.couplings ** 2 * (1 + digits / 50);
 }
 
-/** The tetrahedron period at one numeric s (three loops only; s = 2 is exact and symbolic s keeps it as a symbol). */
-function periodUnits(loops: number, digits: number): number {
-  return loops >= 3 ? COST_LIMITS.tetrahedronUnit * (1 + digits / 30) ** 4 : 0;
+/**
+ * The tetrahedron period at one numeric s (three loops only; s = 2 is exact and symbolic s keeps it as a
+ * symbol). Below s = 1/3 it carries (1 − 3s)/(1 + 3s) more bits (docs/tetrahedron.md), charged as digits.
+ */
+function periodUnits(loops: number, digits: number, smallestS: string): number {
+  if (loops < 3) return 0;
+  const s = Number(smallestS);
+  const growth = 3 * s < 1 ? (1 - 3 * s) / (1 + 3 * s) : 0;
+  return COST_LIMITS.tetrahedronUnit * (1 + (digits * (1 + growth)) / 30) ** 4;
 }
+
+/** The smaller end of a range of s. */
+const smallest = (range: { from: string; to: string }) => (Number(range.from) < Number(range.to) ? range.from : range.to);
 
 const isTwo = (text: string) => qCompare(toExactRational(text), q(2)) === 0;
 
@@ -316,7 +325,7 @@ function flowCostProblem(input: unknown): string | null {
   const job = parsed.data;
   const size = modelSize(job.model);
   const derivation = derivationUnits(size, job.loops, job.digits);
-  let units = derivation + ('s' in job && typeof job.s === 'string' && !isTwo(job.s) ? periodUnits(job.loops, job.digits) : 0);
+  let units = derivation + ('s' in job && typeof job.s === 'string' && !isTwo(job.s) ? periodUnits(job.loops, job.digits, job.s) : 0);
   let asked = `deriving the flow of ${size.label} at ${job.loops} loops and ${job.digits} digits`;
   let reduce = 'digits, loops or the number of couplings';
   if (job.job === 'fixedpoints' || job.job === 'exponents') {
@@ -331,7 +340,7 @@ function flowCostProblem(input: unknown): string | null {
       return `this scan's result would take about ${megabytes(resultBytes)} (${points} points × ${quantities} quantities × ${job.digits} digits), over the limit of ${megabytes(RESULT_LIMITS.maxResultBytes)} per result; reduce points, quantities or digits`;
     }
     units +=
-      points * periodUnits(job.loops, job.digits) +
+      points * periodUnits(job.loops, job.digits, smallest(job.s)) +
       (size.couplings > 1
         ? points * (numericPointUnits(size, job.digits) + COST_LIMITS.seriesPointUnit * quantities * (1 + job.digits / 30))
         : points * COST_LIMITS.seriesPointUnit * quantities * (1 + job.digits / 30));
@@ -388,7 +397,7 @@ function compareCostProblem(job: CompareJob): string | null {
   }
   const padeVariants = padeTableEntries(job.loops);
   const series = COST_LIMITS.seriesPointUnit * (1 + job.digits / 30) + COST_LIMITS.padePointUnit * padeVariants * (1 + job.digits / 30);
-  const perPoint = (size.couplings > 1 ? numericPointUnits(size, job.digits) + series : series) + periodUnits(job.loops, job.digits);
+  const perPoint = (size.couplings > 1 ? numericPointUnits(size, job.digits) + series : series) + periodUnits(job.loops, job.digits, smallest(job.s));
   const units = derivationUnits(size, job.loops, job.digits) + points * perPoint + (job.data.boundary ? kinkUnits(job.data.x.length, undefined) : 0);
   if (units <= COST_LIMITS.maxUnits) return null;
   return `this comparison evaluates ${size.label} at ${points} values of s (${job.s.points} curve points and ${job.data.x.length} data points) at ${job.digits} digits — about ${seconds(units)} of engine time, over the limit of about ${seconds(COST_LIMITS.maxUnits)}; reduce the scan's points, the data's x-range, the digits or the number of couplings`;
