@@ -3,7 +3,7 @@ import { after, before, describe, test } from 'node:test';
 import { startRedis, type RunningRedis } from '../../scripts/services/redis';
 import { startHarness, type Harness } from '../api/harness';
 import { createPerson } from '../api/people';
-import { finishedRun, GAMMA_QUARTER_30, gammaQuarterJob, queuedRunService, slowScanJob, startWorkerProcess, type QueuedRunService, type WorkerProcess } from './processes';
+import { finishedRun, GAMMA_QUARTER_30, gammaQuarterJob, queuedRunService, SLOW_SCAN_POINTS, slowScanJob, startWorkerProcess, type QueuedRunService, type WorkerProcess } from './processes';
 
 const errorCode = (errorJson: string | null) => (errorJson ? (JSON.parse(errorJson) as { code: string }).code : null);
 
@@ -72,8 +72,8 @@ describe('engine jobs through the shared queue (Redis + worker processes, SQLite
     await started.stop('SIGKILL');
     const run = await finishedRun(runs, submitted.id, 180_000);
     assert.equal(run.status, 'done', run.errorJson ?? '');
-    // the scan asked for 80 points; the retried job delivers all of them
-    assert.equal((JSON.parse(run.resultJson!) as { points: unknown[] }).points.length, 80);
+    // the retried job delivers every point the scan asked for
+    assert.equal((JSON.parse(run.resultJson!) as { points: unknown[] }).points.length, SLOW_SCAN_POINTS);
     assert.ok(survivor.lines.some((line) => line.msg === 'job finished'), 'the surviving worker finished the job');
     await survivor.stop();
   });
