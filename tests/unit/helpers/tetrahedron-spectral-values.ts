@@ -22,3 +22,17 @@ export const TETRAHEDRON_SPECTRAL: Record<string, string> = {
   '0.75': '47.398216980171161916979847647014108829528233075951', // settings agree to 60 digits
   '0.5': '52.522550765435439332082478576907149038224945347814', // settings agree to 61 digits
 };
+
+/**
+ * Between s = 1/3 and 1/2 the engine subtracts the large-t behaviour and adds its integral back (the
+ * analytic continuation it also uses below 1/3); the mpmath spectral sum integrates plainly there. Printed by
+ *   nice python3 tests/unit/helpers/tetrahedron_spectral_mpmath.py 40 0.45 0.4 0.35
+ * (2026-12-04; the two settings agree to 47–49 digits). Stored to 40 significant digits.
+ */
+export const TETRAHEDRON_SPECTRAL_BELOW_HALF_DIGITS = 38;
+
+export const TETRAHEDRON_SPECTRAL_BELOW_HALF: Record<string, string> = {
+  '0.45': '52.81034144562449997998607782107201174476', // settings agree to 49 digits
+  '0.4': '52.80882174192684787617712394945435522337', // settings agree to 49 digits
+  '0.35': '52.50600849940263763047549083926102480505', // settings agree to 47 digits
+};
