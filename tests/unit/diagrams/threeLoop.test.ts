@@ -103,6 +103,21 @@ test('cubic anisotropy at s = 2, N = 2: three-loop β is covariant under the 45�
   close(at(flow.beta[0], zero, w), zero, 'β_u(0, v) = 0', 1e-28);
 });
 
+test('cubic anisotropy at s = 2, symbolic N: at v = 0 the three-loop β_u is the classic O(N) β and β_v vanishes (the model is O(N) there; Kleinert & Schulte-Frohlinde 2001, recalled from memory)', () => {
+  const flow = cubicAtTwo();
+  const at = (p: CouplingPolynomial<Expression>, N: number, u: Decimal) => {
+    let sum = new Decimal(0);
+    for (const t of p.terms.values()) if (t.powers[1] === 0) sum = sum.plus(new Decimal(evaluateExpression(t.coeff, { N: q(N) }, DIGITS).toString()).times(u.pow(t.powers[0])));
+    return sum;
+  };
+  const u = new Decimal('0.23');
+  for (const N of [2, 3, 4, 5]) {
+    const classic = KSF.beta.reduce((sum, c, i) => sum.plus(c(N).times(u.pow(i + 2))), new Decimal(0));
+    close(at(flow.beta[0], N, u), classic, `β_u(u, 0) at N = ${N}`, 1e-28);
+    close(at(flow.beta[1], N, u), new Decimal(0), `β_v(u, 0) at N = ${N}`, 1e-28);
+  }
+});
+
 test('infrared counterterms (R*) give the same pole as an infrared-safe routing, for every graph through three loops that has both', () => {
   const calc = numericCalculus(q(3, 2), 30);
   const kit = integralKit(calc.s);
