@@ -1,5 +1,5 @@
 import { EngineError, fail } from '../precision';
-import { type ModelSpec, CouplingPolynomial, isFamily } from '../models';
+import { type ModelSpec, type QuarticModel, CouplingPolynomial, isFamily } from '../models';
 import { type LaurentSeries } from '../series';
 import { type Calculus } from './calculus';
 import { type CatalogueEntry } from './catalogue';
@@ -9,8 +9,8 @@ import { type Graph, type GraphFunction, graphSign, symmetryData } from './graph
 import { integralKit } from './integrals';
 import { lineGraphOf } from './lineGraph';
 import { ConsistencyError, type SubtractedGraph } from './subtraction';
-import { type DerivedFlow, type TrailEntry } from './renormalization';
-import { type GraphWeight, graphWeight } from './weights';
+import { type DerivedFlow, type TrailEntry, MAX_QUADRATIC_FIELDS, quadraticWithField } from './renormalization';
+import { type GraphWeight, graphWeight, insertionMatrixWeight, quadraticPairs } from './weights';
 
 /**
  * The RG functions from the generated graphs of every order up to `loops` (docs/engine.md, "Three
@@ -33,6 +33,10 @@ export function deriveFlowByForests<C>(spec: ModelSpec, calc: Calculus<C>, loops
   const mass = poles(1);
   let massNote: string | undefined;
   const trail: TrailEntry<C>[] = [];
+  // the quadratic operators φ_iφ_j (i ≤ j): γ = (g·∂) of the 1/ε residue matrix of their insertions
+  const pairs = !isFamily(spec) && spec.fields <= MAX_QUADRATIC_FIELDS ? quadraticPairs(spec.fields) : null;
+  const P = pairs?.length ?? 0;
+  const quadGamma = Array.from({ length: P }, () => Array.from({ length: P }, zero));
   for (let L = 1; L <= loops; L++) {
     for (const fn of ['vertex', 'selfEnergy', 'massInsertion'] as GraphFunction[]) {
       for (const graph of generateGraphs(fn, L)) {
@@ -41,6 +45,13 @@ export function deriveFlowByForests<C>(spec: ModelSpec, calc: Calculus<C>, loops
         const sym = symmetryData(graph);
         trail.push({ graph, sign: graphSign(graph), symmetryFactor: sym.symmetryFactor, labellings: sym.labellings, weight, weightNote: note, subtracted: asSubtracted(graph, fp) });
         const hasPole = fp.pole.coefficients().some((c) => !calc.isNegligible(c));
+        if (fn === 'massInsertion' && pairs) {
+          const matrixWeight = insertionMatrixWeight(spec as QuarticModel, graph);
+          const polys = weightPolynomials(calc, matrixWeight, P * P);
+          const k1 = fp.pole.lowest <= -1 ? fp.pole.coefficient(-1) : ring.zero();
+          const factor = ring.scale(ring.neg(k1), BigInt(matrixWeight.degree));
+          for (let r = 0; r < P; r++) for (let c = 0; c < P; c++) quadGamma[r][c] = quadGamma[r][c].add(polys[r * P + c].scale(factor));
+        }
         if (!weight) {
           if (fn === 'massInsertion') massNote = note;
           else if (hasPole) fail('not-representable', `three-loop field renormalization for this model is a matrix not proportional to the identity (${note})`);
@@ -86,12 +97,17 @@ export function deriveFlowByForests<C>(spec: ModelSpec, calc: Calculus<C>, loops
     gammaPhiMatrix: null,
     gammaPhi2: lnZt ? upToDegree(alg.gDot(lnZt[1]), loops) : null,
     gammaPhi2Note: massNote,
-    quadratic: null,
+    // the field part γ_φ t + t γ_φ with the scalar γ_φ (a matrix γ_φ is refused above)
+    quadratic: pairs ? { pairs, gamma: quadraticWithField(quadGamma, pairs, diagonalOf(gammaPhi, (spec as QuarticModel).fields), zero()) } : null,
     fieldRenormalized,
     residues: { first: a(1), second: a(2) },
     trail,
     checks,
   };
+}
+
+function diagonalOf<C>(p: CouplingPolynomial<C>, n: number): CouplingPolynomial<C>[][] {
+  return Array.from({ length: n }, (_, a) => Array.from({ length: n }, (_, b) => (a === b ? p : p.sub(p))));
 }
 
 function checkLogPoles<C>(calc: Calculus<C>, alg: PoleAlgebra<C>, z: CouplingPolynomial<C>[], betaHat: CouplingPolynomial<C>[], loops: number, what: string, checks: string[]): void {

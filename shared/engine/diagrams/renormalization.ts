@@ -247,7 +247,7 @@ function legCorrectionFor(spec: ModelSpec): GraphWeight {
  *   F[(kl)][(ij)] = Σ_e γ_ke [{e,l} = {i,j}] + γ_el [{k,e} = {i,j}],
  * which is 2γ_φ δ when γ_φ ∝ δ (the scalar case keeps its exact former form −2 z_φ1 δ).
  */
-function quadraticWithField<C>(z: CouplingPolynomial<C>[][], pairs: [number, number][], gammaPhiMatrix: CouplingPolynomial<C>[][] | null, fieldFirst: CouplingPolynomial<C>): CouplingPolynomial<C>[][] {
+export function quadraticWithField<C>(z: CouplingPolynomial<C>[][], pairs: [number, number][], gammaPhiMatrix: CouplingPolynomial<C>[][] | null, fieldFirst: CouplingPolynomial<C>): CouplingPolynomial<C>[][] {
   if (!gammaPhiMatrix) return z.map((row, r) => row.map((p, c) => (r === c ? p.sub(fieldFirst.scale(p.ring.fromRational(2n))) : p)));
   const n = gammaPhiMatrix.length;
   const same = (x: number, y: number, [i, j]: [number, number]) => Math.min(x, y) === i && Math.max(x, y) === j;

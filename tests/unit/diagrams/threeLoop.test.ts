@@ -236,3 +236,30 @@ test('three loops at exactly s = 1/3 are refused with a domain error that says w
   close(new Decimal(below.series!.nuInv[1]), new Decimal(-1).div(3), '1/ν ε¹', 1e-18);
   assert.equal(below.series!.nuInv.length, 4, 'series to ε³');
 });
+
+test('three-loop quadratic-operator matrix: at the decoupled-Ising point of cubic(3) the operators φ_iφ_j (i ≠ j) have Δ = 2Δφ and φ_i² the Ising Δ_φ², through ε³ (decoupled theories, common practice), at s = 2 and s = 1.75', async () => {
+  const { runJob } = await import('../../../shared/jobs/run');
+  type Operators = { name: string; multiplicity: number; series: { Delta: string[] } }[];
+  for (const s of ['2', '1.75']) {
+    const cubic = runJob({ job: 'exponents', model: { preset: 'cubic', N: '3' }, s, d: '3', loops: 3, digits: 25, fixedPoint: 'decoupled Ising' }) as { quadraticOperators: Operators };
+    const ising = runJob({ job: 'exponents', model: { preset: 'on', N: '1' }, s, d: '3', loops: 3, digits: 25 }) as { series: Record<string, string[]> };
+    const byName = (name: string) => cubic.quadraticOperators.find((o) => o.name === name)!;
+    const offDiagonal = byName('off-diagonal');
+    const diagonal = byName('diagonal');
+    assert.equal(offDiagonal.multiplicity, 3);
+    assert.equal(diagonal.multiplicity, 3);
+    assert.equal(offDiagonal.series.Delta.length, 4, 'to ε³');
+    offDiagonal.series.Delta.forEach((c, k) => close(new Decimal(c), new Decimal(ising.series.Delta_phi[k]).times(2), `s = ${s}: off-diagonal Δ ε^${k}`, 1e-22));
+    diagonal.series.Delta.forEach((c, k) => close(new Decimal(c), new Decimal(ising.series.Delta_phi2[k]), `s = ${s}: diagonal Δ ε^${k}`, 1e-22));
+  }
+});
+
+test('three-loop quadratic-operator matrix: its singlet eigenvalue equals Δ_φ² from the scalar φ² insertion (two assemblies of the same graphs), cubic(3) at s = 2 and 1.75', async () => {
+  const { runJob } = await import('../../../shared/jobs/run');
+  type Operators = { name: string; series: { Delta: string[] } }[];
+  for (const s of ['2', '1.75']) {
+    const r = runJob({ job: 'exponents', model: { preset: 'cubic', N: '3' }, s, d: '3', loops: 3, digits: 25 }) as { quadraticOperators: Operators; series: Record<string, string[]> };
+    const singlet = r.quadraticOperators.find((o) => o.name === 'singlet')!;
+    singlet.series.Delta.forEach((c, k) => close(new Decimal(c), new Decimal(r.series.Delta_phi2[k]), `s = ${s}: singlet Δ ε^${k}`, 1e-22));
+  }
+});
