@@ -33,10 +33,11 @@ export const COST_LIMITS = {
    */
   threeLoopFactor: 18,
   /**
-   * Three-loop derivations of the presets at 30 digits, units × (1 + digits/50)/1.6 (measured 0.5–0.8 s for
-   * O(n) and cubic(n) with n ≤ 6, 1.2 s for O(N) and 3.8–5.3 s for cubic(N) symbolic in N; tests/bench/flow.bench.ts).
+   * Three-loop derivations of the presets at 30 digits, units × (1 + digits/50)/1.6 (measured 0.5–0.9 s for
+   * O(n) with n ≤ 6 and cubic(3), 3.5 s for cubic(6) with its 21×21 quadratic-operator matrix, 1.2 s for O(N)
+   * and 3.8–5.3 s for cubic(N) symbolic in N; tests/bench/flow.bench.ts).
    */
-  threeLoopPresetUnits: { on: 1_000, onSymbolic: 1_500, cubic: 3_000, cubicSymbolic: 6_000 },
+  threeLoopPresetUnits: { on: 1_000, onSymbolic: 1_500, cubic: 4_000, cubicSymbolic: 6_000 },
   /**
    * One value of the tetrahedron period P(s) (three loops at a numeric s < 2): units × (1 + digits/30)^4
    * (measured about 0.1 s at 30 digits, 1.3 s at 100, 20 s at 200; docs/tetrahedron.md).
