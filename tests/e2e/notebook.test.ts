@@ -14,7 +14,14 @@ async function texOf(page: Page, testId: string): Promise<string> {
 }
 
 async function waitForState(page: Page, label: string, state: RegExp) {
-  await page.getByTestId(`cell-${label}-state`).filter({ hasText: state }).waitFor({ timeout: 60_000 });
+  try {
+    await page.getByTestId(`cell-${label}-state`).filter({ hasText: state }).waitFor({ timeout: 120_000 });
+  } catch (error) {
+    // say what the cell shows instead, and keep a picture of it
+    const shown = await page.getByTestId(`cell-${label}-state`).innerText().catch(() => '(no state badge)');
+    await page.screenshot({ path: path.join(ARTIFACTS, `notebook-timeout-${label}.png`), fullPage: true }).catch(() => undefined);
+    throw new Error(`cell ${label} did not reach ${state} within 120 s; it shows "${shown}" (${error instanceof Error ? error.message.split('\n')[0] : String(error)})`);
+  }
 }
 
 for (const viewport of viewports) {
