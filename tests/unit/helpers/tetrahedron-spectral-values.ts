@@ -36,3 +36,17 @@ export const TETRAHEDRON_SPECTRAL_BELOW_HALF: Record<string, string> = {
   '0.4': '52.80882174192684787617712394945435522337', // settings agree to 49 digits
   '0.35': '52.50600849940263763047549083926102480505', // settings agree to 47 digits
 };
+
+/**
+ * Below s = 1/3 the sum exists only through the analytic continuation. The mpmath helper's own
+ * implementation of it (integral_l_continued: the subtracted integral by quadrature, plus K(s)) printed
+ *   nice python3 tests/unit/helpers/tetrahedron_spectral_mpmath.py --continued 30 0.3 0.25 0.4
+ * (2026-12-04; its two settings agree to 32, 34 and 38 digits; at 0.4 it equals the plain value above).
+ */
+export const TETRAHEDRON_SPECTRAL_CONTINUED_DIGITS = 30;
+
+export const TETRAHEDRON_SPECTRAL_CONTINUED: Record<string, string> = {
+  '0.3': '51.8944051929394729751065633195', // settings agree to 32 digits
+  '0.25': '50.9715463973670800599283374145', // settings agree to 34 digits
+  '0.4': '52.8088217419268478761771239495', // settings agree to 38 digits
+};

@@ -5,7 +5,7 @@ import { special } from '../../../shared/engine/index';
 import { EngineError } from '../../../shared/engine/precision';
 import { assertDigits } from '../helpers/engine';
 import { TETRAHEDRON_MPMATH, TETRAHEDRON_MPMATH_DIGITS } from '../helpers/tetrahedron-values';
-import { TETRAHEDRON_SPECTRAL, TETRAHEDRON_SPECTRAL_BELOW_HALF, TETRAHEDRON_SPECTRAL_BELOW_HALF_DIGITS, TETRAHEDRON_SPECTRAL_DIGITS } from '../helpers/tetrahedron-spectral-values';
+import { TETRAHEDRON_SPECTRAL, TETRAHEDRON_SPECTRAL_BELOW_HALF, TETRAHEDRON_SPECTRAL_BELOW_HALF_DIGITS, TETRAHEDRON_SPECTRAL_CONTINUED, TETRAHEDRON_SPECTRAL_CONTINUED_DIGITS, TETRAHEDRON_SPECTRAL_DIGITS } from '../helpers/tetrahedron-spectral-values';
 
 // ζ(3) to 40 digits, OEIS A002117 (same value as tests/unit/special/constants.test.ts)
 const ZETA3_40 = '1.2020569031595942853997381615114499907650';
@@ -42,6 +42,12 @@ test('P(s) at 30 and at 48 digits agrees with an independent mpmath implementati
 test('between s = 1/3 and 1/2 the continued integrals (subtracted large-t behaviour plus its integral) agree with the plain mpmath spectral sum to 38 digits', () => {
   for (const [s, value] of Object.entries(TETRAHEDRON_SPECTRAL_BELOW_HALF)) {
     assertDigits(special.tetrahedronPeriod(s, TETRAHEDRON_SPECTRAL_BELOW_HALF_DIGITS), value, TETRAHEDRON_SPECTRAL_BELOW_HALF_DIGITS, `P(${s})`);
+  }
+});
+
+test('below s = 1/3 (and at 0.4) P(s) agrees to 30 digits with the mpmath helper\'s own implementation of the continued sum (tests/unit/helpers/tetrahedron_spectral_mpmath.py --continued)', () => {
+  for (const [s, value] of Object.entries(TETRAHEDRON_SPECTRAL_CONTINUED)) {
+    assertDigits(special.tetrahedronPeriod(s, TETRAHEDRON_SPECTRAL_CONTINUED_DIGITS), value, TETRAHEDRON_SPECTRAL_CONTINUED_DIGITS, `P(${s})`);
   }
 });
 
