@@ -25,7 +25,8 @@ import { gammaScaled } from './gamma';
  * Stirling series of lnΓ(W+x₁) − lnΓ(W+x₂) (x₁ + x₂ = 1, only even powers of 1/W, DLMF 5.11.8 and
  * B_n(1−x) = (−1)^n B_n(x)) after a shift W → W + M. The tail l ≥ N uses the large-l expansion
  * f(l) = dim_l I_l ~ Σ_q H_q A'^{−s−1−2q} (A' = (l+s−1)/2), summed exactly with Hurwitz ζ by
- * Euler–Maclaurin. Needs 3s > 1 (I_l converges like ∫ t^{−3s}); s ∈ (1/3, 2].
+ * Euler–Maclaurin. I_l converges for 3s > 1 (like ∫ t^{−3s}); below s = 1/2 each I_l is taken as
+ * ∫(R_l³ − (1+t²)^{−3s/2}) dt + K(s), its analytic continuation, so 0 < s ≤ 2 except exactly s = 1/3.
  */
 
 interface Q {
@@ -547,7 +548,7 @@ export function tetrahedronPeriodWithBound(s: RealInput | ExactRational, digits:
   return toResult(computeWithTail(argument(s), digits), digits);
 }
 
-/** P(s) for rational 1/3 < s ≤ 2, every printed digit covered by the error bound (P(2) = 6ζ(3)). */
+/** P(s) for rational 0 < s ≤ 2 (not exactly 1/3), every printed digit covered by the error bound (P(2) = 6ζ(3)). */
 export function tetrahedronPeriod(s: RealInput | ExactRational, digits: number): Real {
   checkDigits(digits);
   const sq = argument(s);
