@@ -104,8 +104,8 @@ export const gammaQuarterJob = { job: 'special', fn: 'gamma', x: '0.25', digits:
 /** Γ(1/4) = 3.6256099082219083119306851558676720… (OEIS A068466), rounded to 30 significant digits. */
 export const GAMMA_QUARTER_30 = '3.62560990822190831193068515587';
 
-/** A cubic-model scan: seconds of engine time (about 5 s at 400 points), so a worker can be killed or a job cancelled while it runs. */
-export const SLOW_SCAN_POINTS = 400;
+/** A three-loop cubic-model scan: seconds of engine time that no cache shortens (one tetrahedron period P(s) per point, about 0.1–0.2 s each), so a worker can be killed or a job cancelled while it runs. */
+export const SLOW_SCAN_POINTS = 60;
 export const slowScanJob = (to = '0.95', points = SLOW_SCAN_POINTS) => ({
-  job: 'scan', model: { preset: 'cubic', N: 3 }, d: '1', s: { from: '0.55', to, points }, quantities: ['nuInv', 'omega'], loops: 2, digits: 30,
+  job: 'scan', model: { preset: 'cubic', N: 3 }, d: '1', s: { from: '0.55', to, points }, quantities: ['nuInv', 'omega'], loops: 3, digits: 30,
 });
