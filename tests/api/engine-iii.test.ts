@@ -1,10 +1,9 @@
 import assert from 'node:assert/strict';
 import { after, before, describe, test } from 'node:test';
 import Decimal from 'decimal.js';
-import { JOBS, type ResultOf } from '../../shared/jobs/contract';
-import type { RunView } from '../../shared/notebook/api';
+import { type JOBS } from '../../shared/jobs/contract';
 import { startHarness, type Harness } from './harness';
-import { createPerson, settleRun, type TestPerson } from './people';
+import { calcAs, createPerson, type TestPerson } from './people';
 
 /**
  * Engine results through the HTTP API (POST /api/calc, the worker pool, GET /api/runs/:id): each answer
@@ -24,14 +23,7 @@ describe('engine jobs through /api/calc', () => {
   });
   after(() => h?.close());
 
-  async function calc<K extends keyof typeof JOBS>(kind: K, job: Record<string, unknown>): Promise<ResultOf<K>> {
-    const started = (await owner.client.post('/api/calc').send({ job: { job: kind, ...job } }).expect(200)).body.run as RunView;
-    const run = await settleRun(owner.client, started);
-    assert.equal(run.status, 'done', JSON.stringify(run).slice(0, 500));
-    const parsed = JOBS[kind].result.safeParse(run.result);
-    assert.ok(parsed.success, `the ${kind} result does not match the contract: ${JSON.stringify(run.result).slice(0, 300)}`);
-    return parsed.data as ResultOf<K>;
-  }
+  const calc = <K extends keyof typeof JOBS>(kind: K, job: Record<string, unknown>) => calcAs(owner, kind, job);
 
   test('exponents at N = 0 (self-avoiding walks, through the symbolic-N family), d = 3, s = 1.75', async () => {
     const r = await calc('exponents', { model: { preset: 'on', N: 0 }, d: '3', s: '1.75', loops: 2, digits: 20 });

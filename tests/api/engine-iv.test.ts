@@ -1,10 +1,9 @@
 import assert from 'node:assert/strict';
 import { after, before, describe, test } from 'node:test';
 import Decimal from 'decimal.js';
-import { JOBS, type ResultOf } from '../../shared/jobs/contract';
-import type { RunView } from '../../shared/notebook/api';
+import { type JOBS } from '../../shared/jobs/contract';
 import { startHarness, type Harness } from './harness';
-import { createPerson, settleRun, type TestPerson } from './people';
+import { calcAs, createPerson, type TestPerson } from './people';
 
 /**
  * Three-loop jobs through the HTTP API (POST /api/calc, the worker pool, GET /api/runs/:id): results
@@ -27,14 +26,7 @@ describe('three-loop jobs through /api/calc', () => {
   });
   after(() => h?.close());
 
-  async function calc<K extends keyof typeof JOBS>(kind: K, job: Record<string, unknown>): Promise<ResultOf<K>> {
-    const started = (await owner.client.post('/api/calc').send({ job: { job: kind, ...job } }).expect(200)).body.run as RunView;
-    const run = await settleRun(owner.client, started);
-    assert.equal(run.status, 'done', JSON.stringify(run).slice(0, 500));
-    const parsed = JOBS[kind].result.safeParse(run.result);
-    assert.ok(parsed.success, `the ${kind} result does not match the contract: ${JSON.stringify(run.result).slice(0, 300)}`);
-    return parsed.data as ResultOf<K>;
-  }
+  const calc = <K extends keyof typeof JOBS>(kind: K, job: Record<string, unknown>) => calcAs(owner, kind, job);
 
   test('exponents, O(3) at s = 2, d = 3, loops 3: 1/ν, η, ω at ε³ equal the classic three-loop series (Kleinert & Schulte-Frohlinde 2001, recalled from memory)', async () => {
     const N = 3;

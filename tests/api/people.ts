@@ -2,10 +2,12 @@
 // API like a browser: fast, and independent of how sign-up and address verification work. An unconfirmed
 // account cannot sign in; it gets a session straight from the session service instead, standing for a
 // session opened before sign-in required a confirmed address.
+import assert from 'node:assert/strict';
 import { hashPassword } from '../../server/auth/passwords';
 import { newLinkToken, sha256Hex } from '../../server/auth/linkTokens';
 import { Comment, GroupMembership, NotebookInvitation, NotebookMember, ShareLink, User } from '../../server/db/entities';
 import { newId } from '../../server/ids';
+import { JOBS, type ResultOf } from '../../shared/jobs/contract';
 import type { RunView } from '../../shared/notebook/api';
 import type { GrantableRole } from '../../shared/notebook/sharing';
 import type { Harness } from './harness';
@@ -162,4 +164,14 @@ export async function datasetFixture(client: Client, notebookId: string, label =
   });
   if (reply.status !== 201) throw new Error(`datasetFixture: ${reply.status} ${reply.text.slice(0, 300)}`);
   return reply.body.dataset.id as string;
+}
+
+/** Runs one engine job through POST /api/calc as `who`, waits for it, and checks the result against the contract's schema. */
+export async function calcAs<K extends keyof typeof JOBS>(who: TestPerson, kind: K, job: Record<string, unknown>): Promise<ResultOf<K>> {
+  const started = (await who.client.post('/api/calc').send({ job: { job: kind, ...job } }).expect(200)).body.run as RunView;
+  const run = await settleRun(who.client, started);
+  assert.equal(run.status, 'done', JSON.stringify(run).slice(0, 500));
+  const parsed = JOBS[kind].result.safeParse(run.result);
+  assert.ok(parsed.success, `the ${kind} result does not match the contract: ${JSON.stringify(run.result).slice(0, 300)}`);
+  return parsed.data as ResultOf<K>;
 }

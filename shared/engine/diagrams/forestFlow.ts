@@ -1,6 +1,5 @@
 import { EngineError, fail } from '../precision';
 import { type ModelSpec, type QuarticModel, CouplingPolynomial, isFamily } from '../models';
-import { type LaurentSeries } from '../series';
 import { type Calculus } from './calculus';
 import { type CatalogueEntry } from './catalogue';
 import { type ForestPole, type PoleMemo, type Primitives, forestPole } from './forests';

@@ -417,13 +417,12 @@ function computeRaw(s: Q, digits: number, nFactor: number): Raw | null {
   const tailZero = twoSMinusOne.num <= 0n && twoSMinusOne.num % twoSMinusOne.den === 0n; // 1/Γ = 0 (s = 1/2)
   if (!tailZero) {
     const Qmax = 2 * N + 10;
-    const x1Shift = st; // γ_k (same x₁)
-    const half = x1Shift.gamma.map((g) => g >> 1n); // E(u) = exp(½Σγ_k u^k)
+    const half = st.gamma.map((g) => g >> 1n); // E(u) = exp(½Σγ_k u^k)
     while (half.length <= Qmax) half.push(0n);
     const gammaTail: Fixed[] = [0n];
     for (let k = 1; k <= Qmax; k++) gammaTail.push(k < half.length ? half[k] : 0n);
     // more γ_k than the node series keeps
-    for (let k = x1Shift.gamma.length; k <= Qmax; k++) {
+    for (let k = st.gamma.length; k <= Qmax; k++) {
       const x1 = qAdd(q(1n, 2n), q(-s.num, 4n * s.den));
       const b = bernoulliPolynomial(2 * k + 1, x1, bits + 8);
       gammaTail[k] = changeBits((-6n * b) / BigInt((2 * k + 1) * 2 * k), bits + 8, bits);
