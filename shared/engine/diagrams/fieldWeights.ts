@@ -1,6 +1,7 @@
-import { type QuarticModel, type Tensor, addTensors, contract, forEachIndex, permuteSlots, solveRational } from '../models';
+import { EngineError, fail } from '../precision';
+import { type QuarticModel, type Tensor, addTensors, contract, forEachIndex, permuteSlots, projectOntoCouplings, solveRational } from '../models';
 import { type Q, Q0, polyConstant, q, qAdd, qIsZero, qMul, qSub } from '../symbolic';
-import { SUNSET } from './graphs';
+import { type Graph, SUNSET } from './graphs';
 import { type GraphWeight, couplingTuples, powersOf, prefactor, quadraticPairs, summedOverLabellings } from './weights';
 
 /**
@@ -22,18 +23,20 @@ export function fieldPairLabels(n: number): string[] {
 }
 
 /**
- * Weight of the sunset as a symmetric matrix W_ab (sign and 1/|Aut| included, summed over the two
- * labellings), one value per pair a ≤ b in the order of `quadraticPairs` — for models whose W is
- * not proportional to δ_ab. For the O(N) tensor W = −(N+2)/18 δ.
+ * Weight of a self-energy graph (the sunset by default) as a symmetric matrix W_ab (sign and 1/|Aut|
+ * included, summed over the two labellings), one value per pair a ≤ b in the order of
+ * `quadraticPairs` — for models whose W is not proportional to δ_ab. For the O(N) tensor the sunset
+ * has W = −(N+2)/18 δ.
  */
-export function selfEnergyMatrixWeight(model: QuarticModel): GraphWeight {
+export function selfEnergyMatrixWeight(model: QuarticModel, graph: Graph = SUNSET): GraphWeight {
   const k = model.couplings.length;
   const n = model.fields;
   const pairs = quadraticPairs(n);
+  const degree = quarticVertices(graph);
   const terms = new Map<string, { powers: number[]; values: Q[] }>();
-  for (const tuple of couplingTuples(k, 2)) {
-    const x = summedOverLabellings(model, SUNSET, tuple);
-    const f = prefactor(model, SUNSET, tuple);
+  for (const tuple of couplingTuples(k, degree)) {
+    const x = summedOverLabellings(model, graph, tuple);
+    const f = prefactor(model, graph, tuple);
     const values = pairs.map(([a, b]) => qMul(entryOf(x, a * n + b), f));
     const powers = powersOf(tuple, k);
     const key = powers.join(',');
@@ -41,7 +44,44 @@ export function selfEnergyMatrixWeight(model: QuarticModel): GraphWeight {
     if (prev) prev.values = prev.values.map((v, i) => qAdd(v, values[i]));
     else terms.set(key, { powers, values });
   }
-  return { id: `${SUNSET.id}:matrix`, degree: 2, terms: [...terms.values()].map((t) => ({ powers: t.powers, values: t.values.map(polyConstant) })) };
+  return { id: `${graph.id}:matrix`, degree, terms: [...terms.values()].map((t) => ({ powers: t.powers, values: t.values.map(polyConstant) })) };
+}
+
+const quarticVertices = (graph: Graph) => graph.vertices.filter((v) => v.kind === 'quartic').length;
+
+/**
+ * A self-energy graph's matrix W acting on the four legs of each coupling's structure, projected
+ * back onto the couplings: values[j·k + i] is the coefficient of coupling i in Σ_legs W ∘ (scale_j
+ * basis_j), one term per monomial of the graph's own couplings. With F = Σ_graphs (−pole)·W the
+ * field renormalization, Σ_legs F ∘ λ' for any λ' = Σ_j t_j scale_j basis_j is Σ_j t_j Φ_j — the
+ * bilinear form the three-loop bare couplings need (diagrams/forestFlow.ts). The tensors of one
+ * monomial are summed before projecting (only their sum has to stay in the coupling space).
+ */
+export function legCorrectionWeights(model: QuarticModel, graph: Graph): GraphWeight {
+  const k = model.couplings.length;
+  const byMonomial = new Map<string, { tuple: number[]; tensor: Tensor }>();
+  for (const tuple of couplingTuples(k, quarticVertices(graph))) {
+    const key = powersOf(tuple, k).join(',');
+    const x = summedOverLabellings(model, graph, tuple);
+    const prev = byMonomial.get(key);
+    byMonomial.set(key, { tuple: prev?.tuple ?? tuple, tensor: prev ? addTensors(prev.tensor, x) : x });
+  }
+  const terms = [...byMonomial.values()].map(({ tuple, tensor }) => {
+    const f = prefactor(model, graph, tuple);
+    const values = model.basis.flatMap((b, j) => projectedLegSum(model, graph, tensor, b, j).map((c) => polyConstant(qMul(qMul(c, f), model.scales[j]))));
+    return { powers: powersOf(tuple, k), values };
+  });
+  return { id: `${graph.id}:legs`, degree: quarticVertices(graph) + 1, terms };
+}
+
+function projectedLegSum(model: QuarticModel, graph: Graph, selfEnergy: Tensor, vertex: Tensor, j: number): Q[] {
+  try {
+    return projectOntoCouplings(model, legSum(selfEnergy, vertex), 'field renormalization');
+  } catch (e) {
+    if (!(e instanceof EngineError)) throw e;
+    const outside = legCorrectionOutside(model, selfEnergy, vertex);
+    return fail('invalid', `the field renormalization γ_φ (a matrix for this model) acting on the legs of the quartic vertex generates ${outside.join(', ')} outside the couplings ${model.couplings.join(', ')} of ${model.label} (self-energy graph ${graph.id} on the legs of ${model.couplings[j]}); add a coupling for ${outside.length === 1 ? 'it' : 'these'}`);
+  }
 }
 
 /** Σ over the four legs of W_{aa'} λ_{a'bcd}. */

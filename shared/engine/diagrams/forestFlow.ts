@@ -1,14 +1,16 @@
 import { EngineError, fail } from '../precision';
 import { type ModelSpec, type QuarticModel, CouplingPolynomial, isFamily } from '../models';
+import { type LaurentSeries } from '../series';
 import { type Calculus } from './calculus';
 import { type CatalogueEntry } from './catalogue';
+import { fieldPairLabels, legCorrectionWeights, selfEnergyMatrixWeight } from './fieldWeights';
 import { type ForestPole, type PoleMemo, type Primitives, forestPole } from './forests';
 import { generateGraphs } from './generate';
 import { type Graph, type GraphFunction, graphSign, symmetryData } from './graphs';
-import { integralKit } from './integrals';
+import { type IntegralKit, integralKit } from './integrals';
 import { lineGraphOf } from './lineGraph';
 import { ConsistencyError, type SubtractedGraph } from './subtraction';
-import { type DerivedFlow, type TrailEntry, MAX_QUADRATIC_FIELDS, quadraticWithField } from './renormalization';
+import { type DerivedFlow, type TrailEntry, MAX_QUADRATIC_FIELDS, MIXING_NOTE, quadraticWithField, traceOverN } from './renormalization';
 import { type GraphWeight, graphWeight, insertionMatrixWeight, quadraticPairs } from './weights';
 
 /**
@@ -19,6 +21,13 @@ import { type GraphWeight, graphWeight, insertionMatrixWeight, quadraticPairs } 
  * g₀ = μ^ε(g + Σ a_n/ε^n): β = −εg + (g·∂ − 1)a₁, γ_φ = −½(g·∂) ln Z_φ|₁, γ_{φ²} = (g·∂) ln Z_t|₁, and
  * every higher pole is checked against the RG pole equations (g·∂ − 1)a_{n+1} = (β̂·∂)a_n and
  * (g·∂)ζ_{n+1} = (β̂·∂)ζ_n for ζ = ln Z_φ, ln Z_t.
+ *
+ * When a self-energy graph's weight is a matrix W_ab not ∝ δ_ab (s = 2, anisotropic models) Z_φ is
+ * the matrix 1 + F and each leg of the bare vertex carries Z_φ^{−1/2}:
+ *   λ₀ = μ^ε (Z_φ^{−1/2})^{⊗4} (λ + D) = μ^ε (λ + D − ½ Σ_legs F ∘ (λ + D)) + (coupling degree ≥ 5),
+ * exact to three loops since F starts at degree 2. γ_φ = −½ (g·∂) F₁ (F² is degree 4), its pole
+ * equations (g·∂)F_{n+1} = (β̂·∂)F_n entry by entry, and φ_aφ_a then mixes with the other quadratic
+ * operators (no scalar γ_{φ²}; the quadratic-operator matrix takes γ_φ t + t γ_φ).
  */
 export function deriveFlowByForests<C>(spec: ModelSpec, calc: Calculus<C>, loops: number, primitives: Primitives<C>): DerivedFlow<C> {
   const { ring } = calc.ctx;
@@ -35,25 +44,34 @@ export function deriveFlowByForests<C>(spec: ModelSpec, calc: Calculus<C>, loops
   // the quadratic operators φ_iφ_j (i ≤ j): γ = (g·∂) of the 1/ε residue matrix of their insertions
   const pairs = !isFamily(spec) && spec.fields <= MAX_QUADRATIC_FIELDS ? quadraticPairs(spec.fields) : null;
   const P = pairs?.length ?? 0;
-  const quadGamma = Array.from({ length: P }, () => Array.from({ length: P }, zero));
+  // residues of the insertion matrix Z₂ = 1 + Σ_n quadPoles[n]/ε^n on the coordinates t_ij
+  const quadPoles = Array.from({ length: loops + 1 }, () => Array.from({ length: P }, () => Array.from({ length: P }, zero)));
+  const fieldMatrix = needsFieldMatrix(spec, calc, kit, loops, primitives, memo) ? fieldMatrixPoles(calc, (spec as QuarticModel), loops) : null;
   for (let L = 1; L <= loops; L++) {
     for (const fn of ['vertex', 'selfEnergy', 'massInsertion'] as GraphFunction[]) {
       for (const graph of generateGraphs(fn, L)) {
         const fp = forestPole(calc, kit, lineGraphOf(graph), primitives, memo);
-        const { weight, note } = tryWeight(spec, graph);
         const sym = symmetryData(graph);
-        trail.push({ graph, sign: graphSign(graph), symmetryFactor: sym.symmetryFactor, labellings: sym.labellings, weight, weightNote: note, subtracted: asSubtracted(graph, fp) });
+        const entry = { graph, sign: graphSign(graph), symmetryFactor: sym.symmetryFactor, labellings: sym.labellings, subtracted: asSubtracted(graph, fp) };
+        if (fn === 'selfEnergy' && fieldMatrix) {
+          trail.push({ ...entry, ...fieldMatrix.add(graph, fp.pole) });
+          continue;
+        }
+        const { weight, note } = tryWeight(spec, graph);
+        trail.push({ ...entry, weight, weightNote: note });
         const hasPole = fp.pole.coefficients().some((c) => !calc.isNegligible(c));
         if (fn === 'massInsertion' && pairs) {
           const matrixWeight = insertionMatrixWeight(spec as QuarticModel, graph);
           const polys = weightPolynomials(calc, matrixWeight, P * P);
-          const k1 = fp.pole.lowest <= -1 ? fp.pole.coefficient(-1) : ring.zero();
-          const factor = ring.scale(ring.neg(k1), BigInt(matrixWeight.degree));
-          for (let r = 0; r < P; r++) for (let c = 0; c < P; c++) quadGamma[r][c] = quadGamma[r][c].add(polys[r * P + c].scale(factor));
+          for (let n = 1; n <= L; n++) {
+            const c = fp.pole.lowest <= -n ? fp.pole.coefficient(-n) : ring.zero();
+            if (calc.isNegligible(c)) continue;
+            for (let r = 0; r < P; r++) for (let col = 0; col < P; col++) quadPoles[n][r][col] = quadPoles[n][r][col].add(polys[r * P + col].scale(ring.neg(c)));
+          }
         }
         if (!weight) {
           if (fn === 'massInsertion') massNote = note;
-          else if (hasPole) fail('not-representable', `three-loop field renormalization for this model is a matrix not proportional to the identity (${note})`);
+          else if (hasPole) fail('not-representable', `the field renormalization of this symbolic-N family is not proportional to the identity (${note}); give N as a number`);
           continue;
         }
         const w = weightPolynomials(calc, weight, fn === 'vertex' ? k : 1);
@@ -70,7 +88,9 @@ export function deriveFlowByForests<C>(spec: ModelSpec, calc: Calculus<C>, loops
   const zPhi = alg.unitPlus(field.map((row) => row[0]));
   const lnZPhi = alg.log(zPhi);
   const factorPhi = alg.power(zPhi, -2);
-  const bare = spec.couplings.map((_, i) => alg.mul(alg.unitPlus(vertex.map((row) => row[i]), CouplingPolynomial.coupling(ring, k, i)), factorPhi));
+  const plain = spec.couplings.map((_, i) => alg.mul(alg.unitPlus(vertex.map((row) => row[i]), CouplingPolynomial.coupling(ring, k, i)), factorPhi));
+  // −½ Σ_legs F ∘ (λ + D): coupling i of it is −½ Σ_j (g_j + D_j) Φ_j[i]
+  const bare = fieldMatrix ? plain.map((series, i) => alg.sub(series, plain.reduce((sum, bareJ, j) => alg.add(sum, alg.mul(bareJ, fieldMatrix.legs(j, i))), alg.unitPlus([], zero())).map((p) => p.scale(ring.fromRational(1n, 2n))))) : plain;
   const a = (n: number) => bare.map((series) => series[n] ?? zero());
   const betaHat = a(1).map((p) => alg.gDotMinusOne(p));
   const checks: string[] = [];
@@ -81,28 +101,149 @@ export function deriveFlowByForests<C>(spec: ModelSpec, calc: Calculus<C>, loops
     });
   }
   if (loops >= 2) checks.push(`coupling counterterms: every 1/ε^n pole (n = 2…${loops}) equals the prediction of the RG pole equations (g·∂−1)a_{n+1} = (β̂·∂)a_n`);
-  checkLogPoles(calc, alg, lnZPhi, betaHat, loops, 'self-energy (ln Z_φ)', checks);
+  if (fieldMatrix) fieldMatrix.checkPoles(betaHat, checks);
+  else checkLogPoles(calc, alg, lnZPhi, betaHat, loops, 'self-energy (ln Z_φ)', checks);
+  if (fieldMatrix && !massNote) massNote = MIXING_NOTE;
+  if (pairs) checkInsertionMatrixPoles(calc, alg, quadPoles, fieldMatrix ? { matrix: fieldMatrix.poles(), pairs } : { inverseZPhi: alg.power(zPhi, -1) }, betaHat, loops, checks);
   const lnZt = massNote ? null : alg.sub(alg.log(alg.unitPlus(mass.map((row) => row[0]))), lnZPhi);
   if (lnZt) checkLogPoles(calc, alg, lnZt, betaHat, loops, 'φ² insertion (ln Z_t = ln Z₂ − ln Z_φ)', checks);
   checks.push('no ln(p²)/ε terms after subtraction of subdivergences (every graph)');
-  const gammaPhi = upToDegree(alg.gDot(lnZPhi[1]).scale(ring.fromRational(-1n, 2n)), loops);
-  const fieldRenormalized = !lnZPhi[1].isZero() && [...lnZPhi[1].terms.values()].some((t) => !calc.isNegligible(t.coeff));
+  const gammaPhiMatrix = fieldMatrix?.gamma() ?? null;
+  const gammaPhi = gammaPhiMatrix ? traceOverN(gammaPhiMatrix) : upToDegree(alg.gDot(lnZPhi[1]).scale(ring.fromRational(-1n, 2n)), loops);
+  const fieldRenormalized = gammaPhiMatrix !== null || (!lnZPhi[1].isZero() && [...lnZPhi[1].terms.values()].some((t) => !calc.isNegligible(t.coeff)));
   return {
     calculus: calc,
     couplings: spec.couplings,
     loops,
     beta: betaHat,
     gammaPhi,
-    gammaPhiMatrix: null,
+    gammaPhiMatrix,
     gammaPhi2: lnZt ? upToDegree(alg.gDot(lnZt[1]), loops) : null,
     gammaPhi2Note: massNote,
-    // the field part γ_φ t + t γ_φ with the scalar γ_φ (a matrix γ_φ is refused above)
-    quadratic: pairs ? { pairs, gamma: quadraticWithField(quadGamma, pairs, diagonalOf(gammaPhi, (spec as QuarticModel).fields), zero()) } : null,
+    // the field part γ_φ t + t γ_φ
+    quadratic: pairs ? { pairs, gamma: quadraticWithField(quadPoles[1].map((row) => row.map(gDot)), pairs, gammaPhiMatrix ?? diagonalOf(gammaPhi, (spec as QuarticModel).fields), zero()) } : null,
     fieldRenormalized,
     residues: { first: a(1), second: a(2) },
     trail,
     checks,
   };
+}
+
+/**
+ * The quadratic-operator matrix Z_t acting on t (t₀ = Z_t t): Z_t = Z₂/Z_φ for a scalar Z_φ, and
+ * Z_t = (1 − ½Φ(F))∘Z₂ through three loops for a matrix Z_φ = 1 + F, with Φ(F)t = Ft + tF (from
+ * Z₂[t] = Z_φ^{1/2} Z_t[t] Z_φ^{1/2}, F² being degree 4). Z_t⁻¹ (μ d/dμ) Z_t finite gives, at each
+ * 1/ε^n (n ≥ 1), (g·∂) z_{n+1} = (β̂·∂) z_n + z_n (g·∂) z₁ — with the products in this order.
+ */
+function checkInsertionMatrixPoles<C>(
+  calc: Calculus<C>,
+  alg: PoleAlgebra<C>,
+  z2: CouplingPolynomial<C>[][][],
+  field: { inverseZPhi: PoleSeries<C> } | { matrix: CouplingPolynomial<C>[][][]; pairs: [number, number][] },
+  betaHat: CouplingPolynomial<C>[],
+  loops: number,
+  checks: string[],
+): void {
+  const P = z2[1].length;
+  const zero = z2[0][0][0];
+  // entry (r, c) of Z₂ as a series in 1/ε (δ_rc at ε⁰)
+  const z2Series = z2[1].map((row, r) => row.map((_, c) => alg.unitPlus(z2.map((m) => m[r][c]), r === c ? undefined : zero)));
+  let zt: PoleSeries<C>[][];
+  if ('inverseZPhi' in field) zt = z2Series.map((row) => row.map((series) => alg.mul(series, field.inverseZPhi)));
+  else {
+    const zeroMatrix = z2[0];
+    // Φ(F_n) in the coordinates t_ij, as a matrix of series with Φ[r][m][n] its 1/ε^n part
+    const phiByPole = field.matrix.map((F, n) => (n === 0 ? zeroMatrix : quadraticWithField(zeroMatrix, field.pairs, F, zero)));
+    const phi = (r: number, m: number) => phiByPole.map((M) => M[r][m]);
+    zt = z2Series.map((row, r) => row.map((series, c) => {
+      let correction = alg.unitPlus([], zero);
+      for (let m = 0; m < P; m++) correction = alg.add(correction, alg.mul(phi(r, m), z2Series[m][c]));
+      return alg.sub(series, correction.map((p) => p.scale(p.ring.fromRational(1n, 2n))));
+    }));
+  }
+  const z = (n: number) => zt.map((row) => row.map((series) => series[n]));
+  const g1 = z(1).map((row) => row.map(gDot));
+  for (let n = 1; n < loops; n++) {
+    const zn = z(n);
+    const next = z(n + 1);
+    for (let r = 0; r < P; r++) for (let c = 0; c < P; c++) {
+      let product = zero;
+      for (let m = 0; m < P; m++) if (!zn[r][m].isZero() && !g1[m][c].isZero()) product = product.add(zn[r][m].mul(g1[m][c]));
+      const residual = upToDegree(gDot(next[r][c]).sub(zn[r][c].along(betaHat)).sub(product), loops);
+      assertVanishes(calc, residual, `1/ε^${n + 1} pole of the quadratic-operator matrix entry (${r + 1}, ${c + 1}) is not fixed by lower orders (RG pole equation)`);
+    }
+  }
+  if (loops >= 2) checks.push('quadratic-operator matrix: every higher pole equals the prediction (g·∂)z_{n+1} = (β̂·∂)z_n + z_n (g·∂)z₁');
+}
+
+/** True when some self-energy graph with a pole has a weight not ∝ δ_ab (explicit-tensor models only). */
+function needsFieldMatrix<C>(spec: ModelSpec, calc: Calculus<C>, kit: IntegralKit, loops: number, primitives: Primitives<C>, memo: PoleMemo<C>): boolean {
+  if (isFamily(spec)) return false;
+  for (let L = 1; L <= loops; L++) {
+    for (const graph of generateGraphs('selfEnergy', L)) {
+      const fp = forestPole(calc, kit, lineGraphOf(graph), primitives, memo);
+      if (fp.pole.coefficients().some((c) => !calc.isNegligible(c)) && !tryWeight(spec, graph).weight) return true;
+    }
+  }
+  return false;
+}
+
+/** Z_φ = 1 + Σ_m F_m/ε^m as a matrix, with the leg forms Φ_j (see legCorrectionWeights), graph by graph. */
+interface FieldMatrixPoles<C> {
+  /** Adds a self-energy graph; returns what the trail shows for it. */
+  add(graph: Graph, pole: LaurentSeries<C>): Pick<TrailEntry<C>, 'weight' | 'weightLabels' | 'weightNote'>;
+  /** Coefficient of coupling i in Σ_legs F ∘ (scale_j basis_j), as a series in 1/ε. */
+  legs(j: number, i: number): CouplingPolynomial<C>[];
+  gamma(): CouplingPolynomial<C>[][];
+  /** F_n for n = 0 … loops (F_0 = 0). */
+  poles(): CouplingPolynomial<C>[][][];
+  checkPoles(betaHat: CouplingPolynomial<C>[], checks: string[]): void;
+}
+
+function fieldMatrixPoles<C>(calc: Calculus<C>, model: QuarticModel, loops: number): FieldMatrixPoles<C> {
+  const { ring } = calc.ctx;
+  const k = model.couplings.length;
+  const n = model.fields;
+  const zero = () => new CouplingPolynomial<C>(ring, k);
+  const square = (size: number) => Array.from({ length: size }, () => Array.from({ length: size }, zero));
+  const F = Array.from({ length: loops + 1 }, () => square(n));
+  const phi = Array.from({ length: loops + 1 }, () => square(k));
+  const pairs = quadraticPairs(n);
+  const pairIndex = (a: number, b: number) => pairs.findIndex(([i, j]) => i === Math.min(a, b) && j === Math.max(a, b));
+  return {
+    add(graph, pole) {
+      const weight = selfEnergyMatrixWeight(model, graph);
+      const shown = { weight, weightLabels: fieldPairLabels(n), weightNote: 'not proportional to δ_ab: the weight is the matrix W_ab, entries (a,b) with a ≤ b' };
+      const residues = Array.from({ length: loops + 1 }, (_, m) => (m > 0 && pole.lowest <= -m ? pole.coefficient(-m) : ring.zero()));
+      if (residues.every((c) => calc.isNegligible(c))) return shown;
+      const entries = weightPolynomials(calc, weight, pairs.length);
+      const legs = weightPolynomials(calc, legCorrectionWeights(model, graph), k * k);
+      residues.forEach((c, m) => {
+        if (calc.isNegligible(c)) return;
+        const f = ring.neg(c);
+        for (let a = 0; a < n; a++) for (let b = 0; b < n; b++) F[m][a][b] = F[m][a][b].add(entries[pairIndex(a, b)].scale(f));
+        for (let j = 0; j < k; j++) for (let i = 0; i < k; i++) phi[m][j][i] = phi[m][j][i].add(legs[j * k + i].scale(f));
+      });
+      return shown;
+    },
+    legs: (j, i) => phi.map((rows, m) => (m === 0 ? zero() : rows[j][i])),
+    poles: () => F,
+    gamma: () => F[1].map((row) => row.map((p) => upToDegree(gDot(p), loops).scale(ring.fromRational(-1n, 2n)))),
+    checkPoles(betaHat, checks) {
+      for (let m = 1; m < loops; m++) {
+        for (let a = 0; a < n; a++) for (let b = a; b < n; b++) {
+          const residual = upToDegree(gDot(F[m + 1][a][b]).sub(F[m][a][b].along(betaHat)), loops);
+          assertVanishes(calc, residual, `1/ε^${m + 1} pole of the field renormalization matrix entry (${a + 1},${b + 1}) is not fixed by lower orders (RG pole equation)`);
+        }
+      }
+      if (loops >= 2) checks.push('self-energy (the matrix Z_φ): every higher pole of every entry equals the prediction (g·∂)F_{n+1} = (β̂·∂)F_n');
+    },
+  };
+}
+
+/** (g·∂) p: each monomial times its total degree. */
+function gDot<C>(p: CouplingPolynomial<C>): CouplingPolynomial<C> {
+  return new CouplingPolynomial<C>(p.ring, p.variables, [...p.terms.values()].map((t) => ({ powers: t.powers, coeff: p.ring.scale(t.coeff, BigInt(t.powers.reduce((a, b) => a + b, 0))) })));
 }
 
 function diagonalOf<C>(p: CouplingPolynomial<C>, n: number): CouplingPolynomial<C>[][] {
@@ -159,6 +300,7 @@ type PoleSeries<C> = CouplingPolynomial<C>[];
 interface PoleAlgebra<C> {
   unitPlus(poles: CouplingPolynomial<C>[], constant?: CouplingPolynomial<C>): PoleSeries<C>;
   mul(x: PoleSeries<C>, y: PoleSeries<C>): PoleSeries<C>;
+  add(x: PoleSeries<C>, y: PoleSeries<C>): PoleSeries<C>;
   sub(x: PoleSeries<C>, y: PoleSeries<C>): PoleSeries<C>;
   log(x: PoleSeries<C>): PoleSeries<C>;
   power(x: PoleSeries<C>, exponent: number): PoleSeries<C>;
@@ -197,13 +339,13 @@ function poleAlgebra<C>(calc: Calculus<C>, k: number, maxDegree: number): PoleAl
     const c = constantPart(p);
     return [...c.terms.values()].every((t) => calc.isNegligible(ring.sub(t.coeff, ring.one()))) && c.terms.size === 1;
   };
-  const gDot = (p: CouplingPolynomial<C>) => new CouplingPolynomial<C>(ring, k, [...p.terms.values()].map((t) => ({ powers: t.powers, coeff: ring.scale(t.coeff, BigInt(t.powers.reduce((a, b) => a + b, 0))) })));
   return {
     unitPlus: (poles, constant) => {
       const one = constant ?? CouplingPolynomial.monomial(ring, new Array<number>(k).fill(0), ring.one());
       return Array.from({ length }, (_, n) => (n === 0 ? one : truncate(poles[n] ?? zero())));
     },
     mul,
+    add,
     sub: (x, y) => x.map((p, i) => p.sub(y[i] ?? zero())),
     // ln(1 + X) = Σ (−1)^{m+1} X^m / m
     log: (x) => compose(x, (m) => (m === 0 ? ring.zero() : ring.fromRational(m % 2 === 1 ? 1n : -1n, BigInt(m)))),
@@ -218,7 +360,7 @@ function poleAlgebra<C>(calc: Calculus<C>, k: number, maxDegree: number): PoleAl
       return ring.fromRational(num, den);
     }),
     truncate,
-    gDot,
+    gDot: (p) => gDot(p),
     gDotMinusOne: (p) => gDot(p).sub(p),
   };
 }

@@ -63,6 +63,8 @@ export interface QuadraticMatrix<C> {
   gamma: CouplingPolynomial<C>[][];
 }
 
+export const MIXING_NOTE = 'φ_aφ_a mixes with the other quadratic operators: the field renormalization γ_φ is a matrix not proportional to δ_ab (see the quadratic-operator matrix)';
+
 /** Largest number of fields for which the quadratic-operator matrix is built (21 operators). */
 export const MAX_QUADRATIC_FIELDS = 6;
 
@@ -190,7 +192,7 @@ export function deriveFlow<C>(spec: ModelSpec, calc: Calculus<C>, loops: number)
   }
   // Z_t = Z_2 / Z_φ with Z_2 from the insertion graphs: γ_{φ²} = (g·∂) z_t1. With a matrix Z_φ,
   // φ_aφ_a is not multiplicatively renormalized (γ_φ δ + δ γ_φ is not ∝ δ): only the matrix remains.
-  if (gammaPhiMatrix && !massNote) massNote = 'φ_aφ_a mixes with the other quadratic operators: the field renormalization γ_φ is a matrix not proportional to δ_ab (see the quadratic-operator matrix)';
+  if (gammaPhiMatrix && !massNote) massNote = MIXING_NOTE;
   const gammaPhi2 = massNote ? null : gammaMassPart.sub(fieldFirst.scale(ring.fromRational(2n)));
   const checks: string[] = [];
   if (loops >= 2) {
@@ -219,7 +221,7 @@ function fieldMatrixResidues<C>(calc: Calculus<C>, w: GraphWeight, n: number, k1
   return { first, second: matrix(k2), gamma: first.map((row) => row.map((z) => z.scale(ring.fromRational(-BigInt(w.degree), 2n)))) };
 }
 
-function traceOverN<C>(m: CouplingPolynomial<C>[][]): CouplingPolynomial<C> {
+export function traceOverN<C>(m: CouplingPolynomial<C>[][]): CouplingPolynomial<C> {
   const { ring } = m[0][0];
   return m.reduce((sum, row, a) => sum.add(row[a]), m[0][0].sub(m[0][0])).scale(ring.fromRational(1n, BigInt(m.length)));
 }
