@@ -41,6 +41,19 @@ describe('three-loop jobs through /api/calc', () => {
     close(r.series.omega?.[3] as string, omega3, 1e-18, 'ω ε³');
   });
 
+  test('exponents, loops 3, s = 2, the anisotropic two-field model (its field renormalization is a matrix): the stable point is O(2) and 1/ν, η at ε³ equal the classic O(2) series (same source)', async () => {
+    const N = 2;
+    const potential = 'u/24*phi1^4 + v/24*phi2^4 + w/4*phi1^2*phi2^2';
+    const r = await calc('exponents', { model: { preset: 'custom', fields: 2, potential }, s: '2', d: '3', loops: 3, digits: 20 });
+    assert.equal(r.meanField, false);
+    if (r.meanField) return;
+    assert.match(r.fixedPoint, /^O\(2\)/);
+    const nuInv3 = new Decimal(N + 2).div(8 * (N + 8) ** 5).times(new Decimal(3 * N ** 3 - 452 * N ** 2 - 2672 * N - 5312).plus(ZETA3.times(96 * (N + 8) * (5 * N + 22))));
+    const eta3 = new Decimal((N + 2) * (-N * N + 56 * N + 272)).div(8 * (N + 8) ** 4);
+    close(r.series.nuInv?.[3] as string, nuInv3, 1e-18, '1/ν ε³');
+    close(r.series.eta?.[3] as string, eta3, 1e-18, 'η ε³');
+  });
+
   test('scan, O(1), d = 3, loops 3, s = 1.6 … 1.9: every printed 1/ν is its printed ε-series summed at that ε', async () => {
     const scan = await calc('scan', { model: { preset: 'on', N: '1' }, d: '3', loops: 3, s: { from: '1.6', to: '1.9', points: 3 }, quantities: ['nuInv'], digits: 20 });
     assert.equal(scan.points.length, 3);
