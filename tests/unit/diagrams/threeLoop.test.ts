@@ -118,6 +118,44 @@ test('cubic anisotropy at s = 2, symbolic N: at v = 0 the three-loop β_u is the
   }
 });
 
+// Cubic anisotropy at N → ∞ is the Ising model with Fisher renormalization: ν_c = ν_I/(1 − α_I) and η_c = η_I,
+// and the cubic point's smallest stability eigenvalue is α_I/ν_I (Aharony 1973, exact at N = ∞; recalled from memory).
+// With hyperscaling: 1/ν_c = d − 1/ν_I and ω_c = 2/ν_I − d. Series read from jobs at N = 10⁶ and 5·10⁵,
+// Richardson-extrapolated (f(N) = f(∞) + a/N + O(1/N²) leaves O(10⁻¹²)).
+function cubicLargeN(runJob: (job: object) => unknown, s: string) {
+  const seriesAt = (N: number) => runJob({ job: 'exponents', model: { preset: 'cubic', N: String(N) }, s, d: '3', loops: 3, digits: 30 }) as { fixedPoint: string; series: Record<string, string[]> };
+  const big = seriesAt(1_000_000);
+  const half = seriesAt(500_000);
+  assert.equal(big.fixedPoint, 'cubic');
+  return (name: string, m: number) => new Decimal(big.series[name][m]).times(2).minus(new Decimal(half.series[name][m]));
+}
+function assertFisherRenormalized(limit: (name: string, m: number) => Decimal, ising: { nuInv: Decimal[]; eta: Decimal[] }, s: Decimal, label: string) {
+  const d = [s.times(2), new Decimal(-1), new Decimal(0), new Decimal(0)]; // d = 2s − ε
+  for (let m = 0; m <= 3; m++) {
+    close(limit('nuInv', m), d[m].minus(ising.nuInv[m]), `${label}: 1/ν ε^${m}`, 1e-9);
+    close(limit('eta', m), ising.eta[m], `${label}: η ε^${m}`, 1e-9);
+    close(limit('omega', m), ising.nuInv[m].times(2).minus(d[m]), `${label}: ω ε^${m}`, 1e-9);
+  }
+}
+
+test('cubic anisotropy at s = 2, N → ∞: Fisher-renormalized Ising exponents through ε³ — 1/ν = d − 1/ν_I, η = η_I, ω = 2/ν_I − d (Aharony 1973; Ising series of Kleinert & Schulte-Frohlinde 2001; both recalled from memory). This probes the mixed u^a v^b terms of the three-loop β at the fixed point', async () => {
+  const { runJob } = await import('../../../shared/jobs/run');
+  const N = 1;
+  const ising = {
+    nuInv: [new Decimal(2), new Decimal(-1).div(3), new Decimal(-(N + 2) * (13 * N + 44)).div(2 * (N + 8) ** 3), new Decimal(N + 2).div(8 * (N + 8) ** 5).times(new Decimal(3 * N ** 3 - 452 * N ** 2 - 2672 * N - 5312).plus(ZETA3.times(96 * (N + 8) * (5 * N + 22))))],
+    eta: [new Decimal(0), new Decimal(0), new Decimal(1).div(54), new Decimal((N + 2) * (-N * N + 56 * N + 272)).div(8 * (N + 8) ** 4)],
+  };
+  assertFisherRenormalized(cubicLargeN(runJob, '2'), ising, new Decimal(2), 's = 2');
+});
+
+test('cubic anisotropy at s = 1.75, N → ∞: the same Fisher relations hold with the long-range Ising series (the engine’s O(1) job at s = 1.75), through ε³ with the tetrahedron P(1.75) in the mixed terms (Aharony 1973, an exact statement independent of the kinetic term; recalled from memory)', async () => {
+  const { runJob } = await import('../../../shared/jobs/run');
+  const o1 = runJob({ job: 'exponents', model: { preset: 'on', N: '1' }, s: '1.75', d: '3', loops: 3, digits: 30 }) as { series: Record<string, string[]> };
+  const ising = { nuInv: o1.series.nuInv.map((c) => new Decimal(c)), eta: o1.series.eta.map((c) => new Decimal(c)) };
+  assert.deepEqual(ising.eta.map(String), ['0.25', '0', '0', '0'], 'η = 2 − s exactly for s < 2');
+  assertFisherRenormalized(cubicLargeN(runJob, '1.75'), ising, new Decimal('1.75'), 's = 1.75');
+});
+
 test('infrared counterterms (R*) give the same pole as an infrared-safe routing, for every graph through three loops that has both', () => {
   const calc = numericCalculus(q(3, 2), 30);
   const kit = integralKit(calc.s);
