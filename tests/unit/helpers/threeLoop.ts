@@ -9,6 +9,9 @@ import { q } from '../../../shared/engine/symbolic/rational';
 /** ζ(3) to 60 digits (OEIS A002117). */
 export const ZETA3 = '1.20205690315959428539973816151144999076498629234049888179227';
 
+/** ζ(3) to 212 digits: mpmath 1.3.0, mp.dps = 215, mp.zeta(3) (its first 60 digits are ZETA3 above). */
+export const ZETA3_212 = '1.2020569031595942853997381615114499907649862923404988817922715553418382057863130901864558736093352581461991577952607194184919959986732832137763968372079001614539417829493600667191915755222424942439615639096641033';
+
 /**
  * The short-range O(N) φ⁴ RG functions through three loops in minimal subtraction, d = 4 − ε, in the
  * engine's normalization u = λμ^{−ε}/(16π²) at s = 2 with V = (u/4!)(φ²)² (docs/flows.md, Conventions):

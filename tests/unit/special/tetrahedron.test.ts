@@ -4,6 +4,7 @@ import Decimal from 'decimal.js';
 import { special } from '../../../shared/engine/index';
 import { EngineError } from '../../../shared/engine/precision';
 import { assertDigits } from '../helpers/engine';
+import { ZETA3_212 } from '../helpers/threeLoop';
 import { TETRAHEDRON_MPMATH, TETRAHEDRON_MPMATH_DIGITS } from '../helpers/tetrahedron-values';
 import { TETRAHEDRON_SPECTRAL, TETRAHEDRON_SPECTRAL_BELOW_HALF, TETRAHEDRON_SPECTRAL_BELOW_HALF_DIGITS, TETRAHEDRON_SPECTRAL_CONTINUED, TETRAHEDRON_SPECTRAL_CONTINUED_DIGITS, TETRAHEDRON_SPECTRAL_DIGITS } from '../helpers/tetrahedron-spectral-values';
 
@@ -24,6 +25,12 @@ test('P(2) = 6ζ(3) to 50 digits (ζ(3) from the engine at 60 digits, itself che
 test('P(2) = 6ζ(3) to 100 digits (ζ(3) from the engine at 110 digits; the tail terms no longer underflow at high digits)', () => {
   const expected = new Wide(special.zetaInteger(3, 110).toString()).times(6).toString();
   assertDigits(special.tetrahedronPeriod('2', 100), expected, 100, 'P(2)');
+});
+
+test('P(2) = 6ζ(3) to 200 digits, the largest digit count a job may ask for (ζ(3) from mpmath at 212 digits, tests/unit/helpers/threeLoop.ts)', () => {
+  const Huge = Decimal.clone({ precision: 230 });
+  assert.ok(ZETA3_212.startsWith(ZETA3_40.slice(0, -2)), 'the stored value is ζ(3) (OEIS A002117)');
+  assertDigits(special.tetrahedronPeriod('2', 200), new Huge(ZETA3_212).times(6).toString(), 200, 'P(2)');
 });
 
 test('P(s) agrees with the independent two-fold Mellin–Barnes integration in mpmath (tests/unit/helpers/tetrahedron_mpmath.py)', () => {
