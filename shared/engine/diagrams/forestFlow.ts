@@ -89,8 +89,7 @@ export function deriveFlowByForests<C>(spec: ModelSpec, calc: Calculus<C>, loops
   const lnZPhi = alg.log(zPhi);
   const factorPhi = alg.power(zPhi, -2);
   const plain = spec.couplings.map((_, i) => alg.mul(alg.unitPlus(vertex.map((row) => row[i]), CouplingPolynomial.coupling(ring, k, i)), factorPhi));
-  // −½ Σ_legs F ∘ (λ + D): coupling i of it is −½ Σ_j (g_j + D_j) Φ_j[i]
-  const bare = fieldMatrix ? plain.map((series, i) => alg.sub(series, plain.reduce((sum, bareJ, j) => alg.add(sum, alg.mul(bareJ, fieldMatrix.legs(j, i))), alg.unitPlus([], zero())).map((p) => p.scale(ring.fromRational(1n, 2n))))) : plain;
+  const bare = fieldMatrix ? withLegCorrection(alg, plain, fieldMatrix, zero) : plain;
   const a = (n: number) => bare.map((series) => series[n] ?? zero());
   const betaHat = a(1).map((p) => alg.gDotMinusOne(p));
   const checks: string[] = [];
@@ -174,6 +173,15 @@ function checkInsertionMatrixPoles<C>(
     }
   }
   if (loops >= 2) checks.push('quadratic-operator matrix: every higher pole equals the prediction (g·∂)z_{n+1} = (β̂·∂)z_n + z_n (g·∂)z₁');
+}
+
+/** λ + D − ½ Σ_legs F ∘ (λ + D): coupling i of the correction is −½ Σ_j (g_j + D_j) Φ_j[i]. */
+function withLegCorrection<C>(alg: PoleAlgebra<C>, plain: PoleSeries<C>[], field: FieldMatrixPoles<C>, zero: () => CouplingPolynomial<C>): PoleSeries<C>[] {
+  return plain.map((series, i) => {
+    let correction = alg.unitPlus([], zero());
+    plain.forEach((bareJ, j) => (correction = alg.add(correction, alg.mul(bareJ, field.legs(j, i)))));
+    return alg.sub(series, correction.map((p) => p.scale(p.ring.fromRational(1n, 2n))));
+  });
 }
 
 /** True when some self-energy graph with a pole has a weight not ∝ δ_ab (explicit-tensor models only). */
