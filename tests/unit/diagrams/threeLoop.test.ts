@@ -119,6 +119,34 @@ test('cubic anisotropy at s = 2, symbolic N: at v = 0 the three-loop β_u is the
   }
 });
 
+test('cubic anisotropy at s = 2: the marginal N where the O(N) point loses stability to the cubic one is N_c = 4 − 2ε + (5/12)(6ζ(3) − 1)ε² (Kleinert & Schulte-Frohlinde 2001, recalled from memory) — this probes the v-linear terms u v, u² v, u³ v of the three-loop β_v', () => {
+  const flow = cubicAtTwo();
+  const coefficient = (p: CouplingPolynomial<Expression>, pu: number, pv: number, N: Q) => {
+    const term = [...p.terms.values()].find((t) => t.powers[0] === pu && t.powers[1] === pv);
+    return term ? new Decimal(evaluateExpression(term.coeff, { N }, 50).toString()) : new Decimal(0);
+  };
+  // at the O(N) point u*(ε) (β_u(u, 0) = 0) the v-direction eigenvalue is h(u*) with β_v = v h(u) + O(v²):
+  // h(u*) = ε (f₁(N) + f₂(N) ε + f₃(N) ε²), and N_c(ε) solves f₁ + f₂ ε + f₃ ε² = 0 order by order
+  const f = (N: Q) => {
+    const [b2, b3, b4] = [2, 3, 4].map((k) => coefficient(flow.beta[0], k, 0, N));
+    const [c1, c2, c3] = [1, 2, 3].map((k) => coefficient(flow.beta[1], k, 1, N));
+    const x1 = new Decimal(1).div(b2);
+    const x2 = b3.times(x1.pow(2)).neg().div(b2);
+    const x3 = b3.times(x1).times(x2).times(2).plus(b4.times(x1.pow(3))).neg().div(b2);
+    return [c1.times(x1).minus(1), c1.times(x2).plus(c2.times(x1.pow(2))), c1.times(x3).plus(c2.times(x1).times(x2).times(2)).plus(c3.times(x1.pow(3)))];
+  };
+  const scale = 10n ** 12n; // N = 4 ± 10⁻¹² for the derivatives in N
+  const [mid, up, down] = [f(q(4)), f({ num: 4n * scale + 1n, den: scale }), f({ num: 4n * scale - 1n, den: scale })];
+  const h = new Decimal('1e-12');
+  const d1 = (i: number) => up[i].minus(down[i]).div(h.times(2));
+  const d2 = (i: number) => up[i].minus(mid[i].times(2)).plus(down[i]).div(h.pow(2));
+  close(mid[0], new Decimal(0), 'f₁(4) = 0: N_c = 4 at one loop', 1e-40);
+  const n1 = mid[1].neg().div(d1(0));
+  const n2 = mid[2].plus(d1(1).times(n1)).plus(d2(0).times(n1.pow(2)).div(2)).neg().div(d1(0));
+  close(n1, new Decimal(-2), 'N_c at ε¹', 1e-15);
+  close(n2, ZETA3.times(6).minus(1).times(5).div(12), 'N_c at ε²', 1e-15);
+});
+
 // Cubic anisotropy at N → ∞ is the Ising model with Fisher renormalization: ν_c = ν_I/(1 − α_I) and η_c = η_I,
 // and the cubic point's smallest stability eigenvalue is α_I/ν_I (Aharony 1973, exact at N = ∞; recalled from memory).
 // With hyperscaling: 1/ν_c = d − 1/ν_I and ω_c = 2/ν_I − d. Series read from jobs at N = 10⁶ and 5·10⁵,
