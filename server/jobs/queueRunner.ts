@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto';
 import { Queue, QueueEvents } from 'bullmq';
 import type { Logger } from 'pino';
 import { CANCEL_CHANNEL, ENGINE_QUEUE, redisConnection, type QueuedEngineJob } from './queueNames';
-import { QueueWaitExceeded, RunAborted, type JobRunner, type RunHooks } from './runner';
+import { QueueWaitExceeded, RunAborted, WORKER_TIME_LIMIT_PREFIX, WorkerTimeLimit, type JobRunner, type RunHooks } from './runner';
 
 export interface QueueRunnerOptions {
   url: string;
@@ -37,7 +37,11 @@ export async function createQueueRunner(options: QueueRunnerOptions): Promise<Jo
   const connections = [redisConnection(options.url), redisConnection(options.url), redisConnection(options.url)];
   const [queueConnection, eventsConnection, publisher] = connections;
   const queue = new Queue<QueuedEngineJob>(ENGINE_QUEUE, { connection: queueConnection });
-  const events = new QueueEvents(ENGINE_QUEUE, { connection: eventsConnection });
+  // read the event stream from now on Redis's clock: a QueueEvents that starts at the stream's end ('$')
+  // only when its first read is issued can miss the 'active' event of a job added right after creation
+  // (and with it the time limit, which counts from 'active')
+  const [seconds, micros] = await queueConnection.time();
+  const events = new QueueEvents(ENGINE_QUEUE, { connection: eventsConnection, lastEventId: `${Number(seconds) * 1000 + Math.floor(Number(micros) / 1000)}-0` });
   await events.waitUntilReady();
   const waiting = new Map<string, Waiting>();
 
@@ -47,7 +51,9 @@ export async function createQueueRunner(options: QueueRunnerOptions): Promise<Jo
     if (typeof data === 'number') entry?.hooks.onProgress?.(data);
   });
   events.on('completed', ({ jobId, returnvalue }) => settle(jobId, (entry) => entry.resolve(returnvalue)));
-  events.on('failed', ({ jobId, failedReason }) => settle(jobId, (entry) => entry.reject(new WorkerFailure(failedReason))));
+  events.on('failed', ({ jobId, failedReason }) =>
+    settle(jobId, (entry) => entry.reject(failedReason.startsWith(WORKER_TIME_LIMIT_PREFIX) ? new WorkerTimeLimit(failedReason.slice(WORKER_TIME_LIMIT_PREFIX.length)) : new WorkerFailure(failedReason))),
+  );
   // another server cancelled a job that was still waiting
   events.on('removed', ({ jobId }) => settle(jobId, (entry) => entry.reject(new RunAborted('cancelled by request'))));
   events.on('error', (error) => options.logger.error({ err: error }, 'reading the job queue events failed'));

@@ -1,7 +1,7 @@
 import { Worker, type Job } from 'bullmq';
 import type { Logger } from 'pino';
 import { CANCEL_CHANNEL, ENGINE_QUEUE, redisConnection, type QueuedEngineJob } from './queueNames';
-import { createWorkerPoolRunner } from './runner';
+import { WORKER_TIME_LIMIT_PREFIX, createWorkerPoolRunner } from './runner';
 
 export interface QueueWorkerOptions {
   url: string;
@@ -44,6 +44,7 @@ export async function startQueueWorker(options: QueueWorkerOptions) {
       return result;
     } catch (error) {
       options.logger.warn({ jobId: job.id, durationMs: Date.now() - started, reason: (error as Error).message }, 'job stopped');
+      if (overTime.aborted && !cancelled?.aborted) throw new Error(`${WORKER_TIME_LIMIT_PREFIX}stopped by its worker after ${Math.round((job.data.timeLimitMs + TIME_LIMIT_GRACE_MS) / 1000)} s`);
       throw error;
     }
   }

@@ -33,6 +33,12 @@ export class RunAborted extends Error {}
 /** No worker of a shared queue took the job within the queue-wait limit; it was taken out of the queue. */
 export class QueueWaitExceeded extends RunAborted {}
 
+/** A queue worker stopped the job at its own time limit (the backstop when no server's limit stopped it first). */
+export class WorkerTimeLimit extends RunAborted {}
+
+/** How a queue worker words the failure of a job it stopped at its time limit; the runner recognizes it. */
+export const WORKER_TIME_LIMIT_PREFIX = 'time-limit: ';
+
 /**
  * The run service's fair queue (scheduler.ts) hands the pool at most `threads` jobs at a time, so the order
  * of work is decided there, not by piscina's first-come queue.

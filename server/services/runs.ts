@@ -11,7 +11,7 @@ import { JobRun } from '../db/entities';
 import { AppError } from '../http/errors';
 import { newId } from '../ids';
 import { ENGINE_VERSION } from '../jobs/engineVersion';
-import { QueueWaitExceeded, RunAborted, type JobRunner } from '../jobs/runner';
+import { QueueWaitExceeded, RunAborted, WorkerTimeLimit, type JobRunner } from '../jobs/runner';
 import { FairQueue, type QueuedJob } from '../jobs/scheduler';
 
 export interface RunRequest {
@@ -128,6 +128,7 @@ function failureOf(error: unknown, abortReason: unknown, limits: JobQueueConfig)
   if (error instanceof RunAborted && abortReason instanceof TimeLimitExceeded) {
     return { status: 'failed', errorJson: JSON.stringify({ code: 'time-limit', message: abortReason.message }) };
   }
+  if (error instanceof WorkerTimeLimit) return { status: 'failed', errorJson: JSON.stringify({ code: 'time-limit', message: `Stopped after the time limit (${error.message}).` }) };
   if (error instanceof RunAborted) return { status: 'cancelled', errorJson: JSON.stringify({ code: 'cancelled', message: `Cancelled: ${error.message}` }) };
   return { status: 'failed', errorJson: JSON.stringify({ code: 'worker-crashed', message: 'The calculation worker crashed; it has been replaced. Run the cell again.' }) };
 }

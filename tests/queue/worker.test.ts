@@ -1,6 +1,9 @@
 import assert from 'node:assert/strict';
 import { after, before, describe, test } from 'node:test';
+import { Queue } from 'bullmq';
 import { startRedis, type RunningRedis } from '../../scripts/services/redis';
+import { ENGINE_QUEUE, redisConnection } from '../../server/jobs/queueNames';
+import { WORKER_TIME_LIMIT_PREFIX } from '../../server/jobs/runner';
 import { startHarness, type Harness } from '../api/harness';
 import { createPerson } from '../api/people';
 import { finishedRun, GAMMA_QUARTER_30, gammaQuarterJob, queuedRunService, SLOW_SCAN_POINTS, slowScanJob, startWorkerProcess, type QueuedRunService, type WorkerProcess } from './processes';
@@ -113,6 +116,24 @@ describe('engine jobs through the shared queue (Redis + worker processes, SQLite
     assert.equal(run.status, 'failed');
     assert.equal(errorCode(run.errorJson), 'time-limit');
     await only.waitForLine((line) => line.msg === 'job stopped');
+    await only.stop();
+  });
+
+  test('a job no server stops is stopped by its worker at the time limit plus grace, and its failure says time limit (not a crash)', async () => {
+    const only = await worker();
+    // added straight to the queue, as a server does, but no server follows it: only the worker's own limit is left
+    const connection = redisConnection(redis.url);
+    const queue = new Queue(ENGINE_QUEUE, { connection });
+    try {
+      await queue.add('engine', { job: slowScanJob('0.96'), timeLimitMs: 500 }, { jobId: 'unwatched', attempts: 1 });
+      const stopped = await only.waitForLine((line) => line.msg === 'job stopped', 30_000);
+      assert.ok(Number(stopped.durationMs) >= 5_000, 'the worker waits out the grace period after the time limit');
+      const job = await queue.getJob('unwatched');
+      assert.ok(job?.failedReason?.startsWith(WORKER_TIME_LIMIT_PREFIX), job?.failedReason);
+    } finally {
+      await queue.close();
+      await connection.quit();
+    }
     await only.stop();
   });
 
