@@ -101,6 +101,14 @@ describe('bad input gets a clear 4xx JSON error, never a 500', () => {
     await member.client.post('/api/notebooks').set('Content-Type', 'application/json').send('{"title":"Bubble \\ud835\\udec6"}').expect(201);
   });
 
+  test('a NUL character (U+0000) in any text field is a 400 naming the field, not a 500 from the database (PostgreSQL text cannot hold it; found by the fuzz test on PostgreSQL)', async () => {
+    const name = await member.client.patch('/api/me').set('Content-Type', 'application/json').send('{"name":"\\u0000"}').expect(400);
+    assert.equal(errorOf(name.body).code, 'validation_failed');
+    assert.deepEqual(Object.keys(errorOf(name.body).fields ?? {}), ['name']);
+    const title = await member.client.post('/api/notebooks').set('Content-Type', 'application/json').send('{"title":"Bubble \\u0000"}').expect(400);
+    assert.deepEqual(Object.keys(errorOf(title.body).fields ?? {}), ['title']);
+  });
+
   test('__proto__, constructor and prototype as field names are refused as unknown fields and pollute nothing', async () => {
     for (const key of ['__proto__', 'constructor', 'prototype']) {
       const body = `{"email":"nobody@test.rungbook.example","password":"long-enough-pass","${key}":{"polluted":true,"prototype":{"polluted":true}}}`;

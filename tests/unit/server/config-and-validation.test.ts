@@ -4,7 +4,7 @@ import fc from 'fast-check';
 import { loadConfig } from '../../../server/config';
 import { AppError } from '../../../server/http/errors';
 import { MAX_BODY_DEPTH, nestsDeeperThan } from '../../../server/http/hardening';
-import { findBrokenText, parseInput } from '../../../server/http/validation';
+import { NUL_TEXT_MESSAGE, findBrokenText, findNulText, parseInput } from '../../../server/http/validation';
 import { signUpInput } from '../../../shared/api/schemas';
 import { notebookDocument } from '../../../shared/notebook/exports';
 
@@ -66,6 +66,14 @@ describe('input validation at the API edge', () => {
     // Surrogate pairs in either order of appearance: only the unpaired ones count.
     assert.equal(findBrokenText({ a: '\ud835\udec6', b: ['\ud83d\ude00'] }), undefined);
     assert.equal(findBrokenText(['\ude00\ud83d']), '0');
+  });
+
+  test('a NUL character (U+0000), in a value or a field name, is refused naming the field: PostgreSQL text cannot hold it (PostgreSQL docs, "Character Types"; common practice)', () => {
+    assert.deepEqual(fieldsOf(signUpInput, { name: 'Invented\u0000', email: 'x@y.example', password: '0123456789' }), { name: NUL_TEXT_MESSAGE });
+    const document = { format: 'rungbook-notebook', formatVersion: 1, title: 't', cells: [{ label: 'a', input: { kind: 'note', text: 'a\u0000b' } }] };
+    assert.deepEqual(Object.keys(fieldsOf(notebookDocument, document)), ['cells.0.input.text']);
+    assert.equal(findNulText({ q: { ['k\u0000']: 'v' } }), 'q.k\u0000');
+    assert.equal(findNulText({ a: 'no nul here', b: ['\u0001\u007f'] }), undefined, 'other control characters are storable');
   });
 
   test('agrees with String.prototype.isWellFormed (ECMA-262, in Node 20) on arbitrary UTF-16 code-unit strings', () => {
