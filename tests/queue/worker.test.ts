@@ -18,6 +18,16 @@ async function runningOn(runs: QueuedRunService['runs'], runId: string) {
   }
 }
 
+async function failedJob(queue: Queue, jobId: string, timeoutMs = 10_000) {
+  const deadline = Date.now() + timeoutMs;
+  for (;;) {
+    const job = await queue.getJob(jobId);
+    if (job && (await job.getState()) === 'failed') return job;
+    if (Date.now() > deadline) throw new Error(`job ${jobId} was not marked failed within ${timeoutMs} ms`);
+    await new Promise((resolve) => setTimeout(resolve, 50));
+  }
+}
+
 describe('engine jobs through the shared queue (Redis + worker processes, SQLite database)', () => {
   let redis: RunningRedis;
   let h: Harness;
@@ -128,13 +138,14 @@ describe('engine jobs through the shared queue (Redis + worker processes, SQLite
       await queue.add('engine', { job: slowScanJob('0.96'), timeLimitMs: 500 }, { jobId: 'unwatched', attempts: 1 });
       const stopped = await only.waitForLine((line) => line.msg === 'job stopped', 30_000);
       assert.ok(Number(stopped.durationMs) >= 5_000, 'the worker waits out the grace period after the time limit');
-      const job = await queue.getJob('unwatched');
-      assert.ok(job?.failedReason?.startsWith(WORKER_TIME_LIMIT_PREFIX), job?.failedReason);
+      // the worker logs before BullMQ records the failure: wait for the job to be marked failed
+      const job = await failedJob(queue, 'unwatched');
+      assert.ok(job.failedReason?.startsWith(WORKER_TIME_LIMIT_PREFIX), job.failedReason);
     } finally {
       await queue.close();
       await connection.quit();
+      await only.stop();
     }
-    await only.stop();
   });
 
   test('a job no worker takes within the queue-wait limit fails with the queue-wait reason', async () => {
