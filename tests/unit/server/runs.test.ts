@@ -5,7 +5,7 @@ import { pino } from 'pino';
 import type { DataSource } from 'typeorm';
 import { openDatabase } from '../../../server/db/data-source';
 import type { JobQueueConfig } from '../../../server/config';
-import { RunAborted, type JobRunner } from '../../../server/jobs/runner';
+import { RunAborted, WorkerTimeLimit, type JobRunner } from '../../../server/jobs/runner';
 import { FairQueue } from '../../../server/jobs/scheduler';
 import { AppError } from '../../../server/http/errors';
 import { createRunService, failInterruptedRuns, jobHash } from '../../../server/services/runs';
@@ -43,6 +43,18 @@ describe('runs service (results, failures, cache)', () => {
     assert.equal(JSON.parse(crashed.errorJson!).code, 'worker-crashed');
     const next = await runs.settle((await runs.submit({ job: gammaAt('1.02'), userId: 'u' })).id, 5000);
     assert.deepEqual([next.status, JSON.parse(next.resultJson!)], ['done', { value: '42' }]);
+  });
+
+  test('a job its worker stopped at the time limit fails with code time-limit, not as a crash, and is not cached', async () => {
+    const runs = createRunService(dataSource, scriptedRunner(async () => {
+      throw new WorkerTimeLimit('stopped by its worker after 605 s');
+    }), pino({ level: 'silent' }), queueLimits());
+    const stopped = await runs.settle((await runs.submit({ job: gammaAt('1.04'), userId: 'u' })).id, 5000);
+    assert.equal(stopped.status, 'failed');
+    const error = JSON.parse(stopped.errorJson!) as { code: string; message: string };
+    assert.equal(error.code, 'time-limit');
+    assert.match(error.message, /stopped by its worker after 605 s/);
+    assert.equal((await runs.submit({ job: gammaAt('1.04'), userId: 'u' })).cached, false);
   });
 
   test('an engine error is a failed run carrying the engine message, and is not cached', async () => {
