@@ -104,6 +104,23 @@ test('cubic anisotropy at s = 2, N = 2: three-loop β is covariant under the 45�
   close(at(flow.beta[0], zero, w), zero, 'β_u(0, v) = 0', 1e-28);
 });
 
+test('cubic anisotropy at s = 2, N = 1: Σφ⁴ = (φ²)², so only u + v is a coupling and β_u + β_v is the classic Ising β of u + v, monomial by monomial (u³v, u²v², uv³ included; Kleinert & Schulte-Frohlinde 2001, N = 1, recalled from memory)', () => {
+  const flow = cubicAtTwo();
+  const coefficient = (p: CouplingPolynomial<Expression>, a: number, b: number) => {
+    const term = [...p.terms.values()].find((t) => t.powers[0] === a && t.powers[1] === b);
+    return term ? new Decimal(evaluateExpression(term.coeff, { N: q(1) }, DIGITS).toString()) : new Decimal(0);
+  };
+  const binomial = (n: number, k: number) => (k === 0 ? 1 : (binomial(n - 1, k - 1) * n) / k);
+  for (let loops = 1; loops <= 3; loops++) {
+    const degree = loops + 1;
+    const ising = KSF.beta[loops - 1](1);
+    for (let a = 0; a <= degree; a++) {
+      const sum = coefficient(flow.beta[0], a, degree - a).plus(coefficient(flow.beta[1], a, degree - a));
+      close(sum, ising.times(binomial(degree, a)), `u^${a} v^${degree - a} in β_u + β_v at N = 1`, 1e-28);
+    }
+  }
+});
+
 test('cubic anisotropy at s = 2, symbolic N: at v = 0 the three-loop β_u is the classic O(N) β and β_v vanishes (the model is O(N) there; Kleinert & Schulte-Frohlinde 2001, recalled from memory)', () => {
   const flow = cubicAtTwo();
   const at = (p: CouplingPolynomial<Expression>, N: number, u: Decimal) => {
