@@ -122,7 +122,7 @@ function twoPointWeight(g: Graph, n: number, structures: typeof onStructure[]): 
   const diagonal = averagedValue(g, n, structures, [[0, 0]]);
   return new Map([...diagonal].map(([key, c]) => [key, qMul(prefactor(g), c)]));
 }
-const single = (p: Map<string, Q> | Map<string, [Q, Q]>, key: string) => p.get(key);
+const single = <T>(p: Map<string, T>, key: string): T | undefined => p.get(key);
 
 // ---- exact linear algebra ------------------------------------------------------------------------
 

@@ -110,7 +110,7 @@ test('cubic anisotropy at s = 2, N = 1: Σφ⁴ = (φ²)², so only u + v is a c
     const term = [...p.terms.values()].find((t) => t.powers[0] === a && t.powers[1] === b);
     return term ? new Decimal(evaluateExpression(term.coeff, { N: q(1) }, DIGITS).toString()) : new Decimal(0);
   };
-  const binomial = (n: number, k: number) => (k === 0 ? 1 : (binomial(n - 1, k - 1) * n) / k);
+  const binomial = (n: number, k: number): number => (k === 0 ? 1 : (binomial(n - 1, k - 1) * n) / k);
   for (let loops = 1; loops <= 3; loops++) {
     const degree = loops + 1;
     const ising = KSF.beta[loops - 1](1);
