@@ -21,8 +21,8 @@ async function runningOn(runs: QueuedRunService['runs'], runId: string) {
 async function failedJob(queue: Queue, jobId: string, timeoutMs = 10_000) {
   const deadline = Date.now() + timeoutMs;
   for (;;) {
-    const job = await queue.getJob(jobId);
-    if (job && (await job.getState()) === 'failed') return job;
+    // the state first, then the job: a job read before it failed would carry no failure reason
+    if ((await queue.getJobState(jobId)) === 'failed') return (await queue.getJob(jobId))!;
     if (Date.now() > deadline) throw new Error(`job ${jobId} was not marked failed within ${timeoutMs} ms`);
     await new Promise((resolve) => setTimeout(resolve, 50));
   }
