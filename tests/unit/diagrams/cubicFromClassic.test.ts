@@ -122,7 +122,6 @@ function twoPointWeight(g: Graph, n: number, structures: typeof onStructure[]): 
   const diagonal = averagedValue(g, n, structures, [[0, 0]]);
   return new Map([...diagonal].map(([key, c]) => [key, qMul(prefactor(g), c)]));
 }
-const single = <T>(p: Map<string, T>, key: string): T | undefined => p.get(key);
 
 // ---- exact linear algebra ------------------------------------------------------------------------
 
@@ -165,11 +164,11 @@ function solveGraphNumbers(L: number): GraphNumbers {
   // γ_φ of this order fixes z_Σ; it must be one number for every N
   let zSigma: Q | null = null;
   if (selfEnergy) {
-    const values = ON_POINTS.map((N) => qDiv(CLASSIC.gammaPhi[L - 1](N).rational, single(twoPointWeight(selfEnergy, N, [onStructure]), String(L))!));
+    const values = ON_POINTS.map((N) => qDiv(CLASSIC.gammaPhi[L - 1](N).rational, twoPointWeight(selfEnergy, N, [onStructure]).get(String(L))!));
     values.forEach((v) => assert.ok(qEquals(v, values[0]), `γ_φ at ${L} loops: one number for the self-energy graph at every N`));
     zSigma = values[0];
   }
-  const gammaAt = (N: number) => (selfEnergy ? qMul(zSigma!, single(twoPointWeight(selfEnergy, N, [onStructure]), String(L))!) : Q0);
+  const gammaAt = (N: number) => (selfEnergy ? qMul(zSigma!, twoPointWeight(selfEnergy, N, [onStructure]).get(String(L))!) : Q0);
   const rational = vertexGraphs.filter((g) => !fallsApart(g) && !isTetrahedron(g));
   const withZeta = vertexGraphs.filter((g) => isTetrahedron(g));
   const rows: Q[][] = [];
@@ -178,7 +177,7 @@ function solveGraphNumbers(L: number): GraphNumbers {
   const zetaRhs: Q[] = [];
   const key = String(L + 1);
   for (const N of ON_POINTS) {
-    const weightOf = (g: Graph) => single(vertexWeight(g, N, [onStructure]), key)![0];
+    const weightOf = (g: Graph) => vertexWeight(g, N, [onStructure]).get(key)![0];
     const beta = CLASSIC.beta[L - 1](N);
     rows.push(rational.map(weightOf));
     rhs.push(qSub(beta.rational, qMul(q(4), gammaAt(N))));
@@ -188,7 +187,7 @@ function solveGraphNumbers(L: number): GraphNumbers {
     for (const h of insertions) {
       const parent = rational.findIndex((g) => vertexShape(g) === parentShape(h));
       if (parent < 0) continue; // its four-point graph falls apart: no simple pole
-      insertionRow[parent] = qAdd(insertionRow[parent], single(twoPointWeight(h, N, [onStructure]), String(L))!);
+      insertionRow[parent] = qAdd(insertionRow[parent], twoPointWeight(h, N, [onStructure]).get(String(L))!);
     }
     rows.push(insertionRow);
     rhs.push(qSub(CLASSIC.gammaPhi2[L - 1](N).rational, qMul(q(2), gammaAt(N))));
